@@ -1,0 +1,571 @@
+"""Project files: profilebench's own versioned JSON format.
+
+A project file holds the edited profile, the flow conditions, an optional baseline profile to
+compare against, an optional underlay image (a photo or drawing traced over) and free notes::
+
+    {"format": "profilebench-project", "version": 1, "units": "SI (m, m/s)",
+     "profile": {"name": str, "trailing_edge": int | null,
+                 "nodes": [{"x": m, "y": m, "radius": m, "smooth": bool, "label": str}, ...]},
+     "conditions": {...Conditions.to_dict()...},
+     "baseline": null | <profile object>,
+     "underlay": null | {"path": "relative/path.png", "points_px": [[u, v], [u, v]],
+                         "points_m": [[x, y], [x, y]], "opacity": 0..1},
+     "notes": ""}
+
+Lengths are metres and speeds m/s throughout the file. Required keys: ``format``, ``version``,
+``profile`` (with ``nodes``; each node with ``x`` and ``y``) and ``conditions``. Optional keys
+and their defaults: ``units`` (must read "SI (m, m/s)" when present), ``baseline`` (null),
+``underlay`` (null), ``notes`` (""), profile ``name`` ("profile") and ``trailing_edge`` (null),
+node ``radius`` (0), ``smooth`` (false) and ``label`` (""). Unknown keys are refused (they are
+usually a misspelt field that would otherwise be ignored).
+
+Reading uses the :mod:`json` module only (data, never code). Every field is checked and the first
+bad one is reported with its JSON path, e.g. ``profile.nodes[3].radius``. Saving is atomic
+(see :mod:`profilebench.io.atomic`).
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+from dataclasses import dataclass
+from pathlib import Path, PurePosixPath, PureWindowsPath
+
+from profilebench.errors import InputError, ProfileBenchError, ProjectFileError
+from profilebench.geometry.profile import Node, Profile
+from profilebench.io.atomic import atomic_write_text
+
+__all__ = [
+    "FORMAT_NAME",
+    "FORMAT_VERSION",
+    "UNITS",
+    "MAX_PROJECT_BYTES",
+    "Underlay",
+    "Project",
+    "profile_to_dict",
+    "profile_from_dict",
+    "project_to_dict",
+    "project_from_dict",
+    "save_project",
+    "load_project",
+    "resolve_underlay",
+    "underlay_relative_path",
+]
+
+FORMAT_NAME = "profilebench-project"
+FORMAT_VERSION = 1
+UNITS = "SI (m, m/s)"
+#: Largest project file read (bytes). A real project is a few kB; the limit stops a wrong file
+#: (an image, a data dump) from being read into memory.
+MAX_PROJECT_BYTES = 20 * 1024 * 1024
+
+
+def _conditions_class():
+    # Imported late: assess sits beside io in the layer diagram and io only needs the class.
+    from profilebench.assess.conditions import Conditions
+
+    return Conditions
+
+
+# --------------------------------------------------------------------------------------------
+# Data classes
+# --------------------------------------------------------------------------------------------
+def _pair(value, what: str) -> tuple[float, float]:
+    try:
+        u, v = value
+        u, v = float(u), float(v)
+    except (TypeError, ValueError) as exc:
+        raise InputError(f"{what} must be a pair of numbers, got {value!r}") from exc
+    if not (math.isfinite(u) and math.isfinite(v)):
+        raise InputError(f"{what} must be finite, got {value!r}")
+    return (u, v)
+
+
+@dataclass(frozen=True)
+class Underlay:
+    """A background image traced over in the editor, calibrated by two reference points.
+
+    Parameters
+    ----------
+    path : str
+        Image path relative to the project file's folder, with "/" separators.
+    points_px : ((u, v), (u, v))
+        Two reference points in image pixels.
+    points_m : ((x, y), (x, y))
+        The same two points in profile coordinates (m).
+    opacity : float
+        Drawing opacity, 0 (invisible) to 1 (opaque).
+    """
+
+    path: str
+    points_px: tuple[tuple[float, float], tuple[float, float]]
+    points_m: tuple[tuple[float, float], tuple[float, float]]
+    opacity: float = 0.5
+
+    def __post_init__(self):
+        if not isinstance(self.path, str) or not self.path.strip():
+            raise InputError(f"underlay path must be a non-empty string, got {self.path!r}")
+        for name in ("points_px", "points_m"):
+            value = getattr(self, name)
+            try:
+                a, b = value
+            except (TypeError, ValueError) as exc:
+                raise InputError(f"underlay {name} must be two (x, y) points, got {value!r}") from exc
+            pa, pb = _pair(a, f"underlay {name}[0]"), _pair(b, f"underlay {name}[1]")
+            if pa == pb:
+                raise InputError(
+                    f"underlay {name} has the same point twice {pa}; pick two distinct "
+                    "reference points to calibrate the image"
+                )
+            object.__setattr__(self, name, (pa, pb))
+        op = self.opacity
+        if isinstance(op, bool) or not isinstance(op, (int, float)) or not 0.0 <= op <= 1.0:
+            raise InputError(f"underlay opacity must be a number from 0 to 1, got {op!r}")
+        object.__setattr__(self, "opacity", float(op))
+
+
+@dataclass(frozen=True)
+class Project:
+    """Everything a project file holds.
+
+    Parameters
+    ----------
+    profile : Profile
+        The profile being edited (m).
+    conditions : Conditions
+        Flow conditions (:class:`profilebench.assess.conditions.Conditions`).
+    baseline : Profile or None
+        A reference profile to compare against.
+    underlay : Underlay or None
+        A background image to trace over.
+    notes : str
+        Free text.
+    """
+
+    profile: Profile
+    conditions: object
+    baseline: Profile | None = None
+    underlay: Underlay | None = None
+    notes: str = ""
+
+    def __post_init__(self):
+        if not isinstance(self.profile, Profile):
+            raise InputError(f"project profile must be a Profile, got {type(self.profile).__name__}")
+        if not isinstance(self.conditions, _conditions_class()):
+            raise InputError(
+                f"project conditions must be a Conditions, got {type(self.conditions).__name__}"
+            )
+        if self.baseline is not None and not isinstance(self.baseline, Profile):
+            raise InputError(
+                f"project baseline must be a Profile or None, got {type(self.baseline).__name__}"
+            )
+        if self.underlay is not None and not isinstance(self.underlay, Underlay):
+            raise InputError(
+                f"project underlay must be an Underlay or None, got {type(self.underlay).__name__}"
+            )
+        if not isinstance(self.notes, str):
+            raise InputError(f"project notes must be a string, got {type(self.notes).__name__}")
+
+
+# --------------------------------------------------------------------------------------------
+# To JSON
+# --------------------------------------------------------------------------------------------
+def profile_to_dict(profile: Profile) -> dict:
+    """A profile as a plain JSON object (m)."""
+    return {
+        "name": profile.name,
+        "trailing_edge": profile.trailing_edge,
+        "nodes": [
+            {"x": n.x, "y": n.y, "radius": n.radius, "smooth": n.smooth, "label": n.label}
+            for n in profile.nodes
+        ],
+    }
+
+
+def project_to_dict(project: Project) -> dict:
+    """A project as a plain JSON object in the current format version."""
+    underlay = None
+    if project.underlay is not None:
+        u = project.underlay
+        underlay = {
+            "path": u.path,
+            "points_px": [list(p) for p in u.points_px],
+            "points_m": [list(p) for p in u.points_m],
+            "opacity": u.opacity,
+        }
+    return {
+        "format": FORMAT_NAME,
+        "version": FORMAT_VERSION,
+        "units": UNITS,
+        "profile": profile_to_dict(project.profile),
+        "conditions": project.conditions.to_dict(),
+        "baseline": None if project.baseline is None else profile_to_dict(project.baseline),
+        "underlay": underlay,
+        "notes": project.notes,
+    }
+
+
+def save_project(project: Project, path) -> Path:
+    """Save a project file atomically.
+
+    The JSON is written to a temporary file in the same folder, flushed and fsync'ed, then
+    moved over ``path`` with :func:`os.replace`: the previous file stays intact until the new one
+    is complete. On failure the temporary file is removed and :class:`ProjectFileError` raised.
+
+    Returns
+    -------
+    pathlib.Path
+        The path written.
+    """
+    if not isinstance(project, Project):
+        raise ProjectFileError(f"save_project needs a Project, got {type(project).__name__}")
+    data = project_to_dict(project)
+
+    def write(fh):
+        json.dump(data, fh, indent=2, allow_nan=False, ensure_ascii=True)
+        fh.write("\n")
+
+    return atomic_write_text(path, write)
+
+
+# --------------------------------------------------------------------------------------------
+# From JSON, checking every field
+# --------------------------------------------------------------------------------------------
+_MISSING = object()
+
+
+def _fail(path: str, what: str):
+    raise ProjectFileError(f"{path}: {what}", path=path)
+
+
+def _show(value) -> str:
+    if isinstance(value, float) and not math.isfinite(value):
+        return repr(value)
+    text = json.dumps(value, ensure_ascii=True) if isinstance(value, (str, int, float, bool, type(None))) else type(value).__name__
+    return text if len(text) <= 60 else text[:57] + "..."
+
+
+def _kind(value) -> str:
+    if value is None:
+        return "null"
+    if isinstance(value, bool):
+        return "a boolean"
+    if isinstance(value, (int, float)):
+        return "a number"
+    if isinstance(value, str):
+        return "a string"
+    if isinstance(value, list):
+        return "a list"
+    if isinstance(value, dict):
+        return "an object"
+    return type(value).__name__
+
+
+def _obj(value, path: str, what: str = "an object") -> dict:
+    if not isinstance(value, dict):
+        _fail(path, f"expected {what}, got {_kind(value)}")
+    return value
+
+
+def _keys(d: dict, path: str, required: tuple, optional: tuple) -> None:
+    for key in required:
+        if key not in d:
+            _fail(_join(path, key), "missing field; add it (see the project format in "
+                  "profilebench.io.project)")
+    allowed = set(required) | set(optional)
+    for key in d:
+        if key not in allowed:
+            _fail(_join(path, key), f"unknown field; expected only {sorted(allowed)} "
+                  "(check the spelling)")
+
+
+def _join(path: str, key: str) -> str:
+    return key if not path else f"{path}.{key}"
+
+
+def _number(value, path: str, unit: str = "in metres") -> float:
+    if isinstance(value, bool) or not isinstance(value, (int, float)):
+        _fail(path, f"expected a number {unit}, got {_show(value)}")
+    try:
+        out = float(value)
+    except OverflowError:
+        _fail(path, f"number {unit} is too large: {_show(value)}")
+    if not math.isfinite(out):
+        _fail(path, f"expected a finite number {unit}, got {_show(value)}")
+    return out
+
+
+def _string(value, path: str) -> str:
+    if not isinstance(value, str):
+        _fail(path, f"expected a string, got {_show(value)}")
+    return value
+
+
+def _boolean(value, path: str) -> bool:
+    if not isinstance(value, bool):
+        _fail(path, f"expected true or false, got {_show(value)}")
+    return value
+
+
+def _node_from_dict(d, path: str) -> Node:
+    d = _obj(d, path, "a node object {\"x\": m, \"y\": m, \"radius\": m, \"smooth\": bool, \"label\": str}")
+    _keys(d, path, ("x", "y"), ("radius", "smooth", "label"))
+    x = _number(d["x"], _join(path, "x"))
+    y = _number(d["y"], _join(path, "y"))
+    radius = _number(d.get("radius", 0.0), _join(path, "radius"))
+    smooth = _boolean(d.get("smooth", False), _join(path, "smooth"))
+    label = _string(d.get("label", ""), _join(path, "label"))
+    if radius < 0:
+        _fail(_join(path, "radius"), f"corner radius {radius!r} m is negative; use 0 for a "
+              "sharp edge or a positive radius in metres")
+    if smooth and radius > 0:
+        _fail(path, f"node is smooth and has corner radius {radius!r} m; set radius to 0 or "
+              "smooth to false")
+    try:
+        return Node(x, y, radius, smooth, label)
+    except ProfileBenchError as exc:  # pragma: no cover - the checks above cover Node's rules
+        _fail(path, str(exc))
+
+
+def profile_from_dict(d, path: str = "profile") -> Profile:
+    """Build a :class:`Profile` from its JSON object, checking every field.
+
+    Raises
+    ------
+    ProjectFileError
+        Naming the first bad field by its JSON path (``path`` is the prefix used).
+    """
+    d = _obj(d, path, "a profile object {\"name\", \"trailing_edge\", \"nodes\"}")
+    _keys(d, path, ("nodes",), ("name", "trailing_edge"))
+    name = _string(d.get("name", "profile"), _join(path, "name"))
+    nodes_raw = d["nodes"]
+    npath = _join(path, "nodes")
+    if not isinstance(nodes_raw, list):
+        _fail(npath, f"expected a list of node objects, got {_kind(nodes_raw)}")
+    if len(nodes_raw) < 3:
+        _fail(npath, f"has {len(nodes_raw)} node(s); a closed outline needs at least 3")
+    nodes = tuple(_node_from_dict(n, f"{npath}[{i}]") for i, n in enumerate(nodes_raw))
+    te = d.get("trailing_edge", None)
+    tpath = _join(path, "trailing_edge")
+    if te is not None:
+        if isinstance(te, bool) or not isinstance(te, int):
+            _fail(tpath, f"expected a node index (integer) or null, got {_show(te)}")
+        if not 0 <= te < len(nodes):
+            _fail(tpath, f"node index {te} is out of range 0 to {len(nodes) - 1}")
+    try:
+        return Profile(nodes, name=name, trailing_edge=te)
+    except ProfileBenchError as exc:  # pragma: no cover - the checks above cover Profile's rules
+        _fail(path, str(exc))
+
+
+def _points2(value, path: str, unit: str):
+    if not isinstance(value, list) or len(value) != 2:
+        _fail(path, f"expected two points [[a, b], [c, d]] {unit}, got {_show(value) if not isinstance(value, list) else f'a list of {len(value)}'}")
+    out = []
+    for i, p in enumerate(value):
+        ppath = f"{path}[{i}]"
+        if not isinstance(p, list) or len(p) != 2:
+            _fail(ppath, f"expected a point [a, b] {unit}, got {_kind(p) if not isinstance(p, list) else f'a list of {len(p)}'}")
+        out.append((_number(p[0], f"{ppath}[0]", unit), _number(p[1], f"{ppath}[1]", unit)))
+    if out[0] == out[1]:
+        _fail(path, "the two reference points are the same; pick two distinct points")
+    return tuple(out)
+
+
+def _underlay_from_dict(d, path: str = "underlay") -> Underlay:
+    d = _obj(d, path, "an underlay object or null")
+    _keys(d, path, ("path", "points_px", "points_m"), ("opacity",))
+    rel = _string(d["path"], _join(path, "path"))
+    if not rel.strip():
+        _fail(_join(path, "path"), "empty image path; give the image path relative to the project file")
+    px = _points2(d["points_px"], _join(path, "points_px"), "in pixels")
+    pm = _points2(d["points_m"], _join(path, "points_m"), "in metres")
+    opacity = _number(d.get("opacity", 0.5), _join(path, "opacity"), "from 0 to 1")
+    if not 0.0 <= opacity <= 1.0:
+        _fail(_join(path, "opacity"), f"{opacity!r} is outside 0 to 1")
+    return Underlay(rel, px, pm, opacity)
+
+
+def project_from_dict(d) -> Project:
+    """Build a :class:`Project` from a parsed project file, checking every field.
+
+    Raises
+    ------
+    ProjectFileError
+        Naming the first bad field by its JSON path.
+    """
+    d = _obj(d, "(top level)", "a JSON object")
+    fmt = d.get("format", _MISSING)
+    if fmt is _MISSING:
+        _fail("format", f"missing; this is not a profilebench project file (expected "
+              f"\"format\": \"{FORMAT_NAME}\")")
+    if fmt != FORMAT_NAME:
+        _fail("format", f"is {_show(fmt)}, expected \"{FORMAT_NAME}\"; this is not a "
+              "profilebench project file")
+    version = d.get("version", _MISSING)
+    if version is _MISSING:
+        _fail("version", f"missing; add \"version\": {FORMAT_VERSION}")
+    if isinstance(version, bool) or not isinstance(version, int):
+        _fail("version", f"expected an integer format version, got {_show(version)}")
+    if version > FORMAT_VERSION:
+        _fail("version", f"file format version {version} was made by a newer profilebench "
+              f"(this one reads version {FORMAT_VERSION}); upgrade profilebench to open it")
+    if version != FORMAT_VERSION:
+        _fail("version", f"unknown or older file format version {version}; this profilebench "
+              f"reads version {FORMAT_VERSION} only")
+    _keys(d, "", ("format", "version", "profile", "conditions"),
+          ("units", "baseline", "underlay", "notes"))
+    if "units" in d and d["units"] != UNITS:
+        _fail("units", f"is {_show(d['units'])}; project files are in \"{UNITS}\"; convert "
+              "the lengths to metres and speeds to m/s")
+    profile = profile_from_dict(d["profile"], "profile")
+    cond_raw = _obj(d["conditions"], "conditions", "a conditions object")
+    try:
+        conditions = _conditions_class().from_dict(cond_raw)
+    except ProfileBenchError as exc:
+        key = _conditions_key(str(exc), cond_raw)
+        cpath = "conditions" if key is None else f"conditions.{key}"
+        raise ProjectFileError(f"{cpath}: {exc}", path=cpath) from exc
+    baseline = None
+    if d.get("baseline") is not None:
+        baseline = profile_from_dict(d["baseline"], "baseline")
+    underlay = None
+    if d.get("underlay") is not None:
+        underlay = _underlay_from_dict(d["underlay"])
+    notes = _string(d.get("notes", ""), "notes")
+    return Project(profile, conditions, baseline, underlay, notes)
+
+
+def _conditions_key(message: str, raw: dict) -> str | None:
+    """The conditions key a ConditionsError message is about (it names the key first)."""
+    words = message.split()
+    if words and words[0] in raw:
+        return words[0]
+    for key in raw:
+        if repr(key) in message:
+            return key
+    return None
+
+
+def _reject_constant(name):
+    # NaN / Infinity are not JSON; keep them as floats so the field check names the path.
+    return float(name)
+
+
+def _pairs_no_duplicates(pairs):
+    out = {}
+    for key, value in pairs:
+        if key in out:
+            raise ProjectFileError(
+                f"duplicate key {key!r} in one JSON object; keep only one (the file is ambiguous)",
+                path=None,
+            )
+        out[key] = value
+    return out
+
+
+def load_project(path) -> Project:
+    """Read and check a project file; never modifies the file.
+
+    Raises
+    ------
+    ProjectFileError
+        For a missing file, a folder, an empty, oversized (over :data:`MAX_PROJECT_BYTES`,
+        refused before reading), non-UTF-8, non-JSON or truncated file, and for the first bad
+        field (its JSON path in the message and in ``.path``).
+    """
+    p = Path(path)
+    shown = str(p)
+    if not p.exists():
+        raise ProjectFileError(f"no project file at {shown!r}; check the path")
+    if p.is_dir():
+        raise ProjectFileError(f"{shown!r} is a folder, not a project file; choose a .json project file")
+    if not p.is_file():
+        raise ProjectFileError(f"{shown!r} is not a regular file; choose a .json project file")
+    try:
+        size = p.stat().st_size
+        if size > MAX_PROJECT_BYTES:
+            raise ProjectFileError(
+                f"{shown!r} is {size / 1e6:.1f} MB, over the {MAX_PROJECT_BYTES / 1e6:.0f} MB "
+                "limit for a project file; it is probably not a profilebench project"
+            )
+        with open(p, "rb") as fh:
+            raw = fh.read(MAX_PROJECT_BYTES + 1)
+    except OSError as exc:
+        raise ProjectFileError(f"cannot read {shown!r}: {exc.strerror or exc}; check permissions") from exc
+    if len(raw) > MAX_PROJECT_BYTES:
+        raise ProjectFileError(f"{shown!r} is over the {MAX_PROJECT_BYTES / 1e6:.0f} MB limit for a project file")
+    if not raw.strip():
+        raise ProjectFileError(f"{shown!r} is empty; it holds no project (was a save interrupted?)")
+    try:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        raise ProjectFileError(
+            f"{shown!r} is not UTF-8 text (byte {exc.start}); it is not a profilebench project file"
+        ) from exc
+    try:
+        data = json.loads(text, parse_constant=_reject_constant, object_pairs_hook=_pairs_no_duplicates)
+    except json.JSONDecodeError as exc:
+        if exc.pos >= len(text.rstrip()):
+            raise ProjectFileError(
+                f"{shown!r} is truncated: the JSON ends before it is complete (line {exc.lineno}); "
+                "restore it from a backup or re-save it"
+            ) from exc
+        raise ProjectFileError(
+            f"{shown!r} is not valid JSON: {exc.msg} at line {exc.lineno} column {exc.colno}"
+        ) from exc
+    except RecursionError as exc:
+        raise ProjectFileError(f"{shown!r} is nested too deeply to be a project file") from exc
+    return project_from_dict(data)
+
+
+# --------------------------------------------------------------------------------------------
+# Underlay paths
+# --------------------------------------------------------------------------------------------
+def _relative_parts(rel: str):
+    text = rel.replace("\\", "/")
+    if PurePosixPath(text).is_absolute() or PureWindowsPath(rel).is_absolute() or PureWindowsPath(rel).drive:
+        raise ProjectFileError(
+            f"underlay.path {rel!r} is absolute; store the image path relative to the project "
+            "file's folder (put the image beside the project)", path="underlay.path")
+    parts = [s for s in PurePosixPath(text).parts if s not in ("", ".")]
+    if ".." in parts:
+        raise ProjectFileError(
+            f"underlay.path {rel!r} leaves the project folder (\"..\"); keep the image in the "
+            "project's folder or a sub-folder of it", path="underlay.path")
+    if not parts:
+        raise ProjectFileError(f"underlay.path {rel!r} names no file", path="underlay.path")
+    return parts
+
+
+def resolve_underlay(project: Project, project_path) -> Path | None:
+    """The underlay image's absolute path, resolved against the project file's folder.
+
+    Returns None when the project has no underlay. Refuses absolute paths and paths that leave
+    the folder (through ".." or a link pointing outside) with a ProjectFileError.
+    """
+    if project.underlay is None:
+        return None
+    base = Path(project_path).resolve().parent
+    parts = _relative_parts(project.underlay.path)
+    target = base.joinpath(*parts).resolve()
+    if not target.is_relative_to(base):
+        raise ProjectFileError(
+            f"underlay.path {project.underlay.path!r} resolves to {str(target)!r}, outside the "
+            f"project folder {str(base)!r}; keep the image inside it", path="underlay.path")
+    return target
+
+
+def underlay_relative_path(image_path, project_path) -> str:
+    """The path to store in ``Underlay.path``: the image relative to the project's folder.
+
+    Raises ProjectFileError if the image is not inside that folder (or a sub-folder).
+    """
+    base = Path(project_path).resolve().parent
+    image = Path(image_path).resolve()
+    if not image.is_relative_to(base):
+        raise ProjectFileError(
+            f"image {str(image)!r} is not inside the project folder {str(base)!r}; copy it "
+            "there first so the project can be moved with its image", path="underlay.path")
+    return image.relative_to(base).as_posix()
