@@ -77,13 +77,22 @@ class TableSelection:
     """The table chosen for a Reynolds number.
 
     ``inside_range`` is False when the Reynolds number lies outside every table's range and the
-    nearest table (in log10 Re) was taken; ``message`` then says so.
+    nearest table (in log10 Re) was taken; ``message`` then says so. For convenience it
+    unpacks as ``table, outside_range = select_table(...)``.
     """
 
     table: "RtTable"
     reynolds: float
     inside_range: bool
     message: str
+
+    @property
+    def outside_range(self) -> bool:
+        """True when the Reynolds number lies outside every candidate table's range."""
+        return not self.inside_range
+
+    def __iter__(self):
+        return iter((self.table, self.outside_range))
 
 
 @dataclass(frozen=True)

@@ -171,6 +171,14 @@ def test_select_table_inside_and_outside_ranges(tmp_path):
     assert s.table is sq and not s.inside_range
 
 
+def test_select_table_unpacks_as_table_and_outside_flag():
+    sq = builtin_tables()[0]
+    table, outside = select_table(5e6, [sq])  # 5e6 lies beyond the table's 5e4..2e5
+    assert table is sq and outside is True
+    table, outside = select_table(1e5, [sq])
+    assert outside is False
+
+
 def test_select_table_needs_tables():
     with pytest.raises(TableError, match="no r/t table"):
         select_table(1e6, [])
