@@ -127,6 +127,12 @@ class Profile:
         """Node positions as a list of (x, y) tuples (m)."""
         return [(n.x, n.y) for n in self.nodes]
 
+    def panel_points(self, n_panels: int = 250):
+        """Panel end points (N, 2) in m on the built outline: ``panelize(self, n_panels).points``."""
+        from profilebench.geometry.panelling import panelize
+
+        return panelize(self, n_panels).points
+
     # --- editing: each returns a new Profile ---------------------------------------------
     def _check_index(self, i: int) -> int:
         if isinstance(i, bool) or not isinstance(i, int) or not -len(self.nodes) <= i < len(self.nodes):
