@@ -1,0 +1,118 @@
+"""The document being edited: profile, flow conditions, baseline, file path and saved state.
+
+A :class:`Document` holds one immutable :class:`DocumentState` at a time. Edits replace the state
+(see :mod:`profilebench.editor.commands`), so undo is exact: the previous state is restored as the
+very same value. The document is "dirty" when its state differs from the state last saved or
+opened, which also makes an edit followed by its undo clean again.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, replace
+from pathlib import Path
+from typing import Callable
+
+from profilebench.editor.selection import Selection
+from profilebench.errors import GeometryError
+
+__all__ = ["CAUTION", "Document", "DocumentState"]
+
+CAUTION = (
+    "Screening estimate: confirm by wind-tunnel test or validated CFD, under local vehicle codes "
+    "and licensed engineering practice."
+)
+
+
+@dataclass(frozen=True)
+class DocumentState:
+    """One state of the document: the profile, the flow conditions and the pinned baseline."""
+
+    profile: object              # profilebench.geometry.profile.Profile
+    conditions: object           # profilebench.assess.conditions.Conditions
+    baseline: object = None      # a Profile pinned for comparison, or None
+    underlay: object = None      # profilebench.editor.underlay.Underlay, or None
+
+
+class Document:
+    """The editor's document (mutable holder of immutable states).
+
+    Parameters
+    ----------
+    profile : Profile
+        The profile to edit.
+    conditions : Conditions
+        The flow conditions.
+    path : str or Path or None
+        The project file the document was opened from or saved to.
+    """
+
+    def __init__(self, profile, conditions, path=None, baseline=None, underlay=None):
+        if profile is None:
+            raise GeometryError("a document needs a profile; give a Profile (e.g. a sample)")
+        self._state = DocumentState(profile, conditions, baseline, underlay)
+        self._saved = self._state
+        self.path = Path(path) if path is not None else None
+        self.selection = Selection()
+        self._listeners: list[Callable[[DocumentState], None]] = []
+
+    # --- state ---------------------------------------------------------------------------
+    @property
+    def state(self) -> DocumentState:
+        return self._state
+
+    @property
+    def profile(self):
+        return self._state.profile
+
+    @property
+    def conditions(self):
+        return self._state.conditions
+
+    @property
+    def baseline(self):
+        return self._state.baseline
+
+    @property
+    def underlay(self):
+        return self._state.underlay
+
+    def set_state(self, state: DocumentState) -> None:
+        """Replace the whole state (used by edits, undo and redo) and tell the listeners."""
+        if not isinstance(state, DocumentState):
+            raise TypeError(f"expected a DocumentState, got {type(state).__name__}")
+        if state == self._state and state.profile is self._state.profile:
+            return
+        self._state = state
+        self.selection = self.selection.valid_for(state.profile)
+        for listener in list(self._listeners):
+            listener(state)
+
+    def preview_profile(self, profile) -> None:
+        """Show ``profile`` as current without an undo step (a drag in progress)."""
+        self.set_state(replace(self._state, profile=profile))
+
+    def subscribe(self, listener: Callable[[DocumentState], None]) -> None:
+        """Call ``listener(state)`` after every change of state."""
+        self._listeners.append(listener)
+
+    def unsubscribe(self, listener) -> None:
+        if listener in self._listeners:
+            self._listeners.remove(listener)
+
+    # --- file state ----------------------------------------------------------------------
+    @property
+    def dirty(self) -> bool:
+        """True when the state differs from the one last opened or saved."""
+        return self._state != self._saved
+
+    def mark_saved(self, path=None) -> None:
+        """Record the current state as saved (to ``path`` when given)."""
+        if path is not None:
+            self.path = Path(path)
+        self._saved = self._state
+
+    @property
+    def title(self) -> str:
+        """A window title: the file name (or the profile name) with a star when unsaved."""
+        name = self.path.name if self.path is not None else (getattr(self.profile, "name", "") or "untitled")
+        return f"{name}{' *' if self.dirty else ''}"
