@@ -306,7 +306,8 @@ def profile_from_points(points, name: str = "imported", simplify_tolerance: floa
     simplify_tolerance : float or None
         If given (m, > 0), the outline is first reduced with the Douglas-Peucker algorithm
         (``shapely`` ``simplify`` with topology preserved): no dropped point lies farther than
-        this from the reduced outline. Use it to turn a dense digitised outline into a handful
+        this from the reduced outline (checked; a tolerance too large for that raises
+        InputError). The reduced outline may start at another of the points. Use it to turn a dense digitised outline into a handful
         of draggable nodes.
     sharp_angle : float
         Turning angle (degrees, 0 < angle < 180) above which a node is a sharp corner (radius 0);
@@ -333,13 +334,18 @@ def profile_from_points(points, name: str = "imported", simplify_tolerance: floa
         if isinstance(tol, bool) or not isinstance(tol, (int, float)) or not math.isfinite(tol) or tol <= 0:
             raise InputError(
                 f"simplify_tolerance must be a positive distance in metres or None, got {tol!r}")
+        import shapely
         from shapely.geometry import LinearRing
 
         ring = LinearRing(pts).simplify(float(tol), preserve_topology=True)
         reduced = np.asarray(ring.coords, dtype=float)[:-1]
-        if len(reduced) < 3:
+        # With topology preserved GEOS never returns fewer than a triangle, even when that
+        # triangle is farther than the tolerance from the outline: check the bound here.
+        deviation = float(np.max(shapely.distance(shapely.points(pts), ring)))
+        if len(reduced) < 3 or deviation > tol * (1 + 1e-9):
             raise InputError(
-                f"simplify_tolerance {tol!r} m leaves {len(reduced)} node(s); use a smaller "
+                f"simplify_tolerance {tol!r} m is too large for this outline: the reduced "
+                f"outline would lie up to {deviation:.4g} m from the points; use a smaller "
                 "tolerance")
         pts = reduced
     turn = _turning_angles(pts)
