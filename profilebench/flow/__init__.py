@@ -1,0 +1,13 @@
+from profilebench.flow.panel import (  # inviscid panel method
+    InviscidSolution,
+    InviscidStatus,
+    solve_inviscid,
+    solve_inviscid_bodies,
+)
+from profilebench.flow.stagnation import (  # stagnation points, surface split
+    SplitStatus,
+    Surface,
+    SurfaceEnd,
+    SurfaceSplit,
+    split_surfaces,
+)
