@@ -119,3 +119,25 @@ def test_hatch_uses_smooth_nodes_and_a_sharp_tail():
     assert nodes["roof to tail"].radius > 0
     assert nodes["tail upper"].radius == 0 and not nodes["tail upper"].smooth
     assert math.isclose(project.conditions.speed, 120 / 3.6)
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=IDS)
+def test_sample_builds_into_a_simple_outline_above_the_ground(path):
+    outline_module = pytest.importorskip("profilebench.geometry.outline")
+    profile = load_project(path).profile
+    outline = outline_module.build_outline(profile)  # raises if a fillet radius does not fit
+    pts = outline.sample(1500)
+    ring = LinearRing(pts)
+    # shapely (GEOS) checks the built curve independently of the geometry package
+    assert ring.is_simple and ring.is_ccw
+    assert pts[:, 1].min() > 0.0
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=IDS)
+def test_sample_passes_the_geometry_validity_check(path):
+    validity = pytest.importorskip("profilebench.geometry.validity")
+    project = load_project(path)
+    result = validity.validate(project.profile, project.conditions.ground)
+    for flag in ("success", "valid", "ok"):
+        if hasattr(result, flag):
+            assert getattr(result, flag), getattr(result, "message", result)
