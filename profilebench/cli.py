@@ -1,0 +1,304 @@
+"""The profilebench command line.
+
+Subcommands::
+
+    profilebench analyse FILE [--image OUT.png|.svg|.pdf] [--csv OUT.csv] [--json OUT.json]
+                              [--speed KMH] [--no-ground] [--transition free|turbulent|METRES]
+                              [--h-separation H] [--panels N] [--altitude M]
+    profilebench compare BASELINE VARIANT [condition options]
+    profilebench corners FILE [--smallest] [condition options]
+    profilebench samples
+
+Without a subcommand the desktop editor starts. Exit codes: 0 success, 1 an analysis did not
+succeed (its message is printed), 2 bad input (the error's message is printed, no traceback).
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+import profilebench
+from profilebench.errors import InputError, ProfileBenchError
+
+__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_FAILED", "EXIT_BAD_INPUT"]
+
+EXIT_OK = 0
+EXIT_FAILED = 1
+EXIT_BAD_INPUT = 2
+
+
+class _Failed(Exception):
+    """An analysis came back without success; carries the message to print."""
+
+
+# --- argument parsing --------------------------------------------------------------------------
+
+def _add_condition_options(p):
+    g = p.add_argument_group("conditions (override the project file's)")
+    g.add_argument("--speed", type=float, metavar="KMH", help="vehicle speed in km/h")
+    g.add_argument("--no-ground", action="store_true", help="free air: no ground plane at y = 0")
+    g.add_argument("--transition", metavar="MODE",
+                   help="'free' (a transition criterion), 'turbulent' (from the stagnation point) "
+                        "or an arc length in metres from the stagnation point")
+    g.add_argument("--h-separation", type=float, metavar="H",
+                   help="turbulent separation threshold on the shape factor H (1.8 to 2.8)")
+    g.add_argument("--panels", type=int, metavar="N", help="number of panels on the outline")
+    g.add_argument("--altitude", type=float, metavar="M",
+                   help="ISO 2533 geopotential altitude in metres")
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``profilebench`` command."""
+    parser = argparse.ArgumentParser(
+        prog="profilebench",
+        description="Screening aerodynamics of 2D vehicle side profiles. Without a subcommand the "
+                    "desktop editor starts.",
+    )
+    parser.add_argument("--version", action="version", version=f"profilebench {profilebench.__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+
+    p = sub.add_parser("analyse", aliases=["analyze"],
+                       help="analyse a project file: summary table, optional image, CSV, JSON")
+    p.add_argument("file", help="project file (.json)")
+    p.add_argument("--image", metavar="OUT", help="review page image (.png, .svg or .pdf)")
+    p.add_argument("--csv", metavar="OUT", help="surface data, one row per panel station")
+    p.add_argument("--json", metavar="OUT", help="results as JSON")
+    _add_condition_options(p)
+
+    p = sub.add_parser("compare", help="compare a variant with a baseline (b minus a)")
+    p.add_argument("baseline", help="baseline project file")
+    p.add_argument("variant", help="variant project file")
+    _add_condition_options(p)
+
+    p = sub.add_parser("corners", help="list the corners with r, t, r/t and verdicts")
+    p.add_argument("file", help="project file (.json)")
+    p.add_argument("--smallest", action="store_true",
+                   help="search the smallest radius that keeps the flow attached, per convex corner")
+    _add_condition_options(p)
+
+    sub.add_parser("samples", help="list the sample project files")
+    return parser
+
+
+# --- helpers -----------------------------------------------------------------------------------
+
+def _load(path):
+    from profilebench.io.project import load_project
+
+    return load_project(path)
+
+
+def _conditions(project, args):
+    from profilebench.assess.conditions import kmh_to_ms
+
+    changes = {}
+    if getattr(args, "speed", None) is not None:
+        changes["speed"] = kmh_to_ms(args.speed)
+    if getattr(args, "no_ground", False):
+        changes["ground"] = False
+    if getattr(args, "transition", None) is not None:
+        t = args.transition.strip().lower()
+        if t in ("free", "turbulent"):
+            changes["transition"] = t
+        else:
+            try:
+                changes["transition"] = float(t)
+            except ValueError:
+                raise InputError(
+                    f"--transition {args.transition!r} is not understood; give 'free', "
+                    "'turbulent' or an arc length in metres such as 0.5"
+                ) from None
+    if getattr(args, "h_separation", None) is not None:
+        changes["h_separation"] = args.h_separation
+    if getattr(args, "panels", None) is not None:
+        changes["panels"] = args.panels
+    if getattr(args, "altitude", None) is not None:
+        changes["altitude"] = args.altitude
+    cond = project.conditions
+    return cond.replace(**changes) if changes else cond
+
+
+def _analyse(profile, conditions):
+    from profilebench.assess.analysis import analyze
+
+    return analyze(profile, conditions)
+
+
+def _check_success(analysis, what):
+    if not analysis.success:
+        raise _Failed(f"{what}: analysis {analysis.status.value}: {analysis.message}")
+
+
+def _print_summary(analysis, out):
+    from profilebench.plotting.summary import corner_rows, format_table, summary_rows, CORNER_COLUMNS
+
+    print(format_table(("quantity", "value", "unit / note"), summary_rows(analysis)), file=out)
+    print("", file=out)
+    print("Corners", file=out)
+    print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
+    for c in analysis.corners:
+        if c.disagreement:
+            print(f"  {c.label or 'node %d' % c.node}: {c.disagreement}", file=out)
+    notes = list(analysis.warnings) + (list(analysis.drag.notes) if analysis.drag else [])
+    if notes:
+        print("", file=out)
+        for n in notes:
+            print(f"note: {n}", file=out)
+
+
+def _caution(out):
+    from profilebench.io.export import CAUTION
+
+    print("", file=out)
+    print(CAUTION, file=out)
+
+
+# --- subcommands -------------------------------------------------------------------------------
+
+def _cmd_analyse(args, out):
+    from profilebench.io.export import write_results_json, write_surface_csv
+
+    if args.image:
+        from profilebench.plotting.review import image_format
+
+        image_format(args.image)  # bad extension: bad input, before any work
+    for opt, ext in (("csv", ".csv"), ("json", ".json")):
+        value = getattr(args, opt)
+        if value and Path(value).suffix.lower() != ext:
+            raise InputError(f"--{opt} {value!r}: the file name must end in {ext}")
+    project = _load(args.file)
+    cond = _conditions(project, args)
+    analysis = _analyse(project.profile, cond)
+    _check_success(analysis, f"{args.file}")
+    print(f"{project.profile.name} ({args.file})", file=out)
+    print("", file=out)
+    _print_summary(analysis, out)
+    if args.image:
+        from profilebench.plotting.review import review_figure, save_figure
+
+        fig = review_figure(analysis, baseline=project.baseline)
+        save_figure(fig, args.image)
+        print(f"\nimage written: {args.image}", file=out)
+    if args.csv:
+        write_surface_csv(analysis, args.csv)
+        print(f"surface data written: {args.csv}", file=out)
+    if args.json:
+        write_results_json(analysis, args.json)
+        print(f"results written: {args.json}", file=out)
+    _caution(out)
+    return EXIT_OK
+
+
+def _cmd_compare(args, out):
+    from profilebench.assess.compare import compare
+
+    pa, pb = _load(args.baseline), _load(args.variant)
+    a = _analyse(pa.profile, _conditions(pa, args))
+    _check_success(a, f"baseline {args.baseline}")
+    b = _analyse(pb.profile, _conditions(pb, args))
+    _check_success(b, f"variant {args.variant}")
+    c = compare(a, b)
+    fmt = lambda v, f, scale=1.0: "n/a" if v is None else format(v * scale, f)  # noqa: E731
+    rows = [
+        ("Cd baseline", f"{c.cd_before:.4f}", pa.profile.name),
+        ("Cd variant", f"{c.cd_after:.4f}", pb.profile.name),
+        ("delta Cd", f"{c.delta_cd:+.4f}", "variant minus baseline"),
+        ("delta Cd (%)", f"{c.delta_cd_percent:+.2f}", "%"),
+        ("delta CdA", fmt(c.delta_cda, "+.4f"), "m^2"),
+        ("delta force", fmt(c.delta_force, "+.2f"), "N"),
+        ("delta power", fmt(c.delta_power, "+.3f", 1e-3), "kW"),
+    ]
+    from profilebench.plotting.summary import format_table
+
+    print(format_table(("quantity", "value", "unit / note"), rows), file=out)
+    changed = [ch for ch in c.corner_changes if ch.verdict_changed]
+    print("", file=out)
+    if changed:
+        print("Corners that changed verdict", file=out)
+        print(format_table(("corner", "before", "after"),
+                           [(ch.label, ch.verdict_before, ch.verdict_after) for ch in changed]), file=out)
+    else:
+        print("No corner changed verdict.", file=out)
+    for w in c.warnings:
+        print(f"WARNING: {w}", file=out)
+    _caution(out)
+    return EXIT_OK
+
+
+def _cmd_corners(args, out):
+    from profilebench.plotting.summary import CORNER_COLUMNS, corner_rows, format_table
+
+    project = _load(args.file)
+    cond = _conditions(project, args)
+    analysis = _analyse(project.profile, cond)
+    _check_success(analysis, f"{args.file}")
+    print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
+    if args.smallest:
+        from profilebench.assess.corners import smallest_attached_radius
+
+        rows = []
+        for corner in analysis.corners:
+            if not corner.convex:
+                continue
+            r = smallest_attached_radius(project.profile, cond, corner.node)
+            rows.append((
+                corner.label or f"node {corner.node}", f"{corner.radius * 1000:.1f}",
+                r.status.value, "n/a" if r.radius is None else f"{r.radius * 1000:.1f}",
+                f"{r.largest_fitting * 1000:.1f}", str(r.solves), r.message,
+            ))
+        print("", file=out)
+        print("Smallest radius keeping the flow attached (convex corners)", file=out)
+        print(format_table(("corner", "r now (mm)", "search", "smallest r (mm)",
+                            "largest fitting (mm)", "solves", "message"), rows), file=out)
+    _caution(out)
+    return EXIT_OK
+
+
+def _cmd_samples(args, out):
+    from profilebench.io.samples import default_sample_path, sample_paths
+
+    default = default_sample_path()
+    for p in sample_paths():
+        mark = "  (default)" if p == default else ""
+        print(f"{p}{mark}", file=out)
+    return EXIT_OK
+
+
+def _start_editor(argv):
+    try:
+        from profilebench.gui.app import run
+    except ImportError as exc:
+        print(
+            f"profilebench: the desktop editor is not available ({exc}). Use a subcommand "
+            "instead (profilebench --help), or install PySide6 and the editor.",
+            file=sys.stderr,
+        )
+        return EXIT_BAD_INPUT
+    return int(run(argv) or 0)
+
+
+COMMANDS = {"analyse": _cmd_analyse, "analyze": _cmd_analyse, "compare": _cmd_compare,
+            "corners": _cmd_corners, "samples": _cmd_samples}
+
+
+def main(argv=None) -> int:
+    """Run the command line with ``argv`` (default: sys.argv[1:]); return the exit code."""
+    argv = list(sys.argv[1:] if argv is None else argv)
+    parser = build_parser()
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:  # --help, --version, or a usage error (argparse printed it)
+        return int(exc.code or 0)
+    if args.command is None:
+        return _start_editor(argv)
+    out = sys.stdout
+    try:
+        return COMMANDS[args.command](args, out)
+    except ProfileBenchError as exc:
+        print(f"profilebench: error: {exc}", file=sys.stderr)
+        return EXIT_BAD_INPUT
+    except _Failed as exc:
+        print(f"profilebench: {exc}", file=sys.stderr)
+        return EXIT_FAILED
