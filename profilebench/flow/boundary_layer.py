@@ -1,0 +1,631 @@
+"""Boundary-layer march along one surface, from the stagnation point to the end or separation.
+
+The march combines
+
+* Thwaites' method for the laminar layer (:mod:`profilebench.flow.thwaites`),
+* Michel's transition criterion in the Cebeci-Smith form (:mod:`profilebench.flow.transition`),
+  a forced transition position, or a fully turbulent layer,
+* Head's entrainment method with Ludwieg-Tillmann skin friction for the turbulent layer
+  (:mod:`profilebench.flow.head`),
+* a short-bubble model when the laminar layer separates before natural transition, and
+* fixed separation at sharp convex edges.
+
+Edge-speed slope. Panel methods give edge speeds with small station-to-station noise, which raw
+differences turn into large errors in dUe/ds. The slope (and, for the turbulent march, the
+value) at each station comes from a local least-squares quadratic through the 7 nearest
+stations (one-sided near the ends, never across the first sharp edge). The quadratic is exact
+for linear and quadratic edge speeds. Thwaites' integral itself uses the given ue, integrated
+exactly for ue piecewise linear between stations.
+
+Bubble model (documented choices, common practice, no source): at laminar separation the layer
+restarts turbulent with theta continuous and H = ``BUBBLE_RESTART_H`` = 2.8 (a just-separated
+turbulent layer: the top of the accepted turbulent-separation range). The bubble reattaches
+when Head's H falls to ``h_separation - BUBBLE_REATTACH_HYSTERESIS`` (0.2 below the separation
+threshold, so the layer does not flip back at once) within ``BUBBLE_MAX_LENGTH_THETA`` = 100
+momentum thicknesses at separation; otherwise, or if H rises to ``BUBBLE_BURST_H`` = 3.5 first,
+the bubble bursts and the layer is separated (a "turbulent_separation" event whose detail says
+so). Stations inside a bubble are marked separated, with cf = 0.
+
+Separation margin (``margin``), 1 = far from separation, 0 = at the criterion:
+laminar: clip(1 - lambda / (-0.09), 0, 1) (1 for zero or favourable gradient);
+turbulent: clip((h_separation - H) / (h_separation - 1.4), 0, 1), 1.4 being a flat-plate
+turbulent H (Schlichting; H ~ 1.3-1.4); separated stations (bubble or final): 0.
+"""
+
+from __future__ import annotations
+
+import enum
+import math
+import numbers
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from profilebench.errors import InputError
+from profilebench.flow.head import march_head
+from profilebench.flow.thwaites import (
+    LAMBDA_SEPARATION,
+    thwaites_momentum_thickness,
+    thwaites_shape_factor,
+    thwaites_shear,
+)
+from profilebench.flow.transition import michel_critical_re_theta
+
+__all__ = [
+    "Regime",
+    "MarchStatus",
+    "Event",
+    "BoundaryLayerResult",
+    "march_boundary_layer",
+    "EVENT_KINDS",
+    "TURBULENT_START_H",
+    "FLAT_PLATE_TURBULENT_H",
+    "BUBBLE_RESTART_H",
+    "BUBBLE_REATTACH_HYSTERESIS",
+    "BUBBLE_BURST_H",
+    "BUBBLE_MAX_LENGTH_THETA",
+    "H_SEPARATION_RANGE",
+]
+
+#: Shape factor given to a turbulent layer where it starts (transition, or fully turbulent
+#: from the stagnation point); theta is continuous (common practice, no source; close to the
+#: 1/7-power-law flat-plate value 1.29-1.4, Schlichting).
+TURBULENT_START_H = 1.4
+#: Flat-plate turbulent H used as the "far from separation" end of the turbulent margin.
+FLAT_PLATE_TURBULENT_H = 1.4
+#: Shape factor of the turbulent restart at laminar separation (see module docstring).
+BUBBLE_RESTART_H = 2.8
+#: Reattachment when H <= h_separation - this value.
+BUBBLE_REATTACH_HYSTERESIS = 0.2
+#: A bubble whose H rises to this value bursts.
+BUBBLE_BURST_H = 3.5
+#: Longest short bubble, in momentum thicknesses at laminar separation.
+BUBBLE_MAX_LENGTH_THETA = 100.0
+#: Accepted turbulent separation thresholds on H (Cebeci & Bradshaw quote 1.8-2.8; 2.4 common).
+H_SEPARATION_RANGE = (1.8, 2.8)
+#: Event kinds, in the trade's terms.
+EVENT_KINDS = (
+    "transition",
+    "laminar_separation",
+    "reattachment",
+    "turbulent_separation",
+    "edge_separation",
+)
+_SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
+_FIT_HALF_WIDTH = 3
+
+
+class Regime(enum.Enum):
+    """State of the boundary layer at a station."""
+
+    LAMINAR = "laminar"
+    TURBULENT = "turbulent"
+    SEPARATED = "separated"
+
+
+class MarchStatus(enum.Enum):
+    """Outcome of the march as a computation (separation is a physical result, not a failure)."""
+
+    COMPLETED = "completed"
+    NUMERICAL_FAILURE = "numerical_failure"
+
+
+@dataclass(frozen=True)
+class Event:
+    """A boundary-layer event.
+
+    ``kind``: one of :data:`EVENT_KINDS`; ``s``: arc length (m); ``index``: the first station at
+    or downstream of ``s`` (the first that carries the new state; ``len(s)`` if past the last
+    station); ``detail``: a short text.
+    """
+
+    kind: str
+    s: float
+    index: int
+    detail: str
+
+    def __post_init__(self):
+        if self.kind not in EVENT_KINDS:
+            raise InputError(
+                f"event kind {self.kind!r} is unknown; use one of {', '.join(EVENT_KINDS)}"
+            )
+
+
+@dataclass(frozen=True)
+class BoundaryLayerResult:
+    """Boundary layer on one surface; arrays are on the stations ``s`` and read-only.
+
+    Attributes
+    ----------
+    s : arc length from the stagnation point (m).
+    ue : edge speed ratio Ue/V as given.
+    theta : momentum thickness (m). delta_star : displacement thickness H theta (m).
+    H : shape factor delta*/theta. re_theta : Ue theta / nu.
+    cf : local skin-friction coefficient tau_w / (1/2 rho Ue^2); 0 where separated and at a
+        stagnation station (tau_w = 0 there); at a sharp leading edge (theta = 0, unbounded cf)
+        the value of the next station is reported.
+    cf_free_stream : tau_w / (1/2 rho V^2) = cf ue^2, the one to integrate for friction drag.
+    regime : array of :class:`Regime`. margin : separation margin, 1 far, 0 at the criterion.
+    events : list of :class:`Event` in marching order. separation : the event where the layer
+        finally separates, or None if it stays attached to the end.
+    status, success, message : outcome of the computation.
+    nu (m^2/s), speed (m/s), h_separation : the conditions used.
+    """
+
+    s: np.ndarray
+    ue: np.ndarray
+    theta: np.ndarray
+    delta_star: np.ndarray
+    H: np.ndarray
+    cf: np.ndarray
+    cf_free_stream: np.ndarray
+    re_theta: np.ndarray
+    regime: np.ndarray
+    margin: np.ndarray
+    events: list = field(default_factory=list)
+    separation: Event | None = None
+    status: MarchStatus = MarchStatus.COMPLETED
+    success: bool = True
+    message: str = ""
+    nu: float = 1.46e-5
+    speed: float = 30.0
+    h_separation: float = 2.4
+
+    @property
+    def transition(self) -> Event | None:
+        """The transition event, or None (also None when a bubble takes its place)."""
+        for ev in self.events:
+            if ev.kind == "transition":
+                return ev
+        return None
+
+
+# ----------------------------------------------------------------------------------------------
+# input checks
+
+
+def _real(name, value, hint):
+    if isinstance(value, bool) or not isinstance(value, numbers.Real):
+        raise InputError(f"{name} must be a number, got {value!r}; {hint}")
+    value = float(value)
+    if not math.isfinite(value):
+        raise InputError(f"{name} is {value!r}; {hint}")
+    return value
+
+
+def _array(name, value):
+    try:
+        arr = np.array(value, dtype=float)
+    except (TypeError, ValueError):
+        raise InputError(
+            f"{name} must be a sequence of numbers; could not read {type(value).__name__} "
+            "as numbers"
+        ) from None
+    if arr.ndim != 1:
+        raise InputError(f"{name} must be one-dimensional, got shape {arr.shape}; pass a 1-D array")
+    bad = np.flatnonzero(~np.isfinite(arr))
+    if bad.size:
+        raise InputError(
+            f"{name} holds a non-finite value ({arr[bad[0]]!r}) at station {bad[0]}; "
+            "give finite numbers at every station"
+        )
+    return arr
+
+
+def _check_inputs(s, ue, nu, speed, transition, h_separation, edges):
+    s = _array("s", s)
+    ue = _array("ue", ue)
+    if s.size != ue.size:
+        raise InputError(
+            f"s has {s.size} stations but ue has {ue.size}; give one edge speed per arc length"
+        )
+    if s.size < 3:
+        raise InputError(f"the march needs at least 3 stations, got {s.size}; give more stations")
+    steps = np.diff(s)
+    if np.any(steps <= 0):
+        k = int(np.flatnonzero(steps <= 0)[0])
+        raise InputError(
+            f"s must be strictly increasing, but s[{k + 1}] = {s[k + 1]:.6g} m does not exceed "
+            f"s[{k}] = {s[k]:.6g} m; sort the stations and remove duplicates"
+        )
+    if s[0] < 0:
+        raise InputError(
+            f"s[0] = {s[0]:.6g} m is negative; s is the arc length from the stagnation point, "
+            "so it starts at 0 or above"
+        )
+    if np.any(ue < 0):
+        k = int(np.flatnonzero(ue < 0)[0])
+        raise InputError(
+            f"ue[{k}] = {ue[k]:.6g} is negative; give the edge speed magnitude |Ue|/V on each "
+            "surface (split the surface at the stagnation point)"
+        )
+    if ue[0] == 0 and ue[1] == 0:
+        raise InputError(
+            "ue is zero at the first two stations; the layer must leave the stagnation point: "
+            "keep a single stagnation station at the start"
+        )
+    nu = _real("nu", nu, "give the kinematic viscosity in m^2/s, e.g. 1.46e-5 for air")
+    if nu <= 0:
+        raise InputError(f"nu = {nu!r} m^2/s must be positive; air at sea level is 1.46e-5")
+    speed = _real("speed", speed, "give the free-stream speed in m/s")
+    if speed <= 0:
+        raise InputError(f"speed = {speed!r} m/s must be positive; give the free-stream speed")
+    lo, hi = H_SEPARATION_RANGE
+    h_separation = _real("h_separation", h_separation, f"give a shape factor in {lo}..{hi}")
+    if not lo <= h_separation <= hi:
+        raise InputError(
+            f"h_separation = {h_separation:g} is outside the accepted range {lo}..{hi} for "
+            "turbulent separation on H; 2.4 is the usual choice"
+        )
+    if isinstance(transition, str):
+        if transition not in ("free", "turbulent"):
+            raise InputError(
+                f"transition = {transition!r} is not understood; use 'free', 'turbulent' or an "
+                "arc length in metres where transition is forced"
+            )
+    else:
+        hint = "use 'free', 'turbulent' or an arc length in metres where transition is forced"
+        transition = _real("transition", transition, hint)
+        if not s[0] <= transition <= s[-1]:
+            raise InputError(
+                f"forced transition at s = {transition:.6g} m lies outside the surface "
+                f"({s[0]:.6g} to {s[-1]:.6g} m); give an arc length on the surface or use 'free'"
+            )
+    try:
+        edge_list = list(edges)
+    except TypeError:
+        raise InputError(
+            f"edges must be a sequence of arc lengths in metres, got {edges!r}"
+        ) from None
+    checked = []
+    for e in edge_list:
+        e = _real("edge arc length", e, "give arc lengths in metres on s")
+        if not s[0] < e <= s[-1]:
+            raise InputError(
+                f"sharp edge at s = {e:.6g} m lies outside the surface ({s[0]:.6g} to "
+                f"{s[-1]:.6g} m, start excluded); give arc lengths on s"
+            )
+        checked.append(e)
+    return s, ue, nu, speed, transition, h_separation, sorted(checked)
+
+
+# ----------------------------------------------------------------------------------------------
+# numerics
+
+
+def _local_quadratic_fit(s, ue, n_fit):
+    """Value and slope of a least-squares quadratic through the 7 nearest stations.
+
+    Only the first ``n_fit`` stations take part (the rest, past a sharp edge, get the values of
+    the last fitted station: the layer never marches there). Vectorised over stations.
+    """
+    n = s.size
+    u_fit = np.empty(n)
+    d_fit = np.empty(n)
+    m = n_fit
+    w = min(2 * _FIT_HALF_WIDTH + 1, m)
+    if w < 3:
+        # one or two stations before the edge: straight line
+        slope = (ue[1] - ue[0]) / (s[1] - s[0])
+        u_fit[:] = ue
+        d_fit[:] = slope
+        return u_fit, d_fit
+    centre = np.arange(m)
+    start = np.clip(centre - _FIT_HALF_WIDTH, 0, m - w)
+    win = start[:, None] + np.arange(w)[None, :]
+    scale = s[win].max(axis=1) - s[win].min(axis=1)
+    x = (s[win] - s[centre][:, None]) / scale[:, None]
+    y = ue[win]
+    a = np.stack([np.ones_like(x), x, x * x], axis=-1)  # (m, w, 3)
+    ata = np.einsum("mwi,mwj->mij", a, a)
+    aty = np.einsum("mwi,mw->mi", a, y)
+    coef = np.linalg.solve(ata, aty[..., None])[..., 0]
+    u_fit[:m] = coef[:, 0]
+    d_fit[:m] = coef[:, 1] / scale
+    u_fit[m:] = u_fit[m - 1]
+    d_fit[m:] = d_fit[m - 1]
+    return u_fit, d_fit
+
+
+def _crossing(s, g, i):
+    """Arc length where g (>= 0 at station i, < 0 at i-1) crosses zero, linear in s."""
+    if i == 0 or not np.isfinite(g[i - 1]) or not np.isfinite(g[i]):
+        return float(s[i])
+    g0, g1 = g[i - 1], g[i]
+    f = g0 / (g0 - g1) if g1 != g0 else 1.0
+    return float(s[i - 1] + f * (s[i] - s[i - 1]))
+
+
+class _Fill:
+    """Mutable station arrays while the march builds them."""
+
+    def __init__(self, n):
+        self.theta = np.zeros(n)
+        self.H = np.zeros(n)
+        self.cf = np.zeros(n)
+        self.re_theta = np.zeros(n)
+        self.margin = np.zeros(n)
+        self.regime = np.empty(n, dtype=object)
+
+
+def _first_index_at_or_after(s, x):
+    return int(np.searchsorted(s, x, side="left"))
+
+
+def march_boundary_layer(s, ue, nu=1.46e-5, speed=30.0, transition="free", h_separation=2.4,
+                         edges=()) -> BoundaryLayerResult:
+    """March the boundary layer along one surface from the stagnation point.
+
+    Parameters
+    ----------
+    s : array_like
+        Arc length from the stagnation point (m), strictly increasing, s[0] >= 0. If s[0] > 0,
+        ue is taken to rise linearly from 0 at s = 0 to ue[0].
+    ue : array_like
+        Edge speed ratio |Ue|/V (>= 0) at s.
+    nu : float
+        Kinematic viscosity (m^2/s).
+    speed : float
+        Free-stream speed V (m/s); the edge speed is ue * speed.
+    transition : {"free", "turbulent"} or float
+        "free": Michel's criterion (Cebeci-Smith form); "turbulent": turbulent from the start
+        (theta from Thwaites' stagnation or leading-edge value, H = 1.4); a float: transition
+        forced at that arc length (m), or earlier where the free criterion is met first (a trip
+        cannot delay transition).
+    h_separation : float
+        Turbulent separation threshold on H, 1.8..2.8 (default 2.4, common choice; Cebeci &
+        Bradshaw).
+    edges : sequence of float
+        Arc lengths (m) of sharp convex edges; an attached layer reaching one separates there.
+
+    Returns
+    -------
+    BoundaryLayerResult
+        Station arrays, events and status; see the class. Formulas: Thwaites (1949) with Cebeci
+        & Bradshaw's fits; Michel (1951) in the Cebeci-Smith form; Head (1958) with
+        Ludwieg-Tillmann (1949).
+
+    Raises
+    ------
+    InputError
+        Malformed or out-of-range input; the message says what and how to fix it.
+    """
+    s, ue, nu, speed, transition, h_sep, edges = _check_inputs(
+        s, ue, nu, speed, transition, h_separation, edges
+    )
+    n = s.size
+    nu_v = nu / speed
+    s_edge = edges[0] if edges else None
+    n_fit = n if s_edge is None else max(_first_index_at_or_after(s, s_edge) + 1, 2)
+    n_fit = min(n_fit, n)
+    u_fit, d_fit = _local_quadratic_fit(s, ue, n_fit)
+
+    # ---- laminar layer everywhere (used up to the end of the laminar part) ----
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        theta_l = thwaites_momentum_thickness(s, ue, nu_v)
+        lam = theta_l**2 * d_fit / nu_v
+        stopped = np.zeros(n, dtype=bool)
+        stopped[1:] = ue[1:] == 0.0
+        lam[stopped] = -np.inf
+        h_l = thwaites_shape_factor(np.where(np.isfinite(lam), lam, LAMBDA_SEPARATION))
+        l_l = thwaites_shear(np.where(np.isfinite(lam), lam, LAMBDA_SEPARATION))
+        re_t_l = ue * theta_l / nu_v
+        cf_l = np.where(re_t_l > 0, 2.0 * l_l / re_t_l, 0.0)
+        re_x = ue * s / nu_v
+        g_tr = re_t_l - michel_critical_re_theta(re_x)
+    if ue[0] == 0.0:
+        cf_l[0] = 0.0  # stagnation: tau_w = 0
+    elif theta_l[0] == 0.0:
+        cf_l[0] = cf_l[1]  # sharp leading edge: cf unbounded, next station reported
+    margin_l = np.clip(1.0 + lam / (-LAMBDA_SEPARATION), 0.0, 1.0)
+
+    # ---- end of the laminar part: the first of edge, laminar separation, transition ----
+    candidates = []  # (s, priority, kind, detail)
+    if s_edge is not None:
+        candidates.append((s_edge, 0, "edge", ""))
+    sep_idx = np.flatnonzero((lam <= LAMBDA_SEPARATION) | stopped)
+    if sep_idx.size:
+        i = int(sep_idx[0])
+        if stopped[i]:
+            candidates.append((float(s[i]), 1, "stopped", ""))
+        else:
+            candidates.append((_crossing(s, LAMBDA_SEPARATION - lam, i), 1,
+                               "laminar_separation", ""))
+    if transition == "turbulent":
+        candidates.append((float(s[0]), 2, "turbulent", ""))
+    else:
+        tr_idx = np.flatnonzero(g_tr >= 0)
+        if tr_idx.size:
+            i = int(tr_idx[0])
+            candidates.append((_crossing(s, g_tr, i), 3, "free", ""))
+        if not isinstance(transition, str):
+            candidates.append((transition, 2, "forced", ""))
+    out = _Fill(n)
+    events: list[Event] = []
+    status = MarchStatus.COMPLETED
+    failure_msg = ""
+
+    def fill_laminar(upto_s):
+        k = _first_index_at_or_after(s, upto_s)
+        out.theta[:k] = theta_l[:k]
+        out.H[:k] = h_l[:k]
+        out.cf[:k] = cf_l[:k]
+        out.re_theta[:k] = re_t_l[:k]
+        out.margin[:k] = margin_l[:k]
+        out.regime[:k] = Regime.LAMINAR
+        return k
+
+    def fill_separated(from_s, theta_sep, h_sepv):
+        k = _first_index_at_or_after(s, from_s)
+        u_at = float(np.interp(from_s, s, ue))
+        out.theta[k:] = theta_sep
+        out.H[k:] = h_sepv
+        out.cf[k:] = 0.0
+        out.re_theta[k:] = u_at * theta_sep / nu_v
+        out.margin[k:] = 0.0
+        out.regime[k:] = Regime.SEPARATED
+
+    def fill_march(m, regime, cf_zero=False):
+        k = m.index
+        if k.size == 0:
+            return
+        out.theta[k] = m.theta
+        out.H[k] = m.H
+        out.cf[k] = 0.0 if cf_zero else m.cf
+        out.re_theta[k] = ue[k] * m.theta / nu_v
+        if regime is Regime.SEPARATED:
+            out.margin[k] = 0.0
+        else:
+            out.margin[k] = np.clip(
+                (h_sep - m.H) / (h_sep - FLAT_PLATE_TURBULENT_H), 0.0, 1.0
+            )
+        out.regime[k] = regime
+
+    def ev(kind, x, detail):
+        e = Event(kind=kind, s=float(x), index=_first_index_at_or_after(s, x), detail=detail)
+        events.append(e)
+        return e
+
+    def turbulent(x0, th0, h0):
+        """Attached turbulent march from x0; returns (kind, s, theta, H) of the stop."""
+        m = march_head(s, u_fit, d_fit, x0, th0, h0, nu_v, h_above=h_sep, s_limit=s_edge)
+        fill_march(m, Regime.TURBULENT)
+        return m
+
+    def close_turbulent(m):
+        nonlocal status, failure_msg
+        if m.stop == "end":
+            return
+        if m.stop == "h_above":
+            ev("turbulent_separation", m.s_stop,
+               f"turbulent separation: H reached {h_sep:g} (Head)")
+        elif m.stop == "limit":
+            ev("edge_separation", m.s_stop, "attached turbulent layer reaches a sharp edge")
+        elif m.stop == "stopped":
+            ev("turbulent_separation", m.s_stop, "edge speed falls to zero: the flow stops")
+        else:
+            status = MarchStatus.NUMERICAL_FAILURE
+            failure_msg = (
+                f"turbulent march failed at s = {m.s_stop:.6g} m (non-finite state); values "
+                "held from there"
+            )
+        fill_separated(m.s_stop, m.theta_stop, m.h_stop)
+
+    x_end, _, kind, _ = min(candidates, key=lambda c: (c[0], c[1])) if candidates else (
+        None, 0, "none", "")
+    if kind == "none":
+        fill_laminar(s[-1] + 1.0)
+    else:
+        finite = np.isfinite(theta_l)
+        th_x = float(np.interp(x_end, s[finite], theta_l[finite]))
+        h_x = float(np.interp(x_end, s, h_l))
+        if kind == "edge":
+            fill_laminar(x_end)
+            ev("edge_separation", x_end, "attached laminar layer reaches a sharp edge")
+            fill_separated(x_end, th_x, h_x)
+        elif kind == "stopped":
+            fill_laminar(x_end)
+            k = _first_index_at_or_after(s, x_end)
+            th_x, h_x = float(theta_l[k - 1]), float(h_l[k - 1])
+            ev("laminar_separation", x_end, "edge speed falls to zero: the flow stops")
+            fill_separated(x_end, th_x, h_x)
+        elif kind in ("turbulent", "free", "forced"):
+            if kind == "turbulent":
+                # start where Head's equations are regular: first station with ue > 0 and theta > 0
+                k0 = 0 if (ue[0] > 0 and theta_l[0] > 0) else 1
+                x0, th0 = float(s[k0]), float(theta_l[k0])
+                if k0 == 1:
+                    out.theta[0] = theta_l[0]
+                    out.H[0] = TURBULENT_START_H
+                    out.re_theta[0] = re_t_l[0]
+                    out.margin[0] = 1.0
+                    out.regime[0] = Regime.TURBULENT
+                ev("transition", s[0],
+                   f"turbulent from the start: theta from Thwaites, H = {TURBULENT_START_H:g}")
+            else:
+                fill_laminar(x_end)
+                x0, th0 = x_end, th_x
+                if kind == "free":
+                    rx = float(np.interp(x_end, s, ue)) * x_end / nu_v
+                    detail = (f"free transition, Michel's criterion (Cebeci-Smith form) at "
+                              f"Re_x = {rx:.3g}")
+                else:
+                    detail = "forced transition at the given arc length"
+                ev("transition", x_end, detail)
+            m = turbulent(x0, th0, TURBULENT_START_H)
+            if kind == "turbulent" and k0 == 1 and m.index.size:
+                out.cf[0] = 0.0 if ue[0] == 0.0 else m.cf[0]
+            close_turbulent(m)
+        elif kind == "laminar_separation":
+            fill_laminar(x_end)
+            ls = ev("laminar_separation", x_end,
+                    f"laminar separation (Thwaites, lambda = {LAMBDA_SEPARATION:g}): bubble")
+            h_re = h_sep - BUBBLE_REATTACH_HYSTERESIS
+            l_max = x_end + BUBBLE_MAX_LENGTH_THETA * th_x
+            limit = l_max if s_edge is None else min(l_max, s_edge)
+            mb = march_head(s, u_fit, d_fit, x_end, th_x, BUBBLE_RESTART_H, nu_v,
+                            h_above=BUBBLE_BURST_H, h_below=h_re, s_limit=limit)
+            fill_march(mb, Regime.SEPARATED, cf_zero=True)
+            if mb.stop == "h_below":
+                ev("reattachment", mb.s_stop,
+                   f"bubble from s = {ls.s:.4g} m reattaches turbulent (H fell to {h_re:g}), "
+                   f"length {mb.s_stop - ls.s:.3g} m")
+                m = turbulent(mb.s_stop, mb.theta_stop, mb.h_stop)
+                close_turbulent(m)
+            elif mb.stop == "end":
+                # surface ends inside the bubble: the layer is separated from laminar separation
+                pass
+            elif mb.stop == "limit" and s_edge is not None and mb.s_stop >= s_edge:
+                ev("edge_separation", mb.s_stop,
+                   f"bubble from s = {ls.s:.4g} m still open at a sharp edge: layer leaves there")
+                fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
+            elif mb.stop in ("h_above", "limit", "stopped"):
+                why = {
+                    "h_above": f"H rose to {BUBBLE_BURST_H:g}",
+                    "limit": f"no reattachment within {BUBBLE_MAX_LENGTH_THETA:g} theta",
+                    "stopped": "edge speed falls to zero",
+                }[mb.stop]
+                ev("turbulent_separation", mb.s_stop,
+                   f"bubble from s = {ls.s:.4g} m burst ({why}): the layer separates")
+                fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
+            else:
+                status = MarchStatus.NUMERICAL_FAILURE
+                failure_msg = (f"bubble march failed at s = {mb.s_stop:.6g} m (non-finite "
+                               "state); values held from there")
+                fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
+
+    separation = None
+    for e in events:
+        if e.kind in _SEPARATION_KINDS:
+            separation = e
+        elif e.kind == "reattachment":
+            separation = None
+
+    # anything not reached (numerical failure) is already filled by fill_separated
+    delta_star = out.H * out.theta
+    cf_fs = out.cf * ue**2
+    if status is MarchStatus.COMPLETED:
+        if separation is None:
+            message = "boundary layer attached to the end of the surface"
+        else:
+            message = f"{separation.kind.replace('_', ' ')} at s = {separation.s:.4g} m"
+    else:
+        message = failure_msg
+
+    arrays = dict(
+        s=s, ue=ue, theta=out.theta, delta_star=delta_star, H=out.H, cf=out.cf,
+        cf_free_stream=cf_fs, re_theta=out.re_theta, regime=out.regime, margin=out.margin,
+    )
+    for a in arrays.values():
+        a.setflags(write=False)
+    return BoundaryLayerResult(
+        **arrays,
+        events=events,
+        separation=separation,
+        status=status,
+        success=status is MarchStatus.COMPLETED,
+        message=message,
+        nu=nu,
+        speed=speed,
+        h_separation=h_sep,
+    )
