@@ -666,12 +666,16 @@ def _raise_radius_error(profile, corners, segs, info, bad):
     k, c, largest = pick
     r_req = nodes[c].radius
     if largest > 0:
-        hint = (f"the largest radius that fits there is {math.floor(largest * 1e4) / 10:.1f} mm "
+        hint = (f"the largest radius that fits there is {math.floor(largest * 1e4 + 1e-6) / 10:.1f} mm "
                 "(the neighbouring corners keeping their radii): reduce the radius, reduce the "
                 "neighbours' radii, or move the neighbouring nodes further away")
     else:
         hint = ("no radius fits there while the neighbouring corners keep their radii: reduce "
                 "the neighbours' radii or move the neighbouring nodes further away")
+    others = [f[1] for f in found if f[1] != c]
+    if others:
+        hint += ("; the radius at " + ", ".join(f"node {o}" for o in others)
+                 + " does not fit either with this one")
     raise RadiusTooLargeError(
         f"corner radius {r_req * 1e3:.1f} mm at {node_description(profile, c)} is too large for "
         f"its neighbouring segments; {hint}",
