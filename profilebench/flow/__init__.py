@@ -11,3 +11,10 @@ from profilebench.flow.stagnation import (  # stagnation points, surface split
     SurfaceSplit,
     split_surfaces,
 )
+from profilebench.flow.boundary_layer import (  # boundary layer
+    BoundaryLayerResult,
+    Event,
+    MarchStatus,
+    Regime,
+    march_boundary_layer,
+)
