@@ -22,7 +22,7 @@ from profilebench.plotting.style import CAUTION
 __all__ = ["review_figure", "save_figure", "IMAGE_FORMATS", "image_format"]
 
 IMAGE_FORMATS = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
-PAGE_SIZE = (16.54, 11.69)   # inches, A3 landscape
+PAGE_SIZE = (16.5, 11.7)     # inches, about A3 landscape (1980 x 1404 pixels at PAGE_DPI)
 PAGE_DPI = 120
 
 
