@@ -164,6 +164,9 @@ def _march(res, start, direction, s0, stag):
         at_edge = res.kutta_node is not None and last == res.kutta_node
         dist = lambda s_abs: (s0 - s_abs) % res.perimeter  # noqa: E731
     s_st = dist(res.s[idx])
+    # a midpoint that coincides with the stagnation point is the stagnation station itself
+    keep = s_st > 1e-12 * res.perimeter
+    idx, s_st = idx[keep], s_st[keep]
     s_end = dist(s_meet)
     end = _outline_point(res.points, res.panel_length, s_meet)
     return Surface(
