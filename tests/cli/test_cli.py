@@ -1,0 +1,190 @@
+"""The command line, in-process through main([...]) with a hand-built analysis."""
+
+import dataclasses
+import json
+import re
+import sys
+
+import pytest
+
+import profilebench.cli as cli
+from fake_analysis import N, fake_analysis
+from profilebench.assess.results import Analysis, AnalysisStatus
+from profilebench.io.export import CAUTION
+from profilebench.io.samples import default_sample_path, sample_paths
+
+SAMPLE = str(default_sample_path())
+
+
+@pytest.fixture
+def fake(monkeypatch):
+    """Replace the analysis by the hand-built one, keeping the conditions the CLI passes."""
+    seen = {}
+    base = fake_analysis()
+
+    def analyse(profile, conditions):
+        seen.setdefault("conditions", []).append(conditions)
+        return dataclasses.replace(base, conditions=conditions, profile=profile)
+
+    monkeypatch.setattr(cli, "_analyse", analyse)
+    return base, seen
+
+
+def _rows(text):
+    """Table rows of the printed summary: {first cell: second cell}."""
+    out = {}
+    for line in text.splitlines():
+        cells = re.split(r"\s{2,}", line.strip())
+        if len(cells) >= 2:
+            out.setdefault(cells[0], cells[1])
+    return out
+
+
+def test_analyse_prints_the_analysis_numbers(fake, capsys):
+    base, _ = fake
+    assert cli.main(["analyse", SAMPLE]) == 0
+    out = capsys.readouterr().out
+    rows = _rows(out)
+    d = base.drag
+    # printed to 4 decimals for coefficients, 2 for the force, 3 for kW: equal within that rounding
+    assert float(rows["Cd"]) == pytest.approx(d.cd, abs=5e-5)
+    assert float(rows["friction"]) == pytest.approx(d.cd_friction, abs=5e-5)
+    assert float(rows["pressure"]) == pytest.approx(d.cd_pressure, abs=5e-5)
+    assert float(rows["base"]) == pytest.approx(d.cd_base, abs=5e-5)
+    assert float(rows["corners"]) == pytest.approx(d.cd_corners, abs=5e-5)
+    assert float(rows["CdA"]) == pytest.approx(d.cda, abs=5e-5)
+    assert float(rows["drag force"]) == pytest.approx(d.force, abs=5e-3)
+    assert float(rows["power"]) == pytest.approx(d.power / 1000, abs=5e-4)
+    assert float(rows["Cl"]) == pytest.approx(d.cl, abs=5e-5)
+    assert float(rows["Reynolds (full scale)"]) == pytest.approx(base.reynolds, rel=1e-3)
+    assert float(rows["Reynolds (model)"]) == pytest.approx(base.model_reynolds, rel=1e-3)
+    for c in base.corners:
+        assert c.label in rows
+    assert CAUTION in out
+
+
+def test_corner_table_columns(fake, capsys):
+    cli.main(["analyse", SAMPLE])
+    out = capsys.readouterr().out
+    header = next(l for l in out.splitlines() if l.startswith("corner"))
+    assert re.split(r"\s{2,}", header) == list(cli_columns())
+
+
+def cli_columns():
+    from profilebench.plotting.summary import CORNER_COLUMNS
+
+    return CORNER_COLUMNS
+
+
+def test_speed_and_ground_options_reach_the_conditions(fake):
+    _, seen = fake
+    assert cli.main(["analyse", SAMPLE, "--speed", "72", "--no-ground", "--transition", "0.4"]) == 0
+    cond = seen["conditions"][-1]
+    assert cond.speed == pytest.approx(20.0)   # 72 km/h = 20 m/s (exact unit conversion)
+    assert cond.ground is False and cond.transition == 0.4
+
+
+def test_outputs_written(fake, tmp_path, capsys):
+    img, csv_, js = tmp_path / "r.png", tmp_path / "s.csv", tmp_path / "r.json"
+    assert cli.main(["analyse", SAMPLE, "--image", str(img), "--csv", str(csv_), "--json", str(js)]) == 0
+    assert img.stat().st_size > 0
+    assert len(csv_.read_text().splitlines()) == N + 1  # header + one row per station
+    assert json.loads(js.read_text())["caution"] == CAUTION
+
+
+def test_failed_analysis_exits_1(monkeypatch, capsys):
+    a = fake_analysis()
+    monkeypatch.setattr(cli, "_analyse", lambda p, c: Analysis(
+        AnalysisStatus.INVISCID_FAILED, "singular panel system", p, c))
+    assert cli.main(["analyse", SAMPLE]) == 1
+    err = capsys.readouterr().err
+    assert "singular panel system" in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("args, message", [
+    (["analyse", "no_such_file.json"], "no project file"),
+    (["analyse", SAMPLE, "--image", "out.bmp"], "unknown extension '.bmp'"),
+    (["analyse", SAMPLE, "--csv", "out.txt"], "must end in .csv"),
+    (["analyse", SAMPLE, "--speed", "-10"], "speed"),
+    (["analyse", SAMPLE, "--transition", "sometimes"], "--transition"),
+])
+def test_bad_input_exits_2(fake, capsys, args, message):
+    assert cli.main(args) == 2
+    err = capsys.readouterr().err
+    assert message in err and "Traceback" not in err
+
+
+@pytest.mark.parametrize("content", ["{not json", '{"format": "something-else", "version": 1}', ""])
+def test_corrupt_project_exits_2(fake, tmp_path, capsys, content):
+    bad = tmp_path / "bad.json"
+    bad.write_text(content)
+    assert cli.main(["analyse", str(bad)]) == 2
+    assert capsys.readouterr().err.startswith("profilebench: error:")
+
+
+def test_usage_error_exits_2(capsys):
+    assert cli.main(["analyse"]) == 2
+    assert "usage" in capsys.readouterr().err
+
+
+def test_samples_lists_every_sample(capsys):
+    assert cli.main(["samples"]) == 0
+    lines = capsys.readouterr().out.splitlines()
+    assert [l.split()[0] for l in lines] == [str(p) for p in sample_paths()]
+    assert sum("(default)" in l for l in lines) == 1
+
+
+def test_compare_warns_when_cd_falls_but_force_rises(monkeypatch, capsys):
+    base = fake_analysis()
+    d = base.drag
+    # the variant: 10% lower Cd on a 25% larger frontal area -> CdA and force rise
+    area = 1.25 * d.reference_area
+    cd = 0.9 * d.cd
+    variant_drag = dataclasses.replace(d, cd=cd, reference_area=area, cda=cd * area,
+                                       force=d.force / d.cda * cd * area,
+                                       power=d.power / d.cda * cd * area)
+    variant = dataclasses.replace(base, drag=variant_drag)
+    calls = iter([base, variant])
+    monkeypatch.setattr(cli, "_analyse", lambda p, c: next(calls))
+    assert cli.main(["compare", SAMPLE, SAMPLE]) == 0
+    out = capsys.readouterr().out
+    rows = _rows(out)
+    assert float(rows["delta Cd"]) == pytest.approx(cd - d.cd, abs=5e-5)
+    assert float(rows["delta Cd (%)"]) == pytest.approx(-10.0, abs=5e-3)
+    assert float(rows["delta CdA"]) == pytest.approx(cd * area - d.cda, abs=5e-5)
+    assert "WARNING: Cd falls" in out
+    assert CAUTION in out
+
+
+def test_compare_with_failed_variant_exits_1(monkeypatch, capsys):
+    base = fake_analysis()
+    failed = Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED, "march stalled", base.profile, base.conditions)
+    calls = iter([base, failed])
+    monkeypatch.setattr(cli, "_analyse", lambda p, c: next(calls))
+    assert cli.main(["compare", SAMPLE, SAMPLE]) == 1
+    assert "march stalled" in capsys.readouterr().err
+
+
+def test_corners_lists_each_corner(fake, capsys):
+    base, _ = fake
+    assert cli.main(["corners", SAMPLE]) == 0
+    rows = _rows(capsys.readouterr().out)
+    for c in base.corners:
+        assert float(rows[c.label]) == pytest.approx(c.radius * 1000, abs=0.05)
+
+
+def test_no_subcommand_without_editor_exits_2(monkeypatch, capsys):
+    monkeypatch.setitem(sys.modules, "profilebench.gui.app", None)  # import fails
+    assert cli.main([]) == 2
+    assert "desktop editor is not available" in capsys.readouterr().err
+
+
+def test_no_subcommand_starts_editor(monkeypatch):
+    import types
+
+    started = []
+    mod = types.ModuleType("profilebench.gui.app")
+    mod.run = lambda argv=None: started.append(argv) or 0
+    monkeypatch.setitem(sys.modules, "profilebench.gui.app", mod)
+    assert cli.main([]) == 0
+    assert started == [[]]
