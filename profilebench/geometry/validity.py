@@ -26,10 +26,15 @@ _SAMPLES = 2000
 _LOC = re.compile(r"\[\s*([-+0-9.eE]+)\s+([-+0-9.eE]+)")
 
 
+def _mm(v: float) -> str:
+    """A length in m as mm with one decimal, without a '-0.0'."""
+    return f"{round(v * 1e3, 1) + 0.0:.1f}"
+
+
 def _intersection_error(where: str, reason: str) -> SelfIntersectionError:
     m = _LOC.search(reason)
     loc = (float(m.group(1)), float(m.group(2))) if m else None
-    at = f" at ({loc[0] * 1e3:.1f}, {loc[1] * 1e3:.1f}) mm" if loc else ""
+    at = f" at ({_mm(loc[0])}, {_mm(loc[1])}) mm" if loc else ""
     return SelfIntersectionError(
         f"the {where} crosses itself{at} ({reason.split('[')[0].strip().lower()}); move the nodes "
         "there so the outline does not cross itself, or reorder the nodes so they run round the "
@@ -60,7 +65,8 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
     if pairs:
         return out
     area = 0.5 * float(np.sum(xy[:, 0] * np.roll(xy[:, 1], -1) - np.roll(xy[:, 0], -1) * xy[:, 1]))
-    if abs(area) <= 1e-9 * max(size, 1e-3) ** 2:
+    spread = np.linalg.svd(xy - xy.mean(axis=0), compute_uv=False)
+    if spread[-1] <= 1e-9 * max(size, 1e-3):
         out.append(GeometryError(
             f"the nodes enclose no area (they are collinear or fold back on themselves, area "
             f"{abs(area) * 1e6:.3g} mm^2); move nodes off the line so they enclose the profile"))
@@ -68,6 +74,11 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
     poly = shapely.Polygon(xy)
     if not shapely.is_valid(poly):
         out.append(_intersection_error("polygon through the nodes", shapely.is_valid_reason(poly)))
+    elif abs(area) <= 1e-9 * max(size, 1e-3) ** 2:
+        out.append(GeometryError(
+            f"the nodes enclose almost no area ({abs(area) * 1e6:.3g} mm^2); move nodes apart so "
+            "they enclose the profile"))
+        return out
     try:
         outline = build_outline(profile)
     except GeometryError as exc:
@@ -88,7 +99,7 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
             if low[1] <= 0.0:
                 out.append(GroundContactError(
                     f"with the ground on, the profile must lie above y = 0, but its lowest point "
-                    f"at ({low[0] * 1e3:.1f}, {low[1] * 1e3:.1f}) mm touches or lies below the "
+                    f"at ({_mm(low[0])}, {_mm(low[1])}) mm touches or lies below the "
                     f"ground; raise the profile by more than {-low[1] * 1e3:.1f} mm (or turn the "
                     "ground off)"))
     te = profile.trailing_edge

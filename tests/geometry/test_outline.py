@@ -7,6 +7,8 @@ import pytest
 from profilebench.errors import GeometryError, RadiusTooLargeError
 from profilebench.geometry import Node, Profile, build_outline, rounded_box
 
+from geometry_cases import make_car_like
+
 
 def fitted_radius(outline, s_lo, s_hi, n=60):
     """Radius of the least-squares circle through outline points sampled on [s_lo, s_hi].
@@ -41,18 +43,7 @@ def test_line_line_fillet_radius_measured(r):
         assert fd_radius(o, 0.5 * (a.s_start + a.s_end), 0.05 * L) == pytest.approx(r, rel=0.01)
 
 
-def car_like(r_nose=0.1, r_roof=0.15, r_tail=0.05, r_bonnet=0.08):
-    """Invented profile: nose (line-spline corner), bonnet/windscreen/roof spline, sharp tail."""
-    return Profile((
-        Node(0.0, 0.3, r_nose, label="nose"),
-        Node(0.8, 0.8, smooth=True),
-        Node(1.6, 1.0, r_bonnet, label="bonnet"),       # spline on both sides
-        Node(2.4, 1.35, smooth=True),
-        Node(3.5, 1.35, r_roof, label="roof rear"),     # spline in, line out
-        Node(4.0, 0.9, 0.0, label="tail"),
-        Node(4.0, 0.3, 0.05 if r_tail is None else r_tail, label="rear bottom"),  # line in, spline out
-        Node(2.0, 0.2, smooth=True),
-    ))
+car_like = make_car_like
 
 
 @pytest.mark.parametrize("radii", [(0.1, 0.15, 0.05, 0.08), (0.02, 0.3, 0.2, 0.03), (0.2, 0.05, 0.01, 0.2)])

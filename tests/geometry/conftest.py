@@ -1,0 +1,5 @@
+"""Make the shared geometry test cases importable."""
+import os
+import sys
+
+sys.path.insert(0, os.path.dirname(__file__))
