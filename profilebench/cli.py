@@ -238,7 +238,7 @@ def _cmd_corners(args, out):
     if args.smallest:
         from profilebench.assess.corners import smallest_attached_radius
 
-        rows = []
+        rows, failed = [], []
         for corner in analysis.corners:
             if not corner.convex:
                 continue
@@ -248,10 +248,15 @@ def _cmd_corners(args, out):
                 r.status.value, "n/a" if r.radius is None else f"{r.radius * 1000:.1f}",
                 f"{r.largest_fitting * 1000:.1f}", str(r.solves), r.message,
             ))
+            if not r.success:
+                failed.append(f"{corner.label or 'node %d' % corner.node}: {r.message}")
         print("", file=out)
         print("Smallest radius keeping the flow attached (convex corners)", file=out)
         print(format_table(("corner", "r now (mm)", "search", "smallest r (mm)",
                             "largest fitting (mm)", "solves", "message"), rows), file=out)
+        if failed:
+            _caution(out)
+            raise _Failed("radius search failed for " + "; ".join(failed))
     _caution(out)
     return EXIT_OK
 

@@ -188,3 +188,33 @@ def test_no_subcommand_starts_editor(monkeypatch):
     monkeypatch.setitem(sys.modules, "profilebench.gui.app", mod)
     assert cli.main([]) == 0
     assert started == [[]]
+
+
+def _search(status, radius, message):
+    from profilebench.assess.results import RadiusSearch
+
+    return lambda profile, cond, node: RadiusSearch(node, status, radius, 0.4, (0.0, 0.4), 1e-3, 7, message)
+
+
+def test_corners_smallest_prints_each_convex_corner(fake, monkeypatch, capsys):
+    import profilebench.assess.corners as corners
+    from profilebench.assess.results import SearchStatus
+
+    base, _ = fake
+    monkeypatch.setattr(corners, "smallest_attached_radius", _search(SearchStatus.FOUND, 0.123, "found it"))
+    assert cli.main(["corners", SAMPLE, "--smallest"]) == 0
+    out = capsys.readouterr().out
+    section = out.split("Smallest radius")[1]
+    rows = [l for l in section.splitlines() if "found it" in l]
+    assert len(rows) == sum(c.convex for c in base.corners)
+    assert all("123.0" in r for r in rows)   # 0.123 m shown in mm
+
+
+def test_corners_smallest_failure_exits_1(fake, monkeypatch, capsys):
+    import profilebench.assess.corners as corners
+    from profilebench.assess.results import SearchStatus
+
+    monkeypatch.setattr(corners, "smallest_attached_radius",
+                        _search(SearchStatus.FAILED, None, "flow could not be solved"))
+    assert cli.main(["corners", SAMPLE, "--smallest"]) == 1
+    assert "flow could not be solved" in capsys.readouterr().err
