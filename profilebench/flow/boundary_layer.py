@@ -206,7 +206,7 @@ def _array(name, value):
     bad = np.flatnonzero(~np.isfinite(arr))
     if bad.size:
         raise InputError(
-            f"{name} holds a non-finite value ({arr[bad[0]]!r}) at station {bad[0]}; "
+            f"{name} holds a non-finite value ({float(arr[bad[0]])!r}) at station {bad[0]}; "
             "give finite numbers at every station"
         )
     return arr
