@@ -8,7 +8,6 @@ from __future__ import annotations
 import numpy as np
 from matplotlib.collections import LineCollection
 from matplotlib.colors import TwoSlopeNorm
-from matplotlib.lines import Line2D
 from matplotlib.patches import Patch, Polygon, Rectangle
 
 from profilebench.errors import InputError

@@ -93,7 +93,6 @@ def test_outputs_written(fake, tmp_path, capsys):
 
 
 def test_failed_analysis_exits_1(monkeypatch, capsys):
-    a = fake_analysis()
     monkeypatch.setattr(cli, "_analyse", lambda p, c: Analysis(
         AnalysisStatus.INVISCID_FAILED, "singular panel system", p, c))
     assert cli.main(["analyse", SAMPLE]) == 1

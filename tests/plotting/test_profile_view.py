@@ -5,7 +5,7 @@ import pytest
 from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.collections import LineCollection
 from matplotlib.figure import Figure
-from matplotlib.patches import Polygon, Rectangle
+from matplotlib.patches import Rectangle
 from shapely.geometry import Polygon as ShPolygon
 
 from fake_analysis import fake_analysis
