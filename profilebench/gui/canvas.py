@@ -1,0 +1,617 @@
+"""The profile canvas: outline, handles, Cp band, flow markers and corner labels, with QPainter.
+
+The canvas draws and forwards mouse gestures; what a gesture does is decided by the Qt-free
+functions of :mod:`profilebench.editor.interaction`. Drawing uses only cached geometry (the built
+outline of the current profile, the analysis' stations) so a repaint during a drag stays in the
+low milliseconds.
+"""
+
+from __future__ import annotations
+
+import math
+import time
+
+import numpy as np
+from matplotlib import colormaps
+from matplotlib.colors import TwoSlopeNorm
+from PySide6.QtCore import QPointF, QRectF, Qt, Signal
+from PySide6.QtGui import (QBrush, QColor, QFont, QFontMetricsF, QLinearGradient, QPainter,
+                           QPainterPath, QPen, QPixmap, QPolygonF, QTransform)
+from PySide6.QtWidgets import QSizePolicy, QWidget
+
+from profilebench.editor.interaction import (NodeDrag, RadiusDrag, hit_node, hit_radius_handle,
+                                             hit_segment, radius_handle_position)
+from profilebench.editor.view import ViewTransform, fit_view
+from profilebench.errors import ProfileBenchError
+from profilebench.plotting.profile_view import bubbles, corner_label
+from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
+                                         OKABE_ITO, SEPARATED_COLOUR)
+
+__all__ = ["ProfileCanvas", "outline_points"]
+
+_CMAP = colormaps[CP_COLORMAP]
+
+
+def outline_points(profile, cache: dict):
+    """Points (m) of the built outline of ``profile`` (arcs and splines), or its nodes.
+
+    Returns (points, ok, message): ``ok`` False with the reason when the outline cannot be built
+    (then the node polygon is returned so the user still sees what they drew).
+    """
+    key = id(profile)
+    hit = cache.get(key)
+    if hit is not None and hit[0] is profile:
+        return hit[1]
+    try:
+        from profilebench.geometry.outline import build_outline
+
+        pts = np.asarray(build_outline(profile).sample(400), dtype=float)
+        result = (pts, True, "")
+    except ProfileBenchError as exc:
+        result = (np.asarray(profile.xy, dtype=float), False, str(exc))
+    except Exception as exc:  # a geometry bug must not stop the drawing
+        result = (np.asarray(profile.xy, dtype=float), False, f"{type(exc).__name__}: {exc}")
+    if len(cache) > 8:
+        cache.clear()
+    cache[key] = (profile, result)
+    return result
+
+
+def _qcolor(hex_colour: str, alpha: float = 1.0) -> QColor:
+    c = QColor(hex_colour)
+    c.setAlphaF(alpha)
+    return c
+
+
+class ProfileCanvas(QWidget):
+    """Draws the document's profile and turns mouse gestures into edits.
+
+    Signals
+    -------
+    preview(object)
+        A profile during a drag (not yet an undo step).
+    edit_finished(object)
+        An :class:`~profilebench.editor.commands.Edit` (a finished drag or an insertion).
+    node_selected(object)
+        The index of the node clicked, or None.
+    insert_requested(int, float, float)
+        A click on a segment: insert before index at (x, y) m.
+    picked(float, float)
+        A click while picking underlay reference points (world m).
+    """
+
+    preview = Signal(object)
+    edit_finished = Signal(object)
+    node_selected = Signal(object)
+    insert_requested = Signal(int, float, float)
+    picked = Signal(float, float)
+    painted = Signal(float)
+
+    def __init__(self, parent=None):
+        super().__init__(parent)
+        self.setSizePolicy(QSizePolicy.Expanding, QSizePolicy.Expanding)
+        self.setMinimumSize(480, 260)
+        self.setMouseTracking(False)
+        self.setFocusPolicy(Qt.StrongFocus)
+        self.view = ViewTransform()
+        self.state = None              # DocumentState
+        self.selected: int | None = None
+        self.analysis = None           # the last good analysis (may be stale)
+        self.stale = False
+        self.grid: float | None = None  # snapping grid (m), None: off
+        self.show_cp = True
+        self.cp_offset_curve = False
+        self.picking = False
+        self._outline_cache: dict = {}
+        self._drag = None
+        self._pan_from = None
+        self._underlay_pixmap = None
+        self._underlay_path = None
+        self._difference = None        # cached (baseline, profile, polygons)
+        self._fitted = False
+        self.last_paint_profile = None
+        self.last_paint_time = 0.0
+        self.outline_message = ""
+
+    # ----------------------------------------------------------------- model in
+    def set_state(self, state, selected=None):
+        self.state = state
+        self.selected = selected
+        if not self._fitted and self.width() > 0:
+            self.fit()
+        self.update()
+
+    def set_analysis(self, analysis, stale: bool):
+        self.analysis = analysis
+        self.stale = stale
+        self.update()
+
+    def set_stale(self, stale: bool):
+        if stale != self.stale:
+            self.stale = stale
+            self.update()
+
+    def current_outline(self):
+        if self.state is None:
+            return None, False, ""
+        return outline_points(self.state.profile, self._outline_cache)
+
+    # ----------------------------------------------------------------- view
+    def fit(self):
+        if self.state is None:
+            return
+        pts, _, _ = self.current_outline()
+        xmin, ymin = pts.min(axis=0)
+        xmax, ymax = pts.max(axis=0)
+        ymin = min(ymin, 0.0)
+        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=60)
+        self._fitted = True
+        self.update()
+
+    def resizeEvent(self, event):
+        super().resizeEvent(event)
+        if not self._fitted and self.state is not None:
+            self.fit()
+
+    def zoom(self, factor: float, at=None):
+        at = at or QPointF(self.width() / 2, self.height() / 2)
+        self.view = self.view.zoomed(factor, at.x(), at.y())
+        self.update()
+
+    def screen_of_node(self, i: int) -> QPointF:
+        """Screen position of node ``i`` (px), e.g. for a test to press on."""
+        return QPointF(*self.view.to_screen(*self.state.profile.xy[i]))
+
+    # ----------------------------------------------------------------- mouse
+    def mousePressEvent(self, event):
+        if self.state is None:
+            return
+        p = event.position()
+        sx, sy = p.x(), p.y()
+        if event.button() == Qt.MiddleButton or (
+                event.button() == Qt.LeftButton and event.modifiers() & Qt.ShiftModifier):
+            self._pan_from = (sx, sy)
+            return
+        if event.button() != Qt.LeftButton:
+            return
+        if self.picking:
+            self.picked.emit(*self.view.to_world(sx, sy))
+            return
+        prof = self.state.profile
+        if self.selected is not None and self.selected < len(prof) and hit_radius_handle(
+                prof, self.selected, self.view, sx, sy):
+            self._drag = RadiusDrag(self.state, self.selected, self.grid)
+            return
+        i = hit_node(prof, self.view, sx, sy)
+        if i is not None:
+            self.selected = i
+            self.node_selected.emit(i)
+            self._drag = NodeDrag(self.state, i, self.view, sx, sy, self.grid)
+            self.update()
+            return
+        seg = hit_segment(prof, self.view, sx, sy)
+        if seg is not None:
+            self.insert_requested.emit(seg.insert_at, seg.world[0], seg.world[1])
+            return
+        self.selected = None
+        self.node_selected.emit(None)
+        self._pan_from = (sx, sy)
+        self.update()
+
+    def mouseMoveEvent(self, event):
+        p = event.position()
+        if self._drag is not None:
+            try:
+                profile = self._drag.move(self.view, p.x(), p.y())
+            except ProfileBenchError:
+                return                     # e.g. a degenerate corner mid-drag: keep the last
+            self.preview.emit(profile)
+            return
+        if self._pan_from is not None:
+            x0, y0 = self._pan_from
+            self.view = self.view.panned(p.x() - x0, p.y() - y0)
+            self._pan_from = (p.x(), p.y())
+            self.update()
+
+    def mouseReleaseEvent(self, event):
+        if self._drag is not None:
+            drag, self._drag = self._drag, None
+            edit = drag.finish()
+            if edit.changes_anything:
+                self.edit_finished.emit(edit)
+        self._pan_from = None
+
+    def wheelEvent(self, event):
+        steps = event.angleDelta().y() / 120.0
+        if steps:
+            self.zoom(1.15 ** steps, event.position())
+
+    @property
+    def dragging(self) -> bool:
+        return self._drag is not None
+
+    # ----------------------------------------------------------------- painting helpers
+    def _poly(self, pts, close=True) -> QPolygonF:
+        v = self.view
+        sx = v.offset_x + v.scale * pts[:, 0]
+        sy = v.offset_y - v.scale * pts[:, 1]
+        poly = QPolygonF([QPointF(a, b) for a, b in zip(sx.tolist(), sy.tolist())])
+        if close and len(pts):
+            poly.append(poly[0])
+        return poly
+
+    def _set_underlay_pixmap(self, underlay):
+        if underlay is None:
+            self._underlay_pixmap = None
+            self._underlay_path = None
+            return
+        if self._underlay_path != underlay.path:
+            self._underlay_pixmap = QPixmap(str(underlay.path))
+            self._underlay_path = underlay.path
+
+    def _draw_underlay(self, qp: QPainter):
+        u = getattr(self.state, "underlay", None)
+        self._set_underlay_pixmap(u)
+        if u is None or self._underlay_pixmap is None or self._underlay_pixmap.isNull():
+            return
+        (a, b, c), (d, e, f) = u.matrix.tolist()
+        s, ox, oy = self.view.scale, self.view.offset_x, self.view.offset_y
+        qp.save()
+        qp.setTransform(QTransform(s * a, -s * d, s * b, -s * e, ox + s * c, oy - s * f))
+        qp.setOpacity(u.opacity)
+        qp.drawPixmap(0, 0, self._underlay_pixmap)
+        qp.restore()
+
+    def _draw_grid(self, qp: QPainter):
+        if not self.grid:
+            return
+        step_px = self.grid * self.view.scale
+        k = 1
+        while step_px * k < 8:
+            k *= 5
+        step = self.grid * k
+        x0, y1 = self.view.to_world(0, 0)
+        x1, y0 = self.view.to_world(self.width(), self.height())
+        qp.setPen(QPen(QColor(225, 228, 235), 1))
+        for gx in np.arange(math.floor(x0 / step) * step, x1 + step, step):
+            sx, _ = self.view.to_screen(gx, 0)
+            qp.drawLine(QPointF(sx, 0), QPointF(sx, self.height()))
+        for gy in np.arange(math.floor(y0 / step) * step, y1 + step, step):
+            _, sy = self.view.to_screen(0, gy)
+            qp.drawLine(QPointF(0, sy), QPointF(self.width(), sy))
+
+    def _draw_ground(self, qp: QPainter):
+        if not getattr(self.state.conditions, "ground", False):
+            return
+        _, sy = self.view.to_screen(0, 0)
+        qp.fillRect(QRectF(0, sy, self.width(), 14), QBrush(QColor(90, 90, 90), Qt.BDiagPattern))
+        qp.setPen(QPen(QColor(40, 40, 40), 1.5))
+        qp.drawLine(QPointF(0, sy), QPointF(self.width(), sy))
+        qp.setPen(QColor(60, 60, 60))
+        qp.drawText(QPointF(6, sy + 26), "ground (moving belt), y = 0")
+
+    def _draw_baseline(self, qp: QPainter, current_pts):
+        base = getattr(self.state, "baseline", None)
+        if base is None:
+            return
+        bpts, _, _ = outline_points(base, self._outline_cache)
+        key = (id(base), id(self.state.profile))
+        if self._difference is None or self._difference[0] != key:
+            polys = []
+            try:
+                from shapely.geometry import Polygon
+
+                diff = Polygon(bpts).buffer(0).symmetric_difference(Polygon(current_pts).buffer(0))
+                geoms = getattr(diff, "geoms", [diff])
+                polys = [np.asarray(g.exterior.coords) for g in geoms if not g.is_empty and g.area > 0]
+            except Exception:  # a self-crossing outline mid-drag: outlines still show
+                polys = []
+            self._difference = (key, polys)
+        brush = QBrush(_qcolor(OKABE_ITO["reddish_purple"], 0.8), Qt.FDiagPattern)
+        qp.setPen(Qt.NoPen)
+        qp.setBrush(brush)
+        for poly in self._difference[1]:
+            qp.drawPolygon(self._poly(poly))
+        pen = QPen(QColor(BASELINE_COLOUR), 1.6, Qt.DashLine)
+        qp.setPen(pen)
+        qp.setBrush(Qt.NoBrush)
+        qp.drawPolyline(self._poly(bpts))
+
+    def _stations(self):
+        a = self.analysis
+        flow = getattr(a, "flow", None)
+        inv = getattr(flow, "inviscid", None)
+        if inv is None:
+            return None
+        return np.column_stack([np.asarray(inv.x, float), np.asarray(inv.y, float)]), np.asarray(inv.cp, float)
+
+    def _outward(self, pts):
+        """Unit outward normals at ``pts`` (world), from central differences."""
+        t = np.roll(pts, -1, axis=0) - np.roll(pts, 1, axis=0)
+        t /= np.maximum(np.hypot(t[:, 0], t[:, 1]), 1e-12)[:, None]
+        x, y = pts[:, 0], pts[:, 1]
+        area2 = float(np.dot(x, np.roll(y, -1)) - np.dot(np.roll(x, -1), y))
+        n = np.column_stack([t[:, 1], -t[:, 0]])
+        return n if area2 > 0 else -n   # counter-clockwise: the tangent turned clockwise
+
+    def _cp_norm(self, cp):
+        return TwoSlopeNorm(vmin=min(float(cp.min()), -0.1), vcenter=0.0, vmax=1.0)
+
+    def _draw_cp(self, qp: QPainter, alpha: float):
+        st = self._stations()
+        if st is None or not self.show_cp:
+            return
+        pts, cp = st
+        norm = self._cp_norm(cp)
+        seg_cp = 0.5 * (cp + np.roll(cp, -1))
+        colours = _CMAP(norm(seg_cp))
+        poly = self._poly(pts)
+        for i in range(len(pts)):
+            r, g, b, _ = colours[i]
+            qp.setPen(QPen(QColor.fromRgbF(r, g, b, alpha), 7, Qt.SolidLine, Qt.RoundCap))
+            qp.drawLine(poly[i], poly[i + 1])
+        if self.cp_offset_curve:
+            # offset curve: -Cp outward (suction drawn outside the body), 40 px per unit Cp
+            off = pts + self._outward(pts) * (-cp)[:, None] * (40.0 / self.view.scale)
+            qp.setPen(QPen(_qcolor(OKABE_ITO["blue"], alpha), 1.2))
+            qp.drawPolyline(self._poly(off))
+
+    def _draw_separated(self, qp: QPainter, alpha: float):
+        a = self.analysis
+        mask = getattr(getattr(a, "flow", None), "separated", None)
+        st = self._stations()
+        if mask is None or st is None:
+            return
+        mask = np.asarray(mask, bool)
+        pts = st[0]
+        if mask.shape[0] != len(pts) or not mask.any():
+            return
+        off = pts + self._outward(pts) * (22.0 / self.view.scale)
+        qp.setPen(Qt.NoPen)
+        qp.setBrush(QBrush(_qcolor(SEPARATED_COLOUR, 0.35 * alpha)))
+        n = len(pts)
+        for i in np.flatnonzero(mask):
+            j = (i + 1) % n
+            quad = np.array([pts[i], pts[j], off[j], off[i]])
+            qp.drawPolygon(self._poly(quad))
+
+    def _marker_path(self, marker: str, size: float) -> QPainterPath:
+        h = size / 2
+        path = QPainterPath()
+        if marker == "o":
+            path.addEllipse(QPointF(0, 0), h, h)
+        elif marker == "^":
+            path.addPolygon(QPolygonF([QPointF(0, -h), QPointF(h, h * 0.8), QPointF(-h, h * 0.8), QPointF(0, -h)]))
+        elif marker == "D":
+            path.addPolygon(QPolygonF([QPointF(0, -h), QPointF(h * 0.75, 0), QPointF(0, h), QPointF(-h * 0.75, 0), QPointF(0, -h)]))
+        elif marker == "s":
+            path.addRect(QRectF(-h * 0.85, -h * 0.85, 1.7 * h, 1.7 * h))
+        elif marker == "P":
+            w = h / 3
+            path.addRect(QRectF(-w, -h, 2 * w, 2 * h))
+            path.addRect(QRectF(-h, -w, 2 * h, 2 * w))
+            path.setFillRule(Qt.WindingFill)
+            path = path.simplified()
+        elif marker == "X":
+            w = h / 3
+            t = QTransform().rotate(45)
+            plus = QPainterPath()
+            plus.addRect(QRectF(-w, -h * 1.2, 2 * w, 2.4 * h))
+            plus.addRect(QRectF(-h * 1.2, -w, 2.4 * h, 2 * w))
+            plus.setFillRule(Qt.WindingFill)
+            path = t.map(plus.simplified())
+        else:
+            path.addEllipse(QPointF(0, 0), h, h)
+        return path
+
+    def _draw_marker(self, qp: QPainter, kind: str, at: QPointF, alpha: float = 1.0, size=None):
+        st = EVENT_STYLES[kind]
+        path = self._marker_path(st.marker, (size or st.size) * 1.35)
+        qp.save()
+        qp.translate(at)
+        qp.setPen(QPen(_qcolor(st.edge, alpha), 1.0))
+        qp.setBrush(QBrush(_qcolor(st.face, alpha)))
+        qp.drawPath(path)
+        qp.restore()
+
+    def _draw_events(self, qp: QPainter, alpha: float):
+        a = self.analysis
+        events = tuple(getattr(a, "events", ()) or ())
+        if not events:
+            return
+        for sep, rea in bubbles(events):
+            pen = QPen(_qcolor(BUBBLE_STYLE["color"], 0.85 * alpha), 6, Qt.SolidLine, Qt.RoundCap)
+            qp.setPen(pen)
+            qp.drawLine(QPointF(*self.view.to_screen(sep.x, sep.y)), QPointF(*self.view.to_screen(rea.x, rea.y)))
+        for e in events:
+            if e.kind in EVENT_STYLES:
+                self._draw_marker(qp, e.kind, QPointF(*self.view.to_screen(e.x, e.y)), alpha)
+
+    def _draw_corner_labels(self, qp: QPainter, alpha: float):
+        corners = getattr(self.analysis, "corners", ()) or ()
+        if not corners:
+            return
+        font = QFont(self.font())
+        font.setPointSizeF(max(font.pointSizeF() - 1, 7))
+        qp.setFont(font)
+        fm = QFontMetricsF(font)
+        placed = []
+        cx_all = np.mean([c.x for c in corners])
+        cy_all = np.mean([c.y for c in corners])
+        for c in corners:
+            text = corner_label(c)
+            sx, sy = self.view.to_screen(c.x, c.y)
+            cx, cy = self.view.to_screen(cx_all, cy_all)
+            d = np.array([sx - cx, sy - cy])
+            d = d / max(np.hypot(*d), 1e-9)
+            w, h = fm.horizontalAdvance(text) + 8, fm.height() + 4
+            x = sx + d[0] * 26 - (w if d[0] < 0 else 0)
+            y = sy + d[1] * 26 - (h if d[1] < 0 else 0)
+            rect = QRectF(x, y, w, h)
+            for _ in range(6):
+                if not any(rect.intersects(r) for r in placed):
+                    break
+                rect.translate(0, h + 2 if d[1] >= 0 else -(h + 2))
+            placed.append(rect)
+            sep = getattr(c.verdict, "separated", False)
+            colour = QColor(OKABE_ITO["vermillion"]) if sep else QColor(OKABE_ITO["bluish_green"])
+            if c.node == self.selected:
+                colour = QColor(OKABE_ITO["blue"])
+            qp.setPen(QPen(_qcolor("#606060", 0.6 * alpha), 0.8))
+            qp.drawLine(QPointF(sx, sy), rect.center())
+            qp.setPen(QPen(colour, 1.6 if c.node == self.selected else 1.0))
+            qp.setBrush(QColor(255, 255, 255, int(225 * alpha)))
+            qp.drawRoundedRect(rect, 3, 3)
+            qp.setPen(QColor(20, 20, 20, int(255 * alpha)))
+            qp.drawText(rect, Qt.AlignCenter, text)
+
+    def _draw_nodes(self, qp: QPainter):
+        prof = self.state.profile
+        for i, n in enumerate(prof.nodes):
+            sx, sy = self.view.to_screen(n.x, n.y)
+            sel = i == self.selected
+            qp.setPen(QPen(QColor(OKABE_ITO["blue"]) if sel else QColor(30, 30, 30), 1.4))
+            qp.setBrush(QColor(OKABE_ITO["sky_blue"]) if sel else QColor(255, 255, 255))
+            size = 11 if sel else 8
+            if n.smooth:
+                qp.drawEllipse(QPointF(sx, sy), size / 2, size / 2)
+            else:
+                qp.drawRect(QRectF(sx - size / 2, sy - size / 2, size, size))
+        if self.selected is not None and self.selected < len(prof) and not prof.nodes[self.selected].smooth:
+            try:
+                hx, hy = radius_handle_position(prof, self.selected, self.view)
+            except ProfileBenchError:
+                return
+            sx, sy = self.view.to_screen(*prof.xy[self.selected])
+            qp.setPen(QPen(QColor(OKABE_ITO["blue"]), 1, Qt.DotLine))
+            qp.drawLine(QPointF(sx, sy), QPointF(hx, hy))
+            qp.setPen(QPen(QColor(OKABE_ITO["blue"]), 1.4))
+            qp.setBrush(QColor(OKABE_ITO["yellow"]))
+            path = self._marker_path("D", 12)
+            qp.save()
+            qp.translate(hx, hy)
+            qp.drawPath(path)
+            qp.restore()
+            r = prof.nodes[self.selected].radius
+            qp.setPen(QColor(OKABE_ITO["blue"]))
+            qp.drawText(QPointF(hx + 9, hy - 6), f"r {r * 1000:.0f} mm")
+
+    def _draw_readouts(self, qp: QPainter, pts):
+        xmin, ymin = pts.min(axis=0)
+        xmax, ymax = pts.max(axis=0)
+        lines = [f"length {1000 * (xmax - xmin):.0f} mm",
+                 f"frontal height {1000 * (ymax - ymin):.0f} mm",
+                 f"ground clearance {1000 * ymin:.0f} mm"]
+        fm = QFontMetricsF(self.font())
+        w = max(fm.horizontalAdvance(t) for t in lines) + 12
+        h = fm.height() * len(lines) + 8
+        rect = QRectF(8, 8, w, h)
+        qp.setPen(QColor(180, 180, 180))
+        qp.setBrush(QColor(255, 255, 255, 220))
+        qp.drawRect(rect)
+        qp.setPen(QColor(20, 20, 20))
+        for k, t in enumerate(lines):
+            qp.drawText(QPointF(14, 8 + fm.ascent() + 4 + k * fm.height()), t)
+
+    def _draw_legend(self, qp: QPainter):
+        st = self._stations()
+        fm = QFontMetricsF(self.font())
+        rows = []
+        events = tuple(getattr(self.analysis, "events", ()) or ())
+        kinds = [k for k in EVENT_STYLES if any(e.kind == k for e in events)]
+        if bubbles(events):
+            kinds.append("bubble")
+        if getattr(getattr(self.analysis, "flow", None), "separated", None) is not None and np.any(
+                self.analysis.flow.separated):
+            kinds.append("separated")
+        if getattr(self.state, "baseline", None) is not None:
+            kinds += ["baseline", "difference"]
+        labels = {k: EVENT_STYLES[k].label for k in EVENT_STYLES}
+        labels.update(bubble="laminar bubble", separated="separated flow",
+                      baseline="baseline outline", difference="change from baseline")
+        rows = [(k, labels[k]) for k in kinds]
+        width = max([fm.horizontalAdvance(t) for _, t in rows] + [fm.horizontalAdvance("Cp  -2.0")]) + 44
+        bar_h = 120 if (st is not None and self.show_cp) else 0
+        height = len(rows) * (fm.height() + 3) + bar_h + 16
+        x0 = self.width() - width - 10
+        y0 = 10
+        qp.setPen(QColor(180, 180, 180))
+        qp.setBrush(QColor(255, 255, 255, 225))
+        qp.drawRect(QRectF(x0, y0, width, height))
+        y = y0 + 8
+        if bar_h:
+            cp = st[1]
+            norm = self._cp_norm(cp)
+            top, bottom = norm.vmin, 1.0
+            grad = QLinearGradient(0, y, 0, y + bar_h - 18)
+            for f in np.linspace(0, 1, 9):
+                r, g, b, _ = _CMAP(norm(top + (bottom - top) * f))
+                grad.setColorAt(f, QColor.fromRgbF(r, g, b))
+            bar = QRectF(x0 + 10, y + fm.height(), 14, bar_h - 18 - fm.height())
+            grad.setStart(0, bar.top())
+            grad.setFinalStop(0, bar.bottom())
+            qp.setPen(QColor(20, 20, 20))
+            qp.drawText(QPointF(x0 + 8, y + fm.ascent()), "Cp on the outline")
+            qp.setBrush(QBrush(grad))
+            qp.drawRect(bar)
+            for value in (top, 0.0, 1.0):
+                f = (value - top) / (bottom - top)
+                ty = bar.top() + f * bar.height()
+                qp.drawText(QPointF(bar.right() + 6, ty + fm.ascent() / 2 - 1), f"{value:+.1f}")
+            y += bar_h
+        for kind, text in rows:
+            cy = y + fm.height() / 2
+            if kind in EVENT_STYLES:
+                self._draw_marker(qp, kind, QPointF(x0 + 17, cy), size=7)
+            elif kind == "bubble":
+                qp.setPen(QPen(QColor(BUBBLE_STYLE["color"]), 5, Qt.SolidLine, Qt.RoundCap))
+                qp.drawLine(QPointF(x0 + 10, cy), QPointF(x0 + 24, cy))
+            elif kind == "separated":
+                qp.fillRect(QRectF(x0 + 10, cy - 5, 14, 10), _qcolor(SEPARATED_COLOUR, 0.45))
+            elif kind == "baseline":
+                qp.setPen(QPen(QColor(BASELINE_COLOUR), 1.6, Qt.DashLine))
+                qp.drawLine(QPointF(x0 + 8, cy), QPointF(x0 + 26, cy))
+            elif kind == "difference":
+                qp.fillRect(QRectF(x0 + 10, cy - 5, 14, 10),
+                            QBrush(_qcolor(OKABE_ITO["reddish_purple"], 0.8), Qt.FDiagPattern))
+            qp.setPen(QColor(20, 20, 20))
+            qp.drawText(QPointF(x0 + 34, y + fm.ascent()), text)
+            y += fm.height() + 3
+
+    def paintEvent(self, event):
+        qp = QPainter(self)
+        qp.setRenderHint(QPainter.Antialiasing, True)
+        qp.fillRect(self.rect(), QColor(250, 250, 252))
+        if self.state is None:
+            qp.end()
+            return
+        self._draw_grid(qp)
+        self._draw_underlay(qp)
+        self._draw_ground(qp)
+        pts, ok, message = self.current_outline()
+        self.outline_message = message
+        self._draw_baseline(qp, pts)
+        alpha = 0.35 if self.stale else 1.0
+        if self.analysis is not None:
+            self._draw_separated(qp, alpha)
+            self._draw_cp(qp, alpha)
+        pen = QPen(QColor(15, 15, 15) if ok else QColor(OKABE_ITO["vermillion"]), 1.6,
+                   Qt.SolidLine if ok else Qt.DashLine)
+        qp.setPen(pen)
+        qp.setBrush(Qt.NoBrush)
+        qp.drawPolyline(self._poly(pts))
+        if self.analysis is not None:
+            self._draw_events(qp, alpha)
+            self._draw_corner_labels(qp, alpha)
+        self._draw_nodes(qp)
+        self._draw_readouts(qp, pts)
+        if self.analysis is not None or getattr(self.state, "baseline", None) is not None:
+            self._draw_legend(qp)
+        if self.stale and self.analysis is not None:
+            qp.setPen(QColor(OKABE_ITO["vermillion"]))
+            qp.drawText(QPointF(12, self.height() - 12),
+                        "results shown are for an earlier outline (stale)")
+        qp.end()
+        self.last_paint_profile = self.state.profile
+        self.last_paint_time = time.perf_counter()
+        self.painted.emit(self.last_paint_time)

@@ -1,0 +1,698 @@
+"""The main window: canvas in the middle, panels docked round it, menus, undo stack, workers.
+
+The window holds an :class:`profilebench.editor.Document` and a QUndoStack of
+:class:`~profilebench.gui.undo.EditCommand`; every user action becomes an editor edit. Analyses
+run on a :class:`~profilebench.gui.worker.AnalysisRunner`; the newest result is shown, a failed
+one is reported in the banner while the last good result stays on screen marked stale.
+"""
+
+from __future__ import annotations
+
+import logging
+from pathlib import Path
+
+from PySide6.QtCore import QSettings, Qt, QTimer
+from PySide6.QtGui import QAction, QImageReader, QKeySequence, QUndoStack
+from PySide6.QtWidgets import (QDockWidget, QFileDialog, QInputDialog, QLabel, QMainWindow,
+                               QMessageBox, QVBoxLayout, QWidget)
+
+from profilebench.editor import commands
+from profilebench.editor.document import CAUTION, Document
+from profilebench.editor.fields import parse_number
+from profilebench.editor.underlay import Underlay
+from profilebench.errors import InputError, ProfileBenchError
+from profilebench.gui.canvas import ProfileCanvas
+from profilebench.gui.conditions_panel import ConditionsPanel
+from profilebench.gui.node_panel import NodePanel
+from profilebench.gui.results_panels import CornerTable, PlotPanel, SummaryPanel
+from profilebench.gui.undo import EditCommand
+from profilebench.gui.worker import AnalysisRunner, TaskRunner
+
+__all__ = ["MainWindow"]
+
+log = logging.getLogger("profilebench.gui")
+
+MAX_RECENT = 8
+PLOT_INTERVAL_MS = 250      # plots redraw at most this often (the canvas redraws at once)
+BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px solid #e0a080;"
+BANNER_INFO = "background: #fff6d5; color: #5a4500; padding: 4px; border: 1px solid #e0d090;"
+
+
+def _search(profile, conditions, node):
+    from profilebench.assess.corners import smallest_attached_radius
+
+    return smallest_attached_radius(profile, conditions, node)
+
+
+class MainWindow(QMainWindow):
+    """The profile editor's window.
+
+    Parameters
+    ----------
+    path : str or Path, optional
+        Project file to open; default the bundled default sample.
+    settings : QSettings, optional
+        Where recent files are kept (tests pass a temporary INI file).
+    analyze_fn : callable, optional
+        ``analyze(profile, conditions) -> Analysis``; default the package's pipeline.
+    """
+
+    def __init__(self, path=None, settings: QSettings | None = None, analyze_fn=None):
+        super().__init__()
+        self.settings = settings if settings is not None else QSettings()
+        self.undo_stack = QUndoStack(self)
+        self.runner = AnalysisRunner(self, analyze_fn)
+        self.baseline_runner = AnalysisRunner(self, analyze_fn)
+        self.search_runner = TaskRunner(_search, self)
+        self.document = None
+        self.analysis = None               # last good analysis (may be stale)
+        self.analysis_state = None         # the document state it was computed for
+        self.last_message = ""
+        self.last_seconds = None
+        self.baseline_analysis = None
+        self.searches: dict = {}
+        self._search_node = None
+        self.results_received = 0
+
+        self.canvas = ProfileCanvas()
+        self.banner = QLabel("")
+        self.banner.setWordWrap(True)
+        self.banner.hide()
+        self.caution = QLabel(CAUTION)
+        self.caution.setWordWrap(True)
+        self.caution.setStyleSheet("color: #5a4500; background: #fff9e6; padding: 3px;")
+        central = QWidget()
+        lay = QVBoxLayout(central)
+        lay.setContentsMargins(0, 0, 0, 0)
+        lay.setSpacing(0)
+        lay.addWidget(self.banner)
+        lay.addWidget(self.canvas, 1)
+        lay.addWidget(self.caution)
+        self.setCentralWidget(central)
+
+        self.conditions_panel = ConditionsPanel()
+        self.node_panel = NodePanel()
+        self.corner_table = CornerTable()
+        self.summary = SummaryPanel()
+        self.plots = PlotPanel()
+        self._docks = {}
+        self._dock("Flow conditions", self.conditions_panel, Qt.LeftDockWidgetArea)
+        self._dock("Selected node", self.node_panel, Qt.LeftDockWidgetArea)
+        self._dock("Drag summary", self.summary, Qt.RightDockWidgetArea)
+        self._dock("Corners", self.corner_table, Qt.BottomDockWidgetArea)
+        self._dock("Plots", self.plots, Qt.BottomDockWidgetArea)
+        self.resizeDocks([self._docks["Flow conditions"]], [300], Qt.Horizontal)
+        self.resizeDocks([self._docks["Drag summary"]], [330], Qt.Horizontal)
+        self.resizeDocks([self._docks["Corners"]], [250], Qt.Vertical)
+
+        self._plot_timer = QTimer(self)
+        self._plot_timer.setSingleShot(True)
+        self._plot_timer.timeout.connect(self._redraw_plots)
+
+        self._connect()
+        self._build_menus()
+        self.statusBar().showMessage("ready")
+        self.resize(1500, 950)
+        self.open_file(path) if path is not None else self.new_document()
+
+    # ------------------------------------------------------------------ construction
+    def _dock(self, title, widget, area):
+        dock = QDockWidget(title, self)
+        dock.setObjectName(title)
+        dock.setWidget(widget)
+        dock.setFeatures(QDockWidget.DockWidgetMovable | QDockWidget.DockWidgetFloatable)
+        self.addDockWidget(area, dock)
+        self._docks[title] = dock
+
+    def _connect(self):
+        c = self.canvas
+        c.preview.connect(self.preview_profile)
+        c.edit_finished.connect(self.push)
+        c.node_selected.connect(self.select_node)
+        c.insert_requested.connect(self.insert_node)
+        c.picked.connect(self._underlay_pick)
+        self.corner_table.node_selected.connect(self.select_node)
+        self.corner_table.search_requested.connect(self.find_smallest_radius)
+        self.corner_table.apply_requested.connect(self.apply_smallest_radius)
+        self.node_panel.radius_entered.connect(self.set_radius)
+        self.node_panel.position_entered.connect(
+            lambda i, x, y: self._try(lambda: commands.move_node(self.document.state, i, x, y)))
+        self.node_panel.smooth_toggled.connect(
+            lambda i, on: self._try(lambda: commands.set_smooth(self.document.state, i, on)))
+        self.conditions_panel.changed.connect(
+            lambda cond, text: self._try(lambda: commands.set_conditions(self.document.state, cond, text)))
+        self.runner.finished.connect(self._analysis_finished)
+        self.runner.failed.connect(self._analysis_failed)
+        self.baseline_runner.finished.connect(self._baseline_finished)
+        self.baseline_runner.failed.connect(lambda g, m: self._show_banner(f"baseline analysis failed: {m}", True))
+        self.search_runner.finished.connect(self._search_finished)
+        self.search_runner.failed.connect(self._search_failed)
+        self.undo_stack.cleanChanged.connect(lambda _: self._update_title())
+
+    def _action(self, menu, text, slot, shortcut=None, checkable=False):
+        act = QAction(text, self)
+        if shortcut is not None:
+            act.setShortcut(QKeySequence(shortcut))
+        act.setCheckable(checkable)
+        act.triggered.connect(slot)
+        menu.addAction(act)
+        return act
+
+    def _build_menus(self):
+        bar = self.menuBar()
+        m = bar.addMenu("&File")
+        self._action(m, "&New", self.new_document, QKeySequence.New)
+        self._action(m, "&Open…", self._ask_open, QKeySequence.Open)
+        self.recent_menu = m.addMenu("Open &recent")
+        self._action(m, "&Save", self.save, QKeySequence.Save)
+        self._action(m, "Save &as…", self._ask_save_as, QKeySequence.SaveAs)
+        m.addSeparator()
+        self._action(m, "Import point outline (CSV)…", self._ask_import_csv)
+        self._action(m, "Export annotated view (PNG/SVG/PDF)…", self._ask_export_image)
+        self._action(m, "Export surface data (CSV)…", self._ask_export_csv)
+        m.addSeparator()
+        self._action(m, "&Quit", self.close, QKeySequence.Quit)
+        e = bar.addMenu("&Edit")
+        undo = self.undo_stack.createUndoAction(self, "&Undo")
+        undo.setShortcut(QKeySequence.Undo)
+        redo = self.undo_stack.createRedoAction(self, "&Redo")
+        redo.setShortcut(QKeySequence.Redo)
+        e.addAction(undo)
+        e.addAction(redo)
+        e.addSeparator()
+        self._action(e, "&Delete node", self.delete_selected, QKeySequence.Delete)
+        self._action(e, "Toggle smooth / corner", self.toggle_smooth, "S")
+        e.addSeparator()
+        self._action(e, "&Pin as baseline", self.pin_baseline, "Ctrl+B")
+        self._action(e, "Clear baseline", self.clear_baseline)
+        v = bar.addMenu("&View")
+        self._action(v, "&Fit to window", self.canvas.fit, "Ctrl+0")
+        self._action(v, "Zoom &in", lambda: self.canvas.zoom(1.25), QKeySequence.ZoomIn)
+        self._action(v, "Zoom &out", lambda: self.canvas.zoom(0.8), QKeySequence.ZoomOut)
+        self.grid_action = self._action(v, "Snap to grid", self._toggle_grid, "Ctrl+G", checkable=True)
+        self._action(v, "Grid spacing…", self._ask_grid)
+        self.cp_action = self._action(v, "Cp colour band", self._toggle_cp, checkable=True)
+        self.cp_action.setChecked(True)
+        self.offset_action = self._action(v, "Cp offset curve", self._toggle_offset, checkable=True)
+        u = bar.addMenu("&Underlay")
+        self._action(u, "Load image…", self._ask_underlay)
+        self._action(u, "Place by two reference points…", self.start_underlay_picking)
+        self._action(u, "Opacity…", self._ask_underlay_opacity)
+        self._action(u, "Remove", lambda: self._try(lambda: commands.set_underlay(self.document.state, None, "Remove underlay")))
+        self.grid_spacing = 0.01
+        self._refresh_recent()
+
+    # ------------------------------------------------------------------ document
+    def _install(self, document):
+        if self.document is not None:
+            self.document.unsubscribe(self._state_changed)
+        self.document = document
+        document.subscribe(self._state_changed)
+        self.undo_stack.clear()
+        self.analysis = None
+        self.analysis_state = None
+        self.baseline_analysis = None
+        self.searches = {}
+        self.canvas._fitted = False
+        self.canvas.set_analysis(None, False)
+        self.conditions_panel.set_conditions(document.conditions)
+        self._state_changed(document.state, force=True)
+        self.canvas.fit()
+
+    def new_document(self):
+        """A new, untitled document from the default sample profile."""
+        if not self.confirm_discard():
+            return False
+        from profilebench.io import default_sample_path, load_project
+
+        project = load_project(default_sample_path())
+        self._install(Document(project.profile, project.conditions))
+        return True
+
+    def open_file(self, path) -> bool:
+        """Open a project file; a bad file shows its message and changes nothing."""
+        from profilebench.io import load_project, resolve_underlay
+
+        try:
+            project = load_project(path)
+            underlay = None
+            if project.underlay is not None:
+                image = resolve_underlay(project, path)
+                underlay = self._underlay_from_image(image)
+                u = project.underlay
+                underlay = underlay.placed(u.points_px, u.points_m).with_opacity(u.opacity)
+        except ProfileBenchError as exc:
+            self._show_banner(f"cannot open {path}: {exc}", True)
+            return False
+        self._install(Document(project.profile, project.conditions, path=path,
+                               baseline=project.baseline, underlay=underlay))
+        self._add_recent(path)
+        return True
+
+    def save_to(self, path) -> bool:
+        """Save the project to ``path`` (atomic); the message of a failure is shown."""
+        from profilebench.io import Project, save_project
+        from profilebench.io import Underlay as FileUnderlay
+        from profilebench.io import underlay_relative_path
+
+        doc = self.document
+        try:
+            file_underlay = None
+            if doc.underlay is not None:
+                u = doc.underlay
+                file_underlay = FileUnderlay(underlay_relative_path(u.path, path), u.points_px,
+                                             u.points_m, u.opacity)
+            project = Project(doc.profile, doc.conditions, baseline=doc.baseline, underlay=file_underlay)
+            save_project(project, path)
+        except ProfileBenchError as exc:
+            self._show_banner(f"not saved: {exc}", True)
+            return False
+        doc.mark_saved(path)
+        self.undo_stack.setClean()
+        self._add_recent(path)
+        self._update_title()
+        self.statusBar().showMessage(f"saved {path}", 5000)
+        return True
+
+    def save(self) -> bool:
+        if self.document.path is None:
+            return self._ask_save_as()
+        return self.save_to(self.document.path)
+
+    def import_points(self, path, simplify_mm: float = 5.0) -> bool:
+        """Replace the profile by a CSV point outline (an undoable edit)."""
+        from profilebench.io import import_points_csv, profile_from_points
+
+        try:
+            pts = import_points_csv(path)
+            prof = profile_from_points(pts.points, name=Path(path).stem,
+                                       simplify_tolerance=simplify_mm / 1000.0)
+        except ProfileBenchError as exc:
+            self._show_banner(f"cannot import {path}: {exc}", True)
+            return False
+        self.push(commands.replace_profile(self.document.state, prof, f"Import {Path(path).name}"))
+        self.canvas.fit()
+        self.statusBar().showMessage(f"imported {len(prof)} nodes ({pts.units}, {pts.units_reason})", 8000)
+        return True
+
+    def export_image(self, path) -> bool:
+        """Write the annotated view (review page) as PNG, SVG or PDF via profilebench.plotting."""
+        from profilebench.plotting import review_figure, save_figure
+
+        if self.analysis is None:
+            self._show_banner("nothing to export yet: no successful analysis", True)
+            return False
+        try:
+            baseline = self.baseline_analysis or self.document.baseline
+            fig = review_figure(self.analysis, baseline=baseline)
+            save_figure(fig, path)
+        except ProfileBenchError as exc:
+            self._show_banner(f"export failed: {exc}", True)
+            return False
+        self.statusBar().showMessage(f"exported {path}", 5000)
+        return True
+
+    def export_surface_csv(self, path) -> bool:
+        from profilebench.io.export import write_surface_csv
+
+        if self.analysis is None:
+            self._show_banner("nothing to export yet: no successful analysis", True)
+            return False
+        try:
+            write_surface_csv(self.analysis, path)
+        except ProfileBenchError as exc:
+            self._show_banner(f"export failed: {exc}", True)
+            return False
+        self.statusBar().showMessage(f"exported {path}", 5000)
+        return True
+
+    # ------------------------------------------------------------------ edits
+    def push(self, edit) -> bool:
+        """Apply an editor edit as one undo step."""
+        if not edit.changes_anything:
+            # a drag that ended where it started: make sure the document shows the start
+            self.document.set_state(edit.after)
+            return False
+        self.undo_stack.push(EditCommand(self.document, edit))
+        return True
+
+    def _try(self, make_edit) -> bool:
+        """Build an edit and push it; a refused edit shows its reason in the banner."""
+        try:
+            edit = make_edit()
+        except ProfileBenchError as exc:
+            self._show_banner(str(exc), True)
+            self.statusBar().showMessage(str(exc), 8000)
+            return False
+        return self.push(edit)
+
+    def preview_profile(self, profile):
+        self.document.preview_profile(profile)
+
+    def select_node(self, node):
+        self.document.selection = self.document.selection.__class__(node)
+        self.canvas.selected = node
+        self.canvas.update()
+        self.corner_table.select_node(node)
+        self.node_panel.set_node(self.document.profile, node)
+
+    def insert_node(self, before, x, y):
+        if self._try(lambda: commands.insert_node(self.document.state, before, x, y)):
+            self.select_node(before)
+
+    def delete_selected(self):
+        node = self.document.selection.node
+        if node is None:
+            self.statusBar().showMessage("select a node to delete", 5000)
+            return
+        if self._try(lambda: commands.delete_node(self.document.state, node)):
+            self.select_node(None)
+
+    def toggle_smooth(self):
+        node = self.document.selection.node
+        if node is None:
+            return
+        on = not self.document.profile.nodes[node].smooth
+        self._try(lambda: commands.set_smooth(self.document.state, node, on))
+
+    def set_radius(self, node, radius):
+        self._try(lambda: commands.set_radius(self.document.state, node, radius))
+
+    def pin_baseline(self):
+        self._try(lambda: commands.pin_baseline(self.document.state))
+
+    def clear_baseline(self):
+        self._try(lambda: commands.clear_baseline(self.document.state))
+
+    # ------------------------------------------------------------------ state -> views
+    def _state_changed(self, state, force=False):
+        prev = getattr(self, "_shown_state", None)
+        self._shown_state = state
+        sel = self.document.selection.node
+        self.canvas.set_state(state, sel)
+        self.canvas.set_stale(self.analysis_state is not None and self.analysis_state != state)
+        if prev is None or prev.conditions != state.conditions or force:
+            self.conditions_panel.set_conditions(state.conditions)
+        if not self.canvas.dragging:
+            self.node_panel.set_node(state.profile, sel)
+        if force or prev is None or prev.profile != state.profile or prev.conditions != state.conditions:
+            self.searches = {}
+            self.runner.request(state.profile, state.conditions)
+            self.statusBar().showMessage("analysing…")
+        if state.baseline is None:
+            self.baseline_analysis = None
+        elif force or prev is None or prev.baseline != state.baseline or prev.conditions != state.conditions:
+            self.baseline_analysis = None
+            self.baseline_runner.request(state.baseline, state.conditions)
+        self._update_title()
+
+    def _update_title(self):
+        if self.document is not None:
+            self.setWindowTitle(f"{self.document.title} — profilebench")
+
+    def _show_banner(self, text, error: bool):
+        self.last_message = text
+        self.banner.setStyleSheet(BANNER_ERROR if error else BANNER_INFO)
+        self.banner.setText(text)
+        self.banner.show()
+
+    def _analysis_finished(self, generation, analysis, seconds):
+        self.results_received += 1
+        state = self._shown_state
+        if analysis is None or not getattr(analysis, "success", False):
+            msg = getattr(analysis, "message", "no result")
+            status = getattr(getattr(analysis, "status", None), "value", "failed")
+            self._show_banner(f"Analysis not updated ({status}): {msg}", True)
+            self.statusBar().showMessage(f"{status}: {msg}")
+            self.canvas.set_stale(self.analysis is not None)
+            self.summary.set_analysis(self.analysis, self._comparison(), self.last_seconds, stale=True)
+            return
+        self.banner.hide()
+        self.last_message = ""
+        self.analysis = analysis
+        self.analysis_state = state
+        self.last_seconds = seconds
+        self.canvas.set_analysis(analysis, stale=False)
+        self.corner_table.set_rows(analysis, self.searches, self.document.selection.node)
+        self.summary.set_analysis(analysis, self._comparison(), seconds)
+        if self.canvas.dragging:
+            if not self._plot_timer.isActive():
+                self._plot_timer.start(PLOT_INTERVAL_MS)
+        else:
+            self._redraw_plots()
+        d = analysis.drag
+        self.statusBar().showMessage(f"Cd {d.cd:.4f}   solve {seconds * 1000:.0f} ms")
+
+    def _redraw_plots(self):
+        if self.analysis is not None:
+            try:
+                self.plots.set_analysis(self.analysis)
+            except ProfileBenchError as exc:
+                self.plots.clear(str(exc))
+
+    def _analysis_failed(self, generation, message):
+        self.results_received += 1
+        self._show_banner(f"Analysis error (logged; last good result kept, marked stale): {message}", True)
+        self.canvas.set_stale(self.analysis is not None)
+        self.statusBar().showMessage("analysis error: " + message)
+
+    def _baseline_finished(self, generation, analysis, seconds):
+        self.baseline_analysis = analysis if getattr(analysis, "success", False) else None
+        if self.analysis is not None:
+            self.summary.set_analysis(self.analysis, self._comparison(), self.last_seconds,
+                                      stale=self.canvas.stale)
+
+    def _comparison(self):
+        if self.analysis is None or self.baseline_analysis is None:
+            return None
+        from profilebench.assess.compare import compare
+
+        try:
+            return compare(self.baseline_analysis, self.analysis)
+        except ProfileBenchError:
+            return None
+
+    @property
+    def results_current(self) -> bool:
+        """True when the shown analysis is for the document's current state."""
+        return (not self.runner.busy and self.analysis is not None
+                and self.analysis_state == self.document.state)
+
+    # ------------------------------------------------------------------ corner radius search
+    def find_smallest_radius(self, node):
+        if self.document.profile.nodes[node].smooth:
+            self.corner_table.message.setText(f"node {node} is smooth; make it a corner first")
+            return
+        self.searches[node] = "running"
+        self._search_node = node
+        self._search_state = self.document.state
+        self.search_runner.request(self.document.profile, self.document.conditions, node)
+        self.corner_table.message.setText(f"searching the smallest attached radius at node {node}…")
+        if self.analysis is not None:
+            self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+
+    def _search_finished(self, generation, result, seconds):
+        if self._search_state != self.document.state:
+            self.corner_table.message.setText("the profile changed during the search; search again")
+            self.searches.pop(self._search_node, None)
+        else:
+            self.searches[self._search_node] = result
+            self.corner_table.message.setText(f"{result.message} ({result.solves} solves, {seconds:.1f} s)")
+        if self.analysis is not None:
+            self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+
+    def _search_failed(self, generation, message):
+        self.searches.pop(self._search_node, None)
+        self.corner_table.message.setText(f"search failed (logged): {message}")
+
+    def apply_smallest_radius(self, node, margin_text):
+        search = self.searches.get(node)
+        if search is None or search == "running" or getattr(search, "radius", None) is None:
+            self.corner_table.message.setText("find the smallest attached radius of this corner first")
+            return
+        try:
+            margin = parse_number(margin_text, "margin", "%", 0.0)
+            r = search.radius * (1.0 + margin / 100.0)
+            if r > search.largest_fitting:
+                raise InputError(
+                    f"{search.radius * 1000:.0f} mm + {margin:g}% = {r * 1000:.0f} mm does not fit; "
+                    f"the largest radius that fits is {search.largest_fitting * 1000:.0f} mm: "
+                    "choose a smaller margin")
+        except ProfileBenchError as exc:
+            self.corner_table.message.setText(str(exc))
+            return
+        self.set_radius(node, r)
+
+    # ------------------------------------------------------------------ underlay
+    def _underlay_from_image(self, path) -> Underlay:
+        reader = QImageReader(str(path))
+        size = reader.size()
+        if not size.isValid() or size.width() <= 0:
+            raise InputError(f"cannot read the image {path} ({reader.errorString()}); give a PNG or JPEG")
+        length = 4.5
+        if self.document is not None:
+            xs = [x for x, _ in self.document.profile.xy]
+            length = max(xs) - min(xs)
+        return Underlay.initial(Path(path).resolve(), size.width(), size.height(), length=length)
+
+    def load_underlay(self, path) -> bool:
+        try:
+            u = self._underlay_from_image(path)
+        except ProfileBenchError as exc:
+            self._show_banner(str(exc), True)
+            return False
+        return self._try(lambda: commands.set_underlay(self.document.state, u, "Load underlay"))
+
+    def place_underlay(self, points_px, points_m) -> bool:
+        u = self.document.underlay
+        if u is None:
+            self._show_banner("load an underlay image first", True)
+            return False
+        return self._try(lambda: commands.set_underlay(self.document.state, u.placed(points_px, points_m),
+                                                       "Place underlay"))
+
+    def start_underlay_picking(self):
+        if self.document.underlay is None:
+            self._show_banner("load an underlay image first (Underlay > Load image)", True)
+            return
+        self._picks = []
+        self.canvas.picking = True
+        self._show_banner("Click the first reference point on the image (e.g. the front wheel centre).", False)
+
+    def _underlay_pick(self, x, y):
+        u = self.document.underlay
+        self._picks.append(u.to_image(x, y))
+        if len(self._picks) < 2:
+            self._show_banner("Click the second reference point on the image (e.g. the rear wheel centre).", False)
+            return
+        self.canvas.picking = False
+        self.banner.hide()
+        points_m = []
+        for k in range(2):
+            text, ok = QInputDialog.getText(self, "Underlay reference point",
+                                            f"Profile position of point {k + 1}: x, y in mm")
+            if not ok:
+                return
+            try:
+                parts = text.replace(";", ",").split(",")
+                if len(parts) != 2:
+                    raise InputError(f"{text!r}: type two numbers 'x, y' in mm")
+                points_m.append(tuple(parse_number(p, "coordinate", "mm") / 1000.0 for p in parts))
+            except ProfileBenchError as exc:
+                self._show_banner(str(exc), True)
+                return
+        self.place_underlay(self._picks, points_m)
+
+    def _ask_underlay(self):
+        path, _ = QFileDialog.getOpenFileName(self, "Underlay image", "", "Images (*.png *.jpg *.jpeg *.bmp)")
+        if path:
+            self.load_underlay(path)
+
+    def _ask_underlay_opacity(self):
+        u = self.document.underlay
+        if u is None:
+            return
+        value, ok = QInputDialog.getText(self, "Underlay opacity", "Opacity, 0 (hidden) to 1:", text=f"{u.opacity:g}")
+        if ok:
+            try:
+                op = parse_number(value, "opacity", "", 0.0, 1.0)
+            except ProfileBenchError as exc:
+                self._show_banner(str(exc), True)
+                return
+            self._try(lambda: commands.set_underlay(self.document.state, u.with_opacity(op), "Dim underlay"))
+
+    # ------------------------------------------------------------------ view options
+    def _toggle_grid(self, on):
+        self.canvas.grid = self.grid_spacing if on else None
+        self.canvas.update()
+
+    def _ask_grid(self):
+        text, ok = QInputDialog.getText(self, "Grid spacing", "Grid spacing (mm):", text=f"{self.grid_spacing * 1000:g}")
+        if not ok:
+            return
+        try:
+            self.grid_spacing = parse_number(text, "grid spacing", "mm", 0.0, exclusive_minimum=True) / 1000.0
+        except ProfileBenchError as exc:
+            self._show_banner(str(exc), True)
+            return
+        if self.grid_action.isChecked():
+            self._toggle_grid(True)
+
+    def _toggle_cp(self, on):
+        self.canvas.show_cp = bool(on)
+        self.canvas.update()
+
+    def _toggle_offset(self, on):
+        self.canvas.cp_offset_curve = bool(on)
+        self.canvas.update()
+
+    # ------------------------------------------------------------------ files: dialogs and recent
+    def _dialog_folder(self):
+        return str(self.document.path.parent) if self.document and self.document.path else ""
+
+    def _ask_open(self):
+        if not self.confirm_discard():
+            return
+        path, _ = QFileDialog.getOpenFileName(self, "Open project", self._dialog_folder(), "Projects (*.json)")
+        if path:
+            self.open_file(path)
+
+    def _ask_save_as(self) -> bool:
+        path, _ = QFileDialog.getSaveFileName(self, "Save project", self._dialog_folder(), "Projects (*.json)")
+        return self.save_to(path) if path else False
+
+    def _ask_import_csv(self):
+        path, _ = QFileDialog.getOpenFileName(self, "Import point outline", "", "Point files (*.csv *.txt)")
+        if path:
+            self.import_points(path)
+
+    def _ask_export_image(self):
+        path, _ = QFileDialog.getSaveFileName(self, "Export annotated view", "", "Images (*.png *.svg *.pdf)")
+        if path:
+            self.export_image(path)
+
+    def _ask_export_csv(self):
+        path, _ = QFileDialog.getSaveFileName(self, "Export surface data", "", "CSV (*.csv)")
+        if path:
+            self.export_surface_csv(path)
+
+    def recent_files(self) -> list[str]:
+        value = self.settings.value("recent_files", [])
+        if isinstance(value, str):
+            value = [value]
+        return [str(v) for v in (value or [])]
+
+    def _add_recent(self, path):
+        path = str(Path(path).resolve())
+        files = [p for p in self.recent_files() if p != path]
+        files.insert(0, path)
+        self.settings.setValue("recent_files", files[:MAX_RECENT])
+        self.settings.sync()
+        self._refresh_recent()
+
+    def _refresh_recent(self):
+        self.recent_menu.clear()
+        for p in self.recent_files():
+            act = self.recent_menu.addAction(p)
+            act.triggered.connect(lambda _=False, path=p: self.confirm_discard() and self.open_file(path))
+        self.recent_menu.setEnabled(bool(self.recent_files()))
+
+    # ------------------------------------------------------------------ closing
+    def confirm_discard(self) -> bool:
+        """True when there are no unsaved changes or the user saves or discards them."""
+        if self.document is None or not self.document.dirty:
+            return True
+        answer = QMessageBox.question(
+            self, "Unsaved changes", f"Save the changes to {self.document.title.rstrip(' *')}?",
+            QMessageBox.Save | QMessageBox.Discard | QMessageBox.Cancel, QMessageBox.Save)
+        if answer == QMessageBox.Save:
+            return self.save()
+        return answer == QMessageBox.Discard
+
+    def closeEvent(self, event):
+        if not self.confirm_discard():
+            event.ignore()
+            return
+        for r in (self.runner, self.baseline_runner, self.search_runner):
+            r.wait(10000)
+        event.accept()

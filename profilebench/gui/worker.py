@@ -1,0 +1,128 @@
+"""Background analysis: the solver runs on a worker thread, the newest request wins.
+
+:class:`AnalysisRunner` keeps at most one solve running. A request made while one runs replaces
+any request still waiting, so a drag of many mouse moves causes at most two solves in flight
+(the running one and the newest). Each request has a generation number; a result whose
+generation is older than the newest request is stale and is dropped, never shown over a newer
+edit. An exception in the worker is logged and reported as a failure; the window goes on.
+"""
+
+from __future__ import annotations
+
+import logging
+import time
+import traceback
+
+from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
+
+__all__ = ["AnalysisRunner", "TaskRunner"]
+
+log = logging.getLogger("profilebench.gui")
+
+
+class _Relay(QObject):
+    done = Signal(int, object, str, float)   # generation, result, error text, seconds
+
+
+class _Job(QRunnable):
+    def __init__(self, relay: _Relay, generation: int, fn, args):
+        super().__init__()
+        self.setAutoDelete(True)
+        self.relay, self.generation, self.fn, self.args = relay, generation, fn, args
+
+    def run(self):
+        t0 = time.perf_counter()
+        try:
+            result, error = self.fn(*self.args), ""
+        except Exception as exc:  # shown in the window and logged; the app goes on
+            result = None
+            error = f"{type(exc).__name__}: {exc}"
+            log.error("analysis worker failed:\n%s", traceback.format_exc())
+        self.relay.done.emit(self.generation, result, error, time.perf_counter() - t0)
+
+
+class TaskRunner(QObject):
+    """Runs ``fn(*args)`` on a private thread pool, one at a time, newest request wins.
+
+    Signals
+    -------
+    finished(generation, result, seconds)
+        The result of the newest request.
+    failed(generation, message)
+        The newest request raised; ``message`` names the exception.
+    """
+
+    finished = Signal(int, object, float)
+    failed = Signal(int, str)
+
+    def __init__(self, fn, parent=None):
+        super().__init__(parent)
+        self._fn = fn
+        self._pool = QThreadPool(self)
+        self._pool.setMaxThreadCount(1)
+        self._relay = _Relay(self)
+        self._relay.done.connect(self._on_done)
+        self._generation = 0
+        self._pending = None
+        self._running = False
+        self.dropped = 0     # stale results dropped (for tests and the benchmark)
+        self.started = 0
+
+    @property
+    def generation(self) -> int:
+        """Generation of the newest request."""
+        return self._generation
+
+    @property
+    def busy(self) -> bool:
+        return self._running or self._pending is not None
+
+    def request(self, *args) -> int:
+        """Ask for ``fn(*args)``; returns the request's generation."""
+        self._generation += 1
+        self._pending = (self._generation, args)
+        if not self._running:
+            self._start_pending()
+        return self._generation
+
+    def cancel_pending(self) -> None:
+        """Forget the waiting request and treat any running one as stale."""
+        self._pending = None
+        self._generation += 1
+
+    def _start_pending(self):
+        generation, args = self._pending
+        self._pending = None
+        self._running = True
+        self.started += 1
+        self._pool.start(_Job(self._relay, generation, self._fn, args))
+
+    def _on_done(self, generation, result, error, seconds):
+        self._running = False
+        if self._pending is not None:
+            self._start_pending()
+        if generation != self._generation:
+            self.dropped += 1
+            return
+        if error:
+            self.failed.emit(generation, error)
+        else:
+            self.finished.emit(generation, result, seconds)
+
+    def wait(self, msecs: int = 30000) -> bool:
+        """Wait for the running job (on closing the window)."""
+        self._pending = None
+        return self._pool.waitForDone(msecs)
+
+
+def _analyze(profile, conditions):
+    from profilebench.assess.analysis import analyze
+
+    return analyze(profile, conditions)
+
+
+class AnalysisRunner(TaskRunner):
+    """A :class:`TaskRunner` over :func:`profilebench.assess.analysis.analyze`."""
+
+    def __init__(self, parent=None, analyze_fn=None):
+        super().__init__(analyze_fn or _analyze, parent)
