@@ -16,7 +16,8 @@ meet at H ~ 1.6 with a jump of 0.004 in H, inherent in the published constants.
 Integration scheme: classical fourth-order Runge-Kutta in s on (theta, theta H1), with Ue and
 dUe/ds from a cubic Hermite interpolant of smoothed station values and slopes (so the march
 sees a continuous edge speed). Sub-steps are sized from the first stage so that theta changes
-by at most 10% and H by at most 0.02 per sub-step (and no sub-step exceeds 200 theta). The march stops at the first of: H reaching an upper limit, H falling to a lower
+by at most 10% and H by at most 0.02 per sub-step (and no sub-step exceeds 200 theta).
+The march stops at the first of: H reaching an upper limit, H falling to a lower
 limit (used for bubble reattachment), a given arc length, or the end of the surface.
 """
 

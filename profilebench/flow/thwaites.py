@@ -10,7 +10,8 @@ Shape factor H(lambda) and shear parameter l(lambda) = tau_w theta / (mu Ue) com
 Bradshaw's fits of Thwaites' table (Cebeci & Bradshaw, Momentum Transfer in Boundary Layers,
 1977):
 
-    0 <= lambda:      l = 0.22 + 1.57 lambda - 1.8 lambda^2,   H = 2.61 - 3.75 lambda + 5.24 lambda^2
+    lambda >= 0:      l = 0.22 + 1.57 lambda - 1.8 lambda^2,
+                      H = 2.61 - 3.75 lambda + 5.24 lambda^2
     lambda < 0:       l = 0.22 + 1.402 lambda + 0.018 lambda / (lambda + 0.107),
                       H = 2.088 + 0.0731 / (lambda + 0.14)
 
@@ -67,7 +68,8 @@ def thwaites_shear(lam):
 def _integral_ue5(s, ue):
     """Cumulative integral of ue^5 ds (from s = 0) for a piecewise-linear ue through the stations.
 
-    Exact for piecewise-linear ue: over [a, b], integral of ue^5 = (b - a) * sum_k ua^k ub^(5-k) / 6.
+    Exact for piecewise-linear ue: over [a, b] the integral of ue^5 is
+    (b - a) * sum_k ua^k ub^(5-k) / 6.
     When s[0] > 0, ue is taken to rise linearly from 0 at s = 0 (the stagnation point) to ue[0].
     """
     ua, ub = ue[:-1], ue[1:]

@@ -137,6 +137,24 @@ def test_bubble_bursts_at_low_reynolds_number():
     assert bl.events[1].s - bl.events[0].s < 0.05  # shortly after
 
 
+def test_bubble_open_at_a_sharp_edge_separates_there():
+    # Howarth's flow separates laminar at s ~ 0.123 (Thwaites); an edge just behind it, inside
+    # the bubble, fixes the final separation at the edge (documented model)
+    s = np.linspace(0.0, 1.0, 401)
+    bl = march_boundary_layer(s, 1.0 - s, nu=1e-5, speed=1.0, edges=(0.1245,))
+    assert [e.kind for e in bl.events] == ["laminar_separation", "edge_separation"]
+    assert bl.separation.s == pytest.approx(0.1245)
+    assert "still open" in bl.separation.detail
+
+
+def test_surface_ending_inside_a_bubble_is_separated_from_laminar_separation():
+    s = np.linspace(0.0, 0.125, 51)
+    bl = march_boundary_layer(s, 1.0 - s, nu=1e-5, speed=1.0)
+    assert bl.separation is bl.events[-1]
+    assert bl.separation.kind == "laminar_separation"
+    assert bl.regime[-1] is Regime.SEPARATED
+
+
 # ---- sharp edges -----------------------------------------------------------------------------
 
 
