@@ -8,7 +8,7 @@ smooth the outline is one periodic cubic spline.
 
 A corner node with radius r > 0 is rounded by a circular fillet of radius r tangent to both
 neighbouring segments. Next to a line the tangent points follow from the classical construction
-(setback d = r / tan(theta / 2), theta the turning angle); next to a spline the two tangent points
+(setback d = r tan(theta / 2), theta the turning angle); next to a spline the two tangent points
 are solved together with ``scipy.optimize.root`` so that the fillet centre lies at distance r along
 the normal of each curve (the fillet is then tangent to the spline and has exactly radius r).
 
@@ -392,7 +392,7 @@ def _fillet(cin, cout, r, theta):
     Returns None if no fillet of this radius exists on these curves.
     """
     sigma = 1.0 if theta > 0 else -1.0
-    d = r / math.tan(abs(theta) / 2.0)
+    d = r * math.tan(abs(theta) / 2.0)
     if cin.kind == "line" and cout.kind == "line":
         t1, t2 = cin.T - d, d
         centre = cin.eval(t1) + sigma * r * _rot(cin.u)
@@ -655,7 +655,7 @@ def _raise_radius_error(profile, corners, segs, info, bad):
         if slack(1e-12 * r_req) > 0:
             if cin.kind == "line" and cout.kind == "line" and not same_prev:
                 room = min(cin.T - prev_out, next_in)
-                largest = room * math.tan(abs(theta) / 2.0)
+                largest = room / math.tan(abs(theta) / 2.0)
             else:
                 largest = brentq(slack, 1e-12 * r_req, r_req, xtol=1e-12 * r_req, rtol=1e-12)
                 # step just inside the fitting side of the bracket

@@ -159,3 +159,35 @@ def test_coincident_neighbours():
 def test_outline_is_cached_on_profile():
     prof = rounded_box(2.0, 1.0, 0.1)
     assert build_outline(prof) is build_outline(prof)
+
+
+@pytest.mark.parametrize("turn_deg", [20.0, 30.0, 60.0, 120.0])
+def test_gentle_and_sharp_line_corners_set_back_r_tan_half_turn(turn_deg):
+    # Textbook fillet between two lines (any geometry text): the tangent points lie r tan(theta/2)
+    # from the corner along each line, theta the turning angle; the arc turns by theta.
+    r = 0.1
+    th = math.radians(turn_deg)
+    corner = np.array([2.0, 0.5])
+    a = corner - 2.0 * np.array([1.0, 0.0])
+    b = corner + 2.0 * np.array([math.cos(th), math.sin(th)])
+    prof = Profile((Node(*a), Node(*corner, radius=r), Node(*b), Node(a[0], b[1] + 1.0)))
+    o = build_outline(prof)
+    arc = next(x for x in o.arcs if x.node == 1)
+    p_start, p_end = o.points_at(np.array([arc.s_start, arc.s_end]))
+    d = r * math.tan(th / 2)
+    assert np.hypot(*(p_start - corner)) == pytest.approx(d, rel=1e-9)
+    assert np.hypot(*(p_end - corner)) == pytest.approx(d, rel=1e-9)
+    assert abs(p_start[1] - corner[1]) < 1e-12          # on the incoming line
+    assert (arc.s_end - arc.s_start) == pytest.approx(r * th, rel=1e-9)  # arc length r theta
+
+
+def test_largest_radius_of_a_gentle_corner_is_room_over_tan_half_turn():
+    # room on the shorter neighbouring segment / tan(theta/2) (inverse of the setback above)
+    th = math.radians(30.0)
+    corner = np.array([2.0, 0.5])
+    a = corner - 0.05 * np.array([1.0, 0.0])  # 50 mm of straight before the corner
+    b = corner + 2.0 * np.array([math.cos(th), math.sin(th)])
+    prof = Profile((Node(*a), Node(*corner, radius=1.0), Node(*b), Node(a[0], b[1] + 1.0)))
+    with pytest.raises(RadiusTooLargeError) as err:
+        build_outline(prof)
+    assert err.value.largest == pytest.approx(0.05 / math.tan(th / 2), rel=1e-6)
