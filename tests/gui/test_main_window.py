@@ -1,0 +1,211 @@
+"""The editor window driven like a user: real mouse events, typed entries, files (headless)."""
+
+import math
+
+import numpy as np
+import pytest
+from PySide6.QtCore import QPoint, Qt
+from PySide6.QtWidgets import QMessageBox
+
+from profilebench.editor.document import CAUTION
+from profilebench.io import default_sample_path, load_project
+
+from .conftest import ANALYSIS_TIMEOUT_MS, wait_current
+
+
+def _pt(qpointf):
+    return QPoint(round(qpointf.x()), round(qpointf.y()))
+
+
+def drag(qtbot, canvas, start, end, steps=10):
+    """Press at ``start``, move in ``steps`` real mouse moves to ``end``, release (screen px)."""
+    qtbot.mousePress(canvas, Qt.LeftButton, pos=_pt(start))
+    for k in range(1, steps + 1):
+        f = k / steps
+        p = start + (end - start) * f
+        qtbot.mouseMove(canvas, pos=_pt(p))
+    qtbot.mouseRelease(canvas, Qt.LeftButton, pos=_pt(end))
+
+
+def _movable_node(w):
+    """A node in the middle of the roof, away from corners (the sample's 'roof' labels)."""
+    prof = w.document.profile
+    ys = [n.y for n in prof.nodes]
+    return int(np.argmax(ys))
+
+
+def test_window_opens_with_the_sample_analysed(window):
+    w = window
+    sample = load_project(default_sample_path())
+    assert w.document.profile == sample.profile
+    assert w.analysis is not None and w.analysis.success
+    assert w.analysis.profile == sample.profile
+    # the table has one row per corner the pipeline reported, the summary the pipeline's Cd
+    assert w.corner_table.table.rowCount() == len(w.analysis.corners) > 0
+    assert w.summary.value("Cd") == f"{w.analysis.drag.cd:.4f}"
+    assert w.caution.text() == CAUTION and w.caution.isVisible()
+    assert not w.banner.isVisible()
+
+
+def test_drag_a_node_with_the_mouse_then_undo(window, qtbot):
+    w = window
+    c = w.canvas
+    i = _movable_node(w)
+    before = w.document.profile
+    old_cd = w.analysis.drag.cd
+    start = c.screen_of_node(i)
+    end = start + type(start)(0, -25)          # 25 px up
+    drag(qtbot, c, start, end, steps=12)
+    moved = w.document.profile
+    assert moved != before
+    dy = (moved.nodes[i].y - before.nodes[i].y) * c.view.scale
+    assert dy == pytest.approx(25, abs=1.0)    # screen y runs down, so up is +y in metres
+    assert w.undo_stack.count() == 1           # the whole drag is one undo step
+    wait_current(qtbot, w)
+    assert w.analysis.profile == moved and w.analysis.drag.cd != old_cd
+    w.undo_stack.undo()
+    assert w.document.profile == before        # exact: the very same node values
+    assert w.document.profile.nodes[i] == before.nodes[i]
+    wait_current(qtbot, w)
+    assert w.analysis.drag.cd == pytest.approx(old_cd, rel=1e-12)
+
+
+def test_radius_entry_changes_the_corner_table(window, qtbot):
+    w = window
+    corner = next(c for c in w.analysis.corners if c.radius > 0)
+    w.select_node(corner.node)
+    row = w.corner_table.row_of_node(corner.node)
+    new_mm = round(corner.radius * 1000 * 0.5)
+    w.node_panel.radius.setText(str(new_mm))
+    w.node_panel.radius.editingFinished.emit()
+    wait_current(qtbot, w)
+    assert w.document.profile.nodes[corner.node].radius == pytest.approx(new_mm / 1000)
+    assert w.corner_table.cell(w.corner_table.row_of_node(corner.node), 1) == f"{new_mm:.1f}"
+    assert row is not None
+
+
+def test_bad_radius_entry_is_refused_next_to_the_field(window):
+    w = window
+    corner = next(c for c in w.analysis.corners if c.radius > 0)
+    w.select_node(corner.node)
+    before = w.document.profile
+    w.node_panel.radius.setText("-3")
+    w.node_panel.radius.editingFinished.emit()
+    assert "too small" in w.node_panel.error.text()
+    assert w.document.profile is before and w.undo_stack.count() == 0
+
+
+def test_table_row_selects_the_corner_on_the_canvas(window):
+    w = window
+    node = w.analysis.corners[-1].node
+    w.corner_table.table.selectRow(w.corner_table.row_of_node(node))
+    assert w.canvas.selected == node and w.document.selection.node == node
+
+
+def test_save_then_open_gives_the_same_profile(window, qtbot, tmp_path):
+    w = window
+    w.set_radius(w.analysis.corners[0].node, 0.05)
+    w.pin_baseline()
+    path = tmp_path / "variant.json"
+    assert w.save_to(path)
+    assert not w.document.dirty and "*" not in w.windowTitle()
+    saved = w.document.state
+    assert w.open_file(path)
+    assert w.document.profile == saved.profile
+    assert w.document.conditions == saved.conditions
+    assert w.document.baseline == saved.baseline
+    assert str(path.resolve()) in w.recent_files()
+    wait_current(qtbot, w)
+
+
+@pytest.mark.parametrize("suffix, magic", [(".png", b"\x89PNG\r\n\x1a\n"), (".svg", b"<?xml"),
+                                           (".pdf", b"%PDF")])
+def test_export_writes_a_non_empty_image(window, tmp_path, suffix, magic):
+    # file signatures: PNG (RFC 2083 / ISO 15948), SVG is XML, PDF (ISO 32000 header)
+    path = tmp_path / f"view{suffix}"
+    assert window.export_image(path)
+    data = path.read_bytes()
+    assert len(data) > 1000 and data.startswith(magic)
+
+
+def test_export_surface_csv(window, tmp_path):
+    path = tmp_path / "surface.csv"
+    assert window.export_surface_csv(path)
+    lines = path.read_text().splitlines()
+    assert len(lines) > 50
+
+
+def test_self_intersecting_drag_shows_a_message_and_keeps_the_app_alive(window, qtbot):
+    w = window
+    c = w.canvas
+    good = w.analysis
+    i = _movable_node(w)
+    start = c.screen_of_node(i)
+    lowest = min(n.y for n in w.document.profile.nodes)
+    # drag the top node below the underside: the outline must cross itself
+    end = type(start)(start.x(), c.view.to_screen(0, lowest * 0.5 + 0.0)[1])
+    drag(qtbot, c, start, end, steps=15)
+    qtbot.waitUntil(lambda: not w.runner.busy and w.banner.isVisible(), timeout=ANALYSIS_TIMEOUT_MS)
+    assert "Analysis not updated" in w.banner.text()
+    assert w.analysis is good          # the last good result is kept...
+    assert c.stale                      # ...and drawn marked stale
+    w.undo_stack.undo()
+    wait_current(qtbot, w)
+    assert not w.banner.isVisible() and not c.stale
+
+
+def test_conditions_change_reanalyses(window, qtbot):
+    w = window
+    w.conditions_panel.set_value("speed", "150")
+    wait_current(qtbot, w)
+    # 150 km/h = 150 / 3.6 m/s (SI definition of the km/h)
+    assert w.analysis.conditions.speed == pytest.approx(150 / 3.6)
+    w.undo_stack.undo()
+    assert w.conditions_panel.fields["speed"].text() == f"{w.document.conditions.speed * 3.6:.5g}"
+
+
+def test_invalid_condition_shows_why_and_changes_nothing(window):
+    w = window
+    before = w.document.conditions
+    w.conditions_panel.set_value("h_separation", "3.5")
+    err = w.conditions_panel.errors["h_separation"]
+    assert not err.isHidden() and "outside the allowed range" in err.text()
+    assert w.document.conditions is before and w.undo_stack.count() == 0
+
+
+def test_click_on_a_segment_inserts_a_node_and_delete_key_removes_it(window, qtbot):
+    w = window
+    c = w.canvas
+    prof = w.document.profile
+    n = len(prof)
+    a, b = np.array(prof.xy[0]), np.array(prof.xy[1])
+    # the chord's midpoint between the first two nodes
+    mid = c.view.to_screen(*(0.5 * (a + b)))
+    qtbot.mouseClick(c, Qt.LeftButton, pos=QPoint(round(mid[0]), round(mid[1])))
+    assert len(w.document.profile) == n + 1
+    assert w.document.selection.node == 1
+    c.setFocus()
+    qtbot.keyClick(c, Qt.Key_Delete)
+    assert w.document.profile == prof
+    assert w.undo_stack.count() == 2
+
+
+def test_baseline_pinned_shows_deltas(window, qtbot):
+    w = window
+    w.pin_baseline()
+    corner = next(c for c in w.analysis.corners if c.radius > 0)
+    w.set_radius(corner.node, corner.radius * 0.5)
+    wait_current(qtbot, w)
+    qtbot.waitUntil(lambda: w.baseline_analysis is not None and w.summary.value("ΔCd") is not None,
+                    timeout=ANALYSIS_TIMEOUT_MS)
+    delta = float(w.summary.value("ΔCd"))
+    assert delta == pytest.approx(w.analysis.drag.cd - w.baseline_analysis.drag.cd, abs=1e-4)
+
+
+def test_unsaved_changes_prompt_on_close(window, monkeypatch):
+    w = window
+    w.set_radius(w.analysis.corners[0].node, 0.04)
+    asked = []
+    monkeypatch.setattr(QMessageBox, "question", lambda *a, **k: asked.append(a) or QMessageBox.Cancel)
+    assert not w.close()               # cancelled: the window stays
+    assert asked and w.isVisible()
