@@ -1,7 +1,44 @@
 """profilebench: screening aerodynamics of 2D vehicle side profiles.
 
+Public API (also used by the command line and the desktop editor)::
+
+    from profilebench import Profile, Node, Conditions, analyze, compare
+    from profilebench import load_project, save_project, smallest_attached_radius
+
 Screening estimates only: confirm with wind-tunnel tests or validated CFD, under local vehicle
 codes and licensed engineering practice.
 """
 
 __version__ = "0.1.0"
+
+CAUTION = (
+    "Screening estimate: confirm by wind-tunnel test or validated CFD, under local vehicle codes "
+    "and licensed engineering practice."
+)
+
+_EXPORTS = {
+    "Profile": "profilebench.geometry.profile",
+    "Node": "profilebench.geometry.profile",
+    "Conditions": "profilebench.assess.conditions",
+    "analyze": "profilebench.assess.analysis",
+    "compare": "profilebench.assess.compare",
+    "smallest_attached_radius": "profilebench.assess.corners",
+    "load_project": "profilebench.io.project",
+    "save_project": "profilebench.io.project",
+    "Project": "profilebench.io.project",
+    "solve_inviscid": "profilebench.flow.panel",
+    "march_boundary_layer": "profilebench.flow.boundary_layer",
+}
+
+__all__ = ["CAUTION", "__version__", *_EXPORTS]
+
+
+def __getattr__(name):
+    # imported on first use so that `import profilebench` stays light (PEP 562)
+    if name in _EXPORTS:
+        import importlib
+
+        value = getattr(importlib.import_module(_EXPORTS[name]), name)
+        globals()[name] = value
+        return value
+    raise AttributeError(f"module 'profilebench' has no attribute {name!r}")

@@ -13,6 +13,7 @@ import numpy as np
 
 __all__ = [
     "AnalysisStatus",
+    "SearchStatus",
     "Verdict",
     "CornerResult",
     "RadiusSearch",
@@ -159,6 +160,7 @@ class Analysis:
     reynolds: float | None = None        # full scale, on the profile length
     model_reynolds: float | None = None  # the scale test's, on the model length
     warnings: tuple[str, ...] = ()
+    radius_searches: tuple[RadiusSearch, ...] = ()  # searches run to place corner corrections
     timings: dict = field(default_factory=dict, compare=False)
 
     @property

@@ -18,3 +18,9 @@ from profilebench.flow.boundary_layer import (  # boundary layer
     Regime,
     march_boundary_layer,
 )
+from profilebench.flow.viscous import (  # both surfaces of a profile
+    FlowStatus,
+    ProfileFlow,
+    SurfaceFlow,
+    solve_profile_flow,
+)

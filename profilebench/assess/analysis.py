@@ -1,0 +1,230 @@
+"""The analysis pipeline: profile and conditions in, everything the user asks about out.
+
+``analyze(profile, conditions)`` validates the outline, panels it, solves the inviscid flow with
+ground effect, marches both boundary layers, assesses every corner against the solver and the
+empirical r/t table, and estimates the drag. Bad input (an invalid outline given directly by a
+script, impossible conditions) raises a :class:`~profilebench.errors.ProfileBenchError` only for
+wrong *types*; an outline that fails its validity check or a solver that fails comes back as an
+:class:`Analysis` whose ``status`` and ``message`` say what happened, so an editor can show the
+message mid-drag without catching anything.
+"""
+
+from __future__ import annotations
+
+import math
+import time
+
+import numpy as np
+
+from profilebench.assess.conditions import Conditions
+import threading
+from collections import OrderedDict
+
+from profilebench.assess.corners import (EDGE_TURN_DEG, _verdict, assess_corners, corner_regions,
+                                         corners_needing_floor, smallest_attached_radius)
+from profilebench.assess.drag import estimate_drag
+from profilebench.assess.results import Analysis, AnalysisStatus, FlowEvent
+from profilebench.errors import GeometryError, InputError, ProfileBenchError
+from profilebench.flow.viscous import solve_profile_flow
+from profilebench.geometry import Profile, measure, panelize, validate
+
+__all__ = ["analyze", "corner_verdict", "REATTACH_RATIO"]
+
+# A corner's separated shear layer is taken to reattach when at least this many frontal heights of
+# surface follow it (rectangular prisms' shear layers reattach on the side faces beyond a
+# length/depth of about 2.5 to 3: from memory).
+REATTACH_RATIO = 2.5
+
+
+def _check_args(profile, conditions):
+    if not isinstance(profile, Profile):
+        raise InputError(f"profile must be a profilebench Profile, got {type(profile).__name__}")
+    if not isinstance(conditions, Conditions):
+        raise InputError(f"conditions must be a profilebench Conditions, got {type(conditions).__name__}")
+
+
+def _edge_points(panelling, min_panel):
+    """Panel point indices of sharp convex edges (or radii smaller than a panel) that fix separation."""
+    out = []
+    for span in panelling.corners:
+        if not span.convex or abs(span.turning_angle_deg) <= EDGE_TURN_DEG:
+            continue
+        if span.radius <= 0.0 or span.radius < min_panel:
+            out.append(int(span.point_start if span.radius > 0 else span.point_start))
+    return out
+
+
+def _flow(profile, conditions, panelling, height):
+    pts = panelling.points
+    seg = np.roll(pts, -1, axis=0) - pts
+    min_panel = float(np.median(np.hypot(seg[:, 0], seg[:, 1]))) * 0.5
+    return solve_profile_flow(
+        pts, speed=conditions.speed, nu=conditions.nu, ground=conditions.ground,
+        kutta_node=(None if profile.trailing_edge is None
+                    else int(panelling.node_point[profile.trailing_edge])),
+        transition=conditions.transition, h_separation=conditions.h_separation,
+        edge_points=_edge_points(panelling, min_panel),
+        reattach_length=REATTACH_RATIO * height,
+    )
+
+
+def corner_verdict(profile, conditions, node, thickness=None):
+    """The solver's verdict on one corner (a :class:`Verdict`), or None if the flow failed.
+
+    The fast path of :func:`analyze` used by the smallest-attached-radius search: no drag, no
+    tables.
+    """
+    try:
+        validate(profile, ground=conditions.ground)
+        panelling = panelize(profile, conditions.panels)
+    except ProfileBenchError:
+        return None
+    m = measure(profile)
+    flow = _flow(profile, conditions, panelling, m.height)
+    if not flow.success:
+        return None
+    regions = corner_regions(panelling, flow)
+    for span, (k, lo, hi, bounded) in zip(panelling.corners, regions):
+        if span.node == node:
+            if k < 0:
+                from profilebench.assess.results import Verdict
+                return Verdict.ATTACHED
+            sfl = flow.surfaces[k]
+            return _verdict(sfl.bl, lo, hi, span.convex, sfl.restarts, bounded)[0]
+    raise GeometryError(f"node {node} is not a corner of the profile")
+
+
+_SEARCH_CACHE: "OrderedDict[tuple, object]" = OrderedDict()
+_SEARCH_LOCK = threading.Lock()
+_SEARCH_CACHE_SIZE = 128
+
+
+def cached_radius_search(profile, conditions, node, thickness=None):
+    """:func:`smallest_attached_radius`, remembered for the same profile, conditions and corner.
+
+    The search depends on every node except the searched corner's own radius, so the key leaves
+    that radius out: changing only that corner's radius (a radius drag) reuses the answer.
+    """
+    key_nodes = tuple((n.x, n.y, 0.0 if i == node else n.radius, n.smooth)
+                      for i, n in enumerate(profile.nodes))
+    key = (key_nodes, profile.trailing_edge, conditions, node, thickness)
+    with _SEARCH_LOCK:
+        hit = _SEARCH_CACHE.get(key)
+        if hit is not None:
+            _SEARCH_CACHE.move_to_end(key)
+            return hit
+    result = smallest_attached_radius(profile, conditions, node, thickness=thickness)
+    with _SEARCH_LOCK:
+        _SEARCH_CACHE[key] = result
+        while len(_SEARCH_CACHE) > _SEARCH_CACHE_SIZE:
+            _SEARCH_CACHE.popitem(last=False)
+    return result
+
+
+def _events(flow):
+    events = []
+    for sfl in flow.surfaces:
+        sf = sfl.surface
+        s_arr = np.asarray(sf.s)
+        for e in sfl.bl.events:
+            x = float(np.interp(e.s, s_arr, sf.x))
+            y = float(np.interp(e.s, s_arr, sf.y))
+            events.append(FlowEvent(kind=str(e.kind), surface=sfl.name, s=float(e.s), x=x, y=y,
+                                    detail=str(getattr(e, "detail", ""))))
+    st = flow.upper.surface.stagnation
+    events.insert(0, FlowEvent(kind="stagnation", surface="", s=0.0, x=float(st[0]), y=float(st[1]),
+                               detail="front stagnation point"))
+    return tuple(events)
+
+
+def _finite(analysis_numbers):
+    return all(v is None or math.isfinite(v) for v in analysis_numbers)
+
+
+def analyze(profile, conditions=None, thickness=None, table=None):
+    """Analyse ``profile`` at ``conditions``.
+
+    Parameters
+    ----------
+    profile : Profile
+    conditions : Conditions, optional (defaults: 30 m/s, sea-level ISO 2533 air, ground on)
+    thickness : float, optional
+        Reference thickness t (m) of every corner's r/t; default the frontal height h.
+    table : RtTable, optional
+        The empirical r/t table to use; default the built-in table chosen by Reynolds number.
+
+    Returns
+    -------
+    Analysis
+        ``status`` SUCCESS with every result, or a failure status with a message saying what to
+        fix (an invalid outline) or what failed (the solver).
+    """
+    from profilebench.assess import tables as _tables
+
+    conditions = Conditions() if conditions is None else conditions
+    _check_args(profile, conditions)
+    t0 = time.perf_counter()
+    timings = {}
+    try:
+        validate(profile, ground=conditions.ground)
+    except ProfileBenchError as exc:
+        return Analysis(AnalysisStatus.INVALID_GEOMETRY, str(exc), profile, conditions)
+    panelling = panelize(profile, conditions.panels)
+    m = measure(profile)
+    timings["geometry"] = time.perf_counter() - t0
+    height = m.height
+    t_ref = height if thickness is None else float(thickness)
+    if not (math.isfinite(t_ref) and t_ref > 0):
+        raise InputError(f"thickness {thickness!r} must be a positive length in metres")
+
+    t1 = time.perf_counter()
+    flow = _flow(profile, conditions, panelling, height)
+    timings["flow"] = time.perf_counter() - t1
+    if not flow.success:
+        status = (AnalysisStatus.INVISCID_FAILED if flow.status.name == "INVISCID_FAILED"
+                  else AnalysisStatus.BOUNDARY_LAYER_FAILED)
+        return Analysis(status, flow.message, profile, conditions, m, panelling, flow)
+
+    t2 = time.perf_counter()
+    re_t = conditions.reynolds(t_ref)
+    warnings = []
+    flagged = False
+    if table is None:
+        table, flagged = _tables.select_table(re_t, _tables.builtin_tables())
+        if flagged:
+            warnings.append(
+                f"no built-in r/t table covers Re = {re_t:.3g} (on t = {t_ref * 1e3:.0f} mm); "
+                f"'{table.name}' is used outside its Reynolds range")
+    searches = []
+    attached_ratios = {}
+    for node in corners_needing_floor(panelling, flow):
+        search = cached_radius_search(profile, conditions, node, thickness=thickness)
+        searches.append(search)
+        if search.radius is not None:
+            attached_ratios[node] = search.radius / t_ref
+        elif search.status.name == "NONE_FITS":
+            attached_ratios[node] = search.largest_fitting / t_ref
+        else:
+            warnings.append(f"corner {node}: {search.message}; its drag correction uses the "
+                            "table's own floor")
+    timings["radius_search"] = time.perf_counter() - t2
+    corners = assess_corners(profile, panelling, flow, t_ref, table=table, table_flagged=flagged,
+                             attached_ratios=attached_ratios)
+    drag = estimate_drag(panelling.points, flow, conditions, height,
+                         corner_penalties=[c.delta_cd for c in corners])
+    timings["assess"] = time.perf_counter() - t2
+    timings["total"] = time.perf_counter() - t0
+    events = _events(flow)
+    numbers = [drag.cd, drag.cl, drag.cd_friction, drag.cd_pressure, drag.cd_base, drag.cda,
+               drag.force, drag.power]
+    if not _finite(numbers):
+        return Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED,
+                        "the drag estimate is not finite; refine the panelling or smooth the outline",
+                        profile, conditions, m, panelling, flow)
+    return Analysis(
+        status=AnalysisStatus.SUCCESS, message="analysis complete", profile=profile,
+        conditions=conditions, measures=m, panelling=panelling, flow=flow, corners=corners,
+        drag=drag, events=events, reynolds=conditions.reynolds(m.length),
+        model_reynolds=conditions.model_reynolds(m.length), warnings=tuple(warnings),
+        radius_searches=tuple(searches), timings=timings,
+    )

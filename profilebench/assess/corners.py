@@ -1,0 +1,270 @@
+"""Corner assessment: r, t, r/t, the solver's verdict and margin, the table's verdict, and the
+smallest radius that keeps the flow attached.
+
+A corner is every node that is not smooth: a rounded node (radius > 0) or a sharp one. Its
+*region* on the surface runs from the start of its arc to the start of the next convex corner
+downstream on the same surface (or the surface's end): a separation anywhere in that region (on
+the arc, or in the pressure recovery behind it) is the corner's.
+
+The thickness t of r/t is the profile's frontal height h unless the caller gives another.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from profilebench.assess.results import CornerResult, RadiusSearch, SearchStatus, Verdict
+from profilebench.errors import GeometryError, RadiusTooLargeError
+
+__all__ = ["assess_corners", "corner_regions", "smallest_attached_radius", "largest_fitting_radius"]
+
+SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
+
+# a sharp node turning the outline by more than this fixes separation (DESIGN.md: "more than a few
+# degrees"; common practice, no source)
+EDGE_TURN_DEG = 10.0
+
+
+def corner_regions(panelling, flow):
+    """For each corner span: (surface index or -1, s_start, s_end) of its region on the surface.
+
+    The region runs from the corner's arc start to the start of the next corner downstream on
+    the same surface (of either sense), or to the surface's end. It is half-open: an event at
+    the very start of the next corner belongs to that corner.
+    """
+    perim = float(flow.upper.perimeter)
+    placed = []
+    for span in panelling.corners:
+        a, b = float(span.s_start), float(span.s_end)
+        if b < a:
+            b += perim
+        mid = 0.5 * (a + b) % perim
+        best = (-1, 0.0, 0.0)
+        for k, sfl in enumerate(flow.surfaces):
+            sm = sfl.surface_s(mid)
+            if sm is None:
+                continue
+            ends = [x for x in (sfl.surface_s(a % perim), sfl.surface_s(b % perim), sm) if x is not None]
+            best = (k, min(ends), max(ends))
+            break
+        placed.append(best)
+    regions = []
+    for i, (k, lo, hi) in enumerate(placed):
+        if k < 0:
+            regions.append((-1, 0.0, 0.0, False))
+            continue
+        end = float(flow.surfaces[k].surface.s[-1])
+        bounded = False
+        for j, (k2, lo2, _hi2) in enumerate(placed):
+            if j != i and k2 == k and lo2 > hi + 1e-9 and lo2 < end:
+                end = lo2
+                bounded = True
+        regions.append((k, lo, max(hi, end), bounded))
+    return regions
+
+
+def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True):
+    """Solver verdict, margin and a detail sentence for one corner region of a surface."""
+    events = list(bl.events)
+    tol = 1e-9
+    final = bl.separation
+    final_s = float(final.s) if final is not None else math.inf
+    restart_s = [r.s for r in restarts]
+    upstream_cut = max([s for s in restart_s if s < region_lo - tol], default=-math.inf)
+    s_arr = np.asarray(bl.s)
+
+    def spacing(at):
+        j = int(np.clip(np.searchsorted(s_arr, at), 1, len(s_arr) - 1))
+        return float(s_arr[j] - s_arr[j - 1]) * 1.01
+
+    # an event within one station spacing ahead of a corner belongs to that corner (an edge
+    # separation is reported at the station just ahead of its edge)
+    tol_lo = spacing(region_lo)
+    tol_hi = spacing(region_hi) if bounded else -tol
+    if final_s < region_lo - tol_lo:
+        return Verdict.IN_WAKE, 0.0, f"the layer already separated upstream at s = {final_s * 1e3:.0f} mm"
+
+    def inside(x):
+        x = float(x)
+        return region_lo - tol_lo <= x < region_hi - tol_hi and x > upstream_cut
+
+    in_region = sorted((e for e in events if inside(e.s)), key=lambda e: float(e.s))
+    sel = (s_arr >= region_lo - tol) & (s_arr <= min(region_hi, final_s) + tol)
+    margin = float(np.min(np.asarray(bl.margin)[sel])) if np.any(sel) else 1.0
+    margin = min(max(margin, 0.0), 1.0)
+    bubble = None
+    for k, e in enumerate(in_region):
+        if e.kind not in SEPARATION_KINDS:
+            continue
+        if e.kind == "laminar_separation":
+            nxt = next((f for f in in_region[k + 1:] if f.kind in SEPARATION_KINDS + ("reattachment",)), None)
+            if nxt is not None and nxt.kind == "reattachment":
+                bubble = (e, nxt)
+                continue
+            verdict = Verdict.LAMINAR_SEPARATION
+        elif e.kind == "turbulent_separation":
+            burst = "burst" in str(getattr(e, "detail", ""))
+            verdict = Verdict.LAMINAR_SEPARATION if burst else Verdict.TURBULENT_SEPARATION
+        else:
+            verdict = Verdict.EDGE_SEPARATION
+        detail = f"{verdict.value} at s = {float(e.s) * 1e3:.0f} mm"
+        if getattr(e, "detail", ""):
+            detail += f" ({e.detail})"
+        if bubble is not None:
+            detail += f", after a laminar bubble at s = {float(bubble[0].s) * 1e3:.0f} mm"
+        return verdict, 0.0, detail
+    if bubble is not None:
+        return Verdict.BUBBLE_REATTACHES, margin, (
+            f"laminar separation at s = {float(bubble[0].s) * 1e3:.0f} mm, reattaches turbulent "
+            f"at s = {float(bubble[1].s) * 1e3:.0f} mm; {margin * 100:.0f}% margin")
+    if not convex:
+        return Verdict.CONCAVE, margin, f"concave corner, attached, {margin * 100:.0f}% margin"
+    return Verdict.ATTACHED, margin, f"attached, {margin * 100:.0f}% margin"
+
+
+def _table_view(table, r_over_t, solver_verdict, flagged):
+    if table is None:
+        return "", None, "no table", ""
+    verdict = table.verdict(r_over_t).value
+    critical = table.critical_ratio
+    text = ""
+    above = verdict.startswith("at or above")
+    if solver_verdict.separated and above:
+        text = (f"the solver finds separation, but r/t = {r_over_t:.3f} is at or above the "
+                f"table's critical ratio {critical:.3f}")
+    elif solver_verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES) and not above and critical is not None:
+        text = (f"the solver finds the flow attached, but r/t = {r_over_t:.3f} is below the "
+                f"table's critical ratio {critical:.3f}")
+    if flagged:
+        text = (text + "; " if text else "") + "the table's Reynolds range does not hold these conditions"
+    return table.name, critical, verdict, text
+
+
+def corners_needing_floor(panelling, flow):
+    """Nodes of convex corners the solver finds separated with the layer reattaching behind them
+    (corner bubbles): the corners whose drag correction needs the smallest attached radius."""
+    out = []
+    for span, (k, lo, hi, bounded) in zip(panelling.corners, corner_regions(panelling, flow)):
+        if k < 0 or not span.convex:
+            continue
+        sfl = flow.surfaces[k]
+        v = _verdict(sfl.bl, lo, hi, span.convex, sfl.restarts, bounded)[0]
+        if v.separated and any(lo - 1e-9 <= r.s <= hi + 1e-9 for r in sfl.restarts):
+            out.append(span.node)
+    return out
+
+
+def assess_corners(profile, panelling, flow, thickness, table=None, table_flagged=False,
+                   table_share=0.5, attached_ratios=None):
+    """Corner results for every non-smooth node of ``profile``.
+
+    ``table`` is an empirical r/t table (profilebench.assess.tables.RtTable) or None; its penalty
+    curve gives the drag correction of corners that separate and then reattach (a corner
+    bubble), times ``table_share`` (the data of a 2D section with two rounded front corners
+    cover both: half each).
+    """
+    regions = corner_regions(panelling, flow)
+    attached_ratios = {} if attached_ratios is None else dict(attached_ratios)
+    out = []
+    for span, (k, lo, hi, bounded) in zip(panelling.corners, regions):
+        node = profile.nodes[span.node]
+        r_over_t = float(span.radius) / thickness
+        if k < 0:
+            verdict, margin, detail, surface = Verdict.ATTACHED, 1.0, "at the stagnation point", ""
+            bl_restarts = ()
+        else:
+            sfl = flow.surfaces[k]
+            verdict, margin, detail = _verdict(sfl.bl, lo, hi, span.convex, sfl.restarts, bounded)
+            surface = sfl.name
+            bl_restarts = sfl.restarts
+        delta_cd = 0.0
+        bubble = verdict.separated and any(lo - 1e-9 <= r.s <= hi + 1e-9 for r in bl_restarts)
+        if table is not None and bubble and span.convex:
+            floor = attached_ratios.get(span.node)
+            if floor is None:
+                floor = table.critical_ratio if table.critical_ratio is not None else table.ratios[-1]
+            # the table holds its last value beyond its data: a floor past the end is the end
+            floor = min(floor, table.ratios[-1])
+            delta_cd = float(table_share * table.penalty(r_over_t, attached_ratio=floor))
+        name, critical, tverdict, disagreement = _table_view(table, r_over_t, verdict, table_flagged)
+        out.append(CornerResult(
+            node=span.node, label=node.label or f"node {span.node}", x=node.x, y=node.y,
+            radius=float(span.radius), turning_angle_deg=float(span.turning_angle_deg),
+            convex=bool(span.convex), thickness=float(thickness),
+            thickness_definition="frontal height h of the profile",
+            r_over_t=r_over_t, surface=surface, s_start=float(lo), s_end=float(hi),
+            verdict=verdict, margin=float(margin), detail=detail,
+            table_name=name, table_critical_ratio=critical, table_verdict=tverdict,
+            disagreement=disagreement, delta_cd=delta_cd,
+        ))
+    return tuple(out)
+
+
+def largest_fitting_radius(profile, node):
+    """The largest corner radius (m) that fits at ``node`` with its neighbours' radii unchanged."""
+    from profilebench.geometry import build_outline
+
+    p = profile.with_radius(node, 1e3 * max(1.0, _extent(profile)))
+    try:
+        build_outline(p)
+    except RadiusTooLargeError as exc:
+        if exc.node == node:
+            return float(exc.largest)
+        raise
+    raise GeometryError(f"node {node}: could not find the largest radius that fits")
+
+
+def _extent(profile):
+    xs = [n.x for n in profile.nodes]
+    ys = [n.y for n in profile.nodes]
+    return max(max(xs) - min(xs), max(ys) - min(ys))
+
+
+def smallest_attached_radius(profile, conditions, node, thickness=None, tolerance=None):
+    """The smallest radius (m) at ``node`` that keeps the flow attached round that corner.
+
+    The corner's radius is varied and the flow re-solved (inviscid and boundary layer) at each
+    try; bisection on the solver's verdict (attached or a reattaching laminar bubble counts as
+    attached). Tolerance: 1 mm or 1% of the radius, whichever is larger. Returns a
+    :class:`RadiusSearch`; "none within the largest radius that fits" is a valid answer.
+    """
+    from profilebench.assess.analysis import corner_verdict
+
+    if profile.nodes[node].smooth:
+        raise GeometryError(f"node {node} is smooth, not a corner; make it a corner first")
+    r_max = largest_fitting_radius(profile, node) * 0.999
+    solves = 0
+
+    def attached(r):
+        nonlocal solves
+        solves += 1
+        v = corner_verdict(profile.with_radius(node, r), conditions, node, thickness=thickness)
+        if v is None:
+            raise _SearchFailed(f"the flow could not be solved at r = {r * 1e3:.1f} mm")
+        return not v.separated
+
+    try:
+        if attached(0.0):
+            return RadiusSearch(node, SearchStatus.ALWAYS_ATTACHED, 0.0, r_max, (0.0, 0.0), 0.0, solves,
+                                "attached even as a sharp edge")
+        if not attached(r_max):
+            return RadiusSearch(node, SearchStatus.NONE_FITS, None, r_max, (r_max, r_max), 0.0, solves,
+                                f"separated even at the largest radius that fits, {r_max * 1e3:.0f} mm")
+        lo, hi = 0.0, r_max
+        while hi - lo > max(1e-3, 0.01 * hi):
+            mid = 0.5 * (lo + hi)
+            if attached(mid):
+                hi = mid
+            else:
+                lo = mid
+    except _SearchFailed as exc:
+        return RadiusSearch(node, SearchStatus.FAILED, None, r_max, (0.0, r_max), 0.0, solves, str(exc))
+    tol = max(1e-3, 0.01 * hi)
+    return RadiusSearch(node, SearchStatus.FOUND, hi, r_max, (lo, hi), tol, solves,
+                        f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)")
+
+
+class _SearchFailed(Exception):
+    pass
