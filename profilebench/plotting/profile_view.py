@@ -10,6 +10,7 @@ from matplotlib.collections import LineCollection
 from matplotlib.colors import TwoSlopeNorm
 from matplotlib.patches import Patch, Polygon, Rectangle
 
+from profilebench.assess.results import Verdict
 from profilebench.errors import InputError
 from profilebench.plotting.stations import is_analysis, outline_of
 from profilebench.plotting.style import (
@@ -21,7 +22,10 @@ from profilebench.plotting.style import (
     SEPARATED_COLOUR,
 )
 
-__all__ = ["draw_profile", "draw_events", "bubbles", "corner_label"]
+__all__ = ["draw_profile", "draw_events", "bubbles", "corner_label", "CP_FLOOR"]
+
+#: Lowest Cp of the colour scale on the outline (display only; the data are not changed).
+CP_FLOOR = -3.0
 
 
 def _closed(x, y):
@@ -82,18 +86,36 @@ def corner_label(corner) -> str:
     name = corner.label or f"node {corner.node}"
     verdict = getattr(corner.verdict, "value", str(corner.verdict))
     text = f"{name}\nr/t {corner.r_over_t:.3f}: {verdict}"
-    if not corner.verdict.separated and corner.convex and corner.margin is not None:
+    if corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES) and corner.margin is not None:
         text += f", {100 * corner.margin:.0f}% margin"
     return text
 
 
-def _overlaps(bbox, others, pad=2.0):
-    return any(bbox.x0 - pad < o.x1 and o.x0 - pad < bbox.x1 and bbox.y0 - pad < o.y1
-               and o.y0 - pad < bbox.y1 for o in others)
+def _overlap_area(bb, others):
+    total = 0.0
+    for o in others:
+        w = min(bb.x1, o.x1) - max(bb.x0, o.x0)
+        h = min(bb.y1, o.y1) - max(bb.y0, o.y0)
+        if w > 0 and h > 0:
+            total += w * h
+    return total
 
 
-def _label_corners(ax, corners, x, y, scale):
-    """Place one label per corner outside the outline, moving labels that would overlap."""
+def _outside_area(bb, frame):
+    w = max(0.0, min(bb.x1, frame.x1) - max(bb.x0, frame.x0))
+    h = max(0.0, min(bb.y1, frame.y1) - max(bb.y0, frame.y0))
+    return bb.width * bb.height - w * h
+
+
+def _label_corners(ax, corners, x, y, scale, avoid=()):
+    """Place one label per corner outside the outline, avoiding other labels and the outline.
+
+    Candidate positions lie on rays from the corner, pointing away from the outline's centroid
+    and turned by up to +-80 degrees, at growing distances. Each candidate is scored by its
+    overlap (in display pixels^2) with labels already placed, with the outline, and with the
+    area outside the axes; the first candidate with no overlap wins, else the least-overlapping.
+    Without a renderer (a canvas that cannot measure text) the first candidate is used.
+    """
     if not corners:
         return []
     cx, cy = float(np.mean(x)), float(np.mean(y))
@@ -104,39 +126,57 @@ def _label_corners(ax, corners, x, y, scale):
             renderer = fig.canvas.get_renderer()
         except Exception:
             renderer = None
+    if renderer is not None:
+        ax.apply_aspect()  # the final axes box: text extents measured now stay valid
+        frame = ax.get_window_extent(renderer)
+        # the outline, densified so that short labels cannot slip between its points
+        xc, yc = _closed(x, y)
+        t = np.linspace(0.0, len(xc) - 1.0, 4 * len(xc))
+        dense = np.column_stack([np.interp(t, np.arange(len(xc)), xc),
+                                 np.interp(t, np.arange(len(yc)), yc)])
+        if len(avoid):
+            # event markers count heavily: a label must not hide a marker
+            dense = np.vstack([dense] + [np.asarray(avoid, dtype=float)] * 20)
+        dense = ax.transData.transform(dense)
     placed, texts = [], []
-    outline_pts = np.column_stack([x, y])
     for c in corners:
         d = np.array([c.x - cx, c.y - cy])
         d = d / (np.hypot(*d) or 1.0)
-        separated = c.verdict.separated
-        colour = OKABE_ITO["vermillion"] if separated else OKABE_ITO["bluish_green"]
-        colour = OKABE_ITO["black"] if not c.convex else colour
-        text = None
-        for dist in (0.09, 0.15, 0.22, 0.30):
-            for ang in (0.0, 25.0, -25.0, 50.0, -50.0):
+        if c.verdict.separated:
+            colour = OKABE_ITO["vermillion"]
+        elif c.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES):
+            colour = OKABE_ITO["bluish_green"]
+        else:  # in the wake of an upstream separation, or concave
+            colour = OKABE_ITO["black"]
+        text = ax.annotate(
+            corner_label(c), xy=(c.x, c.y), xytext=(c.x, c.y), textcoords="data",
+            fontsize=7, ha="center", va="center", color=OKABE_ITO["black"],
+            bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.9),
+            arrowprops=dict(arrowstyle="-", color=colour, lw=0.8), zorder=8,
+        )
+        best, best_score = None, np.inf
+        for dist in (0.08, 0.13, 0.19, 0.26):
+            for ang in (0.0, 20.0, -20.0, 40.0, -40.0, 60.0, -60.0, 80.0, -80.0):
                 a = np.radians(ang)
-                dd = np.array([d[0] * np.cos(a) - d[1] * np.sin(a), d[0] * np.sin(a) + d[1] * np.cos(a)])
+                dd = (d[0] * np.cos(a) - d[1] * np.sin(a), d[0] * np.sin(a) + d[1] * np.cos(a))
                 pos = (c.x + dist * scale * dd[0], c.y + dist * scale * dd[1])
-                if text is not None:
-                    text.remove()
-                text = ax.annotate(
-                    corner_label(c), xy=(c.x, c.y), xytext=pos, textcoords="data",
-                    fontsize=7, ha="center", va="center", color=OKABE_ITO["black"],
-                    bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.9),
-                    arrowprops=dict(arrowstyle="-", color=colour, lw=0.8), zorder=8,
-                )
                 if renderer is None:
+                    best = pos
                     break
+                text.xyann = pos
                 bb = text.get_window_extent(renderer)
-                pts_disp = ax.transData.transform(outline_pts)
-                inside = np.any((pts_disp[:, 0] > bb.x0) & (pts_disp[:, 0] < bb.x1)
-                                & (pts_disp[:, 1] > bb.y0) & (pts_disp[:, 1] < bb.y1))
-                if not _overlaps(bb, placed) and not inside:
+                m = 7.0  # px: about half a marker, so a label does not cover a marker's edge
+                hits = np.count_nonzero((dense[:, 0] > bb.x0 - m) & (dense[:, 0] < bb.x1 + m)
+                                        & (dense[:, 1] > bb.y0 - m) & (dense[:, 1] < bb.y1 + m))
+                score = (_overlap_area(bb, placed) + 4.0 * _outside_area(bb, frame)
+                         + 50.0 * hits + 1e-3 * dist)
+                if score < best_score:
+                    best, best_score = pos, score
+                if score < 1.0:
                     break
-            else:
-                continue
-            break
+            if renderer is None or best_score < 1.0:
+                break
+        text.xyann = best
         if renderer is not None:
             placed.append(text.get_window_extent(renderer))
         texts.append(text)
@@ -265,7 +305,10 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         cpv = np.asarray(inv.cp, dtype=float)
         seg = np.stack([np.column_stack([xc[:-1], yc[:-1]]), np.column_stack([xc[1:], yc[1:]])], axis=1)
         seg_cp = 0.5 * (cpv + np.roll(cpv, -1))
-        vmin = min(float(cpv.min()), -0.1)
+        # Colour scale from Cp = 1 (stagnation) down to the lowest Cp, but not below CP_FLOOR:
+        # the suction peaks at small corners would otherwise wash out the rest of the band.
+        # Values below the floor show in the floor's colour, flagged by the colourbar's arrow.
+        vmin = max(min(float(cpv.min()), -0.1), CP_FLOOR)
         norm = TwoSlopeNorm(vmin=vmin, vcenter=0.0, vmax=1.0)
         lc = LineCollection(seg, cmap=CP_COLORMAP, norm=norm, linewidths=5.0, zorder=3,
                             capstyle="round")
@@ -273,8 +316,11 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         ax.add_collection(lc)
         out["cp"] = lc
         if colorbar:
-            cb = ax.figure.colorbar(lc, ax=ax, fraction=0.03, pad=0.01)
-            cb.set_label("Cp, colour band on the outline")
+            saturated = float(cpv.min()) < CP_FLOOR
+            cb = ax.figure.colorbar(lc, ax=ax, fraction=0.03, pad=0.01,
+                                    extend="min" if saturated else "neither")
+            cb.set_label("Cp, colour band on the outline"
+                         + (f" (below {CP_FLOOR:g} in the end colour)" if saturated else ""))
             out["colorbar"] = cb
 
     if analysis is not None and flow is not None and getattr(flow, "separated", None) is not None:
@@ -316,7 +362,7 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     pad = 0.28 * scale if labelled else 0.08 * scale
     ax.set_xlim(float(x.min()) - pad, float(x.max()) + pad)
     ylo = -0.06 * scale if ground else float(y.min()) - 0.6 * pad
-    ax.set_ylim(min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.6 * pad)
+    ax.set_ylim(min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.45 * pad)
     ax.set_xlabel("x, rearward (m)")
     ax.set_ylabel("y, up (m)")
     if title is None:
@@ -324,7 +370,8 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     ax.set_title(title)
 
     if analysis is not None and corners:
-        out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, scale)
+        avoid = [(e.x, e.y) for e in analysis.events] if events else []
+        out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, scale, avoid)
 
     if legend and legend_handles:
         if legend_outside:

@@ -29,12 +29,19 @@ def analysed(path):
     return _CACHE[path]
 
 
+def page(path):
+    key = ("page", path)
+    if key not in _CACHE:
+        project, a = analysed(path)
+        _CACHE[key] = review_figure(a, baseline=project.baseline)
+    return _CACHE[key]
+
+
 @pytest.mark.parametrize("path", SAMPLES, ids=[p.stem for p in SAMPLES])
 def test_review_page_of_each_sample(path, tmp_path):
     project, a = analysed(path)
     assert a.success, a.message
-    fig = review_figure(a, baseline=project.baseline)
-    out = save_figure(fig, tmp_path / "r.png")
+    out = save_figure(page(path), tmp_path / "r.png")
     assert out.stat().st_size > 10_000
     # the PNG as read back by matplotlib has the page's pixel size
     assert mpimg.imread(out).shape[:2] == (round(PAGE_SIZE[1] * PAGE_DPI), round(PAGE_SIZE[0] * PAGE_DPI))
@@ -73,3 +80,22 @@ def test_export_of_each_sample(path, tmp_path):
     data = json.loads(write_results_json(a, tmp_path / "r.json").read_text())
     assert data["caution"] == CAUTION
     assert data["summary"]["cd"] == pytest.approx(a.drag.cd, rel=1e-15)
+
+
+@pytest.mark.parametrize("path", SAMPLES, ids=[p.stem for p in SAMPLES])
+def test_corner_labels_of_each_sample_do_not_overlap(path):
+    _, a = analysed(path)
+    fig = page(path)
+    fig.canvas.draw()
+    r = fig.canvas.get_renderer()
+    ax = fig.axes[0]
+    texts = [t for t in ax.texts if t.get_text().split("\n")[0] in {c.label or f"node {c.node}" for c in a.corners}]
+    assert len(texts) == len(a.corners)
+    boxes = [t.get_window_extent(r) for t in texts]
+    frame = ax.get_window_extent(r)
+    for i, b in enumerate(boxes):
+        tol = 2.0  # px: a label may touch the frame, not leave it
+        assert (frame.x0 - tol <= b.x0 and b.x1 <= frame.x1 + tol
+                and frame.y0 - tol <= b.y0 and b.y1 <= frame.y1 + tol)
+        for b2 in boxes[i + 1:]:
+            assert not b.overlaps(b2)
