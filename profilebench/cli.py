@@ -9,7 +9,8 @@ Subcommands::
     profilebench corners FILE [--smallest] [condition options]
     profilebench samples
 
-Without a subcommand the desktop editor starts. Exit codes: 0 success, 1 an analysis did not
+Without a subcommand the desktop editor starts (``profilebench PROJECT.json`` opens that file in
+it). Exit codes: 0 success, 1 an analysis did not
 succeed (its message is printed), 2 bad input (the error's message is printed, no traceback).
 """
 
@@ -54,7 +55,9 @@ def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(
         prog="profilebench",
         description="Screening aerodynamics of 2D vehicle side profiles. Without a subcommand the "
-                    "desktop editor starts.",
+                    "desktop editor starts; 'profilebench PROJECT.json' opens that file in it.",
+        epilog="Exit codes: 0 success, 1 an analysis did not succeed, 2 bad input. "
+               "Lengths are printed in mm, speeds in km/h, power in kW.",
     )
     parser.add_argument("--version", action="version", version=f"profilebench {profilebench.__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
@@ -272,6 +275,7 @@ def _cmd_samples(args, out):
 
 
 def _start_editor(argv):
+    """Start the desktop editor; ``argv`` holds an optional project file."""
     try:
         from profilebench.gui.app import run
     except ImportError as exc:
@@ -281,7 +285,7 @@ def _start_editor(argv):
             file=sys.stderr,
         )
         return EXIT_BAD_INPUT
-    return int(run(argv) or 0)
+    return int(run(["profilebench", *argv]) or 0)  # run() takes sys.argv-style lists
 
 
 COMMANDS = {"analyse": _cmd_analyse, "analyze": _cmd_analyse, "compare": _cmd_compare,
@@ -291,6 +295,8 @@ COMMANDS = {"analyse": _cmd_analyse, "analyze": _cmd_analyse, "compare": _cmd_co
 def main(argv=None) -> int:
     """Run the command line with ``argv`` (default: sys.argv[1:]); return the exit code."""
     argv = list(sys.argv[1:] if argv is None else argv)
+    if argv and argv[0].lower().endswith(".json") and argv[0] not in COMMANDS:
+        return _start_editor(argv)  # profilebench PROJECT.json: open it in the editor
     parser = build_parser()
     try:
         args = parser.parse_args(argv)

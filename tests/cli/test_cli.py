@@ -186,7 +186,9 @@ def test_no_subcommand_starts_editor(monkeypatch):
     mod.run = lambda argv=None: started.append(argv) or 0
     monkeypatch.setitem(sys.modules, "profilebench.gui.app", mod)
     assert cli.main([]) == 0
-    assert started == [[]]
+    assert cli.main([SAMPLE]) == 0
+    # run() takes a sys.argv-style list: the program name, then the project file if any
+    assert started == [["profilebench"], ["profilebench", SAMPLE]]
 
 
 def _search(status, radius, message):
