@@ -75,7 +75,7 @@ def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
         if s.cf is not None:
             ax_cf.plot(s.s[keep], s.cf[keep], color=colour, ls=style, lw=1.3, label=f"{name} surface")
     ax_h.axhline(h_sep, color=OKABE_ITO["vermillion"], lw=1.0, ls=":",
-                 label=f"turbulent separation, H = {h_sep:g}")
+                 label=f"turbulent separation threshold, H = {h_sep:g} (turbulent layer only)")
     ax_h.set_ylabel("H = delta*/theta")
     ax_cf.set_ylabel("Cf")
     ax_cf.set_xlabel("s from the stagnation point (m)")

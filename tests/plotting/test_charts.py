@@ -65,7 +65,7 @@ def test_boundary_layer_threshold_and_separated_stations_left_out():
     ax_h, ax_cf = fig.add_subplot(211), fig.add_subplot(212)
     draw_boundary_layer(ax_h, ax_cf, a)
     lines = {l.get_label(): l for l in ax_h.get_lines()}
-    thr = lines["turbulent separation, H = 2.4"]
+    thr = lines["turbulent separation threshold, H = 2.4 (turbulent layer only)"]
     assert set(thr.get_ydata()) == {a.conditions.h_separation}
     s_up, h_up = lines["upper surface"].get_data()
     bl = a.flow.upper.bl
