@@ -49,7 +49,9 @@ def corner_rows(analysis):
     rows = []
     for c in analysis.corners:
         verdict = getattr(c.verdict, "value", str(c.verdict))
-        margin = "" if not c.convex else f"{100 * c.margin:.0f}%"
+        # no margin for a concave corner or one already in separated flow from upstream
+        in_wake = getattr(c.verdict, "name", "") in ("IN_WAKE", "CONCAVE")
+        margin = "" if (not c.convex or in_wake) else f"{100 * c.margin:.0f}%"
         rows.append((
             c.label or f"node {c.node}", f"{c.radius * 1000:.1f}", f"{c.thickness * 1000:.1f}",
             f"{c.r_over_t:.4f}", verdict, margin, c.table_verdict, f"{c.delta_cd:+.4f}",
