@@ -23,6 +23,7 @@ from profilebench.editor.interaction import (NodeDrag, RadiusDrag, hit_node, hit
                                              hit_segment, radius_handle_position)
 from profilebench.editor.view import ViewTransform, fit_view
 from profilebench.errors import ProfileBenchError
+from profilebench.gui.refcount_guard import restore_none_refcount
 from profilebench.plotting.profile_view import bubbles, corner_label
 from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
                                          OKABE_ITO, SEPARATED_COLOUR)
@@ -72,8 +73,8 @@ class ProfileCanvas(QWidget):
         A profile during a drag (not yet an undo step).
     edit_finished(object)
         An :class:`~profilebench.editor.commands.Edit` (a finished drag or an insertion).
-    node_selected(object)
-        The index of the node clicked, or None.
+    node_selected(int)
+        The index of the node clicked, or -1 for none.
     insert_requested(int, float, float)
         A click on a segment: insert before index at (x, y) m.
     picked(float, float)
@@ -82,7 +83,7 @@ class ProfileCanvas(QWidget):
 
     preview = Signal(object)
     edit_finished = Signal(object)
-    node_selected = Signal(object)
+    node_selected = Signal(int)       # -1: nothing selected
     insert_requested = Signal(int, float, float)
     picked = Signal(float, float)
     painted = Signal(float)
@@ -194,7 +195,7 @@ class ProfileCanvas(QWidget):
             self.insert_requested.emit(seg.insert_at, seg.world[0], seg.world[1])
             return
         self.selected = None
-        self.node_selected.emit(None)
+        self.node_selected.emit(-1)
         self._pan_from = (sx, sy)
         self.update()
 
@@ -235,10 +236,10 @@ class ProfileCanvas(QWidget):
         v = self.view
         sx = v.offset_x + v.scale * pts[:, 0]
         sy = v.offset_y - v.scale * pts[:, 1]
-        poly = QPolygonF([QPointF(a, b) for a, b in zip(sx.tolist(), sy.tolist())])
-        if close and len(pts):
-            poly.append(poly[0])
-        return poly
+        points = [QPointF(a, b) for a, b in zip(sx.tolist(), sy.tolist())]
+        if close and points:
+            points.append(QPointF(points[0]))   # a Python list: QPolygonF.append leaks a
+        return QPolygonF(points)                # reference to None in PySide 6.12
 
     def _set_underlay_pixmap(self, underlay):
         if underlay is None:
@@ -579,6 +580,7 @@ class ProfileCanvas(QWidget):
             y += fm.height() + 3
 
     def paintEvent(self, event):
+        restore_none_refcount()
         qp = QPainter(self)
         qp.setRenderHint(QPainter.Antialiasing, True)
         qp.fillRect(self.rect(), QColor(250, 250, 252))
@@ -612,6 +614,7 @@ class ProfileCanvas(QWidget):
             qp.drawText(QPointF(12, self.height() - 12),
                         "results shown are for an earlier outline (stale)")
         qp.end()
+        restore_none_refcount()
         self.last_paint_profile = self.state.profile
         self.last_paint_time = time.perf_counter()
         self.painted.emit(self.last_paint_time)

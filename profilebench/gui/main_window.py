@@ -109,6 +109,9 @@ class MainWindow(QMainWindow):
         self._plot_timer.setSingleShot(True)
         self._plot_timer.timeout.connect(self._redraw_plots)
 
+        from profilebench.gui.refcount_guard import install
+
+        self._refcount_timer = install(self)
         self._connect()
         self._build_menus()
         self.statusBar().showMessage("ready")
@@ -147,7 +150,7 @@ class MainWindow(QMainWindow):
         self.baseline_runner.failed.connect(lambda g, m: self._show_banner(f"baseline analysis failed: {m}", True))
         self.search_runner.finished.connect(self._search_finished)
         self.search_runner.failed.connect(self._search_failed)
-        self.undo_stack.cleanChanged.connect(lambda _: self._update_title())
+        self.undo_stack.cleanChanged.connect(self._clean_changed)
 
     def _action(self, menu, text, slot, shortcut=None, checkable=False):
         act = QAction(text, self)
@@ -350,6 +353,9 @@ class MainWindow(QMainWindow):
         self.document.preview_profile(profile)
 
     def select_node(self, node):
+        """Select node ``node`` (None or -1: nothing) on the canvas, in the table and panel."""
+        if node is not None and node < 0:
+            node = None
         self.document.selection = self.document.selection.__class__(node)
         self.canvas.selected = node
         self.canvas.update()
@@ -404,6 +410,9 @@ class MainWindow(QMainWindow):
         elif force or prev is None or prev.baseline != state.baseline or prev.conditions != state.conditions:
             self.baseline_analysis = None
             self.baseline_runner.request(state.baseline, state.conditions)
+        self._update_title()
+
+    def _clean_changed(self, _clean):
         self._update_title()
 
     def _update_title(self):
@@ -678,16 +687,23 @@ class MainWindow(QMainWindow):
         self.recent_menu.setEnabled(bool(self.recent_files()))
 
     # ------------------------------------------------------------------ closing
-    def confirm_discard(self) -> bool:
-        """True when there are no unsaved changes or the user saves or discards them."""
-        if self.document is None or not self.document.dirty:
-            return True
+    def ask_unsaved(self) -> str:
+        """Ask whether to save unsaved changes: "save", "discard" or "cancel" (a dialog)."""
         answer = QMessageBox.question(
             self, "Unsaved changes", f"Save the changes to {self.document.title.rstrip(' *')}?",
             QMessageBox.Save | QMessageBox.Discard | QMessageBox.Cancel, QMessageBox.Save)
         if answer == QMessageBox.Save:
+            return "save"
+        return "discard" if answer == QMessageBox.Discard else "cancel"
+
+    def confirm_discard(self) -> bool:
+        """True when there are no unsaved changes or the user saves or discards them."""
+        if self.document is None or not self.document.dirty:
+            return True
+        answer = self.ask_unsaved()
+        if answer == "save":
             return self.save()
-        return answer == QMessageBox.Discard
+        return answer == "discard"
 
     def closeEvent(self, event):
         if not self.confirm_discard():

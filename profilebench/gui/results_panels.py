@@ -21,11 +21,11 @@ CORNER_HEADER = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "margin"
 class CornerTable(QWidget):
     """One row per corner; selecting a row selects the corner's node.
 
-    Signals: ``node_selected(object)``, ``search_requested(int)`` and
+    Signals: ``node_selected(int)`` (-1 for none), ``search_requested(int)`` and
     ``apply_requested(int, str)`` (node, margin text in %).
     """
 
-    node_selected = Signal(object)
+    node_selected = Signal(int)       # -1: no corner selected
     search_requested = Signal(int)
     apply_requested = Signal(int, str)
 
@@ -119,7 +119,8 @@ class CornerTable(QWidget):
 
     def _selection_changed(self):
         if not self._updating:
-            self.node_selected.emit(self.selected_node())
+            node = self.selected_node()
+            self.node_selected.emit(-1 if node is None else node)
 
     def _search(self):
         node = self.selected_node()

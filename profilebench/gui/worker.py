@@ -10,6 +10,7 @@ edit. An exception in the worker is logged and reported as a failure; the window
 from __future__ import annotations
 
 import logging
+import threading
 import time
 import traceback
 
@@ -25,19 +26,21 @@ class _Relay(QObject):
 
 
 class _Job(QRunnable):
-    def __init__(self, relay: _Relay, generation: int, fn, args):
+    def __init__(self, relay: _Relay, generation: int, fn, args, idle: threading.Event):
         super().__init__()
         self.setAutoDelete(True)
         self.relay, self.generation, self.fn, self.args = relay, generation, fn, args
+        self.idle = idle
 
     def run(self):
         t0 = time.perf_counter()
         try:
-            result, error = self.fn(*self.args), ""
+            result, error = (self.fn(*self.args),), ""   # boxed: None must not cross as itself
         except Exception as exc:  # shown in the window and logged; the app goes on
-            result = None
+            result = ()
             error = f"{type(exc).__name__}: {exc}"
             log.error("analysis worker failed:\n%s", traceback.format_exc())
+        self.idle.set()
         self.relay.done.emit(self.generation, result, error, time.perf_counter() - t0)
 
 
@@ -58,8 +61,10 @@ class TaskRunner(QObject):
     def __init__(self, fn, parent=None):
         super().__init__(parent)
         self._fn = fn
-        self._pool = QThreadPool(self)
-        self._pool.setMaxThreadCount(1)
+        # Qt's shared pool; this runner itself keeps at most one of its jobs running
+        self._pool = QThreadPool.globalInstance()
+        self._idle = threading.Event()
+        self._idle.set()
         self._relay = _Relay(self)
         self._relay.done.connect(self._on_done)
         self._generation = 0
@@ -95,7 +100,8 @@ class TaskRunner(QObject):
         self._pending = None
         self._running = True
         self.started += 1
-        self._pool.start(_Job(self._relay, generation, self._fn, args))
+        self._idle.clear()
+        self._pool.start(_Job(self._relay, generation, self._fn, args, self._idle))
 
     def _on_done(self, generation, result, error, seconds):
         self._running = False
@@ -107,12 +113,12 @@ class TaskRunner(QObject):
         if error:
             self.failed.emit(generation, error)
         else:
-            self.finished.emit(generation, result, seconds)
+            self.finished.emit(generation, result[0], seconds)
 
     def wait(self, msecs: int = 30000) -> bool:
         """Wait for the running job (on closing the window)."""
         self._pending = None
-        return self._pool.waitForDone(msecs)
+        return self._idle.wait(msecs / 1000.0)
 
 
 def _analyze(profile, conditions):

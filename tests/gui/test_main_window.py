@@ -5,12 +5,11 @@ import math
 import numpy as np
 import pytest
 from PySide6.QtCore import QPoint, Qt
-from PySide6.QtWidgets import QMessageBox
 
 from profilebench.editor.document import CAUTION
 from profilebench.io import default_sample_path, load_project
 
-from .conftest import ANALYSIS_TIMEOUT_MS, wait_current
+from gui_helpers import ANALYSIS_TIMEOUT_MS, wait_current
 
 
 def _pt(qpointf):
@@ -202,10 +201,12 @@ def test_baseline_pinned_shows_deltas(window, qtbot):
     assert delta == pytest.approx(w.analysis.drag.cd - w.baseline_analysis.drag.cd, abs=1e-4)
 
 
-def test_unsaved_changes_prompt_on_close(window, monkeypatch):
+def test_unsaved_changes_prompt_on_close(window):
     w = window
     w.set_radius(w.analysis.corners[0].node, 0.04)
     asked = []
-    monkeypatch.setattr(QMessageBox, "question", lambda *a, **k: asked.append(a) or QMessageBox.Cancel)
+    w.ask_unsaved = lambda: asked.append(w.document.title) or "cancel"
     assert not w.close()               # cancelled: the window stays
-    assert asked and w.isVisible()
+    assert asked == [w.document.title] and asked[0].endswith("*") and w.isVisible()
+    w.ask_unsaved = lambda: "discard"
+    assert w.close()
