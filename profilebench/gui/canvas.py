@@ -145,7 +145,8 @@ class ProfileCanvas(QWidget):
         xmin, ymin = pts.min(axis=0)
         xmax, ymax = pts.max(axis=0)
         ymin = min(ymin, 0.0)
-        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=60)
+        # wide margin: room for the corner labels and the legend beside the outline
+        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=max(60, 0.14 * self.width()))
         self._fitted = True
         self.update()
 
@@ -445,9 +446,14 @@ class ProfileCanvas(QWidget):
             cx, cy = self.view.to_screen(cx_all, cy_all)
             d = np.array([sx - cx, sy - cy])
             d = d / max(np.hypot(*d), 1e-9)
-            w, h = fm.horizontalAdvance(text) + 8, fm.height() + 4
+            lines = text.splitlines() or [text]
+            w = max(fm.horizontalAdvance(t) for t in lines) + 8
+            h = fm.height() * len(lines) + 4
             x = sx + d[0] * 26 - (w if d[0] < 0 else 0)
             y = sy + d[1] * 26 - (h if d[1] < 0 else 0)
+            # keep the label on the canvas (drawing position only)
+            x = min(max(x, 2.0), self.width() - w - 2.0)
+            y = min(max(y, 2.0), self.height() - h - 2.0)
             rect = QRectF(x, y, w, h)
             for _ in range(6):
                 if not any(rect.intersects(r) for r in placed):
