@@ -258,8 +258,8 @@ def _panel_integrals(px, py, ax, ay, tx, ty, length):
     return lg, bt
 
 
-# Rows per block of the influence computation: keeps the temporaries in cache.
-_BLOCK_ELEMENTS = 8192
+# Rows per block of the influence computation: the work arrays of one block stay in cache.
+_BLOCK_ELEMENTS = 65536
 
 
 def _assemble(pts_list, ground: bool):
@@ -269,6 +269,9 @@ def _assemble(pts_list, ground: bool):
     the outward-normal / tangential speeds at midpoint i due to a unit source on panel j
     (with its ground image), and ``vor_n[i, b]`` / ``vor_t[i, b]`` those due to a unit uniform
     vortex sheet on all panels of body b (with its image of opposite sign).
+
+    Per (real or image) panel pair: one logarithm and one arctan2 (Katz & Plotkin, eqs.
+    11.21-11.22), evaluated block by block of rows in preallocated work arrays.
     """
     a = np.concatenate(pts_list)
     b = np.concatenate([np.roll(p, -1, axis=0) for p in pts_list])
@@ -298,10 +301,8 @@ def _assemble(pts_list, ground: bool):
         ptx = np.concatenate([tx, tx])
         pty = np.concatenate([ty, -ty])
         plen = np.concatenate([length, length])
-        vsign = np.concatenate([np.ones(n), -np.ones(n)])
     else:
         ax, ay, ptx, pty, plen = a[:, 0], a[:, 1], tx, ty, length
-        vsign = np.ones(n)
     k = ax.shape[0]
     # indicator of the body of each (real or image) panel, signed for the vortex images
     body_of = np.zeros((k, nbody))
@@ -314,38 +315,72 @@ def _assemble(pts_list, ground: bool):
     src_t = np.empty((n, n))
     vor_n = np.empty((n, nbody))
     vor_t = np.empty((n, nbody))
-    step = max(1, _BLOCK_ELEMENTS // k)
+    # tangents of the collocation panels, divided by 2 pi (folds the 1/(2 pi) of every
+    # influence into the angle terms below)
+    tix = tx / _TWO_PI
+    tiy = ty / _TWO_PI
+    step = max(1, min(n, _BLOCK_ELEMENTS // k))
+    work = np.empty((7, step, k))
     for r0 in range(0, n, step):
         r1 = min(n, r0 + step)
-        lg, bt = _panel_integrals(mx[r0:r1], my[r0:r1], ax, ay, ptx, pty, plen)
+        nb = r1 - r0
+        dx, dy, xi, eta, w1, w2, w3 = (work[q, :nb] for q in range(7))
+        np.subtract(mx[r0:r1, None], ax, out=dx)
+        np.subtract(my[r0:r1, None], ay, out=dy)
+        # panel frame: xi along the panel from its start, eta to its left
+        np.multiply(dx, ptx, out=xi)
+        np.multiply(dy, pty, out=w1)
+        xi += w1
+        np.multiply(dy, ptx, out=eta)
+        np.multiply(dx, pty, out=w1)
+        eta -= w1
+        dx *= dx
+        dy *= dy
+        dx += dy  # r1^2
+        np.subtract(xi, plen, out=dy)  # xi - L
+        np.multiply(eta, eta, out=w1)  # eta^2
+        np.multiply(dy, dy, out=w2)
+        w2 += w1  # r2^2
+        dx /= w2
+        np.log(dx, out=dx)  # ln(r1^2 / r2^2) = 2 ln(r1 / r2)
+        dx *= 0.5  # ln(r1 / r2)
+        xi *= dy
+        xi += w1  # xi (xi - L) + eta^2
+        eta *= plen
+        np.arctan2(eta, xi, out=eta)  # beta
         rows = np.arange(r0, r1)
         # self influence: the limit on the outer side (eta -> 0 with the sign of sgn)
-        lg[rows - r0, rows] = 0.0
-        bt[rows - r0, rows] = 0.5 * sgn[r0:r1]
-        # angle between the tangent at point i and the tangent of panel j
-        ti_x = tx[r0:r1, None]
-        ti_y = ty[r0:r1, None]
-        cos_ij = ti_x * ptx
-        cos_ij += ti_y * pty
-        sin_ij = ti_x * pty
-        sin_ij -= ti_y * ptx
-        # unit source on panel j: velocity lg t_j + bt nl_j (nl = left normal);
+        dx[rows - r0, rows] = 0.0
+        eta[rows - r0, rows] = math.pi * sgn[r0:r1]
+        # angle between the tangent at point i and the tangent of panel j (over 2 pi)
+        np.multiply(tix[r0:r1, None], ptx, out=w1)
+        np.multiply(tiy[r0:r1, None], pty, out=xi)
+        w1 += xi  # cos_ij / (2 pi)
+        np.multiply(tix[r0:r1, None], pty, out=w2)
+        np.multiply(tiy[r0:r1, None], ptx, out=xi)
+        w2 -= xi  # sin_ij / (2 pi)
+        # unit source on panel j: velocity (lg t_j + bt nl_j) (nl = left normal);
         # nl_j . nl_i = cos_ij, t_j . nl_i = sin_ij, nl_j . t_i = -sin_ij
-        sn = lg * sin_ij
-        sn += bt * cos_ij
-        sn *= sgn[r0:r1, None]
-        st = lg * cos_ij
-        st -= bt * sin_ij
+        np.multiply(dx, w2, out=w3)
+        np.multiply(eta, w1, out=xi)
+        w3 += xi  # left-normal speed
+        dx *= w1
+        eta *= w2
+        dx -= eta  # tangential speed
+        sg = sgn[r0:r1, None]
         # unit vortex: velocity rotated +90 degrees from the source's, so at point i
-        # normal = sgn_i * (source tangential), tangential = -sgn_i * (source normal)
-        vor_n[r0:r1] = (st @ body_of) * sgn[r0:r1, None]
-        vor_t[r0:r1] = -(sn @ body_of) * sgn[r0:r1, None]
+        # normal = sgn_i * (source tangential), tangential = -(source left-normal speed)
+        vor_n[r0:r1] = dx @ body_of
+        vor_n[r0:r1] *= sg
+        vor_t[r0:r1] = w3 @ body_of
+        np.negative(vor_t[r0:r1], out=vor_t[r0:r1])
         if ground:
-            np.add(sn[:, :n], sn[:, n:], out=src_n[r0:r1])
-            np.add(st[:, :n], st[:, n:], out=src_t[r0:r1])
+            np.add(w3[:, :n], w3[:, n:], out=src_n[r0:r1])
+            np.add(dx[:, :n], dx[:, n:], out=src_t[r0:r1])
         else:
-            src_n[r0:r1] = sn
-            src_t[r0:r1] = st
+            src_n[r0:r1] = w3
+            src_t[r0:r1] = dx
+        src_n[r0:r1] *= sg
     geom = dict(
         a=a, length=length, tx=tx, ty=ty, nx=nx, ny=ny, mx=mx, my=my, clockwise=clockwise,
         offsets=offsets,
