@@ -207,6 +207,21 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
         h_out.append(hh)
         cf_out.append(0.246 * 10.0 ** (-0.678 * hh) * re_t**-0.268)
 
+    h1_min = _H1_ASYMPTOTE + 1e-9
+    pw = math.pow
+
+    def rhs(th, bg, u, du):
+        # derivatives of (theta, theta H1): Head's equations with Ludwieg-Tillmann (see the
+        # module docstring); the inverse H(H1) is inlined for speed
+        h1 = bg / th
+        if h1 <= h1_min:
+            h1 = h1_min
+        d = h1 - 3.3
+        hh = 1.1 + 0.86 * pw(d, -0.777) if h1 >= 5.3 else 0.6778 + 1.1538 * pw(d, -0.326)
+        cf = 0.246 * pw(10.0, -0.678 * hh) * pw(u * th / nu_v, -0.268)
+        g = du / u
+        return 0.5 * cf - (hh + 2.0) * th * g, 0.0306 * pw(h1 - 3.0, -0.6169) - bg * g
+
     while True:
         # record stations that coincide with the current position
         while i < n and s_l[i] <= x and not (hit_limit and s_l[i] >= s_end):
@@ -218,29 +233,54 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
         sa, sb = s_l[j], s_l[j + 1]
         hseg = sb - sa
         ua, ub, da, db = u_l[j], u_l[j + 1], d_l[j], d_l[j + 1]
+        # cubic Hermite on this interval as a polynomial in t = (s - sa) / hseg:
+        # u = ua + t (c1 + t (c2 + t c3)), du/ds = (c1 + t (2 c2 + 3 t c3)) / hseg
+        c1 = hseg * da
+        c2 = 3.0 * (ub - ua) - hseg * (2.0 * da + db)
+        c3 = 2.0 * (ua - ub) + hseg * (da + db)
+        c2d, c3d = 2.0 * c2, 3.0 * c3
+        inv_h = 1.0 / hseg
         target = min(sb, s_end)
+        x_known = None  # position whose u, du are already known (end of the last sub-step)
         while x < target:
-            u0, du0 = _hermite(sa, hseg, ua, ub, da, db, x)
+            if x == x_known:
+                u0, du0 = u1, du1
+            else:
+                t = (x - sa) * inv_h
+                u0 = ua + t * (c1 + t * (c2 + t * c3))
+                du0 = (c1 + t * (c2d + t * c3d)) * inv_h
             if u0 <= UE_STOPPED:
                 return finish("stopped", x, theta, h)
-            k1a, k1b = _rhs(theta, big, u0, du0, nu_v)
+            k1a, k1b = rhs(theta, big, u0, du0)
             # step control: relative change of theta <= STEP_THETA_CHANGE, change of H <=
             # STEP_H_CHANGE per sub-step, and never longer than STEP_THETA momentum thicknesses
-            dh1 = (k1b - (big / theta) * k1a) / theta
-            rate_h = abs(_dh_dh1(big / theta) * dh1)
+            h1 = big / theta
+            dh1 = (k1b - h1 * k1a) / theta
+            dd = h1 - _H1_ASYMPTOTE
+            if dd < 1e-9:
+                dd = 1e-9
+            slope = -0.777 * 0.86 * pw(dd, -1.777) if h1 >= 5.3 else -0.326 * 1.1538 * pw(dd, -1.326)
+            rate_h = abs(slope * dh1)
             rate_t = abs(k1a) / theta
             step = min(target - x, STEP_THETA * theta)
             if rate_t * step > STEP_THETA_CHANGE:
                 step = STEP_THETA_CHANGE / rate_t
             if rate_h * step > STEP_H_CHANGE:
                 step = STEP_H_CHANGE / rate_h
-            um, dum = _hermite(sa, hseg, ua, ub, da, db, x + 0.5 * step)
-            u1, du1 = _hermite(sa, hseg, ua, ub, da, db, x + step)
-            if min(um, u1) <= UE_STOPPED:
+            xm = x + 0.5 * step
+            x1 = x + step
+            t = (xm - sa) * inv_h
+            um = ua + t * (c1 + t * (c2 + t * c3))
+            dum = (c1 + t * (c2d + t * c3d)) * inv_h
+            t = (x1 - sa) * inv_h
+            u1 = ua + t * (c1 + t * (c2 + t * c3))
+            du1 = (c1 + t * (c2d + t * c3d)) * inv_h
+            if um <= UE_STOPPED or u1 <= UE_STOPPED:
                 return finish("stopped", x, theta, h)
-            k2a, k2b = _rhs(theta + 0.5 * step * k1a, big + 0.5 * step * k1b, um, dum, nu_v)
-            k3a, k3b = _rhs(theta + 0.5 * step * k2a, big + 0.5 * step * k2b, um, dum, nu_v)
-            k4a, k4b = _rhs(theta + step * k3a, big + step * k3b, u1, du1, nu_v)
+            hs = 0.5 * step
+            k2a, k2b = rhs(theta + hs * k1a, big + hs * k1b, um, dum)
+            k3a, k3b = rhs(theta + hs * k2a, big + hs * k2b, um, dum)
+            k4a, k4b = rhs(theta + step * k3a, big + step * k3b, u1, du1)
             th_new = theta + step / 6.0 * (k1a + 2 * k2a + 2 * k3a + k4a)
             big_new = big + step / 6.0 * (k1b + 2 * k2b + 2 * k3b + k4b)
             if not (math.isfinite(th_new) and math.isfinite(big_new)) or th_new <= 0.0:
@@ -253,7 +293,8 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
             if h_below is not None and h_new <= h_below:
                 f = (h - h_below) / (h - h_new) if h > h_new else 0.0
                 return finish("h_below", x + f * step, theta + f * (th_new - theta), h_below)
-            x += step
+            x = x1
+            x_known = x1
             if target - x < 1e-12 * max(1.0, abs(target)):
                 x = target
             theta, big, h = th_new, big_new, h_new
