@@ -27,6 +27,7 @@ from dataclasses import dataclass
 
 import numpy as np
 from scipy.interpolate import CubicSpline
+from scipy.linalg import solve_banded
 from scipy.optimize import brentq, root
 
 from profilebench.errors import GeometryError, InputError, RadiusTooLargeError
@@ -54,6 +55,49 @@ def _rot(v):
 
 def _cross(a, b) -> float:
     return float(a[0] * b[1] - a[1] * b[0])
+
+
+def _not_a_knot_coefficients(t, y, dt, dy):
+    """Piecewise-polynomial coefficients (4, n - 1, 2) of the not-a-knot cubic spline through
+    (t, y), the same spline as ``scipy.interpolate.CubicSpline(t, y, bc_type="not-a-knot")``.
+
+    Node slopes from de Boor's tridiagonal system (de Boor, A Practical Guide to Splines, ch. IV;
+    the system scipy's CubicSpline solves), here with ``scipy.linalg.solve_banded``; for three
+    points the not-a-knot spline is the parabola through them. Coefficients as a cubic Hermite
+    interpolant, highest power first. ``dt``, ``dy``: the parameter and point differences.
+    """
+    n = t.size
+    slope = dy / dt[:, None]
+    if n == 3:
+        # the parabola through the three points
+        a2 = (slope[1] - slope[0]) / (dt[0] + dt[1])
+        s = np.stack([slope[0] - a2 * dt[0], slope[0] + a2 * dt[0],
+                      slope[0] + a2 * (dt[0] + 2.0 * dt[1])])
+    else:
+        dxr = dt[:, None]
+        A = np.zeros((3, n))
+        b = np.empty((n, 2))
+        A[1, 1:-1] = 2.0 * (dt[:-1] + dt[1:])
+        A[0, 2:] = dt[:-1]
+        A[-1, :-2] = dt[1:]
+        b[1:-1] = 3.0 * (dxr[1:] * slope[:-1] + dxr[:-1] * slope[1:])
+        d = t[2] - t[0]
+        A[1, 0] = dt[1]
+        A[0, 1] = d
+        b[0] = ((dxr[0] + 2.0 * d) * dxr[1] * slope[0] + dxr[0] ** 2 * slope[1]) / d
+        d = t[-1] - t[-3]
+        A[1, -1] = dt[-2]
+        A[-1, -2] = d
+        b[-1] = (dxr[-1] ** 2 * slope[-2] + (2.0 * d + dxr[-1]) * dxr[-2] * slope[-1]) / d
+        s = solve_banded((1, 1), A, b, overwrite_ab=True, overwrite_b=True, check_finite=False)
+    dxr = dt[:, None]
+    c = np.empty((4, n - 1, 2))
+    tt = (s[:-1] + s[1:] - 2.0 * slope) / dxr
+    c[0] = tt / dxr
+    c[1] = (slope - s[:-1]) / dxr - tt
+    c[2] = s[:-1]
+    c[3] = y[:-1]
+    return c
 
 
 # --- the curves a segment can be ---------------------------------------------------------------
@@ -90,9 +134,13 @@ class _Spline:
 
     def __init__(self, pts, periodic=False):
         pts = np.asarray(pts, float)
-        chords = np.hypot(*np.diff(pts, axis=0).T)
+        seg = np.diff(pts, axis=0)
+        chords = np.hypot(seg[:, 0], seg[:, 1])
         t = np.concatenate([[0.0], np.cumsum(chords)])
-        self.cs = CubicSpline(t, pts, axis=0, bc_type="periodic" if periodic else "not-a-knot")
+        if periodic:
+            self.cs = CubicSpline(t, pts, axis=0, bc_type="periodic")
+        else:
+            self.cs = CubicSpline.construct_fast(_not_a_knot_coefficients(t, pts, chords, seg), t)
         self.T = float(t[-1])
         self.knots = t
         self._x = t.tolist()
@@ -117,12 +165,12 @@ class _Spline:
 
 def _tangent_and_normal_derivative(curve, t):
     """Unit tangent, left unit normal and d(normal)/dt of a curve at scalar t."""
-    d1 = curve.eval(t, 1)
-    d2 = curve.eval(t, 2)
-    speed = math.hypot(d1[0], d1[1])
-    tan = d1 / speed
-    dtan = (d2 - np.dot(d2, tan) * tan) / speed
-    return tan, _rot(tan), _rot(dtan)
+    _, (dx, dy), (ddx, ddy) = curve.pdd(float(t))
+    speed = math.hypot(dx, dy)
+    tx, ty = dx / speed, dy / speed
+    k = ddx * tx + ddy * ty
+    dtx, dty = (ddx - k * tx) / speed, (ddy - k * ty) / speed
+    return np.array([tx, ty]), np.array([-ty, tx]), np.array([-dty, dtx])
 
 
 # --- pieces of the built outline ----------------------------------------------------------------
@@ -386,6 +434,34 @@ def _turn(cin, cout) -> float:
     return math.atan2(_cross(din, dout), float(np.dot(din, dout)))
 
 
+_NEWTON_XTOL = 1e-12  # relative step at which the fillet's Newton iteration has converged
+_NEWTON_MAXITER = 30
+
+
+def _newton2(fun2, t1, t2):
+    """Newton's method for two equations F(t1, t2) = 0 with the analytic Jacobian.
+
+    ``fun2(t1, t2)`` returns (F1, F2, J11, J12, J21, J22). Converged when a step is below
+    ``_NEWTON_XTOL`` relative to (|t1|, |t2|) (the same test as MINPACK's hybrj xtol); returns
+    (t1, t2), or None if the Jacobian is singular, a value is not finite or the iteration has
+    not converged within ``_NEWTON_MAXITER`` steps.
+    """
+    for _ in range(_NEWTON_MAXITER):
+        f1, f2, a, b, c, d = fun2(t1, t2)
+        det = a * d - b * c
+        if not (math.isfinite(det) and det != 0.0 and math.isfinite(f1) and math.isfinite(f2)):
+            return None
+        d1 = (d * f1 - b * f2) / det
+        d2 = (a * f2 - c * f1) / det
+        t1 -= d1
+        t2 -= d2
+        if not (math.isfinite(t1) and math.isfinite(t2)):
+            return None
+        if math.hypot(d1, d2) <= _NEWTON_XTOL * max(math.hypot(t1, t2), 1e-300):
+            return t1, t2
+    return None
+
+
 def _fillet(cin, cout, r, theta):
     """Tangent parameters (t1 on cin, t2 on cout) and centre of a fillet of radius r.
 
@@ -412,21 +488,41 @@ def _fillet(cin, cout, r, theta):
         dtx, dty = (ddx - k * tx) / sp, (ddy - k * ty) / sp
         return (px - sr * ty, py + sr * tx), (dx - sr * dty, dy + sr * dtx)
 
-    def fun(x):
-        (ax, ay), (adx, ady) = offset(cin, float(x[0]))
-        (bx, by), (bdx, bdy) = offset(cout, float(x[1]))
-        return np.array([ax - bx, ay - by]), np.array([[adx, -bdx], [ady, -bdy]])
+    def fun2(t1, t2):
+        # residual (offset points' difference) and its analytic Jacobian, as floats
+        (ax, ay), (adx, ady) = offset(cin, t1)
+        (bx, by), (bdx, bdy) = offset(cout, t2)
+        return ax - bx, ay - by, adx, -bdx, ady, -bdy
 
-    sol = root(fun, x0, jac=True, method="hybr", options={"xtol": 1e-12})
-    # accept on the residual: hybr may report slow progress once the residual is at round-off
-    if not np.all(np.isfinite(sol.x)):
-        return None
-    t1, t2 = (float(v) for v in sol.x)
+    def fun(x):
+        fx, fy, j11, j12, j21, j22 = fun2(float(x[0]), float(x[1]))
+        return np.array([fx, fy]), np.array([[j11, j12], [j21, j22]])
+
     scale = max(cin.T, cout.T)
-    if not (-1e-12 * scale <= t1 <= cin.T * (1 + 1e-12) and -1e-12 * scale <= t2 <= cout.T * (1 + 1e-12)):
+
+    def acceptable(tt):
+        # accept on the residual: hybr may report slow progress once the residual is at
+        # round-off
+        if tt is None or not (math.isfinite(tt[0]) and math.isfinite(tt[1])):
+            return None
+        t1, t2 = (float(v) for v in tt)
+        if not (-1e-12 * scale <= t1 <= cin.T * (1 + 1e-12)
+                and -1e-12 * scale <= t2 <= cout.T * (1 + 1e-12)):
+            return None
+        fx, fy = fun2(t1, t2)[:2]
+        if max(abs(fx), abs(fy)) > 1e-9 * max(scale, r):
+            return None
+        return t1, t2
+
+    # Newton with the analytic Jacobian first (fast on this 2-unknown problem); where it does
+    # not give an acceptable root, the trust-region hybrid method decides, as it always did
+    found = acceptable(_newton2(fun2, float(x0[0]), float(x0[1])))
+    if found is None:
+        sol = root(fun, x0, jac=True, method="hybr", options={"xtol": 1e-12})
+        found = acceptable(tuple(sol.x))
+    if found is None:
         return None
-    if np.max(np.abs(fun(sol.x)[0])) > 1e-9 * max(scale, r):
-        return None
+    t1, t2 = found
     t1 = min(max(t1, 0.0), cin.T)
     t2 = min(max(t2, 0.0), cout.T)
     # the fillet must turn the same way as the corner and by less than a half turn
