@@ -35,9 +35,13 @@ def corner_regions(panelling, flow):
     the very start of the next corner belongs to that corner.
     """
     perim = float(flow.upper.perimeter)
+    # positions along the panelled outline (chord lengths), the flow's own arc length
+    pts = np.asarray(panelling.points, dtype=float)
+    seg = np.roll(pts, -1, axis=0) - pts
+    point_sigma = np.concatenate([[0.0], np.cumsum(np.hypot(seg[:, 0], seg[:, 1]))[:-1]])
     placed = []
     for span in panelling.corners:
-        a, b = float(span.s_start), float(span.s_end)
+        a, b = float(point_sigma[span.point_start]), float(point_sigma[span.point_end])
         if b < a:
             b += perim
         mid = 0.5 * (a + b) % perim
@@ -55,10 +59,10 @@ def corner_regions(panelling, flow):
         if k < 0:
             regions.append((-1, 0.0, 0.0, False))
             continue
-        end = float(flow.surfaces[k].surface.s[-1])
+        end = float(flow.surfaces[k].surface.s_end)
         bounded = False
         for j, (k2, lo2, _hi2) in enumerate(placed):
-            if j != i and k2 == k and lo2 > hi + 1e-9 and lo2 < end:
+            if j != i and k2 == k and lo2 > hi + 1e-9 and lo2 <= end + 1e-9:
                 end = lo2
                 bounded = True
         regions.append((k, lo, max(hi, end), bounded))
@@ -172,7 +176,9 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
         node = profile.nodes[span.node]
         r_over_t = float(span.radius) / thickness
         if k < 0:
-            verdict, margin, detail, surface = Verdict.ATTACHED, 1.0, "at the stagnation point", ""
+            # on neither surface: behind both final separation points, in the wake
+            verdict, margin, detail, surface = (Verdict.IN_WAKE, 0.0,
+                                                "in the separated wake behind the body", "")
             bl_restarts = ()
         else:
             sfl = flow.surfaces[k]

@@ -18,6 +18,7 @@ inviscid Cp); it is carried by the empirical corner correction (see profilebench
 
 from __future__ import annotations
 
+import dataclasses
 import enum
 from dataclasses import dataclass
 
@@ -68,7 +69,7 @@ class SurfaceFlow:
     def surface_s(self, sigma):
         """Surface arc length of an outline arc length, or None if it is not on this surface."""
         s = float(np.mod(self.direction * (sigma - self.surface.s_start), self.perimeter))
-        return s if s <= float(self.surface.s[-1]) + 1e-12 else None
+        return s if s <= float(self.surface.s_end) + 1e-9 else None
 
 
 @dataclass(frozen=True)
@@ -83,6 +84,8 @@ class ProfileFlow:
     separated: np.ndarray | None = None   # bool over the inviscid stations
     station_surface: np.ndarray | None = None  # 0 upper, 1 lower, per inviscid station
     station_bl: np.ndarray | None = None        # index into that surface's bl arrays
+    closed: "ProfileFlow | None" = None         # the closed-body solution (wake model only)
+    wake_points: np.ndarray | None = None       # outline of body + wake body (wake model only)
 
     @property
     def success(self) -> bool:
@@ -137,15 +140,22 @@ def _merge(first, second, s_offset, i_offset):
     return type(first)(**fields)
 
 
-def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_length):
-    """March one surface, restarting turbulent after corner bubbles (see module docstring)."""
+def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_length,
+                   restart_hints=(), hint_tolerance=0.0):
+    """March one surface, restarting turbulent after corner bubbles (see module docstring).
+
+    ``restart_hints``: arc lengths where an earlier march of the same surface restarted; a
+    separation within ``hint_tolerance`` of one restarts too (so the wake-model march keeps the
+    closed-body march's corner bubbles although its surface ends earlier).
+    """
     bl = march_boundary_layer(s, ue, nu=nu, speed=speed, transition=transition,
                               h_separation=h_separation, edges=edges)
     restarts = []
     while (reattach_length is not None and bl.success and bl.separation is not None):
         sep = bl.separation
         i0 = int(sep.index) + 1
-        if i0 >= len(s) - 3 or s[-1] - s[i0] < reattach_length:
+        hinted = any(abs(float(sep.s) - h) <= hint_tolerance for h in restart_hints)
+        if i0 >= len(s) - 3 or (s[-1] - s[i0] < reattach_length and not hinted):
             break
         rest_s = s[i0:] - s[i0]
         # a fresh turbulent start needs a small positive first station
@@ -160,8 +170,175 @@ def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_l
     return bl, tuple(restarts)
 
 
+def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition, h_separation,
+             reattach_length, fallback_separation=None, restart_hints=None):
+    """March the given surfaces (in original-outline terms) and assemble a ProfileFlow."""
+    n = len(res.s)
+    flows = []
+    station_surface = np.full(n, -1, dtype=int)
+    station_bl = np.zeros(n, dtype=int)
+    separated = np.zeros(n, dtype=bool)
+    for k, (name, sf) in enumerate(zip(names, surfaces)):
+        edges = _edges_on_surface(edge_sigma, sf, int(sf.direction), perimeter)
+        s = np.asarray(sf.s, dtype=float)
+        ue = np.asarray(sf.ue, dtype=float)
+        hints = () if restart_hints is None else restart_hints[k]
+        tol = 0.0 if reattach_length is None else 0.1 * reattach_length
+        bl, restarts = _march_surface(s, ue, nu, speed, transition, h_separation, edges,
+                                      reattach_length, hints, tol)
+        if not bl.success:
+            return ProfileFlow(FlowStatus.BOUNDARY_LAYER_FAILED, f"{name} surface: {bl.message}", res)
+        if bl.separation is None and fallback_separation is not None and fallback_separation[k] is not None:
+            # the wake starts here: the layer leaves the surface at its end, as the closed-body
+            # march found
+            first = fallback_separation[k]
+            ev = dataclasses.replace(first, s=float(s[-1]), index=len(s) - 1)
+            bl = dataclasses.replace(bl, separation=ev, events=list(bl.events) + [ev])
+        flows.append(SurfaceFlow(name=name, surface=sf, bl=bl, restarts=restarts, edges=edges,
+                                 perimeter=perimeter))
+        idx = np.asarray(sf.index, dtype=int)
+        offset = len(bl.s) - len(idx)   # station 0 is the stagnation point itself
+        station_surface[idx] = k
+        station_bl[idx] = np.arange(len(idx)) + offset
+        if bl.separation is not None:
+            separated[idx] = np.asarray(bl.s)[offset:] > bl.separation.s
+    separated[station_surface < 0] = True  # stations beyond both surfaces' ends lie in the wake
+    return ProfileFlow(FlowStatus.SUCCESS, "converged", res, flows[0], flows[1], separated,
+                       station_surface, station_bl)
+
+
+def _geometric(start, stop, first, growth=1.2):
+    """Points from ``start`` to ``stop`` (scalars), the first step ``first``, growing by ``growth``."""
+    length = stop - start
+    steps = []
+    h = max(first, 1e-6 * abs(length))
+    total = 0.0
+    while total + h < length * 0.999:
+        total += h
+        steps.append(total)
+        h *= growth
+    steps = np.array(steps + [length]) if steps else np.array([length])
+    # stretch so the last step is not a sliver
+    if len(steps) > 1 and steps[-1] - steps[-2] < 0.5 * (steps[-2] - (steps[-3] if len(steps) > 2 else 0.0)):
+        steps = np.delete(steps, -2)
+    return start + steps
+
+
+def _nearest_point(point_sigma, perimeter, sigma):
+    d = np.abs(np.mod(point_sigma - sigma + 0.5 * perimeter, perimeter) - 0.5 * perimeter)
+    return int(np.argmin(d))
+
+
+def _wake_outline(pts, j_l, j_u, d, wake_length):
+    """Outline of the body's attached part (points j_l to j_u, stepping d) closed by a wake.
+
+    The wake is a displacement body: straight lines downstream (+x) from the two separation
+    points to ``wake_length`` behind the body, closed there. Returns (points, m) with m the
+    number of attached points (the first m points are the body's own).
+    """
+    n = len(pts)
+    m = int(np.mod((j_u - j_l) * d, n)) + 1
+    body = pts[(j_l + d * np.arange(m)) % n]
+    xu, yu = body[-1]
+    xl, yl = body[0]
+    x_end = float(pts[:, 0].max()) + wake_length
+    seg = np.roll(pts, -1, axis=0) - pts
+    lens = np.hypot(seg[:, 0], seg[:, 1])
+    first_u = float(lens[j_u % n] if d > 0 else lens[(j_u - 1) % n])
+    first_l = float(lens[(j_l - 1) % n] if d > 0 else lens[j_l % n])
+    xs_u = _geometric(xu, x_end, first_u)
+    xs_l = _geometric(xl, x_end, first_l)
+    upper = np.column_stack([xs_u, np.full(len(xs_u), yu)])
+    n_close = 6
+    ys = yu + (yl - yu) * np.arange(1, n_close) / n_close
+    close = np.column_stack([np.full(n_close - 1, x_end), ys])
+    lower = np.column_stack([xs_l[::-1], np.full(len(xs_l), yl)])[:-1] if len(xs_l) > 1 else np.empty((0, 2))
+    lower = np.vstack([[x_end, yl], lower[1:]]) if len(lower) else np.array([[x_end, yl]])
+    return np.vstack([body, upper, close, lower]), m
+
+
+def _surface_in_original(new_sf, orig_of_new, m, d, sigma_l, perimeter, s_junction):
+    """A surface of the wake-model solution, cut at the wake and expressed on the original outline.
+
+    ``s_junction`` is the outline arc length (on the wake outline) of the point where the wake
+    starts on this surface.
+    """
+    idx = np.asarray(new_sf.index, dtype=int)
+    keep = int(np.argmax(idx >= m - 1)) if np.any(idx >= m - 1) else len(idx)
+    if keep < 3:
+        return None
+    s = np.asarray(new_sf.s)[: keep + 1]
+    return dataclasses.replace(
+        new_sf, s=s, ue=np.asarray(new_sf.ue)[: keep + 1], x=np.asarray(new_sf.x)[: keep + 1],
+        y=np.asarray(new_sf.y)[: keep + 1], index=orig_of_new[idx[:keep]],
+        s_start=float(np.mod(sigma_l + d * new_sf.s_start, perimeter)),
+        direction=int(d * new_sf.direction),
+        s_end=float(abs(s_junction - new_sf.s_start)),
+    )
+
+
+def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed, transition,
+               h_separation, reattach_length, wake_length, base_pressure):
+    """Re-solve the attached flow with a wake displacement body behind the separation points."""
+    res0 = first.inviscid
+    n = len(pts)
+    sig = []
+    seps = []
+    for sfl in (first.upper, first.lower):
+        sep = sfl.bl.separation
+        s_at = float(sep.s) if sep is not None else float(sfl.surface.s_end)
+        sig.append(float(sfl.outline_s(s_at)))
+        seps.append(sep)
+    j_u = _nearest_point(point_sigma, perimeter, sig[0])
+    j_l = _nearest_point(point_sigma, perimeter, sig[1])
+    d = int(first.upper.direction)
+    if j_u == j_l or np.mod((j_u - j_l) * d, n) < 4:
+        return first, "wake model skipped: too little attached surface"
+    new_pts, m = _wake_outline(pts, j_l, j_u, d, wake_length)
+    if ground and float(new_pts[:, 1].min()) <= 0.0:
+        return first, "wake model skipped: the wake would touch the ground"
+    try:
+        import shapely
+
+        if not shapely.LinearRing(new_pts).is_simple:
+            return first, "wake model skipped: the wake crosses the body"
+        res = solve_inviscid(new_pts, ground=ground)
+    except Exception as exc:  # the closed-body answer stands; say why the wake was not used
+        return first, f"wake model skipped: {exc}"
+    if not res.success:
+        return first, f"wake model skipped: {res.message}"
+    split = split_surfaces(res)
+    if not split.success:
+        return first, f"wake model skipped: {split.message}"
+    k = np.arange(m - 1)
+    orig_of_new = ((j_l + k) % n) if d > 0 else ((j_l - k - 1) % n)
+    # the body's stations take the wake model's Cp; the separated ones the base pressure
+    ue = np.zeros(n)
+    cp = np.full(n, float(base_pressure))
+    ue[orig_of_new] = d * np.asarray(res.ue)[: m - 1]
+    cp[orig_of_new] = np.asarray(res.cp)[: m - 1]
+    inviscid = dataclasses.replace(res0, ue=ue, cp=cp, message=res0.message + "; wake model: " + res.message)
+    surfaces = []
+    seg_new = np.roll(new_pts, -1, axis=0) - new_pts
+    sigma_ju = float(np.hypot(seg_new[: m - 1, 0], seg_new[: m - 1, 1]).sum())  # wake outline starts at j_l
+    for new_sf in (split.upper, split.lower):
+        s_junction = sigma_ju if new_sf.direction > 0 else 0.0
+        sf = _surface_in_original(new_sf, orig_of_new, m, d, float(point_sigma[j_l]), perimeter,
+                                  s_junction)
+        if sf is None:
+            return first, "wake model skipped: a surface is too short"
+        surfaces.append(sf)
+    flow = _marched(inviscid, surfaces, ("upper", "lower"), perimeter, edge_sigma, nu, speed,
+                    transition, h_separation, reattach_length, fallback_separation=seps,
+                    restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)])
+    if not flow.success:
+        return first, f"wake model skipped: {flow.message}"
+    return dataclasses.replace(flow, closed=first, wake_points=new_pts), ""
+
+
 def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transition="free",
-                       h_separation=2.4, edge_points=(), reattach_length=None, inviscid=None):
+                       h_separation=2.4, edge_points=(), reattach_length=None, inviscid=None,
+                       wake_length=None, base_pressure=-0.25):
     """Inviscid flow and both boundary layers of a closed outline.
 
     Parameters
@@ -181,12 +358,23 @@ def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transit
         (a corner bubble) and the march restarts turbulent; None: the first separation is final.
     inviscid : InviscidSolution, optional
         A solution already computed for these points (to avoid solving twice).
+    wake_length : float or None
+        With a length (m), the wake displacement model: after a first solve of the closed body,
+        the separated part of the outline is replaced by a wake body (straight lines downstream
+        from the two final separation points, ``wake_length`` behind the body), the attached
+        flow is solved again with it and both layers are marched again. A closed body in
+        potential flow has a rear stagnation point that the real, separated flow does not have:
+        its pressure recovery pushes the body forward, a thrust that would cancel much of the
+        base drag. The wake body removes it (the attached part then behaves like the nose of a
+        half-body, whose pressure force tends to zero). Separated stations report
+        ``cp = base_pressure`` and ``ue = 0``. Not used with a Kutta condition.
+    base_pressure : float
+        Cp reported on the separated stations by the wake model.
     """
     pts = np.asarray(points, dtype=float)
     res = inviscid if inviscid is not None else solve_inviscid(pts, ground=ground, kutta_node=kutta_node)
     if not res.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, res.message, res)
-    n = len(res.s)
     seg = np.diff(np.vstack([pts, pts[:1]]), axis=0)
     lengths = np.hypot(seg[:, 0], seg[:, 1])
     perimeter = float(lengths.sum())
@@ -195,32 +383,12 @@ def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transit
     split = split_surfaces(res)
     if not split.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, split.message, res)
-    upper, lower = split.upper, split.lower
-    flows = []
-    station_surface = np.full(n, -1, dtype=int)
-    station_bl = np.zeros(n, dtype=int)
-    separated = np.zeros(n, dtype=bool)
-    for k, (name, sf) in enumerate((("upper", upper), ("lower", lower))):
-        direction = int(sf.direction)
-        edges = _edges_on_surface(edge_sigma, sf, direction, perimeter)
-        s = np.asarray(sf.s, dtype=float)
-        ue = np.asarray(sf.ue, dtype=float)
-        bl, restarts = _march_surface(s, ue, nu, speed, transition, h_separation, edges,
-                                      reattach_length)
-        if not bl.success:
-            return ProfileFlow(FlowStatus.BOUNDARY_LAYER_FAILED,
-                               f"{name} surface: {bl.message}", res)
-        flow = SurfaceFlow(name=name, surface=sf, bl=bl, restarts=restarts, edges=edges,
-                           perimeter=perimeter)
-        flows.append(flow)
-        idx = np.asarray(sf.index, dtype=int)
-        # the march's stations may start with the stagnation point itself (not an inviscid
-        # station): align from the end
-        offset = len(bl.s) - len(idx)
-        station_surface[idx] = k
-        station_bl[idx] = np.arange(len(idx)) + offset
-        if bl.separation is not None:
-            separated[idx] = np.asarray(bl.s)[offset:] > bl.separation.s
-    separated[station_surface < 0] = True  # stations beyond both surfaces' ends lie in the wake
-    return ProfileFlow(FlowStatus.SUCCESS, "converged", res, flows[0], flows[1], separated,
-                       station_surface, station_bl)
+    first = _marched(res, (split.upper, split.lower), ("upper", "lower"), perimeter, edge_sigma,
+                     nu, speed, transition, h_separation, reattach_length)
+    if not first.success or wake_length is None or kutta_node is not None:
+        return first
+    flow, note = _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed,
+                            transition, h_separation, reattach_length, wake_length, base_pressure)
+    if note:
+        return dataclasses.replace(flow, message=flow.message + "; " + note)
+    return flow

@@ -21,7 +21,16 @@ _baseline = None
 _incref = ctypes.pythonapi.Py_IncRef
 _incref.argtypes = [ctypes.py_object]
 _incref.restype = None
-_NEEDED = sys.version_info < (3, 12)
+def _needed() -> bool:
+    try:
+        import PySide6
+    except ImportError:
+        return False
+    return sys.version_info < (3, 12) and PySide6.__version__.startswith("6.12.0")
+
+
+# pyproject.toml excludes PySide6 6.12.0; the guard stays for an environment that has it anyway
+_NEEDED = _needed()
 
 
 def restore_none_refcount() -> int:
