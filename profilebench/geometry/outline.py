@@ -141,13 +141,33 @@ class _Spline:
             self.cs = CubicSpline(t, pts, axis=0, bc_type="periodic")
         else:
             self.cs = CubicSpline.construct_fast(_not_a_knot_coefficients(t, pts, chords, seg), t)
+        self._periodic = bool(periodic)
         self.T = float(t[-1])
         self.knots = t
         self._x = t.tolist()
-        self._c = self.cs.c.transpose(1, 2, 0).tolist()  # [interval][axis][power, high first]
+        self._cc = self.cs.c
+        self._c = self._cc.transpose(1, 2, 0).tolist()  # [interval][axis][power, high first]
 
     def eval(self, t, nu=0):
-        return self.cs(np.asarray(t, float), nu)
+        t = np.asarray(t, float)
+        if self._periodic:
+            return self.cs(t, nu)
+        # Horner on the piecewise-polynomial coefficients, intervals as in scipy's PPoly
+        # (x[i] <= t < x[i + 1], the end intervals extrapolating)
+        if t.ndim == 0 and nu <= 2:
+            return np.array(self.pdd(float(t))[nu])
+        x = self.knots
+        i = np.searchsorted(x, t, side="right") - 1
+        np.clip(i, 0, x.size - 2, out=i)
+        h = (t - x[i])[..., None]
+        c = self._cc[:, i]
+        if nu == 0:
+            return ((c[0] * h + c[1]) * h + c[2]) * h + c[3]
+        if nu == 1:
+            return (3.0 * c[0] * h + 2.0 * c[1]) * h + c[2]
+        if nu == 2:
+            return 6.0 * c[0] * h + 2.0 * c[1]
+        return self.cs(t, nu)
 
     def pdd(self, t):
         """Point, first and second derivative at scalar t, as float tuples (Horner on the
@@ -387,8 +407,12 @@ class Outline:
         splines (polynomial integrands up to degree 15), near machine precision on arcs.
         Returns (P, dP, w) with P, dP of shape (k, 2).
         """
-        ps, ds, ws = zip(*(p.quad() for p in self.pieces))
-        return np.concatenate(ps), np.concatenate(ds), np.concatenate(ws)
+        memo = self._memo()
+        got = memo.get("quadrature")
+        if got is None:
+            ps, ds, ws = zip(*(p.quad() for p in self.pieces))
+            got = memo["quadrature"] = (np.concatenate(ps), np.concatenate(ds), np.concatenate(ws))
+        return tuple(a.copy() for a in got)
 
     def signed_area(self) -> float:
         """Signed enclosed area (m^2), positive counter-clockwise (Green's theorem)."""
@@ -397,7 +421,20 @@ class Outline:
 
     def extreme_points(self) -> np.ndarray:
         """Candidate extreme points (piece ends, arc cardinal points, spline extrema) (m)."""
-        return np.concatenate([p.extreme_points() for p in self.pieces], axis=0)
+        memo = self._memo()
+        got = memo.get("extreme_points")
+        if got is None:
+            got = memo["extreme_points"] = np.concatenate(
+                [p.extreme_points() for p in self.pieces], axis=0)
+        return got.copy()
+
+    def _memo(self) -> dict:
+        """Per-outline store of derived arrays (the outline is immutable, so they never go stale)."""
+        memo = self.__dict__.get("_derived")
+        if memo is None:
+            memo = {}
+            object.__setattr__(self, "_derived", memo)
+        return memo
 
 
 # --- building -----------------------------------------------------------------------------------
@@ -708,7 +745,9 @@ def _build(profile) -> Outline:
         node_s[0] = 0.0
     arcs.sort(key=lambda a: a.s_start)
     sharps.sort(key=lambda e: e.s)
-    return Outline(tuple(pieces), s0, total, tuple(node_s), tuple(arcs), tuple(sharps), orient)
+    out = Outline(tuple(pieces), s0, total, tuple(node_s), tuple(arcs), tuple(sharps), orient)
+    out._memo().update(tmp._memo())  # same pieces: the quadrature is shared
+    return out
 
 
 def _build_periodic(profile) -> Outline:
