@@ -368,12 +368,51 @@ class Outline:
         """Points (m) at arc lengths ``s`` (m, taken modulo the perimeter); shape (len(s), 2)."""
         s, k = self._locate(np.atleast_1d(s))
         out = np.empty((s.size, 2))
-        for j in np.unique(k):
+        tab = self._piece_table()
+        sig = s - self.piece_s0[k]
+        np.clip(sig, 0.0, tab["length"][k], out=sig)
+        kind = tab["kind"][k]
+        # lines and arcs all at once (the same formulas as their pieces' ``at``)
+        m = kind == 0
+        if m.any():
+            km = k[m]
+            out[m] = tab["p0"][km] + sig[m, None] * tab["u"][km]
+        m = kind == 1
+        if m.any():
+            km = k[m]
+            a = tab["a0"][km] + tab["sense"][km] * sig[m] / tab["radius"][km]
+            out[m] = tab["centre"][km] + tab["radius"][km, None] * np.stack(
+                [np.cos(a), np.sin(a)], axis=-1)
+        for j in tab["splines"]:
             m = k == j
-            piece = self.pieces[j]
-            sig = np.clip(s[m] - self.piece_s0[j], 0.0, piece.length)
-            out[m] = piece.at(sig)
+            if m.any():
+                out[m] = self.pieces[j].at(sig[m])
         return out
+
+    def _piece_table(self) -> dict:
+        """Per-piece parameters as arrays, for evaluating lines and arcs without a loop."""
+        memo = self._memo()
+        tab = memo.get("pieces")
+        if tab is None:
+            npc = len(self.pieces)
+            tab = dict(kind=np.full(npc, 2), length=np.array([p.length for p in self.pieces]),
+                       p0=np.zeros((npc, 2)), u=np.zeros((npc, 2)), centre=np.zeros((npc, 2)),
+                       radius=np.ones(npc), a0=np.zeros(npc), sense=np.ones(npc), splines=[])
+            for j, p in enumerate(self.pieces):
+                if p.kind == "line":
+                    tab["kind"][j] = 0
+                    tab["p0"][j] = p.p0
+                    tab["u"][j] = p.u
+                elif p.kind == "arc":
+                    tab["kind"][j] = 1
+                    tab["centre"][j] = p.centre
+                    tab["radius"][j] = p.radius
+                    tab["a0"][j] = p.a0
+                    tab["sense"][j] = math.copysign(1.0, p.sweep)
+                else:
+                    tab["splines"].append(j)
+            memo["pieces"] = tab
+        return tab
 
     def cumulative_turn(self, s) -> np.ndarray:
         """Cumulative absolute turning of the tangent (rad) along smooth pieces up to ``s`` (m).
