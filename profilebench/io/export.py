@@ -24,10 +24,7 @@ __all__ = ["SURFACE_COLUMNS", "CAUTION", "write_surface_csv", "write_results_jso
 
 SURFACE_COLUMNS = ("surface", "s", "x", "y", "ue", "cp", "theta", "delta_star", "H", "cf", "regime")
 
-CAUTION = (
-    "Screening estimate: confirm by wind-tunnel test or validated CFD, under local vehicle codes "
-    "and licensed engineering practice."
-)
+CAUTION = profilebench.CAUTION  # one text for the whole product
 
 RESULTS_FORMAT = "profilebench-results"
 RESULTS_VERSION = 1

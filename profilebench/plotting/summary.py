@@ -37,7 +37,7 @@ def summary_rows(analysis):
             ("CdA", _g(d.cda, ".4f"), "m^2"),
             ("drag force", _g(d.force, ".2f"), "N"),
             ("power", _g(None if d.power is None else d.power / 1000.0, ".3f"), "kW"),
-            ("Cl", f"{d.cl:.4f}", "caution: inviscid, wake not modelled"),
+            ("Cl", f"{d.cl:.4f}", "caution: 2D, ground suction overstated"),
         ]
     rows.append(("Reynolds (full scale)", _g(analysis.reynolds, ".4g"), "on length"))
     rows.append(("Reynolds (model)", _g(analysis.model_reynolds, ".4g"), "on model length"))
