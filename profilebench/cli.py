@@ -8,6 +8,7 @@ Subcommands::
     profilebench compare BASELINE VARIANT [condition options]
     profilebench corners FILE [--smallest] [condition options]
     profilebench samples
+    profilebench bench [--only NAME ...] [--skip NAME ...]
 
 Without a subcommand the desktop editor starts (``profilebench PROJECT.json`` opens that file in
 it). Exit codes: 0 success, 1 an analysis did not
@@ -28,6 +29,9 @@ __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_FAILED", "EXIT_BAD_INPUT"]
 EXIT_OK = 0
 EXIT_FAILED = 1
 EXIT_BAD_INPUT = 2
+
+#: the benchmark scripts ``profilebench bench`` runs, from benchmarks/ beside the package
+BENCH_SCRIPTS = ("bench_inviscid", "bench_boundary_layer", "bench_analyze", "bench_gui")
 
 
 class _Failed(Exception):
@@ -82,6 +86,13 @@ def build_parser() -> argparse.ArgumentParser:
     _add_condition_options(p)
 
     sub.add_parser("samples", help="list the sample project files")
+
+    p = sub.add_parser("bench", help="run the benchmark scripts and print a table of medians and "
+                                     "ratios (needs a source checkout with benchmarks/)")
+    p.add_argument("--only", nargs="+", metavar="NAME",
+                   help="run only these benchmarks: " + ", ".join(BENCH_SCRIPTS))
+    p.add_argument("--skip", nargs="+", default=[], metavar="NAME",
+                   help="leave these benchmarks out (e.g. bench_gui)")
     return parser
 
 
@@ -274,6 +285,29 @@ def _cmd_samples(args, out):
     return EXIT_OK
 
 
+def _benchmarks_folder() -> Path:
+    return Path(profilebench.__file__).resolve().parent.parent / "benchmarks"
+
+
+def _cmd_bench(args, out):
+    import importlib.util
+
+    for opt in ("only", "skip"):
+        for name in getattr(args, opt) or []:
+            if name not in BENCH_SCRIPTS:
+                raise InputError(f"--{opt} {name!r} is not a benchmark; choose from "
+                                 f"{', '.join(BENCH_SCRIPTS)}")
+    path = _benchmarks_folder() / "run_all.py"
+    if not path.is_file():
+        raise InputError(f"the benchmark scripts are not installed (no {str(path)!r}); run "
+                         "'profilebench bench' from a source checkout of profilebench")
+    spec = importlib.util.spec_from_file_location("_profilebench_run_all", path)
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    argv = (["--only", *args.only] if args.only else []) + (["--skip", *args.skip] if args.skip else [])
+    return int(module.main(argv) or 0)
+
+
 def _start_editor(argv):
     """Start the desktop editor; ``argv`` holds an optional project file."""
     try:
@@ -289,7 +323,7 @@ def _start_editor(argv):
 
 
 COMMANDS = {"analyse": _cmd_analyse, "analyze": _cmd_analyse, "compare": _cmd_compare,
-            "corners": _cmd_corners, "samples": _cmd_samples}
+            "corners": _cmd_corners, "samples": _cmd_samples, "bench": _cmd_bench}
 
 
 def main(argv=None) -> int:

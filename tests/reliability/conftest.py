@@ -13,8 +13,3 @@ def sample_dict():
     """A fresh parsed copy of the default sample project file (a known-good project)."""
     return json.loads(Path(default_sample_path()).read_text(encoding="utf-8"))
 
-
-def write_json(folder: Path, name: str, data) -> Path:
-    path = folder / name
-    path.write_text(json.dumps(data), encoding="utf-8")
-    return path

@@ -19,7 +19,7 @@ from profilebench.cli import main
 from profilebench.errors import ConditionsError, GeometryError, InputError, ProfileBenchError, ProjectFileError
 from profilebench.io import MAX_PROJECT_BYTES, read_points_csv
 
-from conftest import write_json
+from reliability_helpers import write_json
 
 # words that tell the user what to do (common practice, no source)
 FIX_WORDS = r"\b(give|use|move|delete|remove|add|reduce|raise|turn|choose|check|restore|re-save|" \

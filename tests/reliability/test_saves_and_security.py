@@ -22,7 +22,7 @@ from profilebench.errors import ProjectFileError
 from profilebench.io import Project, Underlay, resolve_underlay
 from profilebench.io.samples import default_sample_path
 
-from conftest import write_json
+from reliability_helpers import write_json
 
 CHILD = textwrap.dedent("""
     import sys, dataclasses
