@@ -316,12 +316,24 @@ def _local_quadratic_fit(s, ue, n_fit):
     scale = s[win].max(axis=1) - s[win].min(axis=1)
     x = (s[win] - s[centre][:, None]) / scale[:, None]
     y = ue[win]
-    a = np.stack([np.ones_like(x), x, x * x], axis=-1)  # (m, w, 3)
-    ata = np.einsum("mwi,mwj->mij", a, a)
-    aty = np.einsum("mwi,mw->mi", a, y)
-    coef = np.linalg.solve(ata, aty[..., None])[..., 0]
-    u_fit[:m] = coef[:, 0]
-    d_fit[:m] = coef[:, 1] / scale
+    # normal equations of the fit c0 + c1 x + c2 x^2, solved by Cramer's rule (3 x 3, symmetric)
+    x2 = x * x
+    s1 = x.sum(axis=1)
+    s2 = x2.sum(axis=1)
+    s3 = (x2 * x).sum(axis=1)
+    s4 = (x2 * x2).sum(axis=1)
+    t0 = y.sum(axis=1)
+    t1 = (x * y).sum(axis=1)
+    t2 = (x2 * y).sum(axis=1)
+    s0 = float(w)
+    m11 = s2 * s4 - s3 * s3
+    m12 = s1 * s4 - s2 * s3
+    m13 = s1 * s3 - s2 * s2
+    det = s0 * m11 - s1 * m12 + s2 * m13
+    c0 = (t0 * m11 - s1 * (t1 * s4 - s3 * t2) + s2 * (t1 * s3 - s2 * t2)) / det
+    c1 = (s0 * (t1 * s4 - s3 * t2) - t0 * m12 + s2 * (s1 * t2 - s2 * t1)) / det
+    u_fit[:m] = c0
+    d_fit[:m] = c1 / scale
     u_fit[m:] = u_fit[m - 1]
     d_fit[m:] = d_fit[m - 1]
     return u_fit, d_fit
