@@ -100,7 +100,9 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
                 out.append(GroundContactError(
                     f"with the ground on, the profile must lie above y = 0, but its lowest point "
                     f"at ({_mm(low[0])}, {_mm(low[1])}) mm touches or lies below the "
-                    f"ground; raise the profile by more than {-low[1] * 1e3:.1f} mm (or turn the "
+                    f"ground; raise the profile "
+                    + (f"by more than {-low[1] * 1e3:.1f} mm" if low[1] < -5e-5 else "clear of y = 0")
+                    + " (or turn the "
                     "ground off)"))
     te = profile.trailing_edge
     if te is not None:

@@ -173,7 +173,8 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         if content:
             lines.append((number, content))
     if not lines:
-        raise ProjectFileError(f"{shown!r} holds no points (only blank lines or comments)")
+        raise ProjectFileError(f"{shown!r} holds no points (only blank lines or comments); "
+                               "choose the CSV file that holds the x, y columns")
 
     first = lines[0][1]
     delimiter = "\t" if "\t" in first else ";" if ";" in first else "," if "," in first else " "
@@ -202,13 +203,15 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         if len(cells) != ncols:
             raise ProjectFileError(
                 f"{shown!r} line {number}: {len(cells)} column(s), expected {ncols}"
-                + (" (x, y)" if ncols == 2 else f" as in the header {list(header)}"))
+                + (" (x, y)" if ncols == 2 else f" as in the header {list(header)}")
+                + "; fix that line or remove it")
         values = []
         for col in columns:
             parsed = _to_float(cells[col], delimiter)
             if parsed is None:
                 raise ProjectFileError(
-                    f"{shown!r} line {number}, column {col + 1}: {cells[col]!r} is not a number")
+                    f"{shown!r} line {number}, column {col + 1}: {cells[col]!r} is not a number; "
+                    "fix that cell or remove the line")
             value, used = parsed
             if not math.isfinite(value):
                 raise ProjectFileError(
@@ -219,7 +222,7 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         rows.append(values)
     if len(rows) < 3:
         raise ProjectFileError(
-            f"{shown!r} has {len(rows)} point(s); an outline needs at least 3")
+            f"{shown!r} has {len(rows)} point(s); an outline needs at least 3: add points")
     pts = np.asarray(rows, dtype=float)
 
     header_unit = _header_unit(header) if header is not None else None

@@ -488,14 +488,16 @@ def load_project(path) -> Project:
         if size > MAX_PROJECT_BYTES:
             raise ProjectFileError(
                 f"{shown!r} is {size / 1e6:.1f} MB, over the {MAX_PROJECT_BYTES / 1e6:.0f} MB "
-                "limit for a project file; it is probably not a profilebench project"
+                "limit for a project file; it is probably not a profilebench project: choose the "
+                "project's .json file"
             )
         with open(p, "rb") as fh:
             raw = fh.read(MAX_PROJECT_BYTES + 1)
     except OSError as exc:
         raise ProjectFileError(f"cannot read {shown!r}: {exc.strerror or exc}; check permissions") from exc
     if len(raw) > MAX_PROJECT_BYTES:
-        raise ProjectFileError(f"{shown!r} is over the {MAX_PROJECT_BYTES / 1e6:.0f} MB limit for a project file")
+        raise ProjectFileError(f"{shown!r} is over the {MAX_PROJECT_BYTES / 1e6:.0f} MB limit for a "
+                               "project file; choose the project's .json file")
     if not raw.strip():
         raise ProjectFileError(f"{shown!r} is empty; it holds no project (was a save interrupted?)")
     try:
@@ -513,7 +515,8 @@ def load_project(path) -> Project:
                 "restore it from a backup or re-save it"
             ) from exc
         raise ProjectFileError(
-            f"{shown!r} is not valid JSON: {exc.msg} at line {exc.lineno} column {exc.colno}"
+            f"{shown!r} is not valid JSON: {exc.msg} at line {exc.lineno} column {exc.colno}; "
+            "choose a profilebench project file, or restore this one from a backup"
         ) from exc
     except RecursionError as exc:
         raise ProjectFileError(f"{shown!r} is nested too deeply to be a project file") from exc

@@ -102,8 +102,6 @@ def test_body_below_the_ground():
     assert analyze(prof, Conditions(ground=False, panels=60)).success
 
 
-@pytest.mark.xfail(strict=True, reason="geometry/validity.py ground check: a body touching y = 0 "
-                   "is told to 'raise the profile by more than -0.0 mm' (a negative zero amount)")
 def test_body_touching_the_ground():
     prof = Profile.from_points([(x, y - 0.2) for x, y in BOX])
     msg = _failed(prof)
@@ -237,8 +235,6 @@ def test_project_with_missing_fields(tmp_path, sample_dict, where):
     assert re.search(r"\badd\b|expected", msg)  # the remedy: add the field / what is expected
 
 
-@pytest.mark.xfail(strict=True, reason="io/project.py load_project: 'is not valid JSON: Expecting "
-                   "value at line 1 column 1' says what is wrong but not what to do")
 @pytest.mark.parametrize("text", ["hello, this is not JSON", "x,y\n0,0.2\n", "{'format': 1}"],
                          ids=["prose", "csv", "python dict"])
 def test_project_that_is_not_json(tmp_path, text):
@@ -268,9 +264,6 @@ def test_project_that_is_empty(tmp_path):
     assert "is empty" in str(info.value)
 
 
-@pytest.mark.xfail(strict=True, reason="io/project.py load_project: the oversized-file message "
-                   "('over the 20 MB limit ...; it is probably not a profilebench project') "
-                   "gives no remedy such as 'choose the project file'")
 def test_project_that_is_huge(tmp_path):
     path = tmp_path / "huge.json"
     with open(path, "wb") as fh:
@@ -336,9 +329,6 @@ def test_csv_bad_content_with_remedy(tmp_path, text, what):
     assert re.search(FIX_WORDS + r"|needs at least", msg.lower())
 
 
-@pytest.mark.xfail(strict=True, reason="io/points.py import_points_csv: messages for a non-numeric "
-                   "cell, a wrong column count and a file without points say what is wrong but "
-                   "not what to do")
 @pytest.mark.parametrize("text, what", [
     ("0,0.2\n2,abc\n2,1.2\n", "line 2, column 2"),
     ("0,0.2\n2,0.2,5\n2,1.2\n", "line 2"),
