@@ -1,0 +1,140 @@
+"""Benchmark of the analysis hot path: ``analyze`` at 300 panels on every sample profile.
+
+Run as a script (``python benchmarks/bench_analyze.py``) or call :func:`run` for the table rows.
+
+For each sample project it reports the median time of ``profilebench.assess.analysis.analyze``
+with ``conditions.replace(panels=300)``, each call on a fresh, slightly moved profile (one node
+shifted by a few micrometres, a new Profile with an empty cache) so that the geometry caches do
+not hide the cost of building, validating, panelling and measuring the outline, as in an editor
+drag. The split comes from ``Analysis.timings`` (geometry, flow, radius search, assessment). In
+the same run it times ``numpy.linalg.solve`` on a well-conditioned 300 x 300 matrix and reports
+the ratio (target from the issues: analyze within 15x of that dense solve).
+
+A last row gives the median of one ``smallest_attached_radius`` search on the test-body sample's
+front upper corner.
+"""
+
+from __future__ import annotations
+
+import time
+
+import numpy as np
+
+from profilebench.assess.analysis import analyze
+from profilebench.assess.corners import smallest_attached_radius
+from profilebench.io import load_project
+from profilebench.io.samples import sample_paths
+
+PANELS = 300
+REPEATS = 21
+SEARCH_REPEATS = 5
+_SPLIT = ("geometry", "flow", "radius_search", "assess")
+
+
+def _median(values) -> float:
+    return float(np.median(np.asarray(values, dtype=float)))
+
+
+def dense_solve_time(n: int = PANELS, repeats: int = 200) -> float:
+    """Median time (s) of ``numpy.linalg.solve`` on a diagonally dominant n x n system."""
+    rng = np.random.default_rng(2024)
+    mat = rng.standard_normal((n, n)) + n * np.eye(n)
+    rhs = rng.standard_normal(n)
+    np.linalg.solve(mat, rhs)
+    times = []
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        np.linalg.solve(mat, rhs)
+        times.append(time.perf_counter() - t0)
+    return _median(times)
+
+
+def _moved(profile, k: int):
+    """A fresh profile with node 1 shifted by a few micrometres (k-dependent), empty cache."""
+    node = profile.nodes[1]
+    dx = 1e-6 * (1 + k % 7)
+    return profile.moved(1, node.x + dx, node.y)
+
+
+def _front_upper_corner(profile) -> int:
+    """Index of the rounded corner node with the smallest x among the upper half's corners."""
+    ys = [n.y for n in profile.nodes]
+    mid = 0.5 * (min(ys) + max(ys))
+    cands = [i for i, n in enumerate(profile.nodes) if not n.smooth and n.radius > 0 and n.y > mid]
+    return min(cands, key=lambda i: profile.nodes[i].x)
+
+
+def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: int = PANELS):
+    """Time ``analyze`` on each sample; return a list of dict rows.
+
+    Analysis rows: ``sample``, ``total_ms`` (median wall time of analyze), ``geometry_ms``,
+    ``flow_ms``, ``radius_search_ms``, ``assess_ms`` (medians of ``Analysis.timings``),
+    ``dense_solve_ms``, ``ratio`` (total / dense solve), ``status``, ``repeats``. The last row
+    has ``sample`` "radius search (test body, front upper corner)" and ``total_ms``.
+    """
+    t_dense = dense_solve_time(panels)
+    rows = []
+    for path in sample_paths():
+        project = load_project(path)
+        cond = project.conditions.replace(panels=panels)
+        analyze(_moved(project.profile, 0), cond)  # warm-up (imports, table loading)
+        totals, split = [], {k: [] for k in _SPLIT}
+        status = ""
+        for k in range(repeats):
+            prof = _moved(project.profile, k + 1)
+            t0 = time.perf_counter()
+            res = analyze(prof, cond)
+            totals.append(time.perf_counter() - t0)
+            status = res.status.name
+            for key in _SPLIT:
+                split[key].append(res.timings.get(key, 0.0))
+        # timings["assess"] is measured from the start of the assessment including the search
+        assess = [a - r for a, r in zip(split["assess"], split["radius_search"])]
+        t_total = _median(totals)
+        rows.append(dict(
+            sample=path.stem, total_ms=1e3 * t_total,
+            geometry_ms=1e3 * _median(split["geometry"]), flow_ms=1e3 * _median(split["flow"]),
+            radius_search_ms=1e3 * _median(split["radius_search"]),
+            assess_ms=1e3 * _median(assess), dense_solve_ms=1e3 * t_dense,
+            ratio=t_total / t_dense, status=status, repeats=repeats,
+        ))
+    body = next(p for p in sample_paths() if p.stem == "kestrel_test_body")
+    project = load_project(body)
+    cond = project.conditions.replace(panels=panels)
+    node = _front_upper_corner(project.profile)
+    times = []
+    for k in range(search_repeats):
+        prof = _moved(project.profile, k)
+        t0 = time.perf_counter()
+        smallest_attached_radius(prof, cond, node)
+        times.append(time.perf_counter() - t0)
+    t_search = _median(times)
+    rows.append(dict(sample=f"radius search (test body, node {node})", total_ms=1e3 * t_search,
+                     geometry_ms=float("nan"), flow_ms=float("nan"),
+                     radius_search_ms=float("nan"), assess_ms=float("nan"),
+                     dense_solve_ms=1e3 * t_dense, ratio=t_search / t_dense, status="",
+                     repeats=search_repeats))
+    return rows
+
+
+def format_rows(rows) -> str:
+    """The rows as a plain-text table."""
+    head = (f"{'sample':<36} {'total ms':>9} {'geom':>7} {'flow':>7} {'search':>7} {'assess':>7}"
+            f" {'np.solve':>9} {'ratio':>7} {'runs':>5}  status")
+    lines = [head]
+    for r in rows:
+        lines.append(
+            f"{r['sample']:<36} {r['total_ms']:>9.2f} {r['geometry_ms']:>7.2f} {r['flow_ms']:>7.2f}"
+            f" {r['radius_search_ms']:>7.2f} {r['assess_ms']:>7.2f} {r['dense_solve_ms']:>9.3f}"
+            f" {r['ratio']:>7.1f} {r['repeats']:>5d}  {r['status']}"
+        )
+    return "\n".join(lines)
+
+
+def main():
+    """Print the table."""
+    print(format_rows(run()))
+
+
+if __name__ == "__main__":
+    main()
