@@ -20,8 +20,9 @@ from profilebench.assess.conditions import Conditions
 import threading
 from collections import OrderedDict
 
-from profilebench.assess.corners import (EDGE_TURN_DEG, _verdict, assess_corners, corner_regions,
-                                         corners_needing_floor, smallest_attached_radius)
+from profilebench.assess.corners import (EDGE_TURN_DEG, _verdict, all_spans, assess_corners,
+                                         corner_regions, corners_needing_floor,
+                                         smallest_attached_radius)
 from profilebench.assess.drag import estimate_drag
 from profilebench.assess.results import Analysis, AnalysisStatus, FlowEvent
 from profilebench.errors import GeometryError, InputError, ProfileBenchError
@@ -89,8 +90,9 @@ def corner_verdict(profile, conditions, node, thickness=None):
     flow = _flow(profile, conditions, panelling, m.height)
     if not flow.success:
         return None
-    regions = corner_regions(panelling, flow)
-    for span, (k, lo, hi, bounded) in zip(panelling.corners, regions):
+    spans = all_spans(panelling, m.height)
+    regions = corner_regions(panelling, flow, spans)
+    for span, (k, lo, hi, bounded) in zip(spans[: len(panelling.corners)], regions):
         if span.node == node:
             if k < 0:
                 from profilebench.assess.results import Verdict
@@ -203,7 +205,8 @@ def analyze(profile, conditions=None, thickness=None, table=None):
                 f"'{table.name}' is used outside its Reynolds range")
     searches = []
     attached_ratios = {}
-    for node in corners_needing_floor(panelling, flow):
+    spans = all_spans(panelling, height)
+    for node in corners_needing_floor(panelling, flow, spans):
         search = cached_radius_search(profile, conditions, node, thickness=thickness)
         searches.append(search)
         if search.radius is not None:
@@ -215,7 +218,7 @@ def analyze(profile, conditions=None, thickness=None, table=None):
                             "table's own floor")
     timings["radius_search"] = time.perf_counter() - t2
     corners = assess_corners(profile, panelling, flow, t_ref, table=table, table_flagged=flagged,
-                             attached_ratios=attached_ratios)
+                             attached_ratios=attached_ratios, spans=spans)
     drag = estimate_drag(panelling.points, flow, conditions, height,
                          corner_penalties=[c.delta_cd for c in corners])
     timings["assess"] = time.perf_counter() - t2

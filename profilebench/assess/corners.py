@@ -18,7 +18,8 @@ import numpy as np
 from profilebench.assess.results import CornerResult, RadiusSearch, SearchStatus, Verdict
 from profilebench.errors import GeometryError, RadiusTooLargeError
 
-__all__ = ["assess_corners", "corner_regions", "smallest_attached_radius", "largest_fitting_radius"]
+__all__ = ["assess_corners", "corner_regions", "curvature_peaks", "all_spans",
+           "smallest_attached_radius", "largest_fitting_radius"]
 
 SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
 
@@ -27,7 +28,68 @@ SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separati
 EDGE_TURN_DEG = 10.0
 
 
-def corner_regions(panelling, flow):
+# A stretch of a smooth (spline) run whose curvature radius falls below this many frontal heights
+# and that turns the outline by more than EDGE_TURN_DEG is reported as a corner of its own: a
+# digitised or spline-drawn rounding has no node radius, but it is a corner all the same (common
+# practice, no source).
+PEAK_RADIUS_RATIO = 0.5
+
+
+def curvature_peaks(panelling, height):
+    """Curvature peaks of the smooth runs of a panelled outline, as CornerSpan values.
+
+    The discrete curvature at panel point j is the turn between panels j-1 and j over the mean
+    of their lengths. A peak is a local maximum of |curvature| above 1 / (PEAK_RADIUS_RATIO h) on
+    points that belong to no node corner; its span runs while |curvature| stays above half the
+    peak, its radius is 1 / peak curvature, its node the profile node nearest to it.
+    """
+    from profilebench.geometry.panelling import CornerSpan
+
+    pts = np.asarray(panelling.points, dtype=float)
+    n = len(pts)
+    seg = np.roll(pts, -1, axis=0) - pts
+    lengths = np.hypot(seg[:, 0], seg[:, 1])
+    heading = np.arctan2(seg[:, 1], seg[:, 0])
+    turn = np.angle(np.exp(1j * (heading - np.roll(heading, 1))))     # at point j: panel j-1 -> j
+    area2 = np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1])
+    convex_sign = 1.0 if area2 > 0 else -1.0   # counter-clockwise: left turns are convex
+    kappa = turn / (0.5 * (lengths + np.roll(lengths, 1)))
+    taken = np.zeros(n, dtype=bool)
+    for span in panelling.corners:
+        a, b = int(span.point_start), int(span.point_end)
+        idx = np.arange(a - 1, (b if b >= a else b + n) + 2) % n
+        taken[idx] = True
+    k_abs = np.abs(kappa)
+    k_min = 1.0 / (PEAK_RADIUS_RATIO * height)
+    peaks = []
+    for j in range(n):
+        if taken[j] or k_abs[j] < k_min:
+            continue
+        if not (k_abs[j] >= k_abs[(j - 1) % n] and k_abs[j] > k_abs[(j + 1) % n]):
+            continue
+        half = 0.5 * k_abs[j]
+        lo = j
+        while not taken[(lo - 1) % n] and k_abs[(lo - 1) % n] >= half and (j - lo) < n // 4:
+            lo -= 1
+        hi = j
+        while not taken[(hi + 1) % n] and k_abs[(hi + 1) % n] >= half and (hi - j) < n // 4:
+            hi += 1
+        idx = np.arange(lo, hi + 1) % n
+        turned = float(np.degrees(abs(np.sum(turn[idx]))))
+        if turned <= EDGE_TURN_DEG:
+            continue
+        node = int(np.argmin([np.hypot(*(pts[j] - pts[p])) for p in panelling.node_point]))
+        s_arr = np.asarray(panelling.s)
+        peaks.append(CornerSpan(
+            node=node, radius=float(1.0 / k_abs[j]), turning_angle_deg=turned,
+            convex=bool(np.sign(kappa[j]) == convex_sign), s_start=float(s_arr[lo % n]),
+            s_end=float(s_arr[hi % n]), point_start=int(lo % n), point_end=int(hi % n), centre=None,
+        ))
+        taken[idx] = True
+    return tuple(peaks)
+
+
+def corner_regions(panelling, flow, spans=None):
     """For each corner span: (surface index or -1, s_start, s_end) of its region on the surface.
 
     The region runs from the corner's arc start to the start of the next corner downstream on
@@ -39,8 +101,9 @@ def corner_regions(panelling, flow):
     pts = np.asarray(panelling.points, dtype=float)
     seg = np.roll(pts, -1, axis=0) - pts
     point_sigma = np.concatenate([[0.0], np.cumsum(np.hypot(seg[:, 0], seg[:, 1]))[:-1]])
+    spans = panelling.corners if spans is None else spans
     placed = []
-    for span in panelling.corners:
+    for span in spans:
         a, b = float(point_sigma[span.point_start]), float(point_sigma[span.point_end])
         if b < a:
             b += perim
@@ -146,12 +209,20 @@ def _table_view(table, r_over_t, solver_verdict, flagged):
     return table.name, critical, verdict, text
 
 
-def corners_needing_floor(panelling, flow):
-    """Nodes of convex corners the solver finds separated with the layer reattaching behind them
-    (corner bubbles): the corners whose drag correction needs the smallest attached radius."""
+def all_spans(panelling, height):
+    """The node corners of a panelling followed by the curvature peaks of its smooth runs."""
+    return tuple(panelling.corners) + curvature_peaks(panelling, height)
+
+
+def corners_needing_floor(panelling, flow, spans=None):
+    """Nodes of convex node corners the solver finds separated with the layer reattaching behind
+    them (corner bubbles): the corners whose drag correction needs the smallest attached radius.
+    Curvature peaks are not among them (no node radius to vary)."""
+    spans = panelling.corners if spans is None else spans
+    node_spans = set(id(sp) for sp in panelling.corners)
     out = []
-    for span, (k, lo, hi, bounded) in zip(panelling.corners, corner_regions(panelling, flow)):
-        if k < 0 or not span.convex:
+    for span, (k, lo, hi, bounded) in zip(spans, corner_regions(panelling, flow, spans)):
+        if k < 0 or not span.convex or id(span) not in node_spans:
             continue
         sfl = flow.surfaces[k]
         v = _verdict(sfl.bl, lo, hi, span.convex, sfl.restarts, bounded)[0]
@@ -161,19 +232,26 @@ def corners_needing_floor(panelling, flow):
 
 
 def assess_corners(profile, panelling, flow, thickness, table=None, table_flagged=False,
-                   table_share=0.5, attached_ratios=None):
-    """Corner results for every non-smooth node of ``profile``.
+                   table_share=0.5, attached_ratios=None, spans=None):
+    """Corner results for every non-smooth node of ``profile`` and every curvature peak in
+    ``spans`` (default: the node corners only; see :func:`all_spans`).
 
     ``table`` is an empirical r/t table (profilebench.assess.tables.RtTable) or None; its penalty
     curve gives the drag correction of corners that separate and then reattach (a corner
     bubble), times ``table_share`` (the data of a 2D section with two rounded front corners
     cover both: half each).
     """
-    regions = corner_regions(panelling, flow)
+    spans = panelling.corners if spans is None else spans
+    node_spans = set(id(sp) for sp in panelling.corners)
+    regions = corner_regions(panelling, flow, spans)
     attached_ratios = {} if attached_ratios is None else dict(attached_ratios)
     out = []
-    for span, (k, lo, hi, bounded) in zip(panelling.corners, regions):
+    for span, (k, lo, hi, bounded) in zip(spans, regions):
         node = profile.nodes[span.node]
+        is_peak = id(span) not in node_spans
+        label = node.label or f"node {span.node}"
+        if is_peak:
+            label = f"curvature peak near {label}"
         r_over_t = float(span.radius) / thickness
         if k < 0:
             # on neither surface: behind both final separation points, in the wake
@@ -188,7 +266,7 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
         delta_cd = 0.0
         bubble = verdict.separated and any(lo - 1e-9 <= r.s <= hi + 1e-9 for r in bl_restarts)
         if table is not None and bubble and span.convex:
-            floor = attached_ratios.get(span.node)
+            floor = None if is_peak else attached_ratios.get(span.node)
             if floor is None:
                 floor = table.critical_ratio if table.critical_ratio is not None else table.ratios[-1]
             # the table holds its last value beyond its data: a floor past the end is the end
@@ -196,10 +274,13 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
             delta_cd = float(table_share * table.penalty(r_over_t, attached_ratio=floor))
         name, critical, tverdict, disagreement = _table_view(table, r_over_t, verdict, table_flagged)
         out.append(CornerResult(
-            node=span.node, label=node.label or f"node {span.node}", x=node.x, y=node.y,
+            node=span.node, label=label,
+            x=float(panelling.points[span.point_start][0]) if is_peak else node.x,
+            y=float(panelling.points[span.point_start][1]) if is_peak else node.y,
             radius=float(span.radius), turning_angle_deg=float(span.turning_angle_deg),
             convex=bool(span.convex), thickness=float(thickness),
-            thickness_definition="frontal height h of the profile",
+            thickness_definition=("frontal height h of the profile" if not is_peak else
+                                  "frontal height h; r = smallest curvature radius of the peak"),
             r_over_t=r_over_t, surface=surface, s_start=float(lo), s_end=float(hi),
             verdict=verdict, margin=float(margin), detail=detail,
             table_name=name, table_critical_ratio=critical, table_verdict=tverdict,

@@ -215,3 +215,22 @@ def test_compare_refuses_a_failed_analysis():
     good = analyze(_body(0.1), _body_conditions())
     with pytest.raises(InputError, match="did not succeed"):
         compare(good, bad)
+
+
+def test_digitised_outline_reports_its_rounded_corners_as_curvature_peaks():
+    # a rounded box sampled as 120 digitised points: its two 100 mm front fillets (exact geometry
+    # of the box, turning 90 degrees each) have no node radius once imported, but must still be
+    # assessed as corners, with the curvature radius found on the imported outline
+    from profilebench.geometry import build_outline
+    from profilebench.io import profile_from_points
+
+    box = rounded_box(BODY_L, BODY_H, (0.1, 0.0, 0.0, 0.1), clearance=BODY_CLEAR)
+    imported = profile_from_points(build_outline(box).sample(120), name="digitised")
+    a = analyze(imported, _body_conditions())
+    assert a.success, a.message
+    peaks = [c for c in a.corners if c.label.startswith("curvature peak")]
+    assert len(peaks) == 2
+    for c in peaks:
+        assert c.convex and c.x < 0.2                       # the front corners
+        assert c.radius == pytest.approx(0.1, rel=0.15)     # discrete curvature of a spline fit
+        assert c.turning_angle_deg == pytest.approx(90.0, abs=15.0)
