@@ -50,6 +50,9 @@ def _add_condition_options(p):
     g.add_argument("--h-separation", type=float, metavar="H",
                    help="turbulent separation threshold on the shape factor H (1.8 to 2.8)")
     g.add_argument("--panels", type=int, metavar="N", help="number of panels on the outline")
+    g.add_argument("--table", metavar="CSV",
+                   help="an r/t table of your own (in-house data) instead of the built-in ones; "
+                        "format in profilebench/assess/tables.py")
     g.add_argument("--altitude", type=float, metavar="M",
                    help="ISO 2533 geopotential altitude in metres")
 
@@ -134,10 +137,15 @@ def _conditions(project, args):
     return cond.replace(**changes) if changes else cond
 
 
-def _analyse(profile, conditions):
+def _analyse(profile, conditions, args=None):
     from profilebench.assess.analysis import analyze
 
-    return analyze(profile, conditions)
+    table = None
+    if args is not None and getattr(args, "table", None):
+        from profilebench.assess.tables import load_table
+
+        table = load_table(args.table)
+    return analyze(profile, conditions, table=table)
 
 
 def _check_success(analysis, what):
@@ -184,7 +192,7 @@ def _cmd_analyse(args, out):
             raise InputError(f"--{opt} {value!r}: the file name must end in {ext}")
     project = _load(args.file)
     cond = _conditions(project, args)
-    analysis = _analyse(project.profile, cond)
+    analysis = _analyse(project.profile, cond, args)
     _check_success(analysis, f"{args.file}")
     print(f"{project.profile.name} ({args.file})", file=out)
     print("", file=out)
@@ -209,9 +217,9 @@ def _cmd_compare(args, out):
     from profilebench.assess.compare import compare
 
     pa, pb = _load(args.baseline), _load(args.variant)
-    a = _analyse(pa.profile, _conditions(pa, args))
+    a = _analyse(pa.profile, _conditions(pa, args), args)
     _check_success(a, f"baseline {args.baseline}")
-    b = _analyse(pb.profile, _conditions(pb, args))
+    b = _analyse(pb.profile, _conditions(pb, args), args)
     _check_success(b, f"variant {args.variant}")
     c = compare(a, b)
     fmt = lambda v, f, scale=1.0: "n/a" if v is None else format(v * scale, f)  # noqa: E731
@@ -246,7 +254,7 @@ def _cmd_corners(args, out):
 
     project = _load(args.file)
     cond = _conditions(project, args)
-    analysis = _analyse(project.profile, cond)
+    analysis = _analyse(project.profile, cond, args)
     _check_success(analysis, f"{args.file}")
     print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
     if args.smallest:
