@@ -3,7 +3,8 @@
 Drives a drag of 60 real mouse moves (QTest) on the default sample analysed with ~300 panels and
 reports, as medians over the moves:
 
-- mouse event to repaint of the canvas with the new outline;
+- mouse event to repaint of the canvas with the new outline (the cheap preview at first);
+- mouse event to the first repaint with the built outline of that move (built on a worker);
 - mouse event to arrival of an analysis of that outline (moves superseded by a newer one before
   their solve started never get one: the newest edit wins; those are counted, not timed);
 - a second pass with a pause after each move: mouse event to arrival of that move's analysis;
@@ -73,6 +74,13 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
 
     arrivals = {}
     w.runner.finished.connect(lambda g, a, s: arrivals.setdefault(g, time.perf_counter()))
+    built_at = {}
+
+    def painted(t):
+        if c.last_paint_built:
+            built_at.setdefault(id(c.last_paint_profile), t)
+
+    c.painted.connect(painted)
 
     def press_at(p):
         QTest.mousePress(c, Qt.LeftButton, Qt.NoModifier, p)
@@ -83,13 +91,14 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
     press_at(p0)
     heart.start()
     last[0] = time.perf_counter()
-    paint_ms, sent = [], []
+    paint_ms, sent, targets = [], [], []
     for k in range(1, moves + 1):
         p = QPoint(p0.x() + (k % 20) - 10 if k > 20 else p0.x(), p0.y() - k // 2)
         t0 = time.perf_counter()
         QTest.mouseMove(c, p)
         target = w.document.profile
         sent.append((w.runner.generation, t0))
+        targets.append((target, t0))
         _wait(app, lambda: c.last_paint_profile is target)
         paint_ms.append(1000 * (c.last_paint_time - t0))
         t_next = t0 + move_interval_ms / 1000
@@ -101,6 +110,7 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
     heart.stop()
     drag_gap = 1000 * max(gaps)
     analysis_ms = [1000 * (arrivals[g] - t) for g, t in sent if g in arrivals]
+    built_ms = [1000 * (built_at[id(p)] - t) for p, t in targets if id(p) in built_at]
 
     # ---- pass 2: a move, then wait for its analysis, 10 times
     gaps.clear()
@@ -133,6 +143,9 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
         row("one analysis (background), last", solve_ms),
         row("drag: mouse move -> canvas repaint, median", statistics.median(paint_ms), target=TARGET_MS),
         row("drag: mouse move -> canvas repaint, max", max(paint_ms)),
+        row("drag: moves whose built outline was drawn", len(built_ms), f"of {moves}"),
+        row("drag: mouse move -> built outline drawn, median",
+            statistics.median(built_ms) if built_ms else float("nan")),
         row("drag: moves that got their own analysis", len(analysis_ms), f"of {moves}"),
         row("drag: mouse move -> its analysis, median", statistics.median(analysis_ms) if analysis_ms else float("nan")),
         row("drag: longest GUI-thread gap (5 ms heartbeat)", drag_gap, target=TARGET_MS),

@@ -1,9 +1,12 @@
 """The profile canvas: outline, handles, Cp band, flow markers and corner labels, with QPainter.
 
 The canvas draws and forwards mouse gestures; what a gesture does is decided by the Qt-free
-functions of :mod:`profilebench.editor.interaction`. Drawing uses only cached geometry (the built
-outline of the current profile, the analysis' stations) so a repaint during a drag stays in the
-low milliseconds.
+functions of :mod:`profilebench.editor.interaction`. The GUI thread never builds an outline during
+editing: the built outline of each new profile is computed on a worker thread, and until it
+arrives the canvas draws :func:`profilebench.editor.preview.preview_outline` (node polygon with
+fillet arcs). The analysis overlay (Cp band, separated flow, markers, corner labels, legend) is
+drawn once per analysis and view into cached images, so a repaint during a drag only draws the
+outline and the handles over them.
 """
 
 from __future__ import annotations
@@ -14,16 +17,18 @@ import time
 import numpy as np
 from matplotlib import colormaps
 from matplotlib.colors import TwoSlopeNorm
-from PySide6.QtCore import QPointF, QRectF, Qt, Signal
-from PySide6.QtGui import (QBrush, QColor, QFont, QFontMetricsF, QLinearGradient, QPainter,
+from PySide6.QtCore import QLineF, QPointF, QRectF, Qt, QThreadPool, Signal
+from PySide6.QtGui import (QBrush, QColor, QFont, QFontMetricsF, QImage, QLinearGradient, QPainter,
                            QPainterPath, QPen, QPixmap, QPolygonF, QTransform)
 from PySide6.QtWidgets import QSizePolicy, QWidget
 
 from profilebench.editor.interaction import (NodeDrag, RadiusDrag, hit_node, hit_radius_handle,
                                              hit_segment, radius_handle_position)
+from profilebench.editor.preview import preview_outline
 from profilebench.editor.view import ViewTransform, fit_view
 from profilebench.errors import ProfileBenchError
 from profilebench.gui.refcount_guard import restore_none_refcount
+from profilebench.gui.worker import TaskRunner
 from profilebench.plotting.profile_view import bubbles, corner_label
 from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
                                          OKABE_ITO, SEPARATED_COLOUR)
@@ -31,31 +36,88 @@ from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLOR
 __all__ = ["ProfileCanvas", "outline_points"]
 
 _CMAP = colormaps[CP_COLORMAP]
+_CP_BINS = 64          # the Cp band is drawn with this many pen colours
+
+
+def build_outline_points(profile):
+    """(points, ok, message) of the built outline of ``profile``; safe on a worker thread.
+
+    ``ok`` is False with the reason when the outline cannot be built (then the node polygon is
+    returned so the user still sees what they drew).
+    """
+    try:
+        from profilebench.geometry.outline import build_outline
+
+        pts = np.asarray(build_outline(profile).sample(400), dtype=float)
+        return pts, True, ""
+    except ProfileBenchError as exc:
+        return np.asarray(profile.xy, dtype=float), False, str(exc)
+    except Exception as exc:  # a geometry bug must not stop the drawing
+        return np.asarray(profile.xy, dtype=float), False, f"{type(exc).__name__}: {exc}"
+
+
+def _remember(cache: dict, profile, result):
+    if len(cache) > 8:
+        cache.clear()
+    cache[id(profile)] = (profile, result)
+
+
+def _cached(cache: dict, profile):
+    hit = cache.get(id(profile))
+    return hit[1] if hit is not None and hit[0] is profile else None
 
 
 def outline_points(profile, cache: dict):
     """Points (m) of the built outline of ``profile`` (arcs and splines), or its nodes.
 
-    Returns (points, ok, message): ``ok`` False with the reason when the outline cannot be built
-    (then the node polygon is returned so the user still sees what they drew).
+    Built at once on the calling thread (for rare calls: fitting the view, the baseline).
+    Returns (points, ok, message): ``ok`` False with the reason when the outline cannot be built.
     """
-    key = id(profile)
-    hit = cache.get(key)
-    if hit is not None and hit[0] is profile:
-        return hit[1]
-    try:
-        from profilebench.geometry.outline import build_outline
-
-        pts = np.asarray(build_outline(profile).sample(400), dtype=float)
-        result = (pts, True, "")
-    except ProfileBenchError as exc:
-        result = (np.asarray(profile.xy, dtype=float), False, str(exc))
-    except Exception as exc:  # a geometry bug must not stop the drawing
-        result = (np.asarray(profile.xy, dtype=float), False, f"{type(exc).__name__}: {exc}")
-    if len(cache) > 8:
-        cache.clear()
-    cache[key] = (profile, result)
+    hit = _cached(cache, profile)
+    if hit is not None:
+        return hit
+    result = build_outline_points(profile)
+    _remember(cache, profile, result)
     return result
+
+
+def _outline_job(profile):
+    return profile, build_outline_points(profile)
+
+
+def _new_layer(width: int, height: int, dpr: float) -> QImage:
+    img = QImage(max(1, round(width * dpr)), max(1, round(height * dpr)),
+                 QImage.Format_ARGB32_Premultiplied)
+    img.setDevicePixelRatio(dpr)
+    img.fill(Qt.transparent)
+    return img
+
+
+def _render_overlay(scene):
+    """(under, over) QImages of the analysis overlay of ``scene`` (safe on a worker thread:
+    QPainter on a QImage is allowed off the GUI thread)."""
+    alpha = 0.35 if scene.stale else 1.0
+    under = _new_layer(scene.width(), scene.height(), scene.devicePixelRatioF())
+    over = _new_layer(scene.width(), scene.height(), scene.devicePixelRatioF())
+    qp = QPainter(under)
+    qp.setRenderHint(QPainter.Antialiasing, True)
+    qp.setFont(scene.font())
+    scene._draw_separated(qp, alpha)
+    scene._draw_cp(qp, alpha)
+    qp.end()
+    qp = QPainter(over)
+    qp.setRenderHint(QPainter.Antialiasing, True)
+    qp.setFont(scene.font())
+    scene._draw_events(qp, alpha)
+    scene._draw_corner_labels(qp, alpha)
+    qp.setFont(scene.font())
+    scene._draw_legend(qp)
+    qp.end()
+    return under, over
+
+
+def _overlay_job(key, analysis, scene):
+    return key, analysis, _render_overlay(scene)
 
 
 def _qcolor(hex_colour: str, alpha: float = 1.0) -> QColor:
@@ -112,7 +174,20 @@ class ProfileCanvas(QWidget):
         self._fitted = False
         self.last_paint_profile = None
         self.last_paint_time = 0.0
+        self.last_paint_built = False   # the last repaint drew the built outline (not the preview)
         self.outline_message = ""
+        self._overlay = None            # (key, under image, over image)
+        self.overlay_renders = 0
+        self._label_rects: list = []
+        # outlines are built on a pool of their own so they never wait behind an analysis
+        self._outline_pool = QThreadPool(self)
+        self._outline_pool.setMaxThreadCount(2)
+        self.outline_runner = TaskRunner(_outline_job, self, pool=self._outline_pool)
+        self.outline_runner.finished.connect(self._outline_built)
+        self._outline_requested = None
+        self._overlay_requested = None
+        self.overlay_runner = TaskRunner(_overlay_job, self, pool=self._outline_pool)
+        self.overlay_runner.finished.connect(self._overlay_drawn)
 
     # ----------------------------------------------------------------- model in
     def set_state(self, state, selected=None):
@@ -133,15 +208,42 @@ class ProfileCanvas(QWidget):
             self.update()
 
     def current_outline(self):
+        """(points, ok, message, built) of the current profile's outline.
+
+        ``built`` False: the built outline is still being computed on the worker; the points are
+        the cheap preview and ``ok``/``message`` those of the last built outline.
+        """
         if self.state is None:
-            return None, False, ""
-        return outline_points(self.state.profile, self._outline_cache)
+            return None, False, "", False
+        prof = self.state.profile
+        hit = _cached(self._outline_cache, prof)
+        if hit is not None:
+            return (*hit, True)
+        if self._outline_requested is not prof:
+            self._outline_requested = prof
+            self.outline_runner.request(prof)
+        try:
+            pts = preview_outline(prof)
+        except Exception:  # the preview must never stop the drawing
+            pts = np.asarray(prof.xy, dtype=float)
+        return pts, True, self.outline_message, False
+
+    def _outline_built(self, generation, result, seconds):
+        profile, outline = result
+        _remember(self._outline_cache, profile, outline)
+        if self.state is not None and self.state.profile is profile:
+            self.update()
+
+    def shutdown(self, msecs: int = 10000) -> bool:
+        """Stop the outline worker (on closing the window)."""
+        ok = self.outline_runner.close(msecs) and self.overlay_runner.close(msecs)
+        return self._outline_pool.waitForDone(msecs) and ok
 
     # ----------------------------------------------------------------- view
     def fit(self):
         if self.state is None:
             return
-        pts, _, _ = self.current_outline()
+        pts, _, _ = outline_points(self.state.profile, self._outline_cache)
         xmin, ymin = pts.min(axis=0)
         xmax, ymax = pts.max(axis=0)
         ymin = min(ymin, 0.0)
@@ -346,12 +448,18 @@ class ProfileCanvas(QWidget):
         pts, cp = st
         norm = self._cp_norm(cp)
         seg_cp = 0.5 * (cp + np.roll(cp, -1))
-        colours = _CMAP(norm(seg_cp))
-        poly = self._poly(pts)
-        for i in range(len(pts)):
-            r, g, b, _ = colours[i]
-            qp.setPen(QPen(QColor.fromRgbF(r, g, b, alpha), 7, Qt.SolidLine, Qt.RoundCap))
-            qp.drawLine(poly[i], poly[i + 1])
+        level = np.clip(np.asarray(norm(seg_cp), float), 0.0, 1.0)
+        bins = np.minimum((level * _CP_BINS).astype(int), _CP_BINS - 1)
+        v = self.view
+        sx = (v.offset_x + v.scale * pts[:, 0]).tolist()
+        sy = (v.offset_y - v.scale * pts[:, 1]).tolist()
+        n = len(pts)
+        for b in np.unique(bins).tolist():
+            r, g, bl, _ = _CMAP((b + 0.5) / _CP_BINS)
+            qp.setPen(QPen(QColor.fromRgbF(r, g, bl, alpha), 7, Qt.SolidLine, Qt.RoundCap))
+            lines = [QLineF(sx[i], sy[i], sx[(i + 1) % n], sy[(i + 1) % n])
+                     for i in np.flatnonzero(bins == b).tolist()]
+            qp.drawLines(lines)
         if self.cp_offset_curve:
             # offset curve: -Cp outward (suction drawn outside the body), 40 px per unit Cp
             off = pts + self._outward(pts) * (-cp)[:, None] * (40.0 / self.view.scale)
@@ -372,10 +480,13 @@ class ProfileCanvas(QWidget):
         qp.setPen(Qt.NoPen)
         qp.setBrush(QBrush(_qcolor(SEPARATED_COLOUR, 0.35 * alpha)))
         n = len(pts)
-        for i in np.flatnonzero(mask):
-            j = (i + 1) % n
-            quad = np.array([pts[i], pts[j], off[j], off[i]])
-            qp.drawPolygon(self._poly(quad))
+        # one band polygon per run of separated stations (not one quad per station)
+        idx = np.flatnonzero(mask)
+        breaks = np.flatnonzero(np.diff(idx) > 1)
+        for run in np.split(idx, breaks + 1):
+            ends = np.append(run, (run[-1] + 1) % n)
+            band = np.vstack([pts[ends], off[ends][::-1]])
+            qp.drawPolygon(self._poly(band))
 
     def _marker_path(self, marker: str, size: float) -> QPainterPath:
         h = size / 2
@@ -431,6 +542,7 @@ class ProfileCanvas(QWidget):
 
     def _draw_corner_labels(self, qp: QPainter, alpha: float):
         corners = getattr(self.analysis, "corners", ()) or ()
+        self._label_rects = []
         if not corners:
             return
         font = QFont(self.font())
@@ -460,6 +572,7 @@ class ProfileCanvas(QWidget):
                     break
                 rect.translate(0, h + 2 if d[1] >= 0 else -(h + 2))
             placed.append(rect)
+            self._label_rects.append(QRectF(rect))
             sep = getattr(c.verdict, "separated", False)
             colour = QColor(OKABE_ITO["vermillion"]) if sep else QColor(OKABE_ITO["bluish_green"])
             if c.node == self.selected:
@@ -540,8 +653,7 @@ class ProfileCanvas(QWidget):
         width = max([fm.horizontalAdvance(t) for _, t in rows] + [fm.horizontalAdvance("Cp  -2.0")]) + 44
         bar_h = 120 if (st is not None and self.show_cp) else 0
         height = len(rows) * (fm.height() + 3) + bar_h + 16
-        x0 = self.width() - width - 10
-        y0 = 10
+        x0, y0 = self._legend_position(width, height)
         qp.setPen(QColor(180, 180, 180))
         qp.setBrush(QColor(255, 255, 255, 225))
         qp.drawRect(QRectF(x0, y0, width, height))
@@ -585,6 +697,79 @@ class ProfileCanvas(QWidget):
             qp.drawText(QPointF(x0 + 34, y + fm.ascent()), text)
             y += fm.height() + 3
 
+    # ----------------------------------------------------------------- overlay cache
+    def _overlay_key(self):
+        v = self.view
+        return (id(self.analysis), self.stale, self.show_cp, self.cp_offset_curve, self.selected,
+                getattr(self.state, "baseline", None) is not None, v.scale, v.offset_x, v.offset_y,
+                self.width(), self.height(), self.devicePixelRatioF())
+
+    def _scene(self):
+        """A copy of what the analysis overlay depends on, for drawing it on a worker thread."""
+        return _OverlayScene(self)
+
+    def _overlay_images(self):
+        """(under, over) images of the analysis overlay for the current analysis and view.
+
+        Drawn on the GUI thread only when the view or the canvas size changed (zoom, pan,
+        resize); a new analysis or selection with the same view is drawn on the overlay worker
+        while the previous images stay on screen.
+        """
+        key = self._overlay_key()
+        if self._overlay is not None and self._overlay[0] == key and self._overlay[1] is self.analysis:
+            return self._overlay[2], self._overlay[3]
+        same_view = self._overlay is not None and self._overlay[0][6:] == key[6:]
+        if same_view:
+            if self._overlay_requested != key:
+                self._overlay_requested = key
+                self.overlay_runner.request(key, self.analysis, self._scene())
+            return self._overlay[2], self._overlay[3]
+        under, over = _render_overlay(self._scene())
+        self.overlay_renders += 1
+        self._overlay = (key, self.analysis, under, over)
+        return under, over
+
+    def _overlay_drawn(self, generation, result, seconds):
+        key, analysis, (under, over) = result
+        self.overlay_renders += 1
+        if key == self._overlay_key() and analysis is self.analysis:
+            self._overlay = (key, analysis, under, over)
+            self.update()
+
+    def _legend_position(self, width: float, height: float):
+        """Top-left corner (px) of the legend box where it covers least.
+
+        Candidates: the four corners of the canvas and the middles of its top and bottom edges.
+        Score: the area the box would hide of the corner labels (weighted 4x), of the outline's
+        bounding box, of the length readouts at the top left, and of the ground line's label.
+        """
+        W, H, m = self.width(), self.height(), 10.0
+        candidates = [(W - width - m, m), (W - width - m, H - height - m - 18),
+                      (m, H - height - m - 18), (0.5 * (W - width), m),
+                      (0.5 * (W - width), H - height - m - 18), (m, 110.0)]
+        avoid = [(r, 4.0) for r in self._label_rects]
+        pts = None
+        if self.state is not None:
+            hit = _cached(self._outline_cache, self.state.profile)
+            pts = hit[0] if hit is not None else np.asarray(self.state.profile.xy, float)
+        if pts is not None and len(pts):
+            (x0, y1), (x1, y0) = (self.view.to_screen(*pts.min(axis=0)),
+                                  self.view.to_screen(*pts.max(axis=0)))
+            avoid.append((QRectF(QPointF(min(x0, x1), min(y0, y1)), QPointF(max(x0, x1), max(y0, y1))), 1.0))
+        avoid.append((QRectF(0, 0, 230, 90), 2.0))    # length readouts
+
+        def cost(x, y):
+            box = QRectF(x, y, width, height)
+            total = 0.0
+            for r, weight in avoid:
+                inter = box.intersected(r)
+                if not inter.isEmpty():
+                    total += weight * inter.width() * inter.height()
+            return total
+
+        x, y = min(candidates, key=lambda c: cost(*c))
+        return max(x, 2.0), max(y, 2.0)
+
     def paintEvent(self, event):
         restore_none_refcount()
         qp = QPainter(self)
@@ -596,25 +781,25 @@ class ProfileCanvas(QWidget):
         self._draw_grid(qp)
         self._draw_underlay(qp)
         self._draw_ground(qp)
-        pts, ok, message = self.current_outline()
+        pts, ok, message, built = self.current_outline()
         self.outline_message = message
         self._draw_baseline(qp, pts)
-        alpha = 0.35 if self.stale else 1.0
+        under = over = None
         if self.analysis is not None:
-            self._draw_separated(qp, alpha)
-            self._draw_cp(qp, alpha)
+            under, over = self._overlay_images()
+            qp.drawImage(0, 0, under)
         pen = QPen(QColor(15, 15, 15) if ok else QColor(OKABE_ITO["vermillion"]), 1.6,
                    Qt.SolidLine if ok else Qt.DashLine)
         qp.setPen(pen)
         qp.setBrush(Qt.NoBrush)
         qp.drawPolyline(self._poly(pts))
-        if self.analysis is not None:
-            self._draw_events(qp, alpha)
-            self._draw_corner_labels(qp, alpha)
+        if over is not None:
+            qp.drawImage(0, 0, over)
+        elif getattr(self.state, "baseline", None) is not None:
+            self._label_rects = []
+            self._draw_legend(qp)
         self._draw_nodes(qp)
         self._draw_readouts(qp, pts)
-        if self.analysis is not None or getattr(self.state, "baseline", None) is not None:
-            self._draw_legend(qp)
         if self.stale and self.analysis is not None:
             qp.setPen(QColor(OKABE_ITO["vermillion"]))
             qp.drawText(QPointF(12, self.height() - 12),
@@ -622,5 +807,51 @@ class ProfileCanvas(QWidget):
         qp.end()
         restore_none_refcount()
         self.last_paint_profile = self.state.profile
+        self.last_paint_built = built
         self.last_paint_time = time.perf_counter()
         self.painted.emit(self.last_paint_time)
+
+
+class _OverlayScene:
+    """A snapshot of the canvas fields the overlay drawing reads (copied on the GUI thread)."""
+
+    def __init__(self, canvas: ProfileCanvas):
+        self.view = canvas.view
+        self.analysis = canvas.analysis
+        self.state = canvas.state
+        self.stale = canvas.stale
+        self.show_cp = canvas.show_cp
+        self.cp_offset_curve = canvas.cp_offset_curve
+        self.selected = canvas.selected
+        self._size = (canvas.width(), canvas.height())
+        self._font = QFont(canvas.font())
+        self._dpr = canvas.devicePixelRatioF()
+        prof = getattr(canvas.state, "profile", None)
+        hit = _cached(canvas._outline_cache, prof) if prof is not None else None
+        self._outline_cache = {} if hit is None else {id(prof): (prof, hit)}
+        self._label_rects = []
+
+    def width(self):
+        return self._size[0]
+
+    def height(self):
+        return self._size[1]
+
+    def font(self):
+        return self._font
+
+    def devicePixelRatioF(self):
+        return self._dpr
+
+    _poly = ProfileCanvas._poly
+    _stations = ProfileCanvas._stations
+    _outward = ProfileCanvas._outward
+    _cp_norm = ProfileCanvas._cp_norm
+    _draw_cp = ProfileCanvas._draw_cp
+    _draw_separated = ProfileCanvas._draw_separated
+    _marker_path = ProfileCanvas._marker_path
+    _draw_marker = ProfileCanvas._draw_marker
+    _draw_events = ProfileCanvas._draw_events
+    _draw_corner_labels = ProfileCanvas._draw_corner_labels
+    _draw_legend = ProfileCanvas._draw_legend
+    _legend_position = ProfileCanvas._legend_position

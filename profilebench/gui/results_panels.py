@@ -1,18 +1,60 @@
-"""Panels showing an analysis: the corner table, the summary and the matplotlib plots."""
+"""Panels showing an analysis: the corner table, the summary and the matplotlib plots.
+
+The tables are updated in place (only cells whose text changed are touched; rows are rebuilt
+only when their number changes). The plots are rendered by matplotlib's Agg backend on a worker
+thread into an image (each render uses a figure of its own, so no figure is ever shared between
+threads); the GUI thread only shows the finished image.
+"""
 
 from __future__ import annotations
 
-from matplotlib.backends.backend_qtagg import FigureCanvasQTAgg
+from matplotlib.backends.backend_agg import FigureCanvasAgg
 from matplotlib.figure import Figure
-from PySide6.QtCore import Qt, Signal
+from PySide6.QtCore import QSize, Qt, QTimer, Signal
+from PySide6.QtGui import QImage, QPixmap
 from PySide6.QtWidgets import (QAbstractItemView, QHBoxLayout, QHeaderView, QLabel, QLineEdit,
-                               QPushButton, QTableWidget, QTableWidgetItem, QTabWidget,
-                               QVBoxLayout, QWidget)
+                               QPushButton, QSizePolicy, QTableWidget, QTableWidgetItem,
+                               QTabWidget, QVBoxLayout, QWidget)
+
+from profilebench.gui.worker import TaskRunner
 
 from profilebench.plotting import draw_boundary_layer, draw_cp, summary_rows
 from profilebench.plotting.summary import corner_rows
 
-__all__ = ["CornerTable", "SummaryPanel", "PlotPanel", "CORNER_HEADER"]
+__all__ = ["CornerTable", "SummaryPanel", "PlotPanel", "CORNER_HEADER", "LIFT_NOTE",
+           "render_plot", "set_table_cells"]
+
+LIFT_NOTE = ("Cl: 2D section over a slip ground; the gap flow under the body cannot escape "
+             "sideways, so ground suction is overstated. Read its sign and trend only.")
+
+
+def set_table_cells(table: QTableWidget, rows, style=None) -> int:
+    """Show ``rows`` (lists of cell texts) in ``table`` in place; returns how many cells changed.
+
+    Items are created only for new rows; an existing cell is touched only when its text or its
+    style changes. ``style(r, k, item)`` may set alignment, colour or tool tip of a cell.
+    """
+    changed = 0
+    table.setUpdatesEnabled(False)
+    try:
+        if table.rowCount() != len(rows):
+            table.setRowCount(len(rows))
+        for r, row in enumerate(rows):
+            for k, text in enumerate(row):
+                text = str(text)
+                item = table.item(r, k)
+                if item is None:
+                    item = QTableWidgetItem(text)
+                    table.setItem(r, k, item)
+                    changed += 1
+                elif item.text() != text:
+                    item.setText(text)
+                    changed += 1
+                if style is not None:
+                    style(r, k, item)
+    finally:
+        table.setUpdatesEnabled(True)
+    return changed
 
 CORNER_HEADER = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "margin", "table verdict",
                  "smallest attached r (mm)", "ΔCd")
@@ -37,7 +79,7 @@ class CornerTable(QWidget):
         self.table.setSelectionMode(QAbstractItemView.SingleSelection)
         self.table.setEditTriggers(QAbstractItemView.NoEditTriggers)
         self.table.verticalHeader().setVisible(False)
-        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeToContents)
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Interactive)
         self.table.itemSelectionChanged.connect(self._selection_changed)
         self.search_button = QPushButton("Find smallest attached radius")
         self.search_button.clicked.connect(self._search)
@@ -61,6 +103,7 @@ class CornerTable(QWidget):
         layout.addWidget(self.message)
         self._nodes: list[int] = []
         self._updating = False
+        self.last_changed = 0      # cells changed by the last set_rows
 
     def set_rows(self, analysis, searches: dict, selected):
         """Fill from ``analysis.corners`` (via :func:`profilebench.plotting.corner_rows`)."""
@@ -68,9 +111,11 @@ class CornerTable(QWidget):
         try:
             corners = tuple(getattr(analysis, "corners", ()) or ())
             rows = corner_rows(analysis) if corners else []
-            self.table.setRowCount(len(rows))
-            self._nodes = [c.node for c in corners]
-            for r, (c, row) in enumerate(zip(corners, rows)):
+            nodes = [c.node for c in corners]
+            same_rows = nodes == self._nodes and self.table.rowCount() == len(rows)
+            self._nodes = nodes
+            cells_all = []
+            for c, row in zip(corners, rows):
                 search = searches.get(c.node)
                 if search is None:
                     found = ""
@@ -80,16 +125,23 @@ class CornerTable(QWidget):
                     found = f"{search.radius * 1000:.0f}"
                 else:
                     found = getattr(search.status, "value", str(search.status))
-                cells = list(row[:7]) + [found, row[7]]
-                for k, text in enumerate(cells):
-                    item = QTableWidgetItem(str(text))
-                    if k in (1, 2, 3, 5, 7, 8):
-                        item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
-                    if k == 4 and getattr(c.verdict, "separated", False):
-                        item.setForeground(Qt.darkRed)
-                    if k == 6 and c.disagreement:
-                        item.setToolTip(c.disagreement)
-                    self.table.setItem(r, k, item)
+                cells_all.append(list(row[:7]) + [found, row[7]])
+
+            def style(r, k, item):
+                c = corners[r]
+                if k in (1, 2, 3, 5, 7, 8) and item.textAlignment() != int(Qt.AlignRight | Qt.AlignVCenter):
+                    item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
+                if k == 4:
+                    sep = bool(getattr(c.verdict, "separated", False))
+                    if item.data(Qt.UserRole) != sep:
+                        item.setData(Qt.UserRole, sep)
+                        item.setForeground(Qt.darkRed if sep else self.palette().text())
+                if k == 6 and item.toolTip() != (c.disagreement or ""):
+                    item.setToolTip(c.disagreement or "")
+
+            self.last_changed = set_table_cells(self.table, cells_all, style)
+            if not same_rows:
+                self.table.resizeColumnsToContents()
             self.select_node(selected)
         finally:
             self._updating = False
@@ -146,7 +198,7 @@ class SummaryPanel(QWidget):
         self.table.setHorizontalHeaderLabels(("quantity", "value", "note"))
         self.table.verticalHeader().setVisible(False)
         self.table.setEditTriggers(QAbstractItemView.NoEditTriggers)
-        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.ResizeToContents)
+        self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Interactive)
         self.table.horizontalHeader().setStretchLastSection(True)
         self.warnings = QLabel("")
         self.warnings.setWordWrap(True)
@@ -172,15 +224,20 @@ class SummaryPanel(QWidget):
                 rows.append(("Δ drag force", f"{comparison.delta_force:+.1f}", "N"))
                 rows.append(("Δ power", f"{comparison.delta_power / 1000:+.2f}", "kW"))
             notes = list(comparison.warnings) + notes
-        self.table.setRowCount(len(rows))
-        for r, row in enumerate(rows):
-            for k, text in enumerate(row):
-                item = QTableWidgetItem(str(text))
-                if stale:
-                    item.setForeground(Qt.gray)
-                self.table.setItem(r, k, item)
-        lift = "Cl: from an inviscid 2D section with no wake model; read its sign and trend only."
-        self.warnings.setText("\n".join(["⚠ " + n for n in notes] + [lift]))
+        grey = self.palette().placeholderText() if stale else self.palette().text()
+
+        def style(r, k, item):
+            if item.data(Qt.UserRole) != bool(stale):
+                item.setData(Qt.UserRole, bool(stale))
+                item.setForeground(grey)
+
+        before = self.table.rowCount()
+        set_table_cells(self.table, rows, style)
+        if before != len(rows):
+            self.table.resizeColumnsToContents()
+        text = "\n".join(["⚠ " + n for n in notes] + [LIFT_NOTE])
+        if self.warnings.text() != text:
+            self.warnings.setText(text)
 
     def value(self, quantity: str):
         for r in range(self.table.rowCount()):
@@ -189,21 +246,72 @@ class SummaryPanel(QWidget):
         return None
 
 
+def render_plot(analysis, kind: str, width_px: int, height_px: int, dpi: float = 90.0):
+    """Draw the ``kind`` plot ("cp" or "bl") of ``analysis`` with Agg; returns a QImage (RGBA).
+
+    Runs on a worker thread: the figure is created here and used by this call only.
+    """
+    fig = Figure(figsize=(max(width_px, 50) / dpi, max(height_px, 50) / dpi), dpi=dpi,
+                 layout="constrained")
+    agg = FigureCanvasAgg(fig)
+    if kind == "cp":
+        ax = fig.add_subplot(111)
+        draw_cp(ax, analysis)
+        ax.set_title("Cp along x", fontsize=9)
+    else:
+        ax_h, ax_cf = fig.subplots(2, 1, sharex=True)
+        draw_boundary_layer(ax_h, ax_cf, analysis)
+    agg.draw()
+    buf = agg.buffer_rgba()
+    h, w = buf.shape[0], buf.shape[1]
+    return QImage(bytes(buf), w, h, 4 * w, QImage.Format_RGBA8888).copy()
+
+
+def _render_job(analysis, kind, width_px, height_px):
+    return analysis, kind, render_plot(analysis, kind, width_px, height_px)
+
+
+class _PlotView(QLabel):
+    def __init__(self):
+        super().__init__()
+        self.setAlignment(Qt.AlignCenter)
+        self.setSizePolicy(QSizePolicy.Ignored, QSizePolicy.Ignored)
+        self.setMinimumSize(200, 120)
+        self.setStyleSheet("background: white;")
+
+    def sizeHint(self):
+        return QSize(450, 270)
+
+
 class PlotPanel(QTabWidget):
-    """Cp along x, and H and Cf along the surface (matplotlib via FigureCanvasQTAgg)."""
+    """Cp along x, and H and Cf along the surface (matplotlib Agg images rendered off the GUI thread).
+
+    Signals: ``rendered(str)`` with the plot kind ("cp" or "bl") when a new image is shown.
+    """
+
+    rendered = Signal(str)
+    KINDS = ("cp", "bl")
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.cp_figure = Figure(figsize=(5, 3), dpi=90, layout="constrained")
-        self.cp_canvas = FigureCanvasQTAgg(self.cp_figure)
-        self.bl_figure = Figure(figsize=(5, 3), dpi=90, layout="constrained")
-        self.bl_canvas = FigureCanvasQTAgg(self.bl_figure)
-        self.addTab(self.cp_canvas, "Pressure")
-        self.addTab(self.bl_canvas, "Boundary layer")
+        self.views = {"cp": _PlotView(), "bl": _PlotView()}
+        self.addTab(self.views["cp"], "Pressure")
+        self.addTab(self.views["bl"], "Boundary layer")
         self._analysis = None
-        self._drawn = {0: None, 1: None}
+        self._drawn = {"cp": None, "bl": None}
+        self._sizes = {"cp": None, "bl": None}
+        self.images = {"cp": None, "bl": None}
+        self.renderer = TaskRunner(_render_job, self)
+        self.renderer.finished.connect(self._rendered)
+        self.renderer.failed.connect(lambda g, m: self._show_text(self._kind(), f"plot failed (logged): {m}"))
+        self._resize_timer = QTimer(self)
+        self._resize_timer.setSingleShot(True)
+        self._resize_timer.timeout.connect(self._draw_current)
         self.currentChanged.connect(lambda _: self._draw_current())
         self.draws = 0
+
+    def _kind(self) -> str:
+        return self.KINDS[max(self.currentIndex(), 0)]
 
     def set_analysis(self, analysis):
         self._analysis = analysis
@@ -211,29 +319,41 @@ class PlotPanel(QTabWidget):
 
     def _draw_current(self):
         a = self._analysis
-        k = self.currentIndex()
-        if a is None or self._drawn.get(k) is a:
+        kind = self._kind()
+        view = self.views[kind]
+        size = (max(view.width(), 200), max(view.height(), 120))
+        if a is None or (self._drawn.get(kind) is a and self._sizes.get(kind) == size):
             return
-        self._drawn[k] = a
+        self._drawn[kind] = a
+        self._sizes[kind] = size
         self.draws += 1
-        if k == 0:
-            fig = self.cp_figure
-            fig.clear()
-            ax = fig.add_subplot(111)
-            draw_cp(ax, a)
-            ax.set_title("Cp along x", fontsize=9)
-            self.cp_canvas.draw_idle()
-        else:
-            fig = self.bl_figure
-            fig.clear()
-            ax_h, ax_cf = fig.subplots(2, 1, sharex=True)
-            draw_boundary_layer(ax_h, ax_cf, a)
-            self.bl_canvas.draw_idle()
+        self.renderer.request(a, kind, *size)
+
+    def _rendered(self, generation, result, seconds):
+        analysis, kind, image = result
+        if analysis is not self._analysis:
+            return
+        self.images[kind] = image
+        self.views[kind].setPixmap(QPixmap.fromImage(image))
+        self.rendered.emit(kind)
+
+    def _show_text(self, kind, message):
+        self.views[kind].setPixmap(QPixmap())
+        self.views[kind].setText(message)
+
+    def resizeEvent(self, event):
+        super().resizeEvent(event)
+        if self._analysis is not None:
+            self._resize_timer.start(150)
 
     def clear(self, message: str):
-        for fig, canvas in ((self.cp_figure, self.cp_canvas), (self.bl_figure, self.bl_canvas)):
-            fig.clear()
-            fig.text(0.5, 0.5, message, ha="center", va="center", wrap=True, fontsize=9)
-            canvas.draw_idle()
+        self.renderer.cancel_pending()
+        for kind in self.KINDS:
+            self._show_text(kind, message)
+            self.images[kind] = None
         self._analysis = None
-        self._drawn = {0: None, 1: None}
+        self._drawn = {"cp": None, "bl": None}
+
+    def shutdown(self, msecs: int = 10000) -> bool:
+        """Stop rendering (on closing the window)."""
+        return self.renderer.close(msecs)

@@ -25,23 +25,49 @@ class _Relay(QObject):
     done = Signal(int, object, str, float)   # generation, result, error text, seconds
 
 
+class _Activity:
+    """Count of a runner's jobs still running (their result may not yet be posted)."""
+
+    def __init__(self):
+        self._cond = threading.Condition()
+        self._count = 0
+
+    def begin(self):
+        with self._cond:
+            self._count += 1
+
+    def end(self):
+        with self._cond:
+            self._count -= 1
+            self._cond.notify_all()
+
+    def wait(self, seconds: float) -> bool:
+        with self._cond:
+            return self._cond.wait_for(lambda: self._count == 0, timeout=seconds)
+
+
 class _Job(QRunnable):
-    def __init__(self, relay: _Relay, generation: int, fn, args, idle: threading.Event):
+    def __init__(self, relay: _Relay, generation: int, fn, args, activity: _Activity, name: str):
         super().__init__()
         self.setAutoDelete(True)
         self.relay, self.generation, self.fn, self.args = relay, generation, fn, args
-        self.idle = idle
+        self.activity, self.name = activity, name
 
     def run(self):
         t0 = time.perf_counter()
         try:
-            result, error = (self.fn(*self.args),), ""   # boxed: None must not cross as itself
-        except Exception as exc:  # shown in the window and logged; the app goes on
-            result = ()
-            error = f"{type(exc).__name__}: {exc}"
-            log.error("analysis worker failed:\n%s", traceback.format_exc())
-        self.idle.set()
-        self.relay.done.emit(self.generation, result, error, time.perf_counter() - t0)
+            try:
+                result, error = (self.fn(*self.args),), ""   # boxed: None must not cross as itself
+            except Exception as exc:  # shown in the window and logged; the app goes on
+                result = ()
+                error = f"{type(exc).__name__}: {exc}"
+                log.error("%s failed in the background:\n%s", self.name, traceback.format_exc())
+            try:
+                self.relay.done.emit(self.generation, result, error, time.perf_counter() - t0)
+            except RuntimeError:   # the runner was deleted meanwhile: nobody wants the result
+                pass
+        finally:
+            self.activity.end()
 
 
 class TaskRunner(QObject):
@@ -58,18 +84,19 @@ class TaskRunner(QObject):
     finished = Signal(int, object, float)
     failed = Signal(int, str)
 
-    def __init__(self, fn, parent=None):
+    def __init__(self, fn, parent=None, pool: QThreadPool | None = None):
         super().__init__(parent)
         self._fn = fn
-        # Qt's shared pool; this runner itself keeps at most one of its jobs running
-        self._pool = QThreadPool.globalInstance()
-        self._idle = threading.Event()
-        self._idle.set()
+        # Qt's shared pool unless given one; this runner keeps at most one of its jobs running
+        self._pool = pool if pool is not None else QThreadPool.globalInstance()
+        self._activity = _Activity()
+        self.name = getattr(fn, "__name__", "task").strip("_") or "task"
         self._relay = _Relay(self)
         self._relay.done.connect(self._on_done)
         self._generation = 0
         self._pending = None
         self._running = False
+        self._closed = False
         self.dropped = 0     # stale results dropped (for tests and the benchmark)
         self.started = 0
 
@@ -83,8 +110,10 @@ class TaskRunner(QObject):
         return self._running or self._pending is not None
 
     def request(self, *args) -> int:
-        """Ask for ``fn(*args)``; returns the request's generation."""
+        """Ask for ``fn(*args)``; returns the request's generation (nothing runs once closed)."""
         self._generation += 1
+        if self._closed:
+            return self._generation
         self._pending = (self._generation, args)
         if not self._running:
             self._start_pending()
@@ -100,11 +129,13 @@ class TaskRunner(QObject):
         self._pending = None
         self._running = True
         self.started += 1
-        self._idle.clear()
-        self._pool.start(_Job(self._relay, generation, self._fn, args, self._idle))
+        self._activity.begin()
+        self._pool.start(_Job(self._relay, generation, self._fn, args, self._activity, self.name))
 
     def _on_done(self, generation, result, error, seconds):
         self._running = False
+        if self._closed:
+            return
         if self._pending is not None:
             self._start_pending()
         if generation != self._generation:
@@ -118,7 +149,16 @@ class TaskRunner(QObject):
     def wait(self, msecs: int = 30000) -> bool:
         """Wait for the running job (on closing the window)."""
         self._pending = None
-        return self._idle.wait(msecs / 1000.0)
+        return self._activity.wait(msecs / 1000.0)
+
+    def close(self, msecs: int = 30000) -> bool:
+        """Stop: forget waiting requests, wait for the running job, deliver nothing more.
+
+        Returns False when the running job did not end within ``msecs``.
+        """
+        self._closed = True
+        self.cancel_pending()
+        return self.wait(msecs)
 
 
 def _analyze(profile, conditions):
