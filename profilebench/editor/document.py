@@ -111,6 +111,10 @@ class Document:
             self.path = Path(path)
         self._saved = self._state
 
+    def mark_unsaved(self) -> None:
+        """Treat the current state as not saved anywhere (a document restored from a recovery copy)."""
+        self._saved = None
+
     @property
     def title(self) -> str:
         """A window title: the file name (or the profile name) with a star when unsaved."""

@@ -9,16 +9,17 @@ one is reported in the banner while the last good result stays on screen marked 
 from __future__ import annotations
 
 import logging
+import os
 import sys
 import time
 from pathlib import Path
 
-from PySide6.QtCore import QSettings, Qt, QTimer
+from PySide6.QtCore import QSettings, QStandardPaths, Qt, QTimer
 from PySide6.QtGui import QAction, QImageReader, QKeySequence, QUndoStack
 from PySide6.QtWidgets import (QDockWidget, QFileDialog, QInputDialog, QLabel, QMainWindow,
                                QMessageBox, QVBoxLayout, QWidget)
 
-from profilebench.editor import commands
+from profilebench.editor import commands, recovery
 from profilebench.editor.document import CAUTION, Document
 from profilebench.editor.fields import parse_number
 from profilebench.editor.underlay import Underlay
@@ -39,6 +40,8 @@ MAX_RECENT = 8
 # Python's default 5 ms switch interval every hand-over to the GUI thread can wait up to 5 ms;
 # 1 ms keeps the GUI thread's painting responsive (measured with benchmarks/bench_gui.py).
 GIL_SWITCH_INTERVAL_S = 0.001
+AUTOSAVE_MS = 60000         # default interval of the recovery copy
+AUTOSAVE_ENV = "PROFILEBENCH_AUTOSAVE_MS"
 PLOT_INTERVAL_MS = 200      # plots are rendered at most this often, and not during a drag
 BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px solid #e0a080;"
 BANNER_INFO = "background: #fff6d5; color: #5a4500; padding: 4px; border: 1px solid #e0d090;"
@@ -61,9 +64,16 @@ class MainWindow(QMainWindow):
         Where recent files are kept (tests pass a temporary INI file).
     analyze_fn : callable, optional
         ``analyze(profile, conditions) -> Analysis``; default the package's pipeline.
+    autosave_ms : int, optional
+        Interval of the recovery copy of unsaved work (ms); default the environment variable
+        ``PROFILEBENCH_AUTOSAVE_MS``, else the setting ``autosave_ms``, else 60000.
+    recovery_dir : str or Path, optional
+        Folder of recovery copies; default the setting ``recovery_dir``, else ``recovery`` in
+        the application's data folder (QStandardPaths.AppDataLocation).
     """
 
-    def __init__(self, path=None, settings: QSettings | None = None, analyze_fn=None):
+    def __init__(self, path=None, settings: QSettings | None = None, analyze_fn=None,
+                 autosave_ms: int | None = None, recovery_dir=None):
         super().__init__()
         if sys.getswitchinterval() > GIL_SWITCH_INTERVAL_S:
             sys.setswitchinterval(GIL_SWITCH_INTERVAL_S)
@@ -126,6 +136,16 @@ class MainWindow(QMainWindow):
         self.statusBar().showMessage("ready")
         self.resize(1500, 950)
         self.open_file(path) if path is not None else self.new_document()
+
+        self.recovery_dir = Path(recovery_dir if recovery_dir is not None else self._default_recovery_dir())
+        self.autosave_ms = self._autosave_interval(autosave_ms)
+        self._autosaved_state = None
+        self.autosave_error = ""
+        self._autosave_timer = QTimer(self)
+        self._autosave_timer.setInterval(self.autosave_ms)
+        self._autosave_timer.timeout.connect(self.autosave)
+        self._autosave_timer.start()
+        QTimer.singleShot(0, self.offer_recovery)   # after the caller could set ask_recover
 
     # ------------------------------------------------------------------ construction
     def _dock(self, title, widget, area):
@@ -278,8 +298,11 @@ class MainWindow(QMainWindow):
             save_project(project, path)
         except ProfileBenchError as exc:
             self._show_banner(f"not saved: {exc}", True)
+            self.statusBar().showMessage(f"NOT SAVED: {exc}")
+            self.report_error("Not saved", f"The project was not saved.\n\n{exc}")
             return False
         doc.mark_saved(path)
+        self._discard_recovery()
         self.undo_stack.setClean()
         self._add_recent(path)
         self._update_title()
@@ -708,6 +731,100 @@ class MainWindow(QMainWindow):
             act.triggered.connect(lambda _=False, path=p: self.confirm_discard() and self.open_file(path))
         self.recent_menu.setEnabled(bool(self.recent_files()))
 
+    # ------------------------------------------------------------------ recovery copies
+    def _default_recovery_dir(self) -> Path:
+        configured = self.settings.value("recovery_dir", "")
+        if configured:
+            return Path(str(configured))
+        base = QStandardPaths.writableLocation(QStandardPaths.AppDataLocation)
+        return Path(base or Path.home() / ".profilebench") / "recovery"
+
+    def _autosave_interval(self, given) -> int:
+        """The autosave interval (ms) from the argument, the environment or the settings."""
+        sources = [("autosave_ms argument", given), (AUTOSAVE_ENV, os.environ.get(AUTOSAVE_ENV)),
+                   ("setting autosave_ms", self.settings.value("autosave_ms", None))]
+        for name, value in sources:
+            if value is None or value == "":
+                continue
+            try:
+                ms = int(float(value))
+            except (TypeError, ValueError):
+                raise InputError(f"{name} = {value!r} is not a number; give the autosave interval "
+                                 "in milliseconds, e.g. 60000") from None
+            if ms < 100:
+                raise InputError(f"{name} = {value!r} ms is too short; give at least 100 ms")
+            return ms
+        return AUTOSAVE_MS
+
+    def autosave(self) -> bool:
+        """Write the recovery copy when there are unsaved changes not yet written; True if written."""
+        doc = self.document
+        if doc is None:
+            return False
+        if not doc.dirty:
+            self._discard_recovery()
+            return False
+        if self._autosaved_state == doc.state:
+            return False
+        try:
+            recovery.write_recovery(self.recovery_dir, doc)
+        except ProfileBenchError as exc:
+            if self.autosave_error != str(exc):
+                log.warning("recovery copy not written: %s", exc)
+                self.statusBar().showMessage(f"recovery copy not written: {exc}", 10000)
+            self.autosave_error = str(exc)
+            return False
+        self.autosave_error = ""
+        self._autosaved_state = doc.state
+        return True
+
+    def _discard_recovery(self):
+        self._autosaved_state = None
+        try:
+            recovery.remove_recovery(self.recovery_dir)
+        except OSError as exc:
+            log.warning("recovery copy not removed: %s", exc)
+
+    def ask_recover(self, copy) -> bool:
+        """Ask whether to restore the recovery copy ``copy`` (a dialog; tests replace it)."""
+        where = str(copy.origin) if copy.origin is not None else "an untitled project"
+        answer = QMessageBox.question(
+            self, "Recover unsaved work",
+            f"The editor did not close normally last time. Restore the unsaved changes to {where}?",
+            QMessageBox.Yes | QMessageBox.No, QMessageBox.Yes)
+        return answer == QMessageBox.Yes
+
+    def report_error(self, title: str, text: str) -> None:
+        """Tell the user about a failure that needs attention (a dialog; tests replace it)."""
+        QMessageBox.warning(self, title, text)
+
+    def offer_recovery(self) -> bool:
+        """Offer the newest recovery copy left by a process that ended; True when restored."""
+        from profilebench.io import load_project
+
+        copies = recovery.left_behind(self.recovery_dir)
+        if not copies:
+            return False
+        copy = copies[0]
+        restored = False
+        if self.ask_recover(copy):
+            try:
+                project = load_project(copy.path)
+            except ProfileBenchError as exc:
+                self._show_banner(f"the recovery copy {copy.path} cannot be read: {exc}", True)
+                return False
+            doc = Document(project.profile, project.conditions, path=copy.origin,
+                           baseline=project.baseline)
+            doc.mark_unsaved()
+            self._install(doc)
+            restored = True
+            self.statusBar().showMessage(f"restored unsaved work from {copy.path}", 10000)
+        for c in copies:
+            recovery.remove_recovery(self.recovery_dir, c.pid)
+        if restored:
+            self.autosave()
+        return restored
+
     # ------------------------------------------------------------------ closing
     def ask_unsaved(self) -> str:
         """Ask whether to save unsaved changes: "save", "discard" or "cancel" (a dialog)."""
@@ -732,6 +849,8 @@ class MainWindow(QMainWindow):
             event.ignore()
             return
         self.shutdown()
+        self._autosave_timer.stop()
+        self._discard_recovery()
         event.accept()
 
     def shutdown(self, msecs: int = 30000) -> bool:

@@ -4,9 +4,13 @@ import pytest
 
 pytest.importorskip("PySide6")
 
-from PySide6.QtCore import QSettings  # noqa: E402
+from PySide6.QtCore import QSettings, QStandardPaths  # noqa: E402
 
 from gui_helpers import ANALYSIS_TIMEOUT_MS  # noqa: E402
+
+
+# never the user's real data folder (recovery copies) either
+QStandardPaths.setTestModeEnabled(True)
 
 
 @pytest.fixture
@@ -16,10 +20,13 @@ def settings(tmp_path):
 
 
 @pytest.fixture
-def window(qtbot, settings):
+def window(qtbot, settings, tmp_path):
     from profilebench.gui.main_window import MainWindow
 
-    w = MainWindow(settings=settings)
+    w = MainWindow(settings=settings, recovery_dir=tmp_path / "recovery")
+    w.ask_recover = lambda copy: False
+    w.errors_reported = []
+    w.report_error = lambda title, text: w.errors_reported.append((title, text))
     # pytest-qt closes the window before fixtures are torn down: answer "discard" to the
     # unsaved-changes prompt so no modal dialog waits for a user
     w.ask_unsaved = lambda: "discard"
