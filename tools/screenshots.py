@@ -28,6 +28,18 @@ def _wait(app, predicate, timeout=60.0):
             raise TimeoutError("analysis did not finish")
 
 
+def _settle(app, w, plot="cp"):
+    """Wait for what is drawn in the background: built outline, overlay, the plot image."""
+    w.canvas.repaint()
+    _wait(app, lambda: w.canvas.up_to_date and not w.canvas.overlay_runner.busy)
+    w.canvas.repaint()
+    _wait(app, lambda: w.canvas.up_to_date)
+    _wait(app, lambda: w.plots.images[plot] is not None and not w.plots.renderer.busy)
+    for _ in range(5):
+        app.processEvents()
+        time.sleep(0.02)
+
+
 def main() -> int:
     from PySide6.QtCore import QSettings
     from PySide6.QtWidgets import QApplication
@@ -40,6 +52,7 @@ def main() -> int:
     w.resize(1600, 1000)
     w.show()
     _wait(app, lambda: w.results_current)
+    _settle(app, w)
     OUT.mkdir(parents=True, exist_ok=True)
     w.grab().save(str(OUT / "editor_sample.png"))
 
@@ -50,11 +63,11 @@ def main() -> int:
     _wait(app, lambda: w.baseline_analysis is not None)
     w.select_node(corner.node)
     w.plots.setCurrentIndex(0)
-    app.processEvents()
+    _settle(app, w)
     w.grab().save(str(OUT / "editor_baseline_corner.png"))
     w.canvas.grab().save(str(OUT / "canvas_detail.png"))
     w.plots.setCurrentIndex(1)
-    app.processEvents()
+    _settle(app, w, "bl")
     w.plots.grab().save(str(OUT / "boundary_layer_plots.png"))
     w.document.mark_saved()
     w.close()

@@ -411,11 +411,17 @@ class ProfileCanvas(QWidget):
             except Exception:  # a self-crossing outline mid-drag: outlines still show
                 polys = []
             self._difference = (key, polys)
-        brush = QBrush(_qcolor(OKABE_ITO["reddish_purple"], 0.8), Qt.FDiagPattern)
-        qp.setPen(Qt.NoPen)
-        qp.setBrush(brush)
+        # a light fill under a dense hatch, edged: visible on the Cp band and at small changes
+        fill = QBrush(_qcolor(OKABE_ITO["reddish_purple"], 0.30))
+        hatch = QBrush(_qcolor(OKABE_ITO["reddish_purple"], 1.0), Qt.FDiagPattern)
         for poly in self._difference[1]:
-            qp.drawPolygon(self._poly(poly))
+            shape = self._poly(poly)
+            qp.setPen(QPen(_qcolor(OKABE_ITO["reddish_purple"], 0.9), 1.0))
+            qp.setBrush(fill)
+            qp.drawPolygon(shape)
+            qp.setPen(Qt.NoPen)
+            qp.setBrush(hatch)
+            qp.drawPolygon(shape)
         pen = QPen(QColor(BASELINE_COLOUR), 1.6, Qt.DashLine)
         qp.setPen(pen)
         qp.setBrush(Qt.NoBrush)
@@ -666,7 +672,8 @@ class ProfileCanvas(QWidget):
             for f in np.linspace(0, 1, 9):
                 r, g, b, _ = _CMAP(norm(top + (bottom - top) * f))
                 grad.setColorAt(f, QColor.fromRgbF(r, g, b))
-            bar = QRectF(x0 + 10, y + fm.height(), 14, bar_h - 18 - fm.height())
+            head = fm.height() + fm.ascent() / 2 + 2     # room for the title above the top tick
+            bar = QRectF(x0 + 10, y + head, 14, bar_h - 12 - head)
             grad.setStart(0, bar.top())
             grad.setFinalStop(0, bar.bottom())
             qp.setPen(QColor(20, 20, 20))
@@ -691,8 +698,9 @@ class ProfileCanvas(QWidget):
                 qp.setPen(QPen(QColor(BASELINE_COLOUR), 1.6, Qt.DashLine))
                 qp.drawLine(QPointF(x0 + 8, cy), QPointF(x0 + 26, cy))
             elif kind == "difference":
-                qp.fillRect(QRectF(x0 + 10, cy - 5, 14, 10),
-                            QBrush(_qcolor(OKABE_ITO["reddish_purple"], 0.8), Qt.FDiagPattern))
+                swatch = QRectF(x0 + 10, cy - 5, 14, 10)
+                qp.fillRect(swatch, _qcolor(OKABE_ITO["reddish_purple"], 0.30))
+                qp.fillRect(swatch, QBrush(_qcolor(OKABE_ITO["reddish_purple"], 1.0), Qt.FDiagPattern))
             qp.setPen(QColor(20, 20, 20))
             qp.drawText(QPointF(x0 + 34, y + fm.ascent()), text)
             y += fm.height() + 3
@@ -728,6 +736,18 @@ class ProfileCanvas(QWidget):
         self.overlay_renders += 1
         self._overlay = (key, self.analysis, under, over)
         return under, over
+
+    @property
+    def up_to_date(self) -> bool:
+        """True when the built outline and the overlay of the current analysis are on screen."""
+        if self.state is None:
+            return False
+        if _cached(self._outline_cache, self.state.profile) is None:
+            return False
+        if self.analysis is None:
+            return True
+        o = self._overlay
+        return o is not None and o[0] == self._overlay_key() and o[1] is self.analysis
 
     def _overlay_drawn(self, generation, result, seconds):
         key, analysis, (under, over) = result
