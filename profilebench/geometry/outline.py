@@ -2,15 +2,17 @@
 
 Corner nodes (``smooth=False``) split the outline into segments. A segment between two corner
 nodes with no smooth node between them is a straight line; a run of smooth nodes is passed
-through by a cubic spline (scipy ``CubicSpline``, chord-length parameter, not-a-knot ends) running
-from the preceding corner node through the smooth nodes to the next corner node. If every node is
+through by a cubic spline (chord-length parameter, not-a-knot ends: the spline scipy's
+``CubicSpline`` builds, with its coefficients computed here by ``scipy.linalg.solve_banded``)
+running from the preceding corner node through the smooth nodes to the next corner node. If every node is
 smooth the outline is one periodic cubic spline.
 
 A corner node with radius r > 0 is rounded by a circular fillet of radius r tangent to both
 neighbouring segments. Next to a line the tangent points follow from the classical construction
 (setback d = r tan(theta / 2), theta the turning angle); next to a spline the two tangent points
-are solved together with ``scipy.optimize.root`` so that the fillet centre lies at distance r along
-the normal of each curve (the fillet is then tangent to the spline and has exactly radius r).
+are solved together (Newton's method with the analytic Jacobian, and ``scipy.optimize.root``
+where Newton gives no acceptable root) so that the fillet centre lies at distance r along the
+normal of each curve (the fillet is then tangent to the spline and has exactly radius r).
 
 A radius that does not fit between its neighbours raises :class:`RadiusTooLargeError` naming the
 node and the largest radius that fits (the neighbours keeping theirs); it is never clamped.
