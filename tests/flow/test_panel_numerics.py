@@ -76,3 +76,47 @@ def test_vortex_influence_matches_quadrature(ground):
         own_t = -0.5 * sgn
         assert vor_t[i, 0] == pytest.approx(float(v @ t) + own_t, abs=1e-10)
         assert vor_n[i, 0] == pytest.approx(float(v @ nrm), abs=1e-10)
+
+
+def _circle(n, height=None, skew=0.25):
+    # uneven spacing so the midpoints are not exact by symmetry
+    t = np.linspace(0.0, 2 * np.pi, n, endpoint=False)
+    t = t + skew * (2 * np.pi / n) * np.sin(3 * t)
+    pts = np.column_stack([np.cos(t), np.sin(t)])
+    if height is not None:
+        pts[:, 1] += height
+    return pts
+
+
+@pytest.mark.parametrize("reverse", [False, True])
+def test_solve_after_a_body_sharing_panels_matches_the_exact_cylinder(reverse):
+    # A D-shaped body (the circle's upper half closed by its diameter) is solved first; the
+    # circle solved next shares its upper-half panels (reversed in order with ``reverse``), whose
+    # coefficients are reused. Exact Cp = 1 - 4 sin^2 theta (Anderson, Fundamentals of
+    # Aerodynamics; REFERENCES.md); same bound as a fresh 200-panel solve in test_panel.py.
+    from profilebench.flow import panel
+
+    circle = _circle(200)
+    upper = circle[circle[:, 1] >= 0.0]
+    chord = np.column_stack([np.linspace(upper[-1, 0], upper[0, 0], 12)[1:-1], np.zeros(10)])
+    d_body = np.vstack([upper, chord])
+    body = circle[::-1] if reverse else circle
+    if reverse:
+        body = np.roll(body, 1, axis=0)
+    panel.solve_inviscid(d_body)
+    shared = panel._shared_panels(body, np.roll(body, -1, axis=0), *_normals(body), False)
+    assert shared is not None and len(shared[0]) >= 90  # the reuse path is taken
+    res = panel.solve_inviscid(body)
+    theta = np.arctan2(res.y, res.x)
+    assert np.abs(res.cp - (1.0 - 4.0 * np.sin(theta) ** 2)).max() < 0.01
+    panel._LAST.data = None
+    fresh = panel.solve_inviscid(body)
+    np.testing.assert_allclose(res.ue, fresh.ue, rtol=0, atol=1e-12)
+
+
+def _normals(pts):
+    seg = np.roll(pts, -1, axis=0) - pts
+    length = np.hypot(seg[:, 0], seg[:, 1])
+    area2 = np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1])
+    sgn = 1.0 if area2 < 0 else -1.0
+    return -seg[:, 1] / length * sgn, seg[:, 0] / length * sgn
