@@ -264,6 +264,8 @@ _BLOCK_ELEMENTS = 65536
 # The last single-body influence matrices computed on this thread, so that a following solve
 # that shares panels with it (the same body closed by a wake, a corner re-rounded) reuses them.
 _LAST = threading.local()
+# Largest panel count whose matrices are kept for reuse (two n x n float arrays per thread).
+_REUSE_MAX_PANELS = 1200
 
 
 def _source_influence(mx, my, tix, tiy, sgn_r, self_cols, ax, ay, ptx, pty, plen, n_real,
@@ -431,7 +433,7 @@ def _assemble(pts_list, ground: bool, vortex: bool = True):
     tix = tx / _TWO_PI
     tiy = ty / _TWO_PI
     own = np.arange(n)
-    single = nbody == 1 and not vortex
+    single = nbody == 1 and not vortex and n <= _REUSE_MAX_PANELS
     shared = _shared_panels(a, b, nx, ny, ground) if single else None
     vor_n = np.zeros((n, nbody))
     vor_t = np.zeros((n, nbody))
@@ -471,6 +473,8 @@ def _assemble(pts_list, ground: bool, vortex: bool = True):
                                        ground)
             src_n[new[:, None], fresh[None, :]] = sn
             src_t[new[:, None], fresh[None, :]] = st
+    if nbody == 1 and not vortex and not single:
+        _LAST.data = None
     if single:
         _LAST.data = dict(
             ground=ground, src_n=src_n, src_t=src_t, nx=nx, ny=ny,
