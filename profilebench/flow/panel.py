@@ -30,7 +30,6 @@ from __future__ import annotations
 
 import enum
 import math
-import threading
 from dataclasses import dataclass
 
 import numpy as np
@@ -261,36 +260,69 @@ def _panel_integrals(px, py, ax, ay, tx, ty, length):
 
 # Rows per block of the influence computation: the work arrays of one block stay in cache.
 _BLOCK_ELEMENTS = 65536
-# The last single-body influence matrices computed on this thread, so that a following solve
-# that shares panels with it (the same body closed by a wake, a corner re-rounded) reuses them.
-_LAST = threading.local()
-# Largest panel count whose matrices are kept for reuse (two n x n float arrays per thread).
-_REUSE_MAX_PANELS = 1200
 
 
-def _source_influence(mx, my, tix, tiy, sgn_r, self_cols, ax, ay, ptx, pty, plen, n_real,
-                      ground, body_of=None):
-    """Outward-normal and tangential speeds at the points (mx, my) of unit sources on panels.
+def _assemble(pts_list, ground: bool):
+    """Panel geometry of all bodies and the source influence matrices.
 
-    Rows: collocation points with the tangents over 2 pi (tix, tiy) and outward-normal signs
-    sgn_r of their panels; ``self_cols[r]`` the column of row r's own panel (-1: not among the
-    columns). Columns: panels starting at (ax, ay) with tangents (ptx, pty) and lengths plen,
-    the n_real real panels followed, with the ground, by their images. Returns (sn, st) of shape
-    (rows, n_real), images summed in; with ``body_of`` also the vortex-sheet speeds (vn, vt).
-    One logarithm and one arctan2 per pair (Katz & Plotkin, eqs. 11.21-11.22), block by block of
-    rows in reused work arrays.
+    Returns ``geom, src_n, src_t, vor_n, vor_t`` where ``src_n[i, j]`` / ``src_t[i, j]`` are
+    the outward-normal / tangential speeds at midpoint i due to a unit source on panel j
+    (with its ground image), and ``vor_n[i, b]`` / ``vor_t[i, b]`` those due to a unit uniform
+    vortex sheet on all panels of body b (with its image of opposite sign).
+
+    Per (real or image) panel pair: one logarithm and one arctan2 (Katz & Plotkin, eqs.
+    11.21-11.22), evaluated block by block of rows in preallocated work arrays.
     """
-    nr = mx.shape[0]
+    a = np.concatenate(pts_list)
+    b = np.concatenate([np.roll(p, -1, axis=0) for p in pts_list])
+    seg = b - a
+    length = np.hypot(seg[:, 0], seg[:, 1])
+    tx = seg[:, 0] / length
+    ty = seg[:, 1] / length
+    mx = 0.5 * (a[:, 0] + b[:, 0])
+    my = 0.5 * (a[:, 1] + b[:, 1])
+    # orientation of each body: outward normal = sgn * left normal, sgn = -1 counter-clockwise
+    sgn_list, clockwise = [], []
+    for p in pts_list:
+        area2 = float(np.sum(p[:, 0] * np.roll(p[:, 1], -1) - np.roll(p[:, 0], -1) * p[:, 1]))
+        clockwise.append(area2 < 0.0)
+        sgn_list.append(np.full(p.shape[0], 1.0 if area2 < 0.0 else -1.0))
+    sgn = np.concatenate(sgn_list)
+    nx = -ty * sgn
+    ny = tx * sgn
+    n = a.shape[0]
+    offsets = np.cumsum([0] + [p.shape[0] for p in pts_list])
+    nbody = len(pts_list)
+
+    if ground:
+        # mirror images about y = 0: same sources, opposite vortices (method of images)
+        ax = np.concatenate([a[:, 0], a[:, 0]])
+        ay = np.concatenate([a[:, 1], -a[:, 1]])
+        ptx = np.concatenate([tx, tx])
+        pty = np.concatenate([ty, -ty])
+        plen = np.concatenate([length, length])
+    else:
+        ax, ay, ptx, pty, plen = a[:, 0], a[:, 1], tx, ty, length
     k = ax.shape[0]
-    sn_out = np.empty((nr, n_real))
-    st_out = np.empty((nr, n_real))
-    nbody = 0 if body_of is None else body_of.shape[1]
-    vn_out = np.empty((nr, nbody))
-    vt_out = np.empty((nr, nbody))
-    step = max(1, min(nr, _BLOCK_ELEMENTS // max(k, 1)))
+    # indicator of the body of each (real or image) panel, signed for the vortex images
+    body_of = np.zeros((k, nbody))
+    for bi in range(nbody):
+        body_of[offsets[bi] : offsets[bi + 1], bi] = 1.0
+        if ground:
+            body_of[n + offsets[bi] : n + offsets[bi + 1], bi] = -1.0
+
+    src_n = np.empty((n, n))
+    src_t = np.empty((n, n))
+    vor_n = np.empty((n, nbody))
+    vor_t = np.empty((n, nbody))
+    # tangents of the collocation panels, divided by 2 pi (folds the 1/(2 pi) of every
+    # influence into the angle terms below)
+    tix = tx / _TWO_PI
+    tiy = ty / _TWO_PI
+    step = max(1, min(n, _BLOCK_ELEMENTS // k))
     work = np.empty((7, step, k))
-    for r0 in range(0, nr, step):
-        r1 = min(nr, r0 + step)
+    for r0 in range(0, n, step):
+        r1 = min(n, r0 + step)
         nb = r1 - r0
         dx, dy, xi, eta, w1, w2, w3 = (work[q, :nb] for q in range(7))
         np.subtract(mx[r0:r1, None], ax, out=dx)
@@ -316,12 +348,10 @@ def _source_influence(mx, my, tix, tiy, sgn_r, self_cols, ax, ay, ptx, pty, plen
         xi += w1  # xi (xi - L) + eta^2
         eta *= plen
         np.arctan2(eta, xi, out=eta)  # beta
+        rows = np.arange(r0, r1)
         # self influence: the limit on the outer side (eta -> 0 with the sign of sgn)
-        own = self_cols[r0:r1]
-        loc = np.flatnonzero(own >= 0)
-        if loc.size:
-            dx[loc, own[loc]] = 0.0
-            eta[loc, own[loc]] = math.pi * sgn_r[r0:r1][loc]
+        dx[rows - r0, rows] = 0.0
+        eta[rows - r0, rows] = math.pi * sgn[r0:r1]
         # angle between the tangent at point i and the tangent of panel j (over 2 pi)
         np.multiply(tix[r0:r1, None], ptx, out=w1)
         np.multiply(tiy[r0:r1, None], pty, out=xi)
@@ -337,150 +367,20 @@ def _source_influence(mx, my, tix, tiy, sgn_r, self_cols, ax, ay, ptx, pty, plen
         dx *= w1
         eta *= w2
         dx -= eta  # tangential speed
-        sg = sgn_r[r0:r1, None]
-        if body_of is not None:
-            # unit vortex: velocity rotated +90 degrees from the source's, so at point i
-            # normal = sgn_i * (source tangential), tangential = -(source left-normal speed)
-            vn_out[r0:r1] = dx @ body_of
-            vn_out[r0:r1] *= sg
-            vt_out[r0:r1] = w3 @ body_of
-            np.negative(vt_out[r0:r1], out=vt_out[r0:r1])
+        sg = sgn[r0:r1, None]
+        # unit vortex: velocity rotated +90 degrees from the source's, so at point i
+        # normal = sgn_i * (source tangential), tangential = -(source left-normal speed)
+        vor_n[r0:r1] = dx @ body_of
+        vor_n[r0:r1] *= sg
+        vor_t[r0:r1] = w3 @ body_of
+        np.negative(vor_t[r0:r1], out=vor_t[r0:r1])
         if ground:
-            np.add(w3[:, :n_real], w3[:, n_real:], out=sn_out[r0:r1])
-            np.add(dx[:, :n_real], dx[:, n_real:], out=st_out[r0:r1])
+            np.add(w3[:, :n], w3[:, n:], out=src_n[r0:r1])
+            np.add(dx[:, :n], dx[:, n:], out=src_t[r0:r1])
         else:
-            sn_out[r0:r1] = w3
-            st_out[r0:r1] = dx
-        sn_out[r0:r1] *= sg
-    if body_of is None:
-        return sn_out, st_out
-    return sn_out, st_out, vn_out, vt_out
-
-
-def _columns(a, tx, ty, length, ground, cols=None):
-    """Start points, tangents and lengths of the (real, then image) panels ``cols``."""
-    if cols is not None:
-        a, tx, ty, length = a[cols], tx[cols], ty[cols], length[cols]
-    if ground:
-        # mirror images about y = 0: same sources, opposite vortices (method of images)
-        return (np.concatenate([a[:, 0], a[:, 0]]), np.concatenate([a[:, 1], -a[:, 1]]),
-                np.concatenate([tx, tx]), np.concatenate([ty, -ty]),
-                np.concatenate([length, length]))
-    return a[:, 0], a[:, 1], tx, ty, length
-
-
-def _shared_panels(a, b, nx, ny, ground):
-    """Panels shared with this thread's last single-body assembly: (new, old, direction).
-
-    A panel is shared when its end points are the same (in either order) and its outward
-    normal is the same bit for bit; direction is -1 where its end points are swapped (its
-    tangential speeds change sign). None when nothing can be reused.
-    """
-    last = getattr(_LAST, "data", None)
-    if last is None or last["ground"] != ground:
-        return None
-    index = last["index"]
-    new, old, sense = [], [], []
-    for j, (p, q) in enumerate(zip(map(tuple, a.tolist()), map(tuple, b.tolist()))):
-        hit = index.get(p + q)
-        if hit is not None:
-            d = 1.0
-        else:
-            hit = index.get(q + p)
-            d = -1.0
-        if hit is not None and last["nx"][hit] == nx[j] and last["ny"][hit] == ny[j]:
-            new.append(j)
-            old.append(hit)
-            sense.append(d)
-    if len(new) < 2:
-        return None
-    return np.array(new), np.array(old), np.array(sense), last
-
-
-def _assemble(pts_list, ground: bool, vortex: bool = True):
-    """Panel geometry of all bodies and the source influence matrices.
-
-    Returns ``geom, src_n, src_t, vor_n, vor_t`` where ``src_n[i, j]`` / ``src_t[i, j]`` are
-    the outward-normal / tangential speeds at midpoint i due to a unit source on panel j
-    (with its ground image), and ``vor_n[i, b]`` / ``vor_t[i, b]`` those due to a unit uniform
-    vortex sheet on all panels of body b (with its image of opposite sign; computed only with
-    ``vortex`` True, else zero). For one body without vortex, the coefficients of panels shared
-    with the last assembly on this thread are copied from it (the same numbers up to round-off,
-    signs turned for reversed panels) and only the rest are computed.
-    """
-    a = np.concatenate(pts_list)
-    b = np.concatenate([np.roll(p, -1, axis=0) for p in pts_list])
-    seg = b - a
-    length = np.hypot(seg[:, 0], seg[:, 1])
-    tx = seg[:, 0] / length
-    ty = seg[:, 1] / length
-    mx = 0.5 * (a[:, 0] + b[:, 0])
-    my = 0.5 * (a[:, 1] + b[:, 1])
-    # orientation of each body: outward normal = sgn * left normal, sgn = -1 counter-clockwise
-    sgn_list, clockwise = [], []
-    for p in pts_list:
-        area2 = float(np.sum(p[:, 0] * np.roll(p[:, 1], -1) - np.roll(p[:, 0], -1) * p[:, 1]))
-        clockwise.append(area2 < 0.0)
-        sgn_list.append(np.full(p.shape[0], 1.0 if area2 < 0.0 else -1.0))
-    sgn = np.concatenate(sgn_list)
-    nx = -ty * sgn
-    ny = tx * sgn
-    n = a.shape[0]
-    offsets = np.cumsum([0] + [p.shape[0] for p in pts_list])
-    nbody = len(pts_list)
-    # tangents of the collocation panels, divided by 2 pi (folds the 1/(2 pi) of every
-    # influence into the angle terms)
-    tix = tx / _TWO_PI
-    tiy = ty / _TWO_PI
-    own = np.arange(n)
-    single = nbody == 1 and not vortex and n <= _REUSE_MAX_PANELS
-    shared = _shared_panels(a, b, nx, ny, ground) if single else None
-    vor_n = np.zeros((n, nbody))
-    vor_t = np.zeros((n, nbody))
-    cols_all = _columns(a, tx, ty, length, ground)
-    if shared is None:
-        if vortex:
-            k = cols_all[0].shape[0]
-            # indicator of the body of each (real or image) panel, signed for vortex images
-            body_of = np.zeros((k, nbody))
-            for bi in range(nbody):
-                body_of[offsets[bi] : offsets[bi + 1], bi] = 1.0
-                if ground:
-                    body_of[n + offsets[bi] : n + offsets[bi + 1], bi] = -1.0
-            src_n, src_t, vor_n, vor_t = _source_influence(
-                mx, my, tix, tiy, sgn, own, *cols_all, n, ground, body_of)
-        else:
-            src_n, src_t = _source_influence(mx, my, tix, tiy, sgn, own, *cols_all, n, ground)
-    else:
-        new, old, sense, last = shared
-        src_n = np.empty((n, n))
-        src_t = np.empty((n, n))
-        src_n[np.ix_(new, new)] = last["src_n"][np.ix_(old, old)]
-        src_t[np.ix_(new, new)] = last["src_t"][np.ix_(old, old)]
-        src_t[new[:, None], new[None, :]] *= sense[:, None]
-        is_new = np.ones(n, dtype=bool)
-        is_new[new] = False
-        fresh = np.flatnonzero(is_new)
-        if fresh.size:
-            # rows of new panels against every panel, shared rows against the new panels
-            sn, st = _source_influence(mx[fresh], my[fresh], tix[fresh], tiy[fresh], sgn[fresh],
-                                       fresh, *cols_all, n, ground)
-            src_n[fresh] = sn
-            src_t[fresh] = st
-            pos = np.full(n, -1)
-            sn, st = _source_influence(mx[new], my[new], tix[new], tiy[new], sgn[new], pos[new],
-                                       *_columns(a, tx, ty, length, ground, fresh), fresh.size,
-                                       ground)
-            src_n[new[:, None], fresh[None, :]] = sn
-            src_t[new[:, None], fresh[None, :]] = st
-    if nbody == 1 and not vortex and not single:
-        _LAST.data = None
-    if single:
-        _LAST.data = dict(
-            ground=ground, src_n=src_n, src_t=src_t, nx=nx, ny=ny,
-            index={p + q: j for j, (p, q) in enumerate(zip(map(tuple, a.tolist()),
-                                                            map(tuple, b.tolist())))},
-        )
+            src_n[r0:r1] = w3
+            src_t[r0:r1] = dx
+        src_n[r0:r1] *= sg
     geom = dict(
         a=a, length=length, tx=tx, ty=ty, nx=nx, ny=ny, mx=mx, my=my, clockwise=clockwise,
         offsets=offsets,
@@ -583,8 +483,7 @@ def solve_inviscid_bodies(bodies, ground: bool = False, kutta_nodes=None):
                         "body is surrounded by flow"
                     )
 
-    need_vortex = any(k is not None for k in kutta)
-    geom, src_n, src_t, vor_n, vor_t = _assemble(pts_list, ground, vortex=need_vortex)
+    geom, src_n, src_t, vor_n, vor_t = _assemble(pts_list, ground)
     n = geom["a"].shape[0]
     offsets = geom["offsets"]
     lifting = [b for b, k in enumerate(kutta) if k is not None]
