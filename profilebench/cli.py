@@ -137,14 +137,18 @@ def _conditions(project, args):
     return cond.replace(**changes) if changes else cond
 
 
-def _analyse(profile, conditions, args=None):
+def _user_table(args):
+    """The --table file as an RtTable, or None for the built-in tables."""
+    if not getattr(args, "table", None):
+        return None
+    from profilebench.assess.tables import load_table
+
+    return load_table(args.table)
+
+
+def _analyse(profile, conditions, table=None):
     from profilebench.assess.analysis import analyze
 
-    table = None
-    if args is not None and getattr(args, "table", None):
-        from profilebench.assess.tables import load_table
-
-        table = load_table(args.table)
     return analyze(profile, conditions, table=table)
 
 
@@ -192,7 +196,7 @@ def _cmd_analyse(args, out):
             raise InputError(f"--{opt} {value!r}: the file name must end in {ext}")
     project = _load(args.file)
     cond = _conditions(project, args)
-    analysis = _analyse(project.profile, cond, args)
+    analysis = _analyse(project.profile, cond, table=_user_table(args))
     _check_success(analysis, f"{args.file}")
     print(f"{project.profile.name} ({args.file})", file=out)
     print("", file=out)
@@ -217,9 +221,9 @@ def _cmd_compare(args, out):
     from profilebench.assess.compare import compare
 
     pa, pb = _load(args.baseline), _load(args.variant)
-    a = _analyse(pa.profile, _conditions(pa, args), args)
+    a = _analyse(pa.profile, _conditions(pa, args), table=_user_table(args))
     _check_success(a, f"baseline {args.baseline}")
-    b = _analyse(pb.profile, _conditions(pb, args), args)
+    b = _analyse(pb.profile, _conditions(pb, args), table=_user_table(args))
     _check_success(b, f"variant {args.variant}")
     c = compare(a, b)
     fmt = lambda v, f, scale=1.0: "n/a" if v is None else format(v * scale, f)  # noqa: E731
@@ -254,7 +258,7 @@ def _cmd_corners(args, out):
 
     project = _load(args.file)
     cond = _conditions(project, args)
-    analysis = _analyse(project.profile, cond, args)
+    analysis = _analyse(project.profile, cond, table=_user_table(args))
     _check_success(analysis, f"{args.file}")
     print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
     if args.smallest:

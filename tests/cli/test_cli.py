@@ -22,7 +22,7 @@ def fake(monkeypatch):
     seen = {}
     base = fake_analysis()
 
-    def analyse(profile, conditions):
+    def analyse(profile, conditions, table=None):
         seen.setdefault("conditions", []).append(conditions)
         return dataclasses.replace(base, conditions=conditions, profile=profile)
 
@@ -93,7 +93,7 @@ def test_outputs_written(fake, tmp_path, capsys):
 
 
 def test_failed_analysis_exits_1(monkeypatch, capsys):
-    monkeypatch.setattr(cli, "_analyse", lambda p, c: Analysis(
+    monkeypatch.setattr(cli, "_analyse", lambda p, c, table=None: Analysis(
         AnalysisStatus.INVISCID_FAILED, "singular panel system", p, c))
     assert cli.main(["analyse", SAMPLE]) == 1
     err = capsys.readouterr().err
@@ -144,7 +144,7 @@ def test_compare_warns_when_cd_falls_but_force_rises(monkeypatch, capsys):
                                        power=d.power / d.cda * cd * area)
     variant = dataclasses.replace(base, drag=variant_drag)
     calls = iter([base, variant])
-    monkeypatch.setattr(cli, "_analyse", lambda p, c: next(calls))
+    monkeypatch.setattr(cli, "_analyse", lambda p, c, table=None: next(calls))
     assert cli.main(["compare", SAMPLE, SAMPLE]) == 0
     out = capsys.readouterr().out
     rows = _rows(out)
@@ -159,7 +159,7 @@ def test_compare_with_failed_variant_exits_1(monkeypatch, capsys):
     base = fake_analysis()
     failed = Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED, "march stalled", base.profile, base.conditions)
     calls = iter([base, failed])
-    monkeypatch.setattr(cli, "_analyse", lambda p, c: next(calls))
+    monkeypatch.setattr(cli, "_analyse", lambda p, c, table=None: next(calls))
     assert cli.main(["compare", SAMPLE, SAMPLE]) == 1
     assert "march stalled" in capsys.readouterr().err
 
