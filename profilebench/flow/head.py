@@ -201,7 +201,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
 
     def record(k, th, hh):
         u = u_l[k]
-        re_t = u * th / nu_v
+        re_t = max(u * th / nu_v, 1e-300)
         idx.append(k)
         th_out.append(th)
         h_out.append(hh)
@@ -268,53 +268,67 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
                 step = STEP_THETA_CHANGE / rate_t
             if rate_h * step > STEP_H_CHANGE:
                 step = STEP_H_CHANGE / rate_h
-            xm = x + 0.5 * step
-            x1 = x + step
-            t = (xm - sa) * inv_h
-            um = ua + t * (c1 + t * (c2 + t * c3))
-            dum = (c1 + t * (c2d + t * c3d)) * inv_h
-            t = (x1 - sa) * inv_h
-            u1 = ua + t * (c1 + t * (c2 + t * c3))
-            du1 = (c1 + t * (c2d + t * c3d)) * inv_h
-            if um <= UE_STOPPED or u1 <= UE_STOPPED:
-                return finish("stopped", x, theta, h)
-            hs = 0.5 * step
-            # k2a, k2b = rhs(theta + hs * k1a, big + hs * k1b, um, dum), inlined
-            r_th = theta + hs * k1a
-            r_bg = big + hs * k1b
-            r_h1 = r_bg / r_th
-            if r_h1 <= h1_min:
-                r_h1 = h1_min
-            r_d = r_h1 - 3.3
-            r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
-            r_g = dum / um
-            k2a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(um * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
-            k2b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
-            # k3a, k3b = rhs(theta + hs * k2a, big + hs * k2b, um, dum), inlined
-            r_th = theta + hs * k2a
-            r_bg = big + hs * k2b
-            r_h1 = r_bg / r_th
-            if r_h1 <= h1_min:
-                r_h1 = h1_min
-            r_d = r_h1 - 3.3
-            r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
-            r_g = dum / um
-            k3a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(um * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
-            k3b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
-            # k4a, k4b = rhs(theta + step * k3a, big + step * k3b, u1, du1), inlined
-            r_th = theta + step * k3a
-            r_bg = big + step * k3b
-            r_h1 = r_bg / r_th
-            if r_h1 <= h1_min:
-                r_h1 = h1_min
-            r_d = r_h1 - 3.3
-            r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
-            r_g = du1 / u1
-            k4a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(u1 * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
-            k4b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
-            th_new = theta + step / 6.0 * (k1a + 2 * k2a + 2 * k3a + k4a)
-            big_new = big + step / 6.0 * (k1b + 2 * k2b + 2 * k3b + k4b)
-            if not (math.isfinite(th_new) and math.isfinite(big_new)) or th_new <= 0.0:
+            # a stage state that leaves the physical range (theta <= 0, H1 below its asymptote)
+            # makes the powers undefined: halve the sub-step and try again, a few times at most
+            stages_ok = False
+            for _attempt in range(8):
+                try:
+                    xm = x + 0.5 * step
+                    x1 = x + step
+                    t = (xm - sa) * inv_h
+                    um = ua + t * (c1 + t * (c2 + t * c3))
+                    dum = (c1 + t * (c2d + t * c3d)) * inv_h
+                    t = (x1 - sa) * inv_h
+                    u1 = ua + t * (c1 + t * (c2 + t * c3))
+                    du1 = (c1 + t * (c2d + t * c3d)) * inv_h
+                    if um <= UE_STOPPED or u1 <= UE_STOPPED:
+                        return finish("stopped", x, theta, h)
+                    hs = 0.5 * step
+                    # k2a, k2b = rhs(theta + hs * k1a, big + hs * k1b, um, dum), inlined
+                    r_th = theta + hs * k1a
+                    r_bg = big + hs * k1b
+                    r_h1 = r_bg / r_th
+                    if r_h1 <= h1_min:
+                        r_h1 = h1_min
+                    r_d = r_h1 - 3.3
+                    r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
+                    r_g = dum / um
+                    k2a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(um * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
+                    k2b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
+                    # k3a, k3b = rhs(theta + hs * k2a, big + hs * k2b, um, dum), inlined
+                    r_th = theta + hs * k2a
+                    r_bg = big + hs * k2b
+                    r_h1 = r_bg / r_th
+                    if r_h1 <= h1_min:
+                        r_h1 = h1_min
+                    r_d = r_h1 - 3.3
+                    r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
+                    r_g = dum / um
+                    k3a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(um * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
+                    k3b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
+                    # k4a, k4b = rhs(theta + step * k3a, big + step * k3b, u1, du1), inlined
+                    r_th = theta + step * k3a
+                    r_bg = big + step * k3b
+                    r_h1 = r_bg / r_th
+                    if r_h1 <= h1_min:
+                        r_h1 = h1_min
+                    r_d = r_h1 - 3.3
+                    r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
+                    r_g = du1 / u1
+                    k4a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(u1 * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
+                    k4b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
+                    th_new = theta + step / 6.0 * (k1a + 2 * k2a + 2 * k3a + k4a)
+                    big_new = big + step / 6.0 * (k1b + 2 * k2b + 2 * k3b + k4b)
+                    stages_ok = (math.isfinite(th_new) and math.isfinite(big_new) and th_new > 0.0
+                                 and big_new > 0.0)
+                except (ValueError, ZeroDivisionError, OverflowError):
+                    stages_ok = False
+                if stages_ok:
+                    break
+                step *= 0.5
+                if step < 1e-12 * max(1.0, abs(x)):
+                    break
+            if not stages_ok:
                 return finish("failure", x, theta, h)
             h1_new = big_new / th_new
             h_new = _h_of_h1(h1_new) if h1_new > _H1_ASYMPTOTE + 1e-9 else math.inf

@@ -43,6 +43,10 @@ def _intersection_error(where: str, reason: str) -> SelfIntersectionError:
     )
 
 
+# smallest non-zero corner radius, as a fraction of the profile's size
+MIN_RADIUS_RATIO = 1e-7
+
+
 def problems(profile, ground: bool = False) -> list[GeometryError]:
     """Every problem of ``profile`` as a GeometryError (not raised), in checking order."""
     out: list[GeometryError] = []
@@ -63,6 +67,17 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
             f"nearly so ({d * 1e3:.3g} mm apart, less than {tol * 1e3:.3g} mm); delete one of "
             "them or move it"))
     if pairs:
+        return out
+    # a radius this small cannot be panelled (its arc would be shorter than the rounding error of
+    # the node positions); it is refused, never silently taken as sharp
+    smallest = MIN_RADIUS_RATIO * max(size, 1e-3)
+    for i, nd in enumerate(nodes):
+        if 0.0 < nd.radius < smallest:
+            out.append(GeometryError(
+                f"the corner radius {nd.radius:.3g} m at {node_description(profile, i)} is too "
+                f"small to build (below {smallest * 1e3:.2g} mm); set the radius to 0 for a sharp "
+                "edge or give at least that"))
+    if out:
         return out
     area = 0.5 * float(np.sum(xy[:, 0] * np.roll(xy[:, 1], -1) - np.roll(xy[:, 0], -1) * xy[:, 1]))
     spread = np.linalg.svd(xy - xy.mean(axis=0), compute_uv=False)
