@@ -12,15 +12,13 @@ from dataclasses import dataclass, replace
 from pathlib import Path
 from typing import Callable
 
+import profilebench
 from profilebench.editor.selection import Selection
 from profilebench.errors import GeometryError
 
 __all__ = ["CAUTION", "Document", "DocumentState"]
 
-CAUTION = (
-    "Screening estimate: confirm by wind-tunnel test or validated CFD, under local vehicle codes "
-    "and licensed engineering practice."
-)
+CAUTION = profilebench.CAUTION  # one text for the whole product
 
 
 @dataclass(frozen=True)
