@@ -73,7 +73,9 @@ def review_figure(analysis, baseline=None) -> Figure:
     fig = new_figure()
     gs = fig.add_gridspec(3, 2, height_ratios=[1.55, 1.0, 0.75], width_ratios=[1.5, 1.0],
                           left=0.05, right=0.95, top=0.95, bottom=0.06, hspace=0.28, wspace=0.12)
-    ax_prof = fig.add_subplot(gs[0, :])
+    # a strip on the left is kept for the marker legend, however wide the profile is
+    top = gs[0, :].subgridspec(1, 2, width_ratios=[0.11, 0.89], wspace=0.0)
+    ax_prof = fig.add_subplot(top[0, 1])
     ax_cp = fig.add_subplot(gs[1, 0])
     ax_sum = fig.add_subplot(gs[1, 1])
     ax_cor = fig.add_subplot(gs[2, :])
