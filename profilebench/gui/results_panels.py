@@ -1,24 +1,23 @@
 """Panels showing an analysis: the corner table, the summary and the matplotlib plots.
 
 The tables are updated in place (only cells whose text changed are touched; rows are rebuilt
-only when their number changes). The plots are rendered by matplotlib's Agg backend on a worker
-thread into an image (each render uses a figure of its own, so no figure is ever shared between
-threads); the GUI thread only shows the finished image.
+only when their number changes). The plots are rendered by matplotlib's Agg backend in a child
+process (:mod:`profilebench.gui.plot_render`: Agg holds the interpreter lock inside its C++ calls,
+so on a thread it would stop the GUI thread); the GUI thread only shows the finished image.
 """
 
 from __future__ import annotations
 
-from matplotlib.backends.backend_agg import FigureCanvasAgg
-from matplotlib.figure import Figure
 from PySide6.QtCore import QSize, Qt, QTimer, Signal
 from PySide6.QtGui import QImage, QPixmap
 from PySide6.QtWidgets import (QAbstractItemView, QHBoxLayout, QHeaderView, QLabel, QLineEdit,
                                QPushButton, QSizePolicy, QTableWidget, QTableWidgetItem,
                                QTabWidget, QVBoxLayout, QWidget)
 
-from profilebench.gui.worker import TaskRunner
+from profilebench.gui.plot_render import render_plot_rgba, warm_up
+from profilebench.gui.worker import ProcessTaskRunner
 
-from profilebench.plotting import draw_boundary_layer, draw_cp, summary_rows
+from profilebench.plotting import summary_rows
 from profilebench.plotting.summary import corner_rows
 
 __all__ = ["CornerTable", "SummaryPanel", "PlotPanel", "CORNER_HEADER", "LIFT_NOTE",
@@ -247,28 +246,16 @@ class SummaryPanel(QWidget):
 
 
 def render_plot(analysis, kind: str, width_px: int, height_px: int, dpi: float = 90.0):
-    """Draw the ``kind`` plot ("cp" or "bl") of ``analysis`` with Agg; returns a QImage (RGBA).
+    """Draw the ``kind`` plot ("cp" or "bl") of ``analysis`` with Agg here; returns a QImage (RGBA).
 
-    Runs on a worker thread: the figure is created here and used by this call only.
+    The editor renders in its child process instead (see :class:`PlotPanel`).
     """
-    fig = Figure(figsize=(max(width_px, 50) / dpi, max(height_px, 50) / dpi), dpi=dpi,
-                 layout="constrained")
-    agg = FigureCanvasAgg(fig)
-    if kind == "cp":
-        ax = fig.add_subplot(111)
-        draw_cp(ax, analysis)
-        ax.set_title("Cp along x", fontsize=9)
-    else:
-        ax_h, ax_cf = fig.subplots(2, 1, sharex=True)
-        draw_boundary_layer(ax_h, ax_cf, analysis)
-    agg.draw()
-    buf = agg.buffer_rgba()
-    h, w = buf.shape[0], buf.shape[1]
-    return QImage(bytes(buf), w, h, 4 * w, QImage.Format_RGBA8888).copy()
+    return _to_image(render_plot_rgba(analysis, kind, width_px, height_px, dpi))
 
 
-def _render_job(analysis, kind, width_px, height_px):
-    return analysis, kind, render_plot(analysis, kind, width_px, height_px)
+def _to_image(rendered) -> QImage:
+    kind, w, h, rgba = rendered
+    return QImage(rgba, w, h, 4 * w, QImage.Format_RGBA8888).copy()
 
 
 class _PlotView(QLabel):
@@ -301,7 +288,8 @@ class PlotPanel(QTabWidget):
         self._drawn = {"cp": None, "bl": None}
         self._sizes = {"cp": None, "bl": None}
         self.images = {"cp": None, "bl": None}
-        self.renderer = TaskRunner(_render_job, self)
+        self.renderer = ProcessTaskRunner(render_plot_rgba, self, warm_up=warm_up)
+        self._requests: dict = {}      # generation -> analysis it draws
         self.renderer.finished.connect(self._rendered)
         self.renderer.failed.connect(lambda g, m: self._show_text(self._kind(), f"plot failed (logged): {m}"))
         self._resize_timer = QTimer(self)
@@ -327,12 +315,15 @@ class PlotPanel(QTabWidget):
         self._drawn[kind] = a
         self._sizes[kind] = size
         self.draws += 1
-        self.renderer.request(a, kind, *size)
+        generation = self.renderer.request(a, kind, *size)
+        self._requests = {generation: a}   # only the newest request is ever delivered
 
     def _rendered(self, generation, result, seconds):
-        analysis, kind, image = result
+        analysis = self._requests.pop(generation, None)
         if analysis is not self._analysis:
             return
+        kind = result[0]
+        image = _to_image(result)
         self.images[kind] = image
         self.views[kind].setPixmap(QPixmap.fromImage(image))
         self.rendered.emit(kind)

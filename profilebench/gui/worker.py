@@ -5,6 +5,11 @@ any request still waiting, so a drag of many mouse moves causes at most two solv
 (the running one and the newest). Each request has a generation number; a result whose
 generation is older than the newest request is stale and is dropped, never shown over a newer
 edit. An exception in the worker is logged and reported as a failure; the window goes on.
+
+:class:`ProcessTaskRunner` has the same interface but runs its function in a child process
+(:class:`profilebench.gui.child_process.ChildProcess`, one shared by the whole program). It is for work that
+holds the interpreter lock for long stretches in C++ (matplotlib's Agg drawing): on a thread
+that work would stop the GUI thread; in a process it only shares the CPU.
 """
 
 from __future__ import annotations
@@ -16,7 +21,9 @@ import traceback
 
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
 
-__all__ = ["AnalysisRunner", "TaskRunner"]
+from profilebench.gui.child_process import shared_child
+
+__all__ = ["AnalysisRunner", "ProcessTaskRunner", "TaskRunner"]
 
 log = logging.getLogger("profilebench.gui")
 
@@ -161,6 +168,44 @@ class TaskRunner(QObject):
         return self.wait(msecs)
 
 
+class ProcessTaskRunner(TaskRunner):
+    """A :class:`TaskRunner` whose ``fn`` runs in the program's child process
+    (:func:`profilebench.gui.child_process.shared_child`).
+
+    ``fn`` must be a module-level function; it, its arguments and its result must pickle.
+    Results come back through the same signals, on the GUI thread.
+    """
+
+    def __init__(self, fn, parent=None, warm_up=None):
+        super().__init__(fn, parent)
+        if warm_up is not None:      # start the child and its imports before the first job
+            shared_child().submit(warm_up, (), lambda ok, payload: None)
+
+    def _start_pending(self):
+        generation, args = self._pending
+        self._pending = None
+        self._running = True
+        self.started += 1
+        self._activity.begin()
+        relay, activity, name, t0 = self._relay, self._activity, self.name, time.perf_counter()
+
+        def done(ok, payload):          # on the reader thread
+            try:
+                if ok:
+                    result, error = (payload,), ""
+                else:
+                    log.error("%s failed in the background process:\n%s", name, payload)
+                    result, error = (), payload.splitlines()[0] if payload else "failed"
+                try:
+                    relay.done.emit(generation, result, error, time.perf_counter() - t0)
+                except RuntimeError:   # the runner was deleted meanwhile: nobody wants it
+                    pass
+            finally:
+                activity.end()
+
+        shared_child().submit(self._fn, args, done)
+
+
 def _analyze(profile, conditions):
     from profilebench.assess.analysis import analyze
 
@@ -172,3 +217,4 @@ class AnalysisRunner(TaskRunner):
 
     def __init__(self, parent=None, analyze_fn=None):
         super().__init__(analyze_fn or _analyze, parent)
+

@@ -1,0 +1,162 @@
+"""A Python child process for background work that would hold the interpreter lock.
+
+Some libraries (matplotlib's Agg backend, Qt through PySide6) keep Python's global interpreter
+lock during each of their C++ calls, several ms each; run on a thread of the editor, such work
+stops the GUI thread as long. :class:`ChildProcess` runs it in a separate interpreter instead
+(``python -m profilebench.gui.child_process``): jobs and results cross its stdin and stdout as
+pickles. This module imports no Qt, so the child never loads it.
+"""
+
+from __future__ import annotations
+
+import atexit
+import threading
+import traceback
+
+__all__ = ["ChildProcess", "shared_child"]
+
+
+class ChildProcess:
+    """One Python child process that runs pickled ``fn(*args)`` jobs (``python -m`` this module).
+
+    Requests go to the child's stdin and results come back on its stdout as pickles; a writer
+    and a reader thread of this process do the piping (blocking pipe I/O releases the
+    interpreter lock), so the caller never waits. A started child is not a fork and does not
+    import the program's main script (unlike multiprocessing's spawn). When the child ends,
+    every job it had is reported failed and the next :meth:`submit` starts a new child.
+    """
+
+    def __init__(self):
+        self._lock = threading.Lock()
+        self._proc = None
+        self._jobs: dict = {}          # job id -> callback(ok, payload)
+        self._next = 0
+        self._outbox = None
+
+    def submit(self, fn, args, callback) -> int:
+        """Queue ``fn(*args)``; ``callback(ok, payload)`` runs on the reader thread with the
+        result (``ok`` True) or the error text (``ok`` False)."""
+        with self._lock:
+            if self._proc is None or self._proc.poll() is not None:
+                self._start()
+            self._next += 1
+            job = self._next
+            self._jobs[job] = (self._proc, callback)
+            self._outbox.put((job, fn, args))
+            return job
+
+    def _start(self):
+        import os
+        import queue
+        import subprocess
+        import sys
+        from pathlib import Path
+
+        import profilebench
+
+        env = dict(os.environ)      # the child finds this very package first
+        root = str(Path(profilebench.__file__).resolve().parents[1])
+        env["PYTHONPATH"] = os.pathsep.join([root] + [p for p in [env.get("PYTHONPATH")] if p])
+        proc = subprocess.Popen([sys.executable, "-m", "profilebench.gui.child_process"],
+                                stdin=subprocess.PIPE, stdout=subprocess.PIPE, env=env)
+        outbox = queue.Queue()
+        self._proc, self._outbox = proc, outbox
+        threading.Thread(target=self._write, args=(proc, outbox), daemon=True,
+                         name="profilebench-child-writer").start()
+        threading.Thread(target=self._read, args=(proc,), daemon=True,
+                         name="profilebench-child-reader").start()
+
+    def _write(self, proc, outbox):
+        import pickle
+
+        while True:
+            item = outbox.get()
+            if item is None:
+                break
+            try:
+                data = pickle.dumps(item, protocol=pickle.HIGHEST_PROTOCOL)  # whole, or nothing sent
+                proc.stdin.write(data)
+                proc.stdin.flush()
+            except OSError as exc:    # the child ended: the reader fails its other jobs
+                self._finish(item[0], False, f"the background process ended ({type(exc).__name__}: {exc})")
+                break
+            except Exception as exc:  # the job does not pickle
+                self._finish(item[0], False, f"{type(exc).__name__}: {exc}")
+        try:
+            proc.stdin.close()
+        except OSError:
+            pass
+
+    def _read(self, proc):
+        import pickle
+
+        while True:
+            try:
+                job, ok, payload = pickle.load(proc.stdout)
+            except Exception:  # EOF: the child ended
+                break
+            self._finish(job, ok, payload)
+        code = proc.wait()
+        with self._lock:
+            if self._proc is proc:
+                self._proc = None
+            left = [j for j, (p, _) in self._jobs.items() if p is proc]
+        for job in left:
+            self._finish(job, False, f"the background process ended (exit code {code})")
+
+    def _finish(self, job, ok, payload):
+        with self._lock:
+            entry = self._jobs.pop(job, None)
+        if entry is not None:
+            entry[1](ok, payload)
+
+    def close(self, seconds: float = 5.0):
+        """End the child (its stdin closed; killed if it does not end within ``seconds``)."""
+        with self._lock:
+            proc, outbox, self._proc = self._proc, self._outbox, None
+        if proc is None:
+            return
+        outbox.put(None)
+        try:
+            proc.wait(seconds)
+        except Exception:
+            proc.kill()
+            proc.wait()
+
+
+_shared = None
+_shared_lock = threading.Lock()
+
+
+def shared_child() -> ChildProcess:
+    """The program's one :class:`ChildProcess` (its process starts on the first job)."""
+    global _shared
+    with _shared_lock:
+        if _shared is None:
+            _shared = ChildProcess()
+            atexit.register(_shared.close)
+        return _shared
+
+
+def _serve():
+    """The child's loop: read ``(job, fn, args)`` pickles from stdin, write ``(job, ok, payload)``."""
+    import pickle
+    import sys
+
+    stdin, stdout = sys.stdin.buffer, sys.stdout.buffer
+    sys.stdout = sys.stderr             # nothing else may write into the result stream
+    while True:
+        try:
+            job, fn, args = pickle.load(stdin)
+        except EOFError:
+            return
+        try:
+            reply = (job, True, fn(*args))
+        except Exception as exc:  # reported to the editor, which logs and shows it
+            reply = (job, False, f"{type(exc).__name__}: {exc}\n{traceback.format_exc()}")
+        pickle.dump(reply, stdout, protocol=pickle.HIGHEST_PROTOCOL)
+        stdout.flush()
+
+
+if __name__ == "__main__":
+    _serve()

@@ -1,0 +1,92 @@
+"""Work in the editor's child process: results come back, errors are reported, a dead child
+is replaced, and the plots are rendered there (so matplotlib never holds the GUI's lock)."""
+
+import math
+import os
+
+import numpy as np
+import pytest
+
+from profilebench.gui.child_process import ChildProcess
+from profilebench.gui.worker import ProcessTaskRunner
+
+
+@pytest.fixture
+def child():
+    c = ChildProcess()
+    yield c
+    c.close()
+
+
+def _collect(child, fn, args, qtbot):
+    got = []
+    child.submit(fn, args, lambda ok, payload: got.append((ok, payload)))
+    qtbot.waitUntil(lambda: bool(got), timeout=20000)
+    return got[0]
+
+
+def test_a_job_runs_in_another_process(child, qtbot):
+    ok, pid = _collect(child, os.getpid, (), qtbot)
+    assert ok and pid != os.getpid()
+
+
+def test_result_crosses_back_exactly(child, qtbot):
+    # math.fsum([0.1] * 10) == 1.0 exactly (Python documentation of math.fsum)
+    ok, value = _collect(child, math.fsum, ([0.1] * 10,), qtbot)
+    assert ok and value == 1.0
+
+
+def test_a_numpy_result_matches_the_same_call_here(child, qtbot):
+    a = np.array([[4.0, 1.0], [2.0, 3.0]])
+    b = np.array([1.0, 2.0])
+    ok, x = _collect(child, np.linalg.solve, (a, b), qtbot)
+    # numpy computes the same solve in this process: x = (0.1, 0.6)
+    assert ok and np.allclose(x, np.linalg.solve(a, b))
+
+
+def test_an_exception_in_the_child_is_reported_with_its_type(child, qtbot):
+    ok, text = _collect(child, math.sqrt, (-1.0,), qtbot)
+    # math.sqrt of a negative float raises ValueError (Python documentation of math)
+    assert not ok and text.startswith("ValueError: math domain error")
+
+
+def test_a_killed_child_fails_its_job_and_is_replaced(child, qtbot):
+    ok, pid = _collect(child, os.getpid, (), qtbot)
+    got = []
+    child.submit(__import__("time").sleep, (30,), lambda ok, p: got.append((ok, p)))
+    os.kill(pid, 9)
+    qtbot.waitUntil(lambda: bool(got), timeout=20000)
+    assert got[0][0] is False and "ended" in got[0][1]
+    ok2, pid2 = _collect(child, os.getpid, (), qtbot)
+    assert ok2 and pid2 not in (pid, os.getpid())
+
+
+def test_process_runner_reports_failure_and_goes_on(qtbot):
+    runner = ProcessTaskRunner(math.sqrt)
+    failures, results = [], []
+    runner.failed.connect(lambda g, msg: failures.append(msg))
+    runner.finished.connect(lambda g, r, s: results.append(r))
+    with qtbot.waitSignal(runner.failed, timeout=20000):
+        runner.request(-4.0)
+    assert failures == ["ValueError: math domain error"]
+    with qtbot.waitSignal(runner.finished, timeout=20000):
+        runner.request(6.25)
+    assert results == [2.5]          # 2.5 ** 2 = 6.25 exactly in binary floating point
+    assert runner.close(5000)
+
+
+def test_plots_are_rendered_in_the_child_at_the_asked_size(window, qtbot):
+    w = window
+    qtbot.waitUntil(lambda: w.plots.images["cp"] is not None, timeout=30000)
+    img = w.plots.images["cp"]
+    view = w.plots.views["cp"]
+    # the image has the size asked for (at least the panel's minimum size 200 x 120 px)
+    assert (img.width(), img.height()) == (max(view.width(), 200), max(view.height(), 120))
+    assert w.plots.renderer.started >= 1
+
+
+def test_a_job_that_does_not_pickle_fails_alone(child, qtbot):
+    ok, text = _collect(child, math.fsum, ([lambda: 0],), qtbot)   # a lambda does not pickle
+    assert not ok and "pickle" in text.lower()
+    ok, value = _collect(child, math.fsum, ([0.5, 0.25],), qtbot)   # 0.75 exactly in binary
+    assert ok and value == 0.75
