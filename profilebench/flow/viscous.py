@@ -25,7 +25,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from profilebench.flow.boundary_layer import march_boundary_layer
-from profilebench.flow.panel import solve_inviscid
+from profilebench.errors import InputError, ProfileBenchError
+from profilebench.flow.panel import InviscidSolution, InviscidStatus, solve_inviscid
 from profilebench.flow.stagnation import split_surfaces
 
 __all__ = ["FlowStatus", "SurfaceFlow", "ProfileFlow", "solve_profile_flow"]
@@ -141,12 +142,15 @@ def _merge(first, second, s_offset, i_offset):
 
 
 def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_length,
-                   restart_hints=(), hint_tolerance=0.0):
+                   restart_hints=(), hint_tolerance=0.0, beyond=0.0):
     """March one surface, restarting turbulent after corner bubbles (see module docstring).
 
     ``restart_hints``: arc lengths where an earlier march of the same surface restarted; a
     separation within ``hint_tolerance`` of one restarts too (so the wake-model march keeps the
-    closed-body march's corner bubbles although its surface ends earlier).
+    closed-body march's corner bubbles although its surface ends earlier). ``beyond``: length
+    (m) of the closed body's surface behind this surface's end, counted in the surface left
+    behind a separation (the wake-model march after a coarse closed-body pass, whose corner
+    bubbles may differ from the full panelling's).
     """
     bl = march_boundary_layer(s, ue, nu=nu, speed=speed, transition=transition,
                               h_separation=h_separation, edges=edges)
@@ -155,7 +159,7 @@ def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_l
         sep = bl.separation
         i0 = int(sep.index) + 1
         hinted = any(abs(float(sep.s) - h) <= hint_tolerance for h in restart_hints)
-        if i0 >= len(s) - 3 or (s[-1] - s[i0] < reattach_length and not hinted):
+        if i0 >= len(s) - 3 or (s[-1] - s[i0] + beyond < reattach_length and not hinted):
             break
         rest_s = s[i0:] - s[i0]
         # a fresh turbulent start needs a small positive first station
@@ -171,7 +175,7 @@ def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_l
 
 
 def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition, h_separation,
-             reattach_length, fallback_separation=None, restart_hints=None):
+             reattach_length, fallback_separation=None, restart_hints=None, beyond=(0.0, 0.0)):
     """March the given surfaces (in original-outline terms) and assemble a ProfileFlow."""
     n = len(res.s)
     flows = []
@@ -185,7 +189,7 @@ def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition,
         hints = () if restart_hints is None else restart_hints[k]
         tol = 0.0 if reattach_length is None else 0.1 * reattach_length
         bl, restarts = _march_surface(s, ue, nu, speed, transition, h_separation, edges,
-                                      reattach_length, hints, tol)
+                                      reattach_length, hints, tol, beyond[k])
         if not bl.success:
             return ProfileFlow(FlowStatus.BOUNDARY_LAYER_FAILED, f"{name} surface: {bl.message}", res)
         if bl.separation is None and fallback_separation is not None and fallback_separation[k] is not None:
@@ -277,21 +281,73 @@ def _surface_in_original(new_sf, orig_of_new, m, d, sigma_l, perimeter, s_juncti
     )
 
 
+def _outline_solution(pts, ground, ue, cp, status, message):
+    """An :class:`InviscidSolution` on the outline ``pts`` carrying given ``ue`` and ``cp``.
+
+    The panel geometry (midpoints, arc length, lengths, unit tangent and outward normal,
+    orientation) is computed as in :func:`~profilebench.flow.panel.solve_inviscid`; used when the
+    closed-body pass ran on a coarser panelling and the wake model's speeds are reported on the
+    full one.
+    """
+    b = np.roll(pts, -1, axis=0)
+    seg = b - pts
+    length = np.hypot(seg[:, 0], seg[:, 1])
+    tx = seg[:, 0] / length
+    ty = seg[:, 1] / length
+    area2 = float(np.sum(pts[:, 0] * b[:, 1] - b[:, 0] * pts[:, 1]))
+    sgn = 1.0 if area2 < 0.0 else -1.0   # outward normal = sgn * left normal (as in panel.py)
+    arrays = dict(
+        x=0.5 * (pts[:, 0] + b[:, 0]), y=0.5 * (pts[:, 1] + b[:, 1]),
+        s=np.cumsum(length) - 0.5 * length, ue=np.asarray(ue, dtype=float),
+        cp=np.asarray(cp, dtype=float), points=pts.copy(), panel_length=length,
+        tangent=np.column_stack([tx, ty]), normal=np.column_stack([-ty * sgn, tx * sgn]),
+    )
+    for arr in arrays.values():
+        arr.setflags(write=False)
+    return InviscidSolution(**arrays, circulation=0.0, perimeter=float(length.sum()),
+                            clockwise=area2 < 0.0, ground=bool(ground), kutta_node=None,
+                            status=status, success=status is InviscidStatus.SOLVED,
+                            message=message)
+
+
+def _separation_xy(sfl, s_at):
+    """Position (m) on a surface at surface arc length ``s_at`` (between its stations)."""
+    sf = sfl.surface
+    s = np.asarray(sf.s, dtype=float)
+    return float(np.interp(s_at, s, sf.x)), float(np.interp(s_at, s, sf.y))
+
+
 def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed, transition,
-               h_separation, reattach_length, wake_length, base_pressure):
-    """Re-solve the attached flow with a wake displacement body behind the separation points."""
+               h_separation, reattach_length, wake_length, base_pressure, coarse=False):
+    """Re-solve the attached flow with a wake displacement body behind the separation points.
+
+    ``coarse``: ``first`` was solved on a coarser panelling of the same outline (a subset of
+    ``pts``); the separation points are then placed on ``pts`` by nearest point in space (arc
+    lengths differ between the two panellings) and the result is reported on ``pts``.
+    """
     res0 = first.inviscid
     n = len(pts)
     sig = []
     seps = []
+    xy = []
     for sfl in (first.upper, first.lower):
         sep = sfl.bl.separation
         s_at = float(sep.s) if sep is not None else float(sfl.surface.s_end)
         sig.append(float(sfl.outline_s(s_at)))
         seps.append(sep)
-    j_u = _nearest_point(point_sigma, perimeter, sig[0])
-    j_l = _nearest_point(point_sigma, perimeter, sig[1])
+        if coarse:
+            xy.append(_separation_xy(sfl, s_at))
+    if coarse:
+        j_u = int(np.argmin(np.hypot(pts[:, 0] - xy[0][0], pts[:, 1] - xy[0][1])))
+        j_l = int(np.argmin(np.hypot(pts[:, 0] - xy[1][0], pts[:, 1] - xy[1][1])))
+    else:
+        j_u = _nearest_point(point_sigma, perimeter, sig[0])
+        j_l = _nearest_point(point_sigma, perimeter, sig[1])
     d = int(first.upper.direction)
+    # after a coarse closed-body pass, a corner bubble is judged on the closed body's surface
+    # length (the wake-model surface plus the closed surface behind its final separation)
+    beyond = ((float(first.upper.surface.s_end) - (float(seps[0].s) if seps[0] is not None else float(first.upper.surface.s_end))),
+              (float(first.lower.surface.s_end) - (float(seps[1].s) if seps[1] is not None else float(first.lower.surface.s_end)))) if coarse else (0.0, 0.0)
     if j_u == j_l or np.mod((j_u - j_l) * d, n) < 4:
         return first, "wake model skipped: too little attached surface"
     new_pts, m = _wake_outline(pts, j_l, j_u, d, wake_length)
@@ -317,7 +373,11 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     cp = np.full(n, float(base_pressure))
     ue[orig_of_new] = d * np.asarray(res.ue)[: m - 1]
     cp[orig_of_new] = np.asarray(res.cp)[: m - 1]
-    inviscid = dataclasses.replace(res0, ue=ue, cp=cp, message=res0.message + "; wake model: " + res.message)
+    message = res0.message + "; wake model: " + res.message
+    if coarse:
+        inviscid = _outline_solution(pts, ground, ue, cp, res0.status, message)
+    else:
+        inviscid = dataclasses.replace(res0, ue=ue, cp=cp, message=message)
     surfaces = []
     seg_new = np.roll(new_pts, -1, axis=0) - new_pts
     sigma_ju = float(np.hypot(seg_new[: m - 1, 0], seg_new[: m - 1, 1]).sum())  # wake outline starts at j_l
@@ -330,15 +390,82 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
         surfaces.append(sf)
     flow = _marched(inviscid, surfaces, ("upper", "lower"), perimeter, edge_sigma, nu, speed,
                     transition, h_separation, reattach_length, fallback_separation=seps,
-                    restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)])
+                    restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
+                    beyond=beyond)
     if not flow.success:
         return first, f"wake model skipped: {flow.message}"
     return dataclasses.replace(flow, closed=first, wake_points=new_pts), ""
 
 
+# A coarse closed-body pass is trusted only where the points this far either side of a final
+# separation point are all in it (common practice, no source).
+_CLOSED_NEIGHBOURS = 3
+
+
+def _outline_sigma(pts):
+    """Perimeter (m) and arc length of each point from points[0] (m) of a closed outline."""
+    seg = np.diff(np.vstack([pts, pts[:1]]), axis=0)
+    lengths = np.hypot(seg[:, 0], seg[:, 1])
+    return float(lengths.sum()), np.concatenate([[0.0], np.cumsum(lengths)[:-1]])
+
+
+def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed, transition,
+                             h_separation, reattach_length, wake_length, base_pressure):
+    """The wake model with its closed-body pass on the subset ``closed_points`` of ``pts``.
+
+    Returns the wake-model ProfileFlow on ``pts``, or None when the coarse pass fails or the
+    wake model is skipped (the caller then runs the full closed-body pass).
+    """
+    n = len(pts)
+    given = np.asarray(closed_points).ravel()
+    if given.size and (not np.issubdtype(given.dtype, np.integer) or given.min() < 0
+                       or given.max() >= n):
+        raise InputError(
+            f"closed_points must be indices 0 to {n - 1} into the {n} points; got "
+            f"{given.dtype} values from {given.min()} to {given.max()}: give integer point indices")
+    sub = np.unique(np.concatenate([given.astype(int),
+                                    np.asarray(list(edge_points), dtype=int).ravel()]))
+    if sub.size < 8 or sub.size >= n:
+        return None   # nothing to gain (or too few points): the full closed-body pass
+    pts_c = pts[sub]
+    try:
+        res_c = solve_inviscid(pts_c, ground=ground)
+    except ProfileBenchError:
+        return None
+    if not res_c.success:
+        return None
+    split = split_surfaces(res_c)
+    if not split.success:
+        return None
+    perim_c, sigma_c = _outline_sigma(pts_c)
+    pos = {int(j): k for k, j in enumerate(sub)}
+    edge_sigma_c = [float(sigma_c[pos[int(k)]]) for k in edge_points]
+    first = _marched(res_c, (split.upper, split.lower), ("upper", "lower"), perim_c, edge_sigma_c,
+                     nu, speed, transition, h_separation, reattach_length)
+    if not first.success:
+        return None
+    perimeter, point_sigma = _outline_sigma(pts)
+    edge_sigma = [float(point_sigma[int(k)]) for k in edge_points]
+    # the wake starts at the full outline's points nearest the separation points: they (and
+    # their neighbours) must have been in the coarse pass, or the position is not trusted
+    in_sub = np.zeros(n, dtype=bool)
+    in_sub[sub] = True
+    for sfl in (first.upper, first.lower):
+        sep = sfl.bl.separation
+        s_at = float(sep.s) if sep is not None else float(sfl.surface.s_end)
+        x, y = _separation_xy(sfl, s_at)
+        j = int(np.argmin(np.hypot(pts[:, 0] - x, pts[:, 1] - y)))
+        if not in_sub[(j + np.arange(-_CLOSED_NEIGHBOURS, _CLOSED_NEIGHBOURS + 1)) % n].all():
+            return None
+    flow, note = _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed,
+                            transition, h_separation, reattach_length, wake_length, base_pressure,
+                            coarse=True)
+    return None if note else flow
+
+
 def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transition="free",
                        h_separation=2.4, edge_points=(), reattach_length=None, inviscid=None,
-                       wake_length=None, base_pressure=-0.25):
+                       wake_length=None, base_pressure=-0.25, closed_points=None):
     """Inviscid flow and both boundary layers of a closed outline.
 
     Parameters
@@ -370,8 +497,21 @@ def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transit
         ``cp = base_pressure`` and ``ue = 0``. Not used with a Kutta condition.
     base_pressure : float
         Cp reported on the separated stations by the wake model.
+    closed_points : sequence of int, optional
+        With the wake model (and no ``inviscid``, no Kutta condition): increasing indices into
+        ``points`` of a coarser panelling of the same outline (``edge_points`` are added). The
+        closed-body pass, which only has to locate the two final separation points and the
+        corner-bubble restarts, then runs on these points; the wake is placed on the full
+        outline at the points nearest in space to those separation points. If that pass fails
+        or the wake model is skipped, the closed-body pass is repeated on all the points.
     """
     pts = np.asarray(points, dtype=float)
+    if closed_points is not None and inviscid is None and kutta_node is None and wake_length is not None:
+        flow = _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed,
+                                        transition, h_separation, reattach_length, wake_length,
+                                        base_pressure)
+        if flow is not None:
+            return flow
     res = inviscid if inviscid is not None else solve_inviscid(pts, ground=ground, kutta_node=kutta_node)
     if not res.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, res.message, res)

@@ -1,0 +1,111 @@
+"""The wake model's closed-body pass on a coarser panelling (``closed_points``)."""
+
+import numpy as np
+import pytest
+import shapely
+
+from profilebench.errors import InputError
+from profilebench.flow.viscous import _outline_solution, solve_profile_flow
+from profilebench.flow.panel import InviscidStatus
+from profilebench.geometry import panelize
+from profilebench.geometry.shapes import ellipse_points, rounded_box
+
+SPEED = 30.0
+NU = 1.5e-5
+HEIGHT = 1.4
+
+
+def _box_points():
+    prof = rounded_box(4.0, HEIGHT, radius=(0.3, 0.05, 0.05, 0.1), clearance=0.2)
+    pan = panelize(prof, 300)
+    return prof, pan
+
+
+def _coarse(pan, rear_window=0.3 * HEIGHT, stride=2):
+    pts = pan.points
+    keep = np.zeros(len(pts), dtype=bool)
+    keep[::stride] = True
+    if rear_window is not None:
+        keep |= pts[:, 0] >= pts[:, 0].max() - rear_window
+    for span in pan.corners:
+        i0, i1 = span.point_start, span.point_end
+        if i1 >= i0:
+            keep[i0:i1 + 1] = True
+        else:
+            keep[i0:] = True
+            keep[:i1 + 1] = True
+    return np.flatnonzero(keep)
+
+
+def _flow(pts, closed_points=None):
+    return solve_profile_flow(pts, speed=SPEED, nu=NU, ground=True, reattach_length=2.5 * HEIGHT,
+                              wake_length=10.0 * HEIGHT, closed_points=closed_points)
+
+
+def _pressure_drag(flow):
+    """Pressure drag coefficient on the height: -(1/h) closed-integral Cp n_x ds (numpy sums)."""
+    inv = flow.inviscid
+    return float(np.sum(inv.cp * inv.normal[:, 0] * inv.panel_length)) / HEIGHT
+
+
+@pytest.fixture(scope="module")
+def box_flows():
+    _, pan = _box_points()
+    return pan, _flow(pan.points), _flow(pan.points, _coarse(pan))
+
+
+def test_coarse_closed_pass_keeps_the_full_panelling_result(box_flows):
+    pan, full, coarse = box_flows
+    assert full.success and coarse.success
+    # consistency with this package's own full closed-body pass (no outside value exists for
+    # the wake model's separation point): the wake starts at the same outline points, so the
+    # reported flow is the same to rounding; 1e-9 is common practice, no source
+    assert coarse.closed.inviscid.n_panels < len(pan.points)
+    np.testing.assert_array_equal(coarse.wake_points, full.wake_points)
+    np.testing.assert_allclose(coarse.inviscid.cp, full.inviscid.cp, rtol=0, atol=1e-9)
+    assert _pressure_drag(coarse) == pytest.approx(_pressure_drag(full), rel=1e-9)
+
+
+def test_coarse_result_geometry_is_the_full_outline(box_flows):
+    pan, _, coarse = box_flows
+    inv = coarse.inviscid
+    ring = shapely.LinearRing(pan.points)
+    poly = shapely.Polygon(pan.points)
+    # perimeter and orientation against shapely's own length and ring orientation
+    assert inv.perimeter == pytest.approx(ring.length, rel=1e-12)
+    assert inv.clockwise == (not ring.is_ccw)
+    # outward normals: a step outward from each midpoint leaves the polygon (shapely.contains)
+    eps = 1e-4
+    out = shapely.points(inv.x + eps * inv.normal[:, 0], inv.y + eps * inv.normal[:, 1])
+    inside = shapely.points(inv.x - eps * inv.normal[:, 0], inv.y - eps * inv.normal[:, 1])
+    assert not shapely.contains(poly, out).any()
+    assert shapely.contains(poly, inside).all()
+
+
+def test_outline_solution_midpoints_and_arc_length():
+    pts = ellipse_points(2.0, 0.5, 64, centre=(0.0, 1.0))
+    sol = _outline_solution(pts, True, np.zeros(64), np.ones(64), InviscidStatus.SOLVED, "x")
+    nxt = np.roll(pts, -1, axis=0)
+    # midpoints and the midpoint arc length by numpy (cumulative chord lengths)
+    np.testing.assert_allclose(sol.x, 0.5 * (pts[:, 0] + nxt[:, 0]), rtol=0, atol=1e-15)
+    chords = np.linalg.norm(nxt - pts, axis=1)
+    np.testing.assert_allclose(sol.s, np.cumsum(chords) - 0.5 * chords, rtol=1e-13)
+    assert sol.success and sol.ground
+
+
+def test_a_separation_outside_the_full_stretches_repeats_the_pass_on_all_points():
+    _, pan = _box_points()
+    full = _flow(pan.points)
+    # every other point everywhere: the separation points' neighbourhoods are not all in the
+    # coarse pass, so the flow solver must fall back to the full closed-body pass, bit for bit
+    # (the reference is the same call without closed_points)
+    again = _flow(pan.points, _coarse(pan, rear_window=None))
+    assert again.closed.inviscid.n_panels == len(pan.points)
+    np.testing.assert_array_equal(again.inviscid.cp, full.inviscid.cp)
+
+
+@pytest.mark.parametrize("bad", [[0, 2, 400], [-1, 4, 8], [0.5, 2.0, 4.0]])
+def test_closed_points_that_are_not_point_indices_are_refused(bad):
+    _, pan = _box_points()
+    with pytest.raises(InputError, match="closed_points must be indices"):
+        _flow(pan.points, bad)
