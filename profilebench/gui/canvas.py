@@ -5,8 +5,9 @@ functions of :mod:`profilebench.editor.interaction`. The GUI thread never builds
 editing: the built outline of each new profile is computed on a worker thread, and until it
 arrives the canvas draws :func:`profilebench.editor.preview.preview_outline` (node polygon with
 fillet arcs). The analysis overlay (Cp band, separated flow, markers, corner labels, legend) is
-drawn once per analysis and view into cached images, so a repaint during a drag only draws the
-outline and the handles over them.
+drawn once per analysis and view into cached images, always on a worker thread (the previous
+images stay on screen, following a zoom or pan, until the new ones arrive), so a repaint only
+draws the outline and the handles over them.
 """
 
 from __future__ import annotations
@@ -717,25 +718,40 @@ class ProfileCanvas(QWidget):
         return _OverlayScene(self)
 
     def _overlay_images(self):
-        """(under, over) images of the analysis overlay for the current analysis and view.
+        """(under, over, mapping) of the analysis overlay to draw now.
 
-        Drawn on the GUI thread only when the view or the canvas size changed (zoom, pan,
-        resize); a new analysis or selection with the same view is drawn on the overlay worker
-        while the previous images stay on screen.
+        Never drawn on the GUI thread: a new analysis, selection, view or canvas size is drawn
+        on the overlay worker while the previous images stay on screen. ``mapping`` is None
+        when the images belong to the current view, else ``(k, dx, dy)``: the old images are
+        shown scaled by ``k`` and shifted by (dx, dy) px so they follow a zoom or pan until the
+        new ones arrive. (None, None, None) before the first images of any analysis.
         """
         key = self._overlay_key()
-        if self._overlay is not None and self._overlay[0] == key and self._overlay[1] is self.analysis:
-            return self._overlay[2], self._overlay[3]
-        same_view = self._overlay is not None and self._overlay[0][6:] == key[6:]
-        if same_view:
-            if self._overlay_requested != key:
-                self._overlay_requested = key
-                self.overlay_runner.request(key, self.analysis, self._scene())
-            return self._overlay[2], self._overlay[3]
-        under, over = _render_overlay(self._scene())
-        self.overlay_renders += 1
-        self._overlay = (key, self.analysis, under, over)
-        return under, over
+        o = self._overlay
+        if o is not None and o[0] == key and o[1] is self.analysis:
+            return o[2], o[3], None
+        if self._overlay_requested != key:
+            self._overlay_requested = key
+            self.overlay_runner.request(key, self.analysis, self._scene())
+        if o is None:
+            return None, None, None
+        if o[0][6:9] == key[6:9]:
+            return o[2], o[3], None
+        s0, ox0, oy0 = o[0][6:9]
+        k = self.view.scale / s0
+        return o[2], o[3], (k, self.view.offset_x - k * ox0, self.view.offset_y - k * oy0)
+
+    @staticmethod
+    def _draw_layer(qp: QPainter, image, mapping):
+        if mapping is None:
+            qp.drawImage(0, 0, image)
+            return
+        k, dx, dy = mapping
+        qp.save()
+        qp.translate(dx, dy)
+        qp.scale(k, k)
+        qp.drawImage(0, 0, image)
+        qp.restore()
 
     @property
     def up_to_date(self) -> bool:
@@ -804,18 +820,19 @@ class ProfileCanvas(QWidget):
         pts, ok, message, built = self.current_outline()
         self.outline_message = message
         self._draw_baseline(qp, pts)
-        under = over = None
+        under = over = mapping = None
         if self.analysis is not None:
-            under, over = self._overlay_images()
-            qp.drawImage(0, 0, under)
+            under, over, mapping = self._overlay_images()
+            if under is not None:
+                self._draw_layer(qp, under, mapping)
         pen = QPen(QColor(15, 15, 15) if ok else QColor(OKABE_ITO["vermillion"]), 1.6,
                    Qt.SolidLine if ok else Qt.DashLine)
         qp.setPen(pen)
         qp.setBrush(Qt.NoBrush)
         qp.drawPolyline(self._poly(pts))
         if over is not None:
-            qp.drawImage(0, 0, over)
-        elif getattr(self.state, "baseline", None) is not None:
+            self._draw_layer(qp, over, mapping)
+        elif self.analysis is None and getattr(self.state, "baseline", None) is not None:
             self._label_rects = []
             self._draw_legend(qp)
         self._draw_nodes(qp)
