@@ -238,7 +238,8 @@ def analyze(profile, conditions=None, thickness=None, table=None):
     searches = []
     attached_ratios = {}
     spans = all_spans(panelling, height)
-    for node in corners_needing_floor(panelling, flow, spans):
+    regions = corner_regions(panelling, flow, spans)
+    for node in corners_needing_floor(panelling, flow, spans, regions=regions):
         search = cached_radius_search(profile, conditions, node, thickness=thickness)
         searches.append(search)
         if search.radius is not None:
@@ -250,7 +251,7 @@ def analyze(profile, conditions=None, thickness=None, table=None):
                             "table's own floor")
     timings["radius_search"] = time.perf_counter() - t2
     corners = assess_corners(profile, panelling, flow, t_ref, table=table, table_flagged=flagged,
-                             attached_ratios=attached_ratios, spans=spans)
+                             attached_ratios=attached_ratios, spans=spans, regions=regions)
     drag = estimate_drag(panelling.points, flow, conditions, height,
                          corner_penalties=[c.delta_cd for c in corners])
     timings["assess"] = time.perf_counter() - t2

@@ -214,14 +214,17 @@ def all_spans(panelling, height):
     return tuple(panelling.corners) + curvature_peaks(panelling, height)
 
 
-def corners_needing_floor(panelling, flow, spans=None):
+def corners_needing_floor(panelling, flow, spans=None, regions=None):
     """Nodes of convex node corners the solver finds separated with the layer reattaching behind
     them (corner bubbles): the corners whose drag correction needs the smallest attached radius.
-    Curvature peaks are not among them (no node radius to vary)."""
+    Curvature peaks are not among them (no node radius to vary). ``regions``: the result of
+    :func:`corner_regions` for these spans, if already computed."""
     spans = panelling.corners if spans is None else spans
     node_spans = set(id(sp) for sp in panelling.corners)
+    if regions is None:
+        regions = corner_regions(panelling, flow, spans)
     out = []
-    for span, (k, lo, hi, bounded) in zip(spans, corner_regions(panelling, flow, spans)):
+    for span, (k, lo, hi, bounded) in zip(spans, regions):
         if k < 0 or not span.convex or id(span) not in node_spans:
             continue
         sfl = flow.surfaces[k]
@@ -232,18 +235,20 @@ def corners_needing_floor(panelling, flow, spans=None):
 
 
 def assess_corners(profile, panelling, flow, thickness, table=None, table_flagged=False,
-                   table_share=0.5, attached_ratios=None, spans=None):
+                   table_share=0.5, attached_ratios=None, spans=None, regions=None):
     """Corner results for every non-smooth node of ``profile`` and every curvature peak in
     ``spans`` (default: the node corners only; see :func:`all_spans`).
 
     ``table`` is an empirical r/t table (profilebench.assess.tables.RtTable) or None; its penalty
     curve gives the drag correction of corners that separate and then reattach (a corner
     bubble), times ``table_share`` (the data of a 2D section with two rounded front corners
-    cover both: half each).
+    cover both: half each). ``regions``: the result of :func:`corner_regions` for these spans,
+    if already computed.
     """
     spans = panelling.corners if spans is None else spans
     node_spans = set(id(sp) for sp in panelling.corners)
-    regions = corner_regions(panelling, flow, spans)
+    if regions is None:
+        regions = corner_regions(panelling, flow, spans)
     attached_ratios = {} if attached_ratios is None else dict(attached_ratios)
     out = []
     for span, (k, lo, hi, bounded) in zip(spans, regions):
