@@ -124,18 +124,21 @@ class ChildProcess:
             proc.wait()
 
 
-_shared = None
+_shared: dict = {}
 _shared_lock = threading.Lock()
 
 
-def shared_child() -> ChildProcess:
-    """The program's one :class:`ChildProcess` (its process starts on the first job)."""
-    global _shared
+def shared_child(name: str = "default") -> ChildProcess:
+    """The program's :class:`ChildProcess` called ``name`` (its process starts on the first job).
+
+    Separate names are separate processes, so jobs of one kind never queue behind another's.
+    """
     with _shared_lock:
-        if _shared is None:
-            _shared = ChildProcess()
-            atexit.register(_shared.close)
-        return _shared
+        child = _shared.get(name)
+        if child is None:
+            child = _shared[name] = ChildProcess()
+            atexit.register(child.close)
+        return child
 
 
 def _serve():

@@ -176,10 +176,11 @@ class ProcessTaskRunner(TaskRunner):
     Results come back through the same signals, on the GUI thread.
     """
 
-    def __init__(self, fn, parent=None, warm_up=None):
+    def __init__(self, fn, parent=None, warm_up=None, child: str = "default"):
         super().__init__(fn, parent)
+        self._child = shared_child(child)
         if warm_up is not None:      # start the child and its imports before the first job
-            shared_child().submit(warm_up, (), lambda ok, payload: None)
+            self._child.submit(warm_up, (), lambda ok, payload: None)
 
     def _start_pending(self):
         generation, args = self._pending
@@ -203,7 +204,7 @@ class ProcessTaskRunner(TaskRunner):
             finally:
                 activity.end()
 
-        shared_child().submit(self._fn, args, done)
+        self._child.submit(self._fn, args, done)
 
 
 def _analyze(profile, conditions):
@@ -212,9 +213,29 @@ def _analyze(profile, conditions):
     return analyze(profile, conditions)
 
 
-class AnalysisRunner(TaskRunner):
-    """A :class:`TaskRunner` over :func:`profilebench.assess.analysis.analyze`."""
+def _import_analysis() -> bool:
+    import profilebench.assess.analysis  # noqa: F401
+
+    return True
+
+
+class AnalysisRunner(ProcessTaskRunner):
+    """Runs :func:`profilebench.assess.analysis.analyze` in the "analysis" child process.
+
+    The analysis is mostly Python and numpy: on a thread it would share the interpreter lock
+    with the GUI thread and stretch every repaint during a drag. A given ``analyze_fn`` (tests,
+    functions that may not pickle) runs on a thread instead, as in :class:`TaskRunner`.
+    """
 
     def __init__(self, parent=None, analyze_fn=None):
-        super().__init__(analyze_fn or _analyze, parent)
+        if analyze_fn is None:
+            super().__init__(_analyze, parent, warm_up=_import_analysis, child="analysis")
+        else:
+            TaskRunner.__init__(self, analyze_fn, parent)
+            self._child = None
 
+    def _start_pending(self):
+        if self._child is None:
+            TaskRunner._start_pending(self)
+        else:
+            super()._start_pending()

@@ -90,3 +90,31 @@ def test_a_job_that_does_not_pickle_fails_alone(child, qtbot):
     assert not ok and "pickle" in text.lower()
     ok, value = _collect(child, math.fsum, ([0.5, 0.25],), qtbot)   # 0.75 exactly in binary
     assert ok and value == 0.75
+
+
+def test_default_analysis_runs_in_the_child_and_matches_the_pipeline(qtbot):
+    from profilebench.assess.analysis import analyze
+    from profilebench.gui.worker import AnalysisRunner
+    from profilebench.io import default_sample_path, load_project
+
+    project = load_project(default_sample_path())
+    runner = AnalysisRunner()
+    assert runner._child is not None            # the child process, not a thread
+    got = []
+    runner.finished.connect(lambda g, a, s: got.append(a))
+    with qtbot.waitSignal(runner.finished, timeout=30000):
+        runner.request(project.profile, project.conditions)
+    # the same pipeline called here gives the same drag coefficient (deterministic numerics)
+    here = analyze(project.profile, project.conditions)
+    assert got[0].success and got[0].drag.cd == pytest.approx(here.drag.cd, rel=1e-12)
+    assert runner.close(5000)
+
+
+def test_an_injected_analysis_runs_on_a_thread(qtbot):
+    from profilebench.gui.worker import AnalysisRunner
+
+    runner = AnalysisRunner(analyze_fn=lambda p, c: (p, c))   # a lambda: cannot cross processes
+    assert runner._child is None
+    with qtbot.waitSignal(runner.finished, timeout=5000) as blocker:
+        runner.request(1, 2)
+    assert blocker.args[1] == (1, 2)
