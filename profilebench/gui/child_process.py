@@ -13,7 +13,7 @@ import atexit
 import threading
 import traceback
 
-__all__ = ["ChildProcess", "shared_child"]
+__all__ = ["ChildProcess", "call", "shared_child"]
 
 
 class ChildProcess:
@@ -139,6 +139,15 @@ def shared_child(name: str = "default") -> ChildProcess:
             child = _shared[name] = ChildProcess()
             atexit.register(child.close)
         return child
+
+
+def call(target: str, *args):
+    """``module:function`` imported and called with ``args`` (lets a job name a function whose
+    module the editor has not imported itself)."""
+    import importlib
+
+    module, _, name = target.partition(":")
+    return getattr(importlib.import_module(module), name)(*args)
 
 
 def _serve():

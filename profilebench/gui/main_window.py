@@ -8,6 +8,7 @@ one is reported in the banner while the last good result stays on screen marked 
 
 from __future__ import annotations
 
+import functools
 import logging
 import os
 import sys
@@ -29,7 +30,8 @@ from profilebench.gui.conditions_panel import ConditionsPanel
 from profilebench.gui.node_panel import NodePanel
 from profilebench.gui.results_panels import CornerTable, PlotPanel, SummaryPanel
 from profilebench.gui.undo import EditCommand
-from profilebench.gui.worker import AnalysisRunner, TaskRunner
+from profilebench.gui.child_process import call
+from profilebench.gui.worker import AnalysisRunner, ProcessTaskRunner
 
 __all__ = ["MainWindow"]
 
@@ -47,10 +49,8 @@ BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px s
 BANNER_INFO = "background: #fff6d5; color: #5a4500; padding: 4px; border: 1px solid #e0d090;"
 
 
-def _search(profile, conditions, node):
-    from profilebench.assess.corners import smallest_attached_radius
-
-    return smallest_attached_radius(profile, conditions, node)
+# the radius search (a bisection of whole analyses) runs in a child process of its own
+_search = functools.partial(call, "profilebench.assess.corners:smallest_attached_radius")
 
 
 class MainWindow(QMainWindow):
@@ -81,7 +81,7 @@ class MainWindow(QMainWindow):
         self.undo_stack = QUndoStack(self)
         self.runner = AnalysisRunner(self, analyze_fn)
         self.baseline_runner = AnalysisRunner(self, analyze_fn)
-        self.search_runner = TaskRunner(_search, self)
+        self.search_runner = ProcessTaskRunner(_search, self, child="search")
         self.document = None
         self.analysis = None               # last good analysis (may be stale)
         self.analysis_state = None         # the document state it was computed for

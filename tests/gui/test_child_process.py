@@ -118,3 +118,17 @@ def test_an_injected_analysis_runs_on_a_thread(qtbot):
     with qtbot.waitSignal(runner.finished, timeout=5000) as blocker:
         runner.request(1, 2)
     assert blocker.args[1] == (1, 2)
+
+
+def test_radius_search_from_the_window_matches_the_search_here(window, qtbot):
+    from profilebench.assess.corners import smallest_attached_radius
+
+    w = window
+    node = next(i for i, n in enumerate(w.document.profile.nodes) if not n.smooth)
+    w.find_smallest_radius(node)
+    qtbot.waitUntil(lambda: w.searches.get(node) not in (None, "running"), timeout=60000)
+    got = w.searches[node]
+    # the same bisection called in this process (deterministic numerics) finds the same radius
+    here = smallest_attached_radius(w.document.profile, w.document.conditions, node)
+    assert got.status == here.status and got.solves == here.solves
+    assert (got.radius is None and here.radius is None) or got.radius == pytest.approx(here.radius, rel=1e-12)
