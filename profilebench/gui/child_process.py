@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import atexit
 import threading
+import time
 import traceback
 
 __all__ = ["ChildProcess", "call", "shared_child"]
@@ -34,8 +35,9 @@ class ChildProcess:
         self._outbox = None
 
     def submit(self, fn, args, callback) -> int:
-        """Queue ``fn(*args)``; ``callback(ok, payload)`` runs on the reader thread with the
-        result (``ok`` True) or the error text (``ok`` False)."""
+        """Queue ``fn(*args)``; ``callback(ok, payload, seconds)`` runs on the reader thread with
+        the result (``ok`` True) or the error text (``ok`` False), and the time ``fn`` took in
+        the child (s; None when it never ran)."""
         with self._lock:
             if self._proc is None or self._proc.poll() is not None:
                 self._start()
@@ -92,10 +94,10 @@ class ChildProcess:
 
         while True:
             try:
-                job, ok, payload = pickle.load(proc.stdout)
+                job, ok, payload, seconds = pickle.load(proc.stdout)
             except Exception:  # EOF: the child ended
                 break
-            self._finish(job, ok, payload)
+            self._finish(job, ok, payload, seconds)
         code = proc.wait()
         with self._lock:
             if self._proc is proc:
@@ -104,11 +106,11 @@ class ChildProcess:
         for job in left:
             self._finish(job, False, f"the background process ended (exit code {code})")
 
-    def _finish(self, job, ok, payload):
+    def _finish(self, job, ok, payload, seconds=None):
         with self._lock:
             entry = self._jobs.pop(job, None)
         if entry is not None:
-            entry[1](ok, payload)
+            entry[1](ok, payload, seconds)
 
     def close(self, seconds: float = 5.0):
         """End the child (its stdin closed; killed if it does not end within ``seconds``)."""
@@ -151,7 +153,8 @@ def call(target: str, *args):
 
 
 def _serve():
-    """The child's loop: read ``(job, fn, args)`` pickles from stdin, write ``(job, ok, payload)``."""
+    """The child's loop: read ``(job, fn, args)`` pickles from stdin, write
+    ``(job, ok, payload, seconds)``."""
     import pickle
     import sys
 
@@ -162,10 +165,12 @@ def _serve():
             job, fn, args = pickle.load(stdin)
         except EOFError:
             return
+        t0 = time.perf_counter()
         try:
-            reply = (job, True, fn(*args))
+            reply = (job, True, fn(*args), time.perf_counter() - t0)
         except Exception as exc:  # reported to the editor, which logs and shows it
-            reply = (job, False, f"{type(exc).__name__}: {exc}\n{traceback.format_exc()}")
+            reply = (job, False, f"{type(exc).__name__}: {exc}\n{traceback.format_exc()}",
+                     time.perf_counter() - t0)
         pickle.dump(reply, stdout, protocol=pickle.HIGHEST_PROTOCOL)
         stdout.flush()
 

@@ -180,7 +180,7 @@ class ProcessTaskRunner(TaskRunner):
         super().__init__(fn, parent)
         self._child = shared_child(child)
         if warm_up is not None:      # start the child and its imports before the first job
-            self._child.submit(warm_up, (), lambda ok, payload: None)
+            self._child.submit(warm_up, (), lambda ok, payload, seconds: None)
 
     def _start_pending(self):
         generation, args = self._pending
@@ -190,7 +190,7 @@ class ProcessTaskRunner(TaskRunner):
         self._activity.begin()
         relay, activity, name, t0 = self._relay, self._activity, self.name, time.perf_counter()
 
-        def done(ok, payload):          # on the reader thread
+        def done(ok, payload, seconds):     # on the reader thread; seconds: the child's run time
             try:
                 if ok:
                     result, error = (payload,), ""
@@ -198,7 +198,8 @@ class ProcessTaskRunner(TaskRunner):
                     log.error("%s failed in the background process:\n%s", name, payload)
                     result, error = (), payload.splitlines()[0] if payload else "failed"
                 try:
-                    relay.done.emit(generation, result, error, time.perf_counter() - t0)
+                    took = seconds if seconds is not None else time.perf_counter() - t0
+                    relay.done.emit(generation, result, error, took)
                 except RuntimeError:   # the runner was deleted meanwhile: nobody wants it
                     pass
             finally:

@@ -20,7 +20,7 @@ def child():
 
 def _collect(child, fn, args, qtbot):
     got = []
-    child.submit(fn, args, lambda ok, payload: got.append((ok, payload)))
+    child.submit(fn, args, lambda ok, payload, seconds: got.append((ok, payload)))
     qtbot.waitUntil(lambda: bool(got), timeout=20000)
     return got[0]
 
@@ -53,7 +53,7 @@ def test_an_exception_in_the_child_is_reported_with_its_type(child, qtbot):
 def test_a_killed_child_fails_its_job_and_is_replaced(child, qtbot):
     ok, pid = _collect(child, os.getpid, (), qtbot)
     got = []
-    child.submit(__import__("time").sleep, (30,), lambda ok, p: got.append((ok, p)))
+    child.submit(__import__("time").sleep, (30,), lambda ok, p, seconds: got.append((ok, p)))
     os.kill(pid, 9)
     qtbot.waitUntil(lambda: bool(got), timeout=20000)
     assert got[0][0] is False and "ended" in got[0][1]
@@ -132,3 +132,14 @@ def test_radius_search_from_the_window_matches_the_search_here(window, qtbot):
     here = smallest_attached_radius(w.document.profile, w.document.conditions, node)
     assert got.status == here.status and got.solves == here.solves
     assert (got.radius is None and here.radius is None) or got.radius == pytest.approx(here.radius, rel=1e-12)
+
+
+def test_the_reported_time_is_the_jobs_own_time_in_the_child(child, qtbot):
+    import time
+
+    _collect(child, os.getpid, (), qtbot)          # the child started (its imports not counted)
+    got = []
+    child.submit(time.sleep, (0.2,), lambda ok, p, seconds: got.append(seconds))
+    qtbot.waitUntil(lambda: bool(got), timeout=20000)
+    # time.sleep suspends for at least the given time (Python documentation of time.sleep)
+    assert 0.2 <= got[0] < 1.0
