@@ -41,13 +41,15 @@ REATTACH_RATIO = 2.5
 # attached pressures noticeably (the change from 10 to 20 h is below 0.01 in Cd on the test body).
 WAKE_RATIO = 10.0
 
-# The wake model's closed-body pass runs on every other panel point except within this many
-# frontal heights of the rearmost point (and on corner arcs), where it keeps every point: with
-# it the samples' Cd at 300 panels is that of the full closed-body pass to 0.001 %, and so it
-# was on 48 randomly perturbed samples (nodes moved by 1 % of h, radii scaled by 0.5-1.5), none
-# of which needed the full pass again; at 0.3 h 7 of them did (measured; a calibrated choice
-# of this project, no source).
+# The wake model's closed-body pass runs on every CLOSED_STRIDE-th panel point except within
+# CLOSED_FULL_REAR frontal heights of the rearmost point (and on corner arcs), where it keeps
+# every point. With these values the samples' Cd at 300 panels is that of the full closed-body
+# pass to 0.001 %, and so it was on 48 randomly perturbed samples (nodes moved by 1 % of h, radii
+# scaled by 0.5-1.5), none of which needed the full pass again (at 0.3 h, 7 of them did);
+# strides 2, 3 and 4 gave the same Cd there, 3 is a middle choice (measured; a calibrated
+# choice of this project, no source).
 CLOSED_FULL_REAR = 0.5
+CLOSED_STRIDE = 3
 
 
 def _check_args(profile, conditions):
@@ -71,17 +73,18 @@ def _edge_points(panelling, min_panel):
 def _closed_points(panelling, height):
     """Points of the coarser panelling for the wake model's closed-body pass.
 
-    Every other panel point; every point of each corner's arc; every point of the rear part
-    (``x`` within ``CLOSED_FULL_REAR`` h of the rearmost point), where the final separations
-    of a road vehicle lie and where their position must match the full panelling's (it places
-    the wake). The closed-body pass only locates the separation points and corner bubbles; on
-    these points it costs about half as much. A separation found outside the fully panelled
-    stretches makes the flow solver repeat the pass on all points.
+    Every ``CLOSED_STRIDE``-th panel point; every point of each corner's arc; every point of the
+    rear part (``x`` within ``CLOSED_FULL_REAR`` h of the rearmost point), where the final
+    separations of a road vehicle lie and where their position must match the full panelling's
+    (it places the wake). The closed-body pass only locates the separation points and corner
+    bubbles; on these points (about 60 % of them) it costs about half as much. A separation
+    found outside the fully panelled stretches makes the flow solver repeat the pass on all
+    points.
     """
     pts = panelling.points
     n = len(pts)
     keep = np.zeros(n, dtype=bool)
-    keep[::2] = True
+    keep[::CLOSED_STRIDE] = True
     keep |= pts[:, 0] >= float(pts[:, 0].max()) - CLOSED_FULL_REAR * height
     for span in panelling.corners:
         i0, i1 = int(span.point_start), int(span.point_end)
