@@ -14,7 +14,11 @@ import threading
 import time
 import traceback
 
-__all__ = ["ChildProcess", "call", "shared_child"]
+__all__ = ["ChildProcess", "call", "shared_child", "CHILD_NICENESS"]
+
+# The child runs at a lower CPU priority (POSIX niceness increment) than the editor: when the
+# cores are busy, the GUI thread is scheduled first and background work waits instead.
+CHILD_NICENESS = 5
 
 
 class ChildProcess:
@@ -155,9 +159,15 @@ def call(target: str, *args):
 def _serve():
     """The child's loop: read ``(job, fn, args)`` pickles from stdin, write
     ``(job, ok, payload, seconds)``."""
+    import os
     import pickle
     import sys
 
+    if hasattr(os, "nice"):            # POSIX only; elsewhere the child keeps normal priority
+        try:
+            os.nice(CHILD_NICENESS)
+        except OSError:
+            pass
     stdin, stdout = sys.stdin.buffer, sys.stdout.buffer
     sys.stdout = sys.stderr             # nothing else may write into the result stream
     while True:

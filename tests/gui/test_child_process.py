@@ -143,3 +143,12 @@ def test_the_reported_time_is_the_jobs_own_time_in_the_child(child, qtbot):
     qtbot.waitUntil(lambda: bool(got), timeout=20000)
     # time.sleep suspends for at least the given time (Python documentation of time.sleep)
     assert 0.2 <= got[0] < 1.0
+
+
+@pytest.mark.skipif(not hasattr(os, "nice"), reason="niceness is POSIX")
+def test_the_child_runs_at_a_lower_cpu_priority(child, qtbot):
+    from profilebench.gui.child_process import CHILD_NICENESS
+
+    ok, niceness = _collect(child, os.nice, (0,), qtbot)
+    # nice(2): the increment is added to the niceness, which is capped at 19 (Linux man page)
+    assert ok and niceness == min(os.nice(0) + CHILD_NICENESS, 19)
