@@ -38,7 +38,8 @@ __all__ = ["MainWindow"]
 log = logging.getLogger("profilebench.gui")
 
 MAX_RECENT = 8
-# The analysis and plot workers are Python threads sharing the GIL with the GUI thread. With
+# Analyses, the radius search and the plots run in child processes (profilebench.gui.child_process);
+# the outline and overlay workers are Python threads sharing the GIL with the GUI thread. With
 # Python's default 5 ms switch interval every hand-over to the GUI thread can wait up to 5 ms;
 # 1 ms keeps the GUI thread's painting responsive (measured with benchmarks/bench_gui.py).
 GIL_SWITCH_INTERVAL_S = 0.001
