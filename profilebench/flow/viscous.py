@@ -13,7 +13,11 @@ fresh turbulent start, which underestimates the thickness after the bubble: the 
 separation it predicts is on the optimistic side) and the separation is recorded as a corner
 bubble. The drag of such a bubble is not in the pressure integral (the bubble region keeps its
 inviscid Cp); it is carried by the empirical corner correction (see profilebench.assess.drag).
-``reattach_length = None`` turns the restart off: the first separation is final.
+``reattach_length = None`` turns the restart off: the first separation is final. In the wake
+model's second march the surface ends at the wake; the length left behind a separation is then
+counted on the closed body (the surface to the wake plus the closed body's surface behind its
+final separation), so a separation that the shortened surface alone would make final (say one
+just behind the stagnation point) restarts as it would on the closed body.
 """
 
 from __future__ import annotations
@@ -149,8 +153,7 @@ def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_l
     separation within ``hint_tolerance`` of one restarts too (so the wake-model march keeps the
     closed-body march's corner bubbles although its surface ends earlier). ``beyond``: length
     (m) of the closed body's surface behind this surface's end, counted in the surface left
-    behind a separation (the wake-model march after a coarse closed-body pass, whose corner
-    bubbles may differ from the full panelling's).
+    behind a separation (the wake-model march; see the module docstring).
     """
     bl = march_boundary_layer(s, ue, nu=nu, speed=speed, transition=transition,
                               h_separation=h_separation, edges=edges)
@@ -344,10 +347,10 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
         j_u = _nearest_point(point_sigma, perimeter, sig[0])
         j_l = _nearest_point(point_sigma, perimeter, sig[1])
     d = int(first.upper.direction)
-    # after a coarse closed-body pass, a corner bubble is judged on the closed body's surface
-    # length (the wake-model surface plus the closed surface behind its final separation)
-    beyond = ((float(first.upper.surface.s_end) - (float(seps[0].s) if seps[0] is not None else float(first.upper.surface.s_end))),
-              (float(first.lower.surface.s_end) - (float(seps[1].s) if seps[1] is not None else float(first.lower.surface.s_end)))) if coarse else (0.0, 0.0)
+    # a corner bubble is judged on the closed body's surface length (the wake-model surface plus
+    # the closed surface behind its final separation; see the module docstring)
+    beyond = tuple(float(f.surface.s_end) - (float(sep.s) if sep is not None else float(f.surface.s_end))
+                   for f, sep in zip((first.upper, first.lower), seps))
     if j_u == j_l or np.mod((j_u - j_l) * d, n) < 4:
         return first, "wake model skipped: too little attached surface"
     new_pts, m = _wake_outline(pts, j_l, j_u, d, wake_length)

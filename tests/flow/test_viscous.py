@@ -109,3 +109,27 @@ def test_closed_points_that_are_not_point_indices_are_refused(bad):
     _, pan = _box_points()
     with pytest.raises(InputError, match="closed_points must be indices"):
         _flow(pan.points, bad)
+
+
+# Howarth's linearly retarded flow Ue/V = 1 - x/L: Thwaites' method puts laminar separation at
+# x/L = 0.123 (the exact series solution: 0.120; Howarth 1938, White, Viscous Fluid Flow, 3rd ed.,
+# sec. 4-6.5, from memory).
+THWAITES_HOWARTH_SEPARATION = 0.123
+
+
+@pytest.mark.parametrize("beyond, restarted", [(0.0, False), (0.5, True)])
+def test_a_bubble_is_judged_on_the_closed_body_length_behind_it(beyond, restarted):
+    from profilebench.flow.viscous import _march_surface
+
+    s = np.linspace(1e-3, 0.9, 300)
+    ue = 1.0 - s   # L = 1 m
+    bl, restarts = _march_surface(s, ue, 1.5e-5, 1.0, "free", 2.4, (), 1.0, beyond=beyond)
+    lam = [e for e in bl.events if e.kind == "laminar_separation"]
+    assert lam[0].s == pytest.approx(THWAITES_HOWARTH_SEPARATION, abs=0.002)  # Thwaites, above
+    # the short bubble reattaches turbulent and the layer separates again at s0 ~ 0.3 m, leaving
+    # 0.6 m of surface behind: below reattach_length = 1 m, so no restart; with ``beyond`` = 0.5 m
+    # of closed body behind the surface's end it is 1.1 m: a corner bubble, restarted (the rule
+    # in the module docstring of profilebench.flow.viscous)
+    assert bool(restarts) is restarted
+    s0 = restarts[0].s if restarts else bl.separation.s
+    assert 0.9 - s0 < 1.0 <= 0.9 - s0 + 0.5
