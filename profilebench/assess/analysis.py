@@ -43,13 +43,13 @@ WAKE_RATIO = 10.0
 
 # The wake model's closed-body pass runs on every CLOSED_STRIDE-th panel point except within
 # CLOSED_FULL_REAR frontal heights of the rearmost point (and on corner arcs), where it keeps
-# every point. With these values the samples' Cd at 300 panels is that of the full closed-body
-# pass to 0.001 %, and so it was on 48 randomly perturbed samples (nodes moved by 1 % of h, radii
-# scaled by 0.5-1.5), none of which needed the full pass again (at 0.3 h, 7 of them did);
-# strides 2, 3 and 4 gave the same Cd there, 3 is a middle choice (measured; a calibrated
-# choice of this project, no source).
+# every point. With these values the samples' Cd is that of the full closed-body pass to 0.001 %,
+# and so it was on 48 randomly perturbed samples (nodes moved by 1 % of h, radii scaled by
+# 0.5-1.5) at 150, 200, 250, 300 and 400 panels, none of which needed the full pass again (at
+# 0.3 h, 7 of 48 did at 300 panels). Strides 3 and 4 moved Cd by up to 9 % (3) and 55 % (4) on
+# some of them at 150 and 250 panels (measured; a calibrated choice of this project, no source).
 CLOSED_FULL_REAR = 0.5
-CLOSED_STRIDE = 3
+CLOSED_STRIDE = 2
 
 
 def _check_args(profile, conditions):
