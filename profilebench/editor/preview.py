@@ -2,7 +2,8 @@
 
 During a drag the canvas must repaint within a few milliseconds of each mouse move. The exact
 outline (fillet arcs, splines through smooth nodes; :func:`profilebench.geometry.build_outline`)
-is built on a worker thread; until it arrives the canvas draws this preview: the node polygon
+is built in the background (:func:`build_outline_points`, in a child process of the editor);
+until it arrives the canvas draws this preview: the node polygon
 with each rounded corner replaced by its circular fillet arc. Smooth nodes are joined by straight
 segments here. The preview is for display only; it never validates or changes the profile.
 """
@@ -11,7 +12,33 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["preview_outline"]
+__all__ = ["build_outline_points", "preview_outline", "warm_up"]
+
+
+def build_outline_points(profile, samples: int = 400):
+    """(points, ok, message) of the built outline of ``profile``; for a worker or child process.
+
+    ``points`` (m, shape (k, 2)) samples :func:`profilebench.geometry.build_outline` at
+    ``samples`` points. ``ok`` is False with the reason when the outline cannot be built; then
+    the node polygon is returned so the user still sees what they drew.
+    """
+    from profilebench.errors import ProfileBenchError
+    from profilebench.geometry.outline import build_outline
+
+    try:
+        pts = np.asarray(build_outline(profile).sample(samples), dtype=float)
+        return pts, True, ""
+    except ProfileBenchError as exc:
+        return np.asarray(profile.xy, dtype=float), False, str(exc)
+    except Exception as exc:  # a geometry bug must not stop the drawing
+        return np.asarray(profile.xy, dtype=float), False, f"{type(exc).__name__}: {exc}"
+
+
+def warm_up() -> bool:
+    """Import the outline builder (in the child process, before the first outline)."""
+    import profilebench.geometry.outline  # noqa: F401
+
+    return True
 
 
 def preview_outline(profile, arc_points: int = 9) -> np.ndarray:

@@ -2,7 +2,7 @@
 
 The canvas draws and forwards mouse gestures; what a gesture does is decided by the Qt-free
 functions of :mod:`profilebench.editor.interaction`. The GUI thread never builds an outline during
-editing: the built outline of each new profile is computed on a worker thread, and until it
+editing: the built outline of each new profile is computed in a child process, and until it
 arrives the canvas draws :func:`profilebench.editor.preview.preview_outline` (node polygon with
 fillet arcs). The analysis overlay (Cp band, separated flow, markers, corner labels, legend) is
 drawn once per analysis and view into cached images, always on a worker thread (the previous
@@ -25,11 +25,12 @@ from PySide6.QtWidgets import QSizePolicy, QWidget
 
 from profilebench.editor.interaction import (NodeDrag, RadiusDrag, hit_node, hit_radius_handle,
                                              hit_segment, radius_handle_position)
-from profilebench.editor.preview import preview_outline
+from profilebench.editor.preview import build_outline_points, preview_outline
+from profilebench.editor.preview import warm_up as _warm_up_outline
 from profilebench.editor.view import ViewTransform, fit_view
 from profilebench.errors import ProfileBenchError
 from profilebench.gui.refcount_guard import restore_none_refcount
-from profilebench.gui.worker import TaskRunner
+from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
 from profilebench.plotting.profile_view import bubbles, corner_label
 from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
                                          OKABE_ITO, SEPARATED_COLOUR)
@@ -38,23 +39,6 @@ __all__ = ["ProfileCanvas", "outline_points"]
 
 _CMAP = colormaps[CP_COLORMAP]
 _CP_BINS = 64          # the Cp band is drawn with this many pen colours
-
-
-def build_outline_points(profile):
-    """(points, ok, message) of the built outline of ``profile``; safe on a worker thread.
-
-    ``ok`` is False with the reason when the outline cannot be built (then the node polygon is
-    returned so the user still sees what they drew).
-    """
-    try:
-        from profilebench.geometry.outline import build_outline
-
-        pts = np.asarray(build_outline(profile).sample(400), dtype=float)
-        return pts, True, ""
-    except ProfileBenchError as exc:
-        return np.asarray(profile.xy, dtype=float), False, str(exc)
-    except Exception as exc:  # a geometry bug must not stop the drawing
-        return np.asarray(profile.xy, dtype=float), False, f"{type(exc).__name__}: {exc}"
 
 
 def _remember(cache: dict, profile, result):
@@ -80,10 +64,6 @@ def outline_points(profile, cache: dict):
     result = build_outline_points(profile)
     _remember(cache, profile, result)
     return result
-
-
-def _outline_job(profile):
-    return profile, build_outline_points(profile)
 
 
 def _new_layer(width: int, height: int, dpr: float) -> QImage:
@@ -180,12 +160,15 @@ class ProfileCanvas(QWidget):
         self._overlay = None            # (key, under image, over image)
         self.overlay_renders = 0
         self._label_rects: list = []
-        # outlines are built on a pool of their own so they never wait behind an analysis
-        self._outline_pool = QThreadPool(self)
-        self._outline_pool.setMaxThreadCount(2)
-        self.outline_runner = TaskRunner(_outline_job, self, pool=self._outline_pool)
+        # outlines are built in a child process of their own (never behind an analysis, and
+        # their Python-heavy building does not share the interpreter lock with the GUI thread)
+        self.outline_runner = ProcessTaskRunner(build_outline_points, self,
+                                                warm_up=_warm_up_outline, child="outline")
         self.outline_runner.finished.connect(self._outline_built)
         self._outline_requested = None
+        self._outline_requests: dict = {}   # generation -> profile (only the newest arrives)
+        self._outline_pool = QThreadPool(self)      # the overlay drawing's thread
+        self._outline_pool.setMaxThreadCount(1)
         self._overlay_requested = None
         self.overlay_runner = TaskRunner(_overlay_job, self, pool=self._outline_pool)
         self.overlay_runner.finished.connect(self._overlay_drawn)
@@ -222,7 +205,7 @@ class ProfileCanvas(QWidget):
             return (*hit, True)
         if self._outline_requested is not prof:
             self._outline_requested = prof
-            self.outline_runner.request(prof)
+            self._outline_requests = {self.outline_runner.request(prof): prof}
         try:
             pts = preview_outline(prof)
         except Exception:  # the preview must never stop the drawing
@@ -230,8 +213,10 @@ class ProfileCanvas(QWidget):
         return pts, True, self.outline_message, False
 
     def _outline_built(self, generation, result, seconds):
-        profile, outline = result
-        _remember(self._outline_cache, profile, outline)
+        profile = self._outline_requests.pop(generation, None)
+        if profile is None:
+            return
+        _remember(self._outline_cache, profile, result)
         if self.state is not None and self.state.profile is profile:
             self.update()
 
