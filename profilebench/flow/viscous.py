@@ -89,7 +89,8 @@ class ProfileFlow:
     separated: np.ndarray | None = None   # bool over the inviscid stations
     station_surface: np.ndarray | None = None  # 0 upper, 1 lower, per inviscid station
     station_bl: np.ndarray | None = None        # index into that surface's bl arrays
-    closed: "ProfileFlow | None" = None         # the closed-body solution (wake model only)
+    closed: "ProfileFlow | None" = None         # the closed-body solution (wake model only; on
+                                                # the coarser points when closed_points was used)
     wake_points: np.ndarray | None = None       # outline of body + wake body (wake model only)
 
     @property
