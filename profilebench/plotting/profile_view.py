@@ -178,6 +178,14 @@ def _label_corners(ax, corners, x, y, scale, avoid=()):
                 break
         text.xyann = best
         if renderer is not None:
+            # shift a label that still pokes out of the axes back inside (by its overflow)
+            bb = text.get_window_extent(renderer)
+            shift_px = (max(frame.x0 + 1.0 - bb.x0, 0.0) - max(bb.x1 - (frame.x1 - 1.0), 0.0),
+                        max(frame.y0 + 1.0 - bb.y0, 0.0) - max(bb.y1 - (frame.y1 - 1.0), 0.0))
+            if shift_px != (0.0, 0.0):
+                inv = ax.transData.inverted()
+                p0 = ax.transData.transform(best)
+                text.xyann = tuple(inv.transform((p0[0] + shift_px[0], p0[1] + shift_px[1])))
             placed.append(text.get_window_extent(renderer))
         texts.append(text)
     return texts
