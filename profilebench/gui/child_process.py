@@ -14,7 +14,7 @@ import threading
 import time
 import traceback
 
-__all__ = ["ChildProcess", "call", "shared_child", "CHILD_NICENESS"]
+__all__ = ["ChildProcess", "call", "import_modules", "shared_child", "CHILD_NICENESS"]
 
 # The child runs at a lower CPU priority (POSIX niceness increment) than the editor: when the
 # cores are busy, the GUI thread is scheduled first and background work waits instead.
@@ -156,6 +156,15 @@ def call(target: str, *args):
     return getattr(importlib.import_module(module), name)(*args)
 
 
+def import_modules(*names: str) -> bool:
+    """Import ``names`` (a child's warm-up before its first job); returns True."""
+    import importlib
+
+    for name in names:
+        importlib.import_module(name)
+    return True
+
+
 def _serve():
     """The child's loop: read ``(job, fn, args)`` pickles from stdin, write
     ``(job, ok, payload, seconds)``."""
@@ -178,10 +187,12 @@ def _serve():
         t0 = time.perf_counter()
         try:
             reply = (job, True, fn(*args), time.perf_counter() - t0)
+            data = pickle.dumps(reply, protocol=pickle.HIGHEST_PROTOCOL)   # whole, or not sent
         except Exception as exc:  # reported to the editor, which logs and shows it
             reply = (job, False, f"{type(exc).__name__}: {exc}\n{traceback.format_exc()}",
                      time.perf_counter() - t0)
-        pickle.dump(reply, stdout, protocol=pickle.HIGHEST_PROTOCOL)
+            data = pickle.dumps(reply, protocol=pickle.HIGHEST_PROTOCOL)
+        stdout.write(data)
         stdout.flush()
 
 

@@ -288,7 +288,9 @@ class PlotPanel(QTabWidget):
         self._drawn = {"cp": None, "bl": None}
         self._sizes = {"cp": None, "bl": None}
         self.images = {"cp": None, "bl": None}
-        self.renderer = ProcessTaskRunner(render_plot_rgba, self, warm_up=warm_up)
+        # the child starts with the first plot, so it does not slow the window's first analysis
+        self.renderer = ProcessTaskRunner(render_plot_rgba, self, warm_up=warm_up, child="plots",
+                                          start=False)
         self._requests: dict = {}      # generation -> analysis it draws
         self.renderer.finished.connect(self._rendered)
         self.renderer.failed.connect(lambda g, m: self._show_text(self._kind(), f"plot failed (logged): {m}"))

@@ -14,6 +14,7 @@ that work would stop the GUI thread; in a process it only shares the CPU.
 
 from __future__ import annotations
 
+import functools
 import logging
 import threading
 import time
@@ -21,7 +22,7 @@ import traceback
 
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
 
-from profilebench.gui.child_process import shared_child
+from profilebench.gui.child_process import call, import_modules, shared_child
 
 __all__ = ["AnalysisRunner", "ProcessTaskRunner", "TaskRunner"]
 
@@ -176,10 +177,17 @@ class ProcessTaskRunner(TaskRunner):
     Results come back through the same signals, on the GUI thread.
     """
 
-    def __init__(self, fn, parent=None, warm_up=None, child: str = "default"):
+    def __init__(self, fn, parent=None, warm_up=None, child: str = "default", start: bool = True):
         super().__init__(fn, parent)
         self._child = shared_child(child)
-        if warm_up is not None:      # start the child and its imports before the first job
+        self._warm_up = warm_up
+        if start:
+            self.start_child()
+
+    def start_child(self) -> None:
+        """Start the child and its imports (``warm_up`` there) before the first job; once."""
+        if self._warm_up is not None:
+            warm_up, self._warm_up = self._warm_up, None
             self._child.submit(warm_up, (), lambda ok, payload, seconds: None)
 
     def _start_pending(self):
@@ -214,10 +222,9 @@ def _analyze(profile, conditions):
     return analyze(profile, conditions)
 
 
-def _import_analysis() -> bool:
-    import profilebench.assess.analysis  # noqa: F401
-
-    return True
+# named by module path, so the child imports the pipeline and not this Qt module
+_ANALYZE_IN_CHILD = functools.partial(call, "profilebench.assess.analysis:analyze")
+_IMPORT_ANALYSIS = functools.partial(import_modules, "profilebench.assess.analysis")
 
 
 class AnalysisRunner(ProcessTaskRunner):
@@ -230,7 +237,8 @@ class AnalysisRunner(ProcessTaskRunner):
 
     def __init__(self, parent=None, analyze_fn=None):
         if analyze_fn is None:
-            super().__init__(_analyze, parent, warm_up=_import_analysis, child="analysis")
+            super().__init__(_ANALYZE_IN_CHILD, parent, warm_up=_IMPORT_ANALYSIS, child="analysis")
+            self.name = "analyze"
         else:
             TaskRunner.__init__(self, analyze_fn, parent)
             self._child = None

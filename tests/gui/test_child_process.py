@@ -152,3 +152,10 @@ def test_the_child_runs_at_a_lower_cpu_priority(child, qtbot):
     ok, niceness = _collect(child, os.nice, (0,), qtbot)
     # nice(2): the increment is added to the niceness, which is capped at 19 (Linux man page)
     assert ok and niceness == min(os.nice(0) + CHILD_NICENESS, 19)
+
+
+def test_a_result_that_does_not_pickle_fails_and_the_child_goes_on(child, qtbot):
+    ok, text = _collect(child, __import__("importlib").import_module, ("math",), qtbot)
+    assert not ok and "pickle" in text.lower()           # a module object does not pickle
+    ok, value = _collect(child, math.fsum, ([0.1] * 10,), qtbot)
+    assert ok and value == 1.0                            # math.fsum docs: exactly 1.0
