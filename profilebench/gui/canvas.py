@@ -162,9 +162,11 @@ class ProfileCanvas(QWidget):
         self._label_rects: list = []
         # outlines are built in a child process of their own (never behind an analysis, and
         # their Python-heavy building does not share the interpreter lock with the GUI thread)
-        # (its child starts at the first request or start_child(): not beside the first analysis)
+        # (its child starts now: started after the first analysis, it was still importing during
+        # a drag begun soon after and few built outlines arrived in time; measured with
+        # benchmarks/bench_gui.py)
         self.outline_runner = ProcessTaskRunner(build_outline_points, self, warm_up=_warm_up_outline,
-                                                child="outline", start=False)
+                                                child="outline")
         self.outline_runner.finished.connect(self._outline_built)
         self._outline_requested = None
         self._outline_requests: dict = {}   # generation -> profile (only the newest arrives)

@@ -475,7 +475,6 @@ class MainWindow(QMainWindow):
         self.analysis_state = state
         self.last_seconds = seconds
         self.canvas.set_analysis(analysis, stale=False)
-        self.canvas.outline_runner.start_child()   # ready for the first edit (once)
         self.corner_table.set_rows(analysis, self.searches, self.document.selection.node)
         self.summary.set_analysis(analysis, self._comparison(), seconds)
         self._schedule_plots()
