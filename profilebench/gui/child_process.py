@@ -192,8 +192,11 @@ def _serve():
             reply = (job, False, f"{type(exc).__name__}: {exc}\n{traceback.format_exc()}",
                      time.perf_counter() - t0)
             data = pickle.dumps(reply, protocol=pickle.HIGHEST_PROTOCOL)
-        stdout.write(data)
-        stdout.flush()
+        try:
+            stdout.write(data)
+            stdout.flush()
+        except OSError:                 # the editor ended meanwhile: nobody wants the result
+            return
 
 
 if __name__ == "__main__":
