@@ -66,7 +66,7 @@ def _edge_points(panelling, min_panel):
         if not span.convex or abs(span.turning_angle_deg) <= EDGE_TURN_DEG:
             continue
         if span.radius <= 0.0 or span.radius < min_panel:
-            out.append(int(span.point_start if span.radius > 0 else span.point_start))
+            out.append(int(span.point_start))
     return out
 
 
@@ -257,7 +257,7 @@ def analyze(profile, conditions=None, thickness=None, table=None):
     timings["radius_search"] = time.perf_counter() - t2
     corners = assess_corners(profile, panelling, flow, t_ref, table=table, table_flagged=flagged,
                              attached_ratios=attached_ratios, spans=spans, regions=regions)
-    drag = estimate_drag(panelling.points, flow, conditions, height,
+    drag = estimate_drag(flow, conditions, height,
                          corner_penalties=[c.delta_cd for c in corners])
     timings["assess"] = time.perf_counter() - t2
     timings["total"] = time.perf_counter() - t0

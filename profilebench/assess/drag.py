@@ -30,39 +30,27 @@ import numpy as np
 from profilebench.assess.forces import cda as _cda, drag_force, drag_power
 from profilebench.assess.results import DragBreakdown
 
-__all__ = ["estimate_drag", "panel_geometry"]
+__all__ = ["estimate_drag"]
 
 
-def panel_geometry(points):
-    """Panel lengths (m), outward unit normals and unit tangents (along ``points``) of a closed outline."""
-    pts = np.asarray(points, dtype=float)
-    seg = np.roll(pts, -1, axis=0) - pts
-    lengths = np.hypot(seg[:, 0], seg[:, 1])
-    tangent = seg / lengths[:, None]
-    # outward normal: the outline's orientation decides which side is outside
-    area2 = np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1])
-    sign = -1.0 if area2 > 0 else 1.0   # counter-clockwise: outward = tangent rotated clockwise
-    normal = sign * np.column_stack([-tangent[:, 1], tangent[:, 0]])
-    return lengths, normal, tangent
-
-
-def estimate_drag(points, flow, conditions, height, corner_penalties=(), notes=()):
+def estimate_drag(flow, conditions, height, corner_penalties=(), notes=()):
     """Drag and lift of a section from its flow solution.
 
     Parameters
     ----------
-    points : (N, 2) array
-        Panel end points (m) the flow was solved on.
     flow : profilebench.flow.viscous.ProfileFlow
-        A successful flow solution on those points.
+        A successful flow solution; its inviscid part carries the panel lengths, outward normals
+        and tangents used here.
     conditions : profilebench.assess.conditions.Conditions
     height : float
         Reference height h (m): the profile's frontal height.
     corner_penalties : sequence of float
         Drag-coefficient corrections of the corners (already on h).
     """
-    lengths, normal, tangent = panel_geometry(points)
     inv = flow.inviscid
+    lengths = np.asarray(inv.panel_length, dtype=float)
+    normal = np.asarray(inv.normal, dtype=float)
+    tangent = np.asarray(inv.tangent, dtype=float)
     cp = np.asarray(inv.cp, dtype=float)
     ue = np.asarray(inv.ue, dtype=float)
     wake = np.asarray(flow.separated, dtype=bool)

@@ -115,7 +115,6 @@ def _edges_on_surface(edge_sigma, surface, direction, perimeter):
 
 def _merge(first, second, s_offset, i_offset):
     """Join a boundary layer result and the one restarted at station ``i_offset``."""
-    import dataclasses
 
     fields = {}
     for f in dataclasses.fields(first):
