@@ -60,7 +60,8 @@ def _rows_analyze(mod):
     for r in mod.run():
         note = (f"geometry {_num(r['geometry_ms'], '.1f')}, flow {_num(r['flow_ms'], '.1f')}, "
                 f"search {_num(r['radius_search_ms'], '.1f')}, assess {_num(r['assess_ms'], '.1f')} "
-                f"ms; {r['status']}" if not str(r["sample"]).startswith("radius search")
+                f"ms; with {r['searches']} radius search(es) run {_num(r['cold_ms'], '.1f')} ms; "
+                f"{r['status']}" if not str(r["sample"]).startswith("radius search")
                 else f"{r['repeats']} runs")
         what = "radius search" if str(r["sample"]).startswith("radius search") else "analyze"
         yield (what, str(r["sample"]), _num(r["total_ms"], ".1f"), "ms",
