@@ -5,8 +5,11 @@ reports, as medians over the moves:
 
 - mouse event to repaint of the canvas with the new outline (the cheap preview at first);
 - mouse event to the first repaint with the built outline of that move (built on a worker);
-- mouse event to arrival of an analysis of that outline (moves superseded by a newer one before
-  their solve started never get one: the newest edit wins; those are counted, not timed);
+- mouse event to arrival of an analysis of that outline as the newest result (moves superseded
+  by a newer one never get one: the newest edit wins; those are counted, not timed);
+- the analyses shown during the drag although a newer move had superseded them (shown marked
+  stale, newer than the one on screen): how many, how old each was on arrival (time since its
+  own mouse move), and the longest stretch of the drag with no new analysis on screen;
 - a second pass with a pause after each move: mouse event to arrival of that move's analysis;
 - the longest gap of a 5 ms QTimer heartbeat during the drag (how long the GUI thread was busy).
 
@@ -74,6 +77,8 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
 
     arrivals = {}
     w.runner.finished.connect(lambda g, a, s: arrivals.setdefault(g, time.perf_counter()))
+    lagging = {}
+    w.runner.lagging.connect(lambda g, a, s: lagging.setdefault(g, time.perf_counter()))
     built_at = {}
 
     def painted(t):
@@ -105,10 +110,16 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
         while time.perf_counter() < t_next:
             app.processEvents()
             time.sleep(0.0005)
+    t_release = time.perf_counter()
     QTest.mouseRelease(c, Qt.LeftButton, Qt.NoModifier, p)
     _wait(app, lambda: w.results_current)
     heart.stop()
     drag_gap = 1000 * max(gaps)
+    sent_at = dict(sent)
+    shown = sorted(t for g, t in lagging.items() if t <= t_release)
+    lag_ages = [1000 * (t - sent_at[g]) for g, t in lagging.items() if g in sent_at and t <= t_release]
+    edges = [sent[0][1]] + shown + [t_release]
+    no_update_ms = 1000 * max(b - a for a, b in zip(edges[:-1], edges[1:]))
     analysis_ms = [1000 * (arrivals[g] - t) for g, t in sent if g in arrivals]
     built_ms = [1000 * (built_at[id(p)] - t) for p, t in targets if id(p) in built_at]
 
@@ -148,6 +159,10 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
             statistics.median(built_ms) if built_ms else float("nan")),
         row("drag: moves that got their own analysis", len(analysis_ms), f"of {moves}"),
         row("drag: mouse move -> its analysis, median", statistics.median(analysis_ms) if analysis_ms else float("nan")),
+        row("drag: superseded analyses shown (marked stale)", len(shown), f"during {moves} moves"),
+        row("drag: age of a shown superseded analysis, median",
+            statistics.median(lag_ages) if lag_ages else float("nan")),
+        row("drag: longest stretch with no new analysis shown", no_update_ms),
         row("drag: longest GUI-thread gap (5 ms heartbeat)", drag_gap, target=TARGET_MS),
         row("move and wait: mouse move -> its analysis, median", statistics.median(each_ms) if each_ms else float("nan")),
         row("move and wait: longest GUI-thread gap", wait_gap, target=TARGET_MS),

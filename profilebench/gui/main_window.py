@@ -80,7 +80,9 @@ class MainWindow(QMainWindow):
             sys.setswitchinterval(GIL_SWITCH_INTERVAL_S)
         self.settings = settings if settings is not None else QSettings()
         self.undo_stack = QUndoStack(self)
-        self.runner = AnalysisRunner(self, analyze_fn)
+        # superseded results are shown (marked stale) when newer than the one on screen, so a
+        # long drag keeps updating the flow a few moves behind the mouse
+        self.runner = AnalysisRunner(self, analyze_fn, deliver_lagging=True)
         self.baseline_runner = AnalysisRunner(self, analyze_fn)
         self.search_runner = ProcessTaskRunner(_search, self, child="search")
         self.document = None
@@ -92,6 +94,8 @@ class MainWindow(QMainWindow):
         self.searches: dict = {}
         self._search_node = None
         self.results_received = 0
+        self.lagging_shown = 0             # superseded analyses shown during a drag (marked stale)
+        self._requested: dict = {}         # analysis generation -> the document state it is for
 
         self.canvas = ProfileCanvas()
         self.banner = QLabel("")
@@ -176,6 +180,7 @@ class MainWindow(QMainWindow):
             lambda cond, text: self._try(lambda: commands.set_conditions(self.document.state, cond, text)))
         self.runner.finished.connect(self._analysis_finished)
         self.runner.failed.connect(self._analysis_failed)
+        self.runner.lagging.connect(self._analysis_lagging)
         self.baseline_runner.finished.connect(self._baseline_finished)
         self.baseline_runner.failed.connect(lambda g, m: self._show_banner(f"baseline analysis failed: {m}", True))
         self.search_runner.finished.connect(self._search_finished)
@@ -246,6 +251,7 @@ class MainWindow(QMainWindow):
         self.analysis_state = None
         self.baseline_analysis = None
         self.searches = {}
+        self._requested = {}        # an analysis still running for the old document is not shown
         self.canvas._fitted = False
         self.canvas.set_analysis(None, False)
         self.conditions_panel.set_conditions(document.conditions)
@@ -436,7 +442,8 @@ class MainWindow(QMainWindow):
             self.node_panel.set_node(state.profile, sel)
         if force or prev is None or prev.profile != state.profile or prev.conditions != state.conditions:
             self.searches = {}
-            self.runner.request(state.profile, state.conditions)
+            generation = self.runner.request(state.profile, state.conditions)
+            self._requested[generation] = state
             self.statusBar().showMessage("analysing…")
         if state.baseline is None:
             self.baseline_analysis = None
@@ -458,8 +465,38 @@ class MainWindow(QMainWindow):
         self.banner.setText(text)
         self.banner.show()
 
+    def _forget_requests(self, upto):
+        """Drop the remembered states of requests up to generation ``upto``; return its state."""
+        state = self._requested.get(upto)
+        for g in [g for g in self._requested if g <= upto]:
+            del self._requested[g]
+        return state
+
+    def _analysis_lagging(self, generation, analysis, seconds):
+        """A result for an edit a newer edit has superseded (during a drag): shown marked stale.
+
+        It is newer than the result on screen (the runner guarantees it), so it replaces it; the
+        canvas greys it and says it is for an earlier outline. A failed one is not shown: the
+        newest request's own result, or its failure, will say what is wrong.
+        """
+        state = self._forget_requests(generation)
+        if state is None or analysis is None or not getattr(analysis, "success", False):
+            return
+        self.lagging_shown += 1
+        self.analysis = analysis
+        self.analysis_state = state
+        self.last_seconds = seconds
+        current = state == self.document.state
+        self.canvas.set_analysis(analysis, stale=not current)
+        self.corner_table.set_rows(analysis, self.searches, self.document.selection.node)
+        self.summary.set_analysis(analysis, self._comparison(), seconds, stale=not current)
+        self.statusBar().showMessage(f"Cd {analysis.drag.cd:.4f} for an earlier position "
+                                     f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
+                                     "analysed")
+
     def _analysis_finished(self, generation, analysis, seconds):
         self.results_received += 1
+        self._forget_requests(generation)
         state = self._shown_state
         if analysis is None or not getattr(analysis, "success", False):
             msg = getattr(analysis, "message", "no result")
@@ -507,6 +544,7 @@ class MainWindow(QMainWindow):
 
     def _analysis_failed(self, generation, message):
         self.results_received += 1
+        self._forget_requests(generation)
         self._show_banner(f"Analysis error (logged; last good result kept, marked stale): {message}", True)
         self.canvas.set_stale(self.analysis is not None)
         self.statusBar().showMessage("analysis error: " + message)

@@ -3,8 +3,12 @@
 :class:`AnalysisRunner` keeps at most one solve running. A request made while one runs replaces
 any request still waiting, so a drag of many mouse moves causes at most two solves in flight
 (the running one and the newest). Each request has a generation number; a result whose
-generation is older than the newest request is stale and is dropped, never shown over a newer
-edit. An exception in the worker is logged and reported as a failure; the window goes on.
+generation is older than the newest request is stale: it is dropped, or, on a runner made with
+``deliver_lagging=True``, delivered through the separate ``lagging`` signal when it is newer than
+every result delivered so far (the editor shows it marked stale, so a long drag shows the flow of
+a position a few moves back instead of nothing until the mouse stops). A result older than one
+already delivered is always dropped, so nothing older ever replaces something newer. An exception
+in the worker is logged and reported as a failure; the window goes on.
 
 :class:`ProcessTaskRunner` has the same interface but runs its function in a child process
 (:class:`profilebench.gui.child_process.ChildProcess`, one shared by the whole program). It is for work that
@@ -87,13 +91,21 @@ class TaskRunner(QObject):
         The result of the newest request.
     failed(generation, message)
         The newest request raised; ``message`` names the exception.
+    lagging(generation, result, seconds)
+        Only with ``deliver_lagging``: the result of a request that a newer request has
+        superseded, newer than anything delivered before (failures of such requests are dropped).
     """
 
     finished = Signal(int, object, float)
     failed = Signal(int, str)
+    lagging = Signal(int, object, float)
 
-    def __init__(self, fn, parent=None, pool: QThreadPool | None = None):
+    def __init__(self, fn, parent=None, pool: QThreadPool | None = None,
+                 deliver_lagging: bool = False):
         super().__init__(parent)
+        self.deliver_lagging = bool(deliver_lagging)
+        self._floor = 0      # generation of the newest result delivered (or cancelled up to)
+        self.lagging_delivered = 0   # superseded results delivered through ``lagging``
         self._fn = fn
         # Qt's shared pool unless given one; this runner keeps at most one of its jobs running
         self._pool = pool if pool is not None else QThreadPool.globalInstance()
@@ -128,9 +140,10 @@ class TaskRunner(QObject):
         return self._generation
 
     def cancel_pending(self) -> None:
-        """Forget the waiting request and treat any running one as stale."""
+        """Forget the waiting request and drop any running one's result (never delivered)."""
         self._pending = None
         self._generation += 1
+        self._floor = self._generation
 
     def _start_pending(self):
         generation, args = self._pending
@@ -147,8 +160,14 @@ class TaskRunner(QObject):
         if self._pending is not None:
             self._start_pending()
         if generation != self._generation:
+            if self.deliver_lagging and not error and generation > self._floor:
+                self._floor = generation
+                self.lagging_delivered += 1
+                self.lagging.emit(generation, result[0], seconds)
+                return
             self.dropped += 1
             return
+        self._floor = generation
         if error:
             self.failed.emit(generation, error)
         else:
@@ -177,8 +196,9 @@ class ProcessTaskRunner(TaskRunner):
     Results come back through the same signals, on the GUI thread.
     """
 
-    def __init__(self, fn, parent=None, warm_up=None, child: str = "default", start: bool = True):
-        super().__init__(fn, parent)
+    def __init__(self, fn, parent=None, warm_up=None, child: str = "default", start: bool = True,
+                 deliver_lagging: bool = False):
+        super().__init__(fn, parent, deliver_lagging=deliver_lagging)
         self._child = shared_child(child)
         self._warm_up = warm_up
         if start:
@@ -235,12 +255,13 @@ class AnalysisRunner(ProcessTaskRunner):
     functions that may not pickle) runs on a thread instead, as in :class:`TaskRunner`.
     """
 
-    def __init__(self, parent=None, analyze_fn=None):
+    def __init__(self, parent=None, analyze_fn=None, deliver_lagging: bool = False):
         if analyze_fn is None:
-            super().__init__(_ANALYZE_IN_CHILD, parent, warm_up=_IMPORT_ANALYSIS, child="analysis")
+            super().__init__(_ANALYZE_IN_CHILD, parent, warm_up=_IMPORT_ANALYSIS, child="analysis",
+                             deliver_lagging=deliver_lagging)
             self.name = "analyze"
         else:
-            TaskRunner.__init__(self, analyze_fn, parent)
+            TaskRunner.__init__(self, analyze_fn, parent, deliver_lagging=deliver_lagging)
             self._child = None
 
     def _start_pending(self):

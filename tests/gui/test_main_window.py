@@ -146,7 +146,10 @@ def test_self_intersecting_drag_shows_a_message_and_keeps_the_app_alive(window, 
     drag(qtbot, c, start, end, steps=15)
     qtbot.waitUntil(lambda: not w.runner.busy and w.banner.isVisible(), timeout=ANALYSIS_TIMEOUT_MS)
     assert "Analysis not updated" in w.banner.text()
-    assert w.analysis is good          # the last good result is kept...
+    # the last good result is kept: the one from before the drag, or one of an earlier, valid
+    # position of this drag shown while it went on (a superseded result, shown marked stale)
+    assert w.analysis.success and w.analysis.profile != w.document.profile
+    assert w.analysis is good or w.lagging_shown > 0
     assert c.stale                      # ...and drawn marked stale
     w.undo_stack.undo()
     wait_current(qtbot, w)
@@ -210,3 +213,34 @@ def test_unsaved_changes_prompt_on_close(window):
     assert asked == [w.document.title] and asked[0].endswith("*") and w.isVisible()
     w.ask_unsaved = lambda: "discard"
     assert w.close()
+
+
+def test_a_long_drag_shows_superseded_results_marked_stale_then_the_final_one(window, qtbot):
+    w = window
+    c = w.canvas
+    seen = []   # (canvas stale, shown analysis is for the current outline) at each lagging result
+    w.runner.lagging.connect(
+        lambda g, a, s: seen.append((c.stale, w.analysis_state == w.document.state)))
+    i = _movable_node(w)
+    start = c.screen_of_node(i)
+    qtbot.mousePress(c, Qt.LeftButton, pos=_pt(start))
+    # keep dragging (small moves every 10 ms, faster than an analysis; no position twice) until
+    # a superseded result has been shown, for at most 600 moves
+    k = 0
+
+    def at(k):
+        return start + type(start)(k % 8, -(k // 8))
+
+    while not seen and k < 600:
+        k += 1
+        qtbot.mouseMove(c, pos=_pt(at(k)))
+        qtbot.wait(10)
+    end = at(k)
+    qtbot.mouseRelease(c, Qt.LeftButton, pos=_pt(end))
+    assert seen, "no analysis came back during a 6 s drag"
+    # each was drawn marked stale: it is for an earlier position than the one on screen
+    assert all(stale and not current for stale, current in seen)
+    assert w.lagging_shown >= 1
+    wait_current(qtbot, w)
+    assert not c.stale and w.analysis.profile == w.document.profile
+    assert w.undo_stack.count() == 1           # the whole drag is one undo step
