@@ -29,7 +29,15 @@ from profilebench.errors import GeometryError, InputError, ProfileBenchError
 from profilebench.flow.viscous import solve_profile_flow
 from profilebench.geometry import Profile, measure, panelize, validate
 
-__all__ = ["analyze", "corner_verdict", "REATTACH_RATIO"]
+__all__ = ["analyze", "corner_verdict", "nearby_radius_search", "REATTACH_RATIO",
+           "NEARBY_SHIFT_RATIO", "SEARCH_MODES"]
+
+# ``analyze(..., searches="nearby")`` (the editor during a drag) takes a corner's smallest attached
+# radius from a cached search on an outline whose nodes all lie within this many frontal heights
+# of this one's (otherwise the same nodes, radii and conditions), instead of searching again (a
+# choice of this project for a live display, no source; the result is marked provisional).
+NEARBY_SHIFT_RATIO = 0.1
+SEARCH_MODES = ("run", "nearby")
 
 # A corner's separated shear layer is taken to reattach when at least this many frontal heights of
 # surface follow it (rectangular prisms' shear layers reattach on the side faces beyond a
@@ -166,6 +174,31 @@ def cached_radius_search(profile, conditions, node, thickness=None):
     return result
 
 
+def nearby_radius_search(profile, conditions, node, thickness=None, within=0.0):
+    """A cached smallest-attached-radius search of ``node`` on a nearby outline, or None.
+
+    Candidates are the cached searches of the same corner at the same conditions and thickness,
+    on a profile with the same number of nodes, the same smooth flags, the same radii (the
+    corner's own aside: the search does not depend on it) and the same trailing edge, whose every
+    node lies within ``within`` metres of this profile's. Returns ``(search, shift)`` for the
+    candidate with the smallest largest node shift (m; 0.0 for this very outline).
+    """
+    here = [(n.x, n.y, 0.0 if i == node else n.radius, n.smooth) for i, n in enumerate(profile.nodes)]
+    best, best_shift = None, None
+    with _SEARCH_LOCK:
+        items = list(_SEARCH_CACHE.items())
+    for (key_nodes, te, cond, k_node, k_thick), result in items:
+        if (k_node != node or te != profile.trailing_edge or cond != conditions
+                or k_thick != thickness or len(key_nodes) != len(here)):
+            continue
+        if any(a[2:] != b[2:] for a, b in zip(key_nodes, here)):
+            continue
+        shift = max(math.hypot(a[0] - b[0], a[1] - b[1]) for a, b in zip(key_nodes, here))
+        if shift <= within and (best_shift is None or shift < best_shift):
+            best, best_shift = result, shift
+    return None if best is None else (best, float(best_shift))
+
+
 def _events(flow):
     events = []
     for sfl in flow.surfaces:
@@ -186,7 +219,7 @@ def _finite(analysis_numbers):
     return all(v is None or math.isfinite(v) for v in analysis_numbers)
 
 
-def analyze(profile, conditions=None, thickness=None, table=None):
+def analyze(profile, conditions=None, thickness=None, table=None, searches="run"):
     """Analyse ``profile`` at ``conditions``.
 
     Parameters
@@ -197,6 +230,13 @@ def analyze(profile, conditions=None, thickness=None, table=None):
         Reference thickness t (m) of every corner's r/t; default the frontal height h.
     table : RtTable, optional
         The empirical r/t table to use; default the built-in table chosen by Reynolds number.
+    searches : {"run", "nearby"}
+        How a corner with a corner bubble gets the smallest attached radius that its drag
+        correction needs. "run" (default): from the search cache, or searched now (about ten
+        solves). "nearby" (an editor during a drag): a cached search of that corner on an outline
+        whose nodes are all within ``NEARBY_SHIFT_RATIO`` frontal heights of this one's is used
+        instead of searching; such corners are listed in ``Analysis.provisional`` with a warning,
+        and an analysis with "run" gives the exact answer.
 
     Returns
     -------
@@ -208,6 +248,8 @@ def analyze(profile, conditions=None, thickness=None, table=None):
 
     conditions = Conditions() if conditions is None else conditions
     _check_args(profile, conditions)
+    if not isinstance(searches, str) or searches not in SEARCH_MODES:
+        raise InputError(f"searches is {searches!r}; give one of {', '.join(SEARCH_MODES)}")
     t0 = time.perf_counter()
     timings = {}
     try:
@@ -240,13 +282,27 @@ def analyze(profile, conditions=None, thickness=None, table=None):
             warnings.append(
                 f"no built-in r/t table covers Re = {re_t:.3g} (on t = {t_ref * 1e3:.0f} mm); "
                 f"'{table.name}' is used outside its Reynolds range")
-    searches = []
+    searches_done = []
     attached_ratios = {}
     spans = all_spans(panelling, height)
     regions = corner_regions(panelling, flow, spans)
+    provisional = []
     for node in corners_needing_floor(panelling, flow, spans, regions=regions):
-        search = cached_radius_search(profile, conditions, node, thickness=thickness)
-        searches.append(search)
+        near = None
+        if searches == "nearby":
+            near = nearby_radius_search(profile, conditions, node, thickness=thickness,
+                                        within=NEARBY_SHIFT_RATIO * height)
+        if near is None:
+            search = cached_radius_search(profile, conditions, node, thickness=thickness)
+        else:
+            search, shift = near
+            if shift > 0.0:
+                provisional.append(node)
+                warnings.append(
+                    f"corner {node}: smallest attached radius taken from a nearby outline (nodes "
+                    f"up to {shift * 1e3:.1f} mm away), not searched for this one; its drag "
+                    "correction is provisional until the outline is analysed again with the search")
+        searches_done.append(search)
         if search.radius is not None:
             attached_ratios[node] = search.radius / t_ref
         elif search.status.name == "NONE_FITS":
@@ -273,5 +329,5 @@ def analyze(profile, conditions=None, thickness=None, table=None):
         conditions=conditions, measures=m, panelling=panelling, flow=flow, corners=corners,
         drag=drag, events=events, reynolds=conditions.reynolds(m.length),
         model_reynolds=conditions.model_reynolds(m.length), warnings=tuple(warnings),
-        radius_searches=tuple(searches), timings=timings,
+        radius_searches=tuple(searches_done), provisional=tuple(provisional), timings=timings,
     )

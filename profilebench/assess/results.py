@@ -161,6 +161,8 @@ class Analysis:
     model_reynolds: float | None = None  # the scale test's, on the model length
     warnings: tuple[str, ...] = ()
     radius_searches: tuple[RadiusSearch, ...] = ()  # searches run to place corner corrections
+    # corners whose smallest attached radius came from a nearby outline (searches="nearby")
+    provisional: tuple[int, ...] = ()
     timings: dict = field(default_factory=dict, compare=False)
 
     @property

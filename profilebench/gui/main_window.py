@@ -165,6 +165,7 @@ class MainWindow(QMainWindow):
         c = self.canvas
         c.preview.connect(self.preview_profile)
         c.edit_finished.connect(self.push)
+        c.edit_finished.connect(self._refine_provisional)   # after push: the final state is set
         c.node_selected.connect(self.select_node)
         c.insert_requested.connect(self.insert_node)
         c.picked.connect(self._underlay_pick)
@@ -442,8 +443,9 @@ class MainWindow(QMainWindow):
             self.node_panel.set_node(state.profile, sel)
         if force or prev is None or prev.profile != state.profile or prev.conditions != state.conditions:
             self.searches = {}
-            generation = self.runner.request(state.profile, state.conditions)
-            self._requested[generation] = state
+            # during a drag a corner bubble's smallest attached radius comes from a nearby
+            # outline's search (provisional) instead of a fresh search of ~10 solves
+            self._request_analysis(state, "nearby" if self.canvas.dragging else "run")
             self.statusBar().showMessage("analysing…")
         if state.baseline is None:
             self.baseline_analysis = None
@@ -464,6 +466,21 @@ class MainWindow(QMainWindow):
         self.banner.setStyleSheet(BANNER_ERROR if error else BANNER_INFO)
         self.banner.setText(text)
         self.banner.show()
+
+    def _request_analysis(self, state, searches):
+        generation = self.runner.request(state.profile, state.conditions, searches)
+        self._requested[generation] = state
+
+    def _refine_provisional(self, *_):
+        """After a drag: a shown analysis of the current outline with provisional corner
+        corrections is redone with the searches run (the drag's last result would otherwise
+        keep a nearby outline's smallest attached radius)."""
+        a = self.analysis
+        if (a is not None and a.provisional and not self.canvas.dragging and not self.runner.busy
+                and self.analysis_state == self.document.state):
+            self._request_analysis(self.document.state, "run")
+            self.statusBar().showMessage("searching the smallest attached radius of the corner "
+                                         "bubbles for the final outline…")
 
     def _forget_requests(self, upto):
         """Drop the remembered states of requests up to generation ``upto``; return its state."""
@@ -517,6 +534,7 @@ class MainWindow(QMainWindow):
         self._schedule_plots()
         d = analysis.drag
         self.statusBar().showMessage(f"Cd {d.cd:.4f}   solve {seconds * 1000:.0f} ms")
+        self._refine_provisional()
 
     def _schedule_plots(self):
         """Render the plots now if the window is idle and the last render is old enough, else later."""

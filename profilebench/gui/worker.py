@@ -264,6 +264,16 @@ class AnalysisRunner(ProcessTaskRunner):
             TaskRunner.__init__(self, analyze_fn, parent, deliver_lagging=deliver_lagging)
             self._child = None
 
+    def request(self, profile, conditions, searches: str = "run") -> int:
+        """Ask for ``analyze(profile, conditions, searches=searches)``; returns the generation.
+
+        An injected ``analyze_fn`` is called as ``analyze_fn(profile, conditions)``.
+        """
+        if self._child is None:
+            return super().request(profile, conditions)
+        # analyze's positional parameters: profile, conditions, thickness, table, searches
+        return super().request(profile, conditions, None, None, searches)
+
     def _start_pending(self):
         if self._child is None:
             TaskRunner._start_pending(self)

@@ -7,7 +7,7 @@ import pytest
 from PySide6.QtCore import QPoint, Qt
 
 from profilebench.editor.document import CAUTION
-from profilebench.io import default_sample_path, load_project
+from profilebench.io import default_sample_path, load_project, sample_paths
 
 from gui_helpers import ANALYSIS_TIMEOUT_MS, wait_current
 
@@ -244,3 +244,29 @@ def test_a_long_drag_shows_superseded_results_marked_stale_then_the_final_one(wi
     wait_current(qtbot, w)
     assert not c.stale and w.analysis.profile == w.document.profile
     assert w.undo_stack.count() == 1           # the whole drag is one undo step
+
+
+def test_drag_reuses_a_nearby_radius_search_and_the_final_outline_gets_its_own(window, qtbot):
+    from profilebench.assess.analysis import analyze
+
+    w = window
+    van = next(p for p in sample_paths() if p.stem == "kestrel_courier_van")
+    assert w.open_file(van)
+    wait_current(qtbot, w)
+    assert w.analysis.radius_searches and not w.analysis.provisional
+    got = []
+    w.runner.finished.connect(lambda g, a, s: got.append(a))
+    w.runner.lagging.connect(lambda g, a, s: got.append(a))
+    c = w.canvas
+    start = c.screen_of_node(_movable_node(w))
+    drag(qtbot, c, start, start + type(start)(0, -6), steps=6)
+    wait_current(qtbot, w)
+    # during the drag: the van's corner bubble took its smallest attached radius from the
+    # search of the outline before the drag (no new search per move) ...
+    assert any(a.provisional for a in got)
+    # ... and the final outline was analysed again with its own search
+    final = w.analysis
+    assert final.profile == w.document.profile and not final.provisional
+    here = analyze(w.document.profile, w.document.conditions)
+    assert final.drag.cd == pytest.approx(here.drag.cd, rel=1e-12)
+    assert not c.stale
