@@ -188,14 +188,19 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
     big = theta * float(head_h1(h))
     x = float(s_start)
     i = int(np.searchsorted(s, x, side="left"))  # next station at or after x
-    idx, th_out, h_out, cf_out = [], [], [], []
+    idx, th_out, h_out = [], [], []
 
     def finish(stop, s_stop, th_stop, h_stop):
+        index = np.asarray(idx, dtype=int)
+        th_arr = np.asarray(th_out, dtype=float)
+        h_arr = np.asarray(h_out, dtype=float)
+        # Ludwieg-Tillmann at the recorded stations, all at once
+        re_t = np.maximum(ue[index] * th_arr / nu_v, 1e-300) if index.size else th_arr
         return HeadMarch(
-            index=np.asarray(idx, dtype=int),
-            theta=np.asarray(th_out, dtype=float),
-            H=np.asarray(h_out, dtype=float),
-            cf=np.asarray(cf_out, dtype=float),
+            index=index,
+            theta=th_arr,
+            H=h_arr,
+            cf=0.246 * 10.0 ** (-0.678 * h_arr) * re_t**-0.268,
             stop=stop,
             s_stop=float(s_stop),
             theta_stop=float(th_stop),
@@ -203,12 +208,9 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
         )
 
     def record(k, th, hh):
-        u = u_l[k]
-        re_t = max(u * th / nu_v, 1e-300)
         idx.append(k)
         th_out.append(th)
         h_out.append(hh)
-        cf_out.append(0.246 * 10.0 ** (-0.678 * hh) * re_t**-0.268)
 
     h1_min = _H1_ASYMPTOTE + 1e-9
     pw = math.pow
