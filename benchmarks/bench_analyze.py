@@ -15,8 +15,9 @@ drag. Every moved profile is analysed twice, each time as a new Profile object:
 
 The split comes from ``Analysis.timings`` of the second call (geometry, flow, radius search
 phase, assessment). In the same run it times ``numpy.linalg.solve`` on a well-conditioned
-300 x 300 matrix and reports the ratio of ``total`` to it (target from the issues: analyze
-within 15x of that dense solve).
+300 x 300 matrix and reports the median over the runs of each analysis's time divided by
+the dense solve timed just before it (median of 15 solves), as the machine's speed drifts (target
+from the issues: analyze within 15x of that dense solve).
 
 A last row gives the median of one ``smallest_attached_radius`` search on the test-body sample's
 front upper corner.
@@ -45,9 +46,7 @@ def _median(values) -> float:
 
 def dense_solve_time(n: int = PANELS, repeats: int = 200) -> float:
     """Median time (s) of ``numpy.linalg.solve`` on a diagonally dominant n x n system."""
-    rng = np.random.default_rng(2024)
-    mat = rng.standard_normal((n, n)) + n * np.eye(n)
-    rhs = rng.standard_normal(n)
+    mat, rhs = _dense_system(n)
     np.linalg.solve(mat, rhs)
     times = []
     for _ in range(repeats):
@@ -55,6 +54,11 @@ def dense_solve_time(n: int = PANELS, repeats: int = 200) -> float:
         np.linalg.solve(mat, rhs)
         times.append(time.perf_counter() - t0)
     return _median(times)
+
+
+def _dense_system(n: int):
+    rng = np.random.default_rng(2024)
+    return rng.standard_normal((n, n)) + n * np.eye(n), rng.standard_normal(n)
 
 
 def _moved(profile, k: int):
@@ -78,7 +82,8 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
     Analysis rows: ``sample``, ``total_ms`` (median wall time of analyze, radius searches
     cached), ``cold_ms`` (median wall time with the radius searches run), ``searches`` (radius
     searches per analysis), ``geometry_ms``, ``flow_ms``, ``radius_search_ms``, ``assess_ms``
-    (medians of ``Analysis.timings``), ``dense_solve_ms``, ``ratio`` (total / dense solve),
+    (medians of ``Analysis.timings``), ``dense_solve_ms``, ``ratio`` (median of each run's
+    total / dense solve timed beside it),
     ``status``, ``repeats``. The last row has ``sample`` "radius search (test body, node N)"
     and ``total_ms``.
     """
@@ -88,10 +93,13 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
         project = load_project(path)
         cond = project.conditions.replace(panels=panels)
         analyze(_moved(project.profile, 0), cond)  # warm-up (imports, table loading)
-        totals, colds, split = [], [], {k: [] for k in _SPLIT}
+        totals, colds, ratios, denses, split = [], [], [], [], {k: [] for k in _SPLIT}
         status = ""
         searches = 0
         for k in range(repeats):
+            # the dense solve is timed beside each analysis, so that the ratio compares the two
+            # at the same moment of this shared machine (its speed drifts by tens of percent)
+            t_dense_k = dense_solve_time(panels, repeats=15)
             # a new position each time: the first call finds no cached radius search
             t0 = time.perf_counter()
             first = analyze(_moved(project.profile, k + 1), cond)
@@ -101,6 +109,8 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
             t0 = time.perf_counter()
             res = analyze(prof, cond)
             totals.append(time.perf_counter() - t0)
+            denses.append(t_dense_k)
+            ratios.append(totals[-1] / t_dense_k)
             status = res.status.name
             for key in _SPLIT:
                 split[key].append(res.timings.get(key, 0.0))
@@ -112,8 +122,8 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
             searches=searches,
             geometry_ms=1e3 * _median(split["geometry"]), flow_ms=1e3 * _median(split["flow"]),
             radius_search_ms=1e3 * _median(split["radius_search"]),
-            assess_ms=1e3 * _median(assess), dense_solve_ms=1e3 * t_dense,
-            ratio=t_total / t_dense, status=status, repeats=repeats,
+            assess_ms=1e3 * _median(assess), dense_solve_ms=1e3 * _median(denses),
+            ratio=_median(ratios), status=status, repeats=repeats,
         ))
     body = next(p for p in sample_paths() if p.stem == "kestrel_test_body")
     project = load_project(body)
