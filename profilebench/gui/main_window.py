@@ -500,6 +500,9 @@ class MainWindow(QMainWindow):
         if state is None or analysis is None or not getattr(analysis, "success", False):
             return
         self.lagging_shown += 1
+        # a failure shown earlier was for an older outline than this one: its banner goes
+        self.banner.hide()
+        self.last_message = ""
         self.analysis = analysis
         self.analysis_state = state
         self.last_seconds = seconds

@@ -270,3 +270,17 @@ def test_drag_reuses_a_nearby_radius_search_and_the_final_outline_gets_its_own(w
     here = analyze(w.document.profile, w.document.conditions)
     assert final.drag.cd == pytest.approx(here.drag.cd, rel=1e-12)
     assert not c.stale
+
+
+def test_a_superseded_result_newer_than_a_shown_failure_replaces_its_banner(window):
+    w = window
+    state = w.document.state
+    good = w.analysis
+    w._show_banner("Analysis not updated (invalid_geometry): an older outline crossed itself", True)
+    # a valid position's analysis arrives after that failure, itself superseded by a newer edit
+    w._requested[10_000] = state
+    n = state.profile.nodes[0]
+    w.preview_profile(state.profile.moved(0, n.x, n.y + 0.001))      # the newer edit
+    w._analysis_lagging(10_000, good, 0.02)
+    assert not w.banner.isVisible() and w.last_message == ""
+    assert w.analysis is good and w.canvas.stale and 10_000 not in w._requested
