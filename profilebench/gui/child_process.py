@@ -14,7 +14,8 @@ import threading
 import time
 import traceback
 
-__all__ = ["ChildProcess", "call", "import_modules", "shared_child", "CHILD_NICENESS"]
+__all__ = ["ChildProcess", "call", "call_with_keywords", "import_modules", "shared_child",
+           "CHILD_NICENESS"]
 
 # The child runs at a lower CPU priority (POSIX niceness increment) than the editor: when the
 # cores are busy, the GUI thread is scheduled first and background work waits instead.
@@ -150,10 +151,15 @@ def shared_child(name: str = "default") -> ChildProcess:
 def call(target: str, *args):
     """``module:function`` imported and called with ``args`` (lets a job name a function whose
     module the editor has not imported itself)."""
+    return call_with_keywords(target, args, {})
+
+
+def call_with_keywords(target: str, args: tuple, kwargs: dict):
+    """:func:`call` with keyword arguments: ``module:function(*args, **kwargs)``."""
     import importlib
 
     module, _, name = target.partition(":")
-    return getattr(importlib.import_module(module), name)(*args)
+    return getattr(importlib.import_module(module), name)(*args, **kwargs)
 
 
 def import_modules(*names: str) -> bool:

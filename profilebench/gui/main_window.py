@@ -500,19 +500,23 @@ class MainWindow(QMainWindow):
         if state is None or analysis is None or not getattr(analysis, "success", False):
             return
         self.lagging_shown += 1
-        # a failure shown earlier was for an older outline than this one: its banner goes
+        # a failure shown earlier was for an older outline than this one: _show_analysis hides
+        # its banner
+        self._show_analysis(analysis, state, seconds, stale=state != self.document.state)
+        self.statusBar().showMessage(f"Cd {analysis.drag.cd:.4f} for an earlier position "
+                                     f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
+                                     "analysed")
+
+    def _show_analysis(self, analysis, state, seconds, stale):
+        """Put a successful ``analysis`` of document state ``state`` on every view."""
         self.banner.hide()
         self.last_message = ""
         self.analysis = analysis
         self.analysis_state = state
         self.last_seconds = seconds
-        current = state == self.document.state
-        self.canvas.set_analysis(analysis, stale=not current)
+        self.canvas.set_analysis(analysis, stale=stale)
         self.corner_table.set_rows(analysis, self.searches, self.document.selection.node)
-        self.summary.set_analysis(analysis, self._comparison(), seconds, stale=not current)
-        self.statusBar().showMessage(f"Cd {analysis.drag.cd:.4f} for an earlier position "
-                                     f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
-                                     "analysed")
+        self.summary.set_analysis(analysis, self._comparison(), seconds, stale=stale)
 
     def _analysis_finished(self, generation, analysis, seconds):
         self.results_received += 1
@@ -526,14 +530,7 @@ class MainWindow(QMainWindow):
             self.canvas.set_stale(self.analysis is not None)
             self.summary.set_analysis(self.analysis, self._comparison(), self.last_seconds, stale=True)
             return
-        self.banner.hide()
-        self.last_message = ""
-        self.analysis = analysis
-        self.analysis_state = state
-        self.last_seconds = seconds
-        self.canvas.set_analysis(analysis, stale=False)
-        self.corner_table.set_rows(analysis, self.searches, self.document.selection.node)
-        self.summary.set_analysis(analysis, self._comparison(), seconds)
+        self._show_analysis(analysis, state, seconds, stale=False)
         self._schedule_plots()
         d = analysis.drag
         self.statusBar().showMessage(f"Cd {d.cd:.4f}   solve {seconds * 1000:.0f} ms")

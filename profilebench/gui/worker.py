@@ -26,7 +26,7 @@ import traceback
 
 from PySide6.QtCore import QObject, QRunnable, QThreadPool, Signal
 
-from profilebench.gui.child_process import call, import_modules, shared_child
+from profilebench.gui.child_process import call_with_keywords, import_modules, shared_child
 
 __all__ = ["AnalysisRunner", "ProcessTaskRunner", "TaskRunner"]
 
@@ -151,6 +151,10 @@ class TaskRunner(QObject):
         self._running = True
         self.started += 1
         self._activity.begin()
+        self._launch(generation, args)
+
+    def _launch(self, generation, args):
+        """Run ``fn(*args)`` for request ``generation`` (here: on the thread pool)."""
         self._pool.start(_Job(self._relay, generation, self._fn, args, self._activity, self.name))
 
     def _on_done(self, generation, result, error, seconds):
@@ -210,12 +214,8 @@ class ProcessTaskRunner(TaskRunner):
             warm_up, self._warm_up = self._warm_up, None
             self._child.submit(warm_up, (), lambda ok, payload, seconds: None)
 
-    def _start_pending(self):
-        generation, args = self._pending
-        self._pending = None
-        self._running = True
-        self.started += 1
-        self._activity.begin()
+    def _launch(self, generation, args):
+        """Run ``fn(*args)`` for request ``generation`` in the child process."""
         relay, activity, name, t0 = self._relay, self._activity, self.name, time.perf_counter()
 
         def done(ok, payload, seconds):     # on the reader thread; seconds: the child's run time
@@ -236,14 +236,9 @@ class ProcessTaskRunner(TaskRunner):
         self._child.submit(self._fn, args, done)
 
 
-def _analyze(profile, conditions):
-    from profilebench.assess.analysis import analyze
-
-    return analyze(profile, conditions)
-
-
-# named by module path, so the child imports the pipeline and not this Qt module
-_ANALYZE_IN_CHILD = functools.partial(call, "profilebench.assess.analysis:analyze")
+# named by module path, so the child imports the pipeline and not this Qt module; called as
+# (args, kwargs), so that analyze's keyword parameters are passed by name
+_ANALYZE_IN_CHILD = functools.partial(call_with_keywords, "profilebench.assess.analysis:analyze")
 _IMPORT_ANALYSIS = functools.partial(import_modules, "profilebench.assess.analysis")
 
 
@@ -271,11 +266,10 @@ class AnalysisRunner(ProcessTaskRunner):
         """
         if self._child is None:
             return super().request(profile, conditions)
-        # analyze's positional parameters: profile, conditions, thickness, table, searches
-        return super().request(profile, conditions, None, None, searches)
+        return super().request((profile, conditions), {"searches": searches})
 
-    def _start_pending(self):
+    def _launch(self, generation, args):
         if self._child is None:
-            TaskRunner._start_pending(self)
+            TaskRunner._launch(self, generation, args)
         else:
-            super()._start_pending()
+            super()._launch(generation, args)
