@@ -152,15 +152,20 @@ _SEARCH_LOCK = threading.Lock()
 _SEARCH_CACHE_SIZE = 128
 
 
+def _search_key_nodes(profile, node):
+    """The nodes as the search cache keys them: (x, y, radius, smooth), the searched corner's own
+    radius left out (the search does not depend on it)."""
+    return tuple((n.x, n.y, 0.0 if i == node else n.radius, n.smooth)
+                 for i, n in enumerate(profile.nodes))
+
+
 def cached_radius_search(profile, conditions, node, thickness=None):
     """:func:`smallest_attached_radius`, remembered for the same profile, conditions and corner.
 
     The search depends on every node except the searched corner's own radius, so the key leaves
     that radius out: changing only that corner's radius (a radius drag) reuses the answer.
     """
-    key_nodes = tuple((n.x, n.y, 0.0 if i == node else n.radius, n.smooth)
-                      for i, n in enumerate(profile.nodes))
-    key = (key_nodes, profile.trailing_edge, conditions, node, thickness)
+    key = (_search_key_nodes(profile, node), profile.trailing_edge, conditions, node, thickness)
     with _SEARCH_LOCK:
         hit = _SEARCH_CACHE.get(key)
         if hit is not None:
@@ -183,7 +188,7 @@ def nearby_radius_search(profile, conditions, node, thickness=None, within=0.0):
     node lies within ``within`` metres of this profile's. Returns ``(search, shift)`` for the
     candidate with the smallest largest node shift (m; 0.0 for this very outline).
     """
-    here = [(n.x, n.y, 0.0 if i == node else n.radius, n.smooth) for i, n in enumerate(profile.nodes)]
+    here = _search_key_nodes(profile, node)
     best, best_shift = None, None
     with _SEARCH_LOCK:
         items = list(_SEARCH_CACHE.items())
