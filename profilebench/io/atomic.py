@@ -1,4 +1,5 @@
 """Atomic file writing: a file is either the old one or the complete new one, never half-written.
+Also the bounded reading of an input file (:func:`read_input_bytes`).
 
 The new content goes to a temporary file in the same folder (so the final rename stays on one
 file system), is flushed and fsync'ed, and then replaces the target with :func:`os.replace`,
@@ -16,7 +17,7 @@ from typing import Callable, TextIO
 
 from profilebench.errors import ProjectFileError
 
-__all__ = ["atomic_write_text"]
+__all__ = ["atomic_write_text", "read_input_bytes"]
 
 
 def _file_mode_for(target: Path) -> int:
@@ -104,3 +105,36 @@ def _fsync_folder(folder: Path) -> None:
         pass
     finally:
         os.close(dfd)
+
+
+def read_input_bytes(path, kind: str, choose: str, limit: int) -> bytes:
+    """The bytes of the input file ``path``, at most ``limit`` of them.
+
+    ``kind`` names the file in messages ("project file", "point file"); ``choose`` says what to
+    pick instead ("choose a .json project file"). Raises ProjectFileError, saying what is wrong
+    and what to do, for a missing path, a folder, something that is not a regular file (a device
+    or a pipe, whose reading might never end), a file over ``limit`` bytes (refused before
+    reading, and again if it grew while being read) and a file that cannot be read.
+    """
+    p = Path(path)
+    shown = str(p)
+    if not p.exists():
+        raise ProjectFileError(f"no {kind} at {shown!r}; check the path")
+    if p.is_dir():
+        raise ProjectFileError(f"{shown!r} is a folder, not a {kind}; {choose}")
+    if not p.is_file():
+        raise ProjectFileError(f"{shown!r} is not a regular file; {choose}")
+    try:
+        size = p.stat().st_size
+        if size > limit:
+            raise ProjectFileError(
+                f"{shown!r} is {size / 1e6:.1f} MB, over the {limit / 1e6:.0f} MB limit for a "
+                f"{kind}; it is probably not one: {choose}")
+        with open(p, "rb") as fh:
+            raw = fh.read(limit + 1)
+    except OSError as exc:
+        raise ProjectFileError(f"cannot read {shown!r}: {exc.strerror or exc}; check permissions") from exc
+    if len(raw) > limit:
+        raise ProjectFileError(f"{shown!r} is over the {limit / 1e6:.0f} MB limit for a {kind}; "
+                               f"{choose}")
+    return raw

@@ -31,7 +31,7 @@ import numpy as np
 
 from profilebench.errors import InputError, ProjectFileError
 from profilebench.geometry.profile import Node, Profile
-from profilebench.io.atomic import atomic_write_text
+from profilebench.io.atomic import atomic_write_text, read_input_bytes
 
 __all__ = [
     "MM_THRESHOLD",
@@ -151,17 +151,7 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         raise InputError(f"units must be 'auto', 'mm' or 'm', got {units!r}")
     p = Path(path)
     shown = str(p)
-    if not p.exists():
-        raise ProjectFileError(f"no point file at {shown!r}; check the path")
-    if p.is_dir():
-        raise ProjectFileError(f"{shown!r} is a folder; choose a CSV point file")
-    try:
-        if p.stat().st_size > MAX_POINTS_BYTES:
-            raise ProjectFileError(
-                f"{shown!r} is over the {MAX_POINTS_BYTES / 1e6:.0f} MB limit for a point file")
-        raw = p.read_bytes()
-    except OSError as exc:
-        raise ProjectFileError(f"cannot read {shown!r}: {exc.strerror or exc}") from exc
+    raw = read_input_bytes(p, "point file", "choose a CSV point file", MAX_POINTS_BYTES)
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:

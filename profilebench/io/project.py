@@ -34,7 +34,7 @@ from pathlib import Path, PurePosixPath, PureWindowsPath
 
 from profilebench.errors import InputError, ProfileBenchError, ProjectFileError
 from profilebench.geometry.profile import Node, Profile
-from profilebench.io.atomic import atomic_write_text
+from profilebench.io.atomic import atomic_write_text, read_input_bytes
 
 __all__ = [
     "FORMAT_NAME",
@@ -477,27 +477,7 @@ def load_project(path) -> Project:
     """
     p = Path(path)
     shown = str(p)
-    if not p.exists():
-        raise ProjectFileError(f"no project file at {shown!r}; check the path")
-    if p.is_dir():
-        raise ProjectFileError(f"{shown!r} is a folder, not a project file; choose a .json project file")
-    if not p.is_file():
-        raise ProjectFileError(f"{shown!r} is not a regular file; choose a .json project file")
-    try:
-        size = p.stat().st_size
-        if size > MAX_PROJECT_BYTES:
-            raise ProjectFileError(
-                f"{shown!r} is {size / 1e6:.1f} MB, over the {MAX_PROJECT_BYTES / 1e6:.0f} MB "
-                "limit for a project file; it is probably not a profilebench project: choose the "
-                "project's .json file"
-            )
-        with open(p, "rb") as fh:
-            raw = fh.read(MAX_PROJECT_BYTES + 1)
-    except OSError as exc:
-        raise ProjectFileError(f"cannot read {shown!r}: {exc.strerror or exc}; check permissions") from exc
-    if len(raw) > MAX_PROJECT_BYTES:
-        raise ProjectFileError(f"{shown!r} is over the {MAX_PROJECT_BYTES / 1e6:.0f} MB limit for a "
-                               "project file; choose the project's .json file")
+    raw = read_input_bytes(p, "project file", "choose the project's .json file", MAX_PROJECT_BYTES)
     if not raw.strip():
         raise ProjectFileError(f"{shown!r} is empty; it holds no project (was a save interrupted?)")
     try:

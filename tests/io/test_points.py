@@ -1,5 +1,7 @@
 """CSV point import/export and profiles made from digitised points."""
 
+import os
+
 import numpy as np
 import pytest
 from shapely.geometry import LinearRing, Point
@@ -97,6 +99,15 @@ def test_missing_file_folder_and_bad_units_argument(tmp_path):
         read_points_csv(tmp_path)
     with pytest.raises(InputError, match="units"):
         read_points_csv(_csv(tmp_path, "0,0\n1,0\n1,1\n"), units="inch")
+
+
+@pytest.mark.skipif(not hasattr(os, "mkfifo"), reason="named pipes are POSIX only")
+def test_a_pipe_is_refused_before_reading_it(tmp_path):
+    # reading a pipe nobody writes to would never end: it is refused as not a regular file
+    fifo = tmp_path / "points.csv"
+    os.mkfifo(fifo)
+    with pytest.raises(ProjectFileError, match="not a regular file; choose a CSV point file"):
+        read_points_csv(fifo)
 
 
 @pytest.mark.parametrize("units", ["m", "mm"])
