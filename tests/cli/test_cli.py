@@ -8,6 +8,7 @@ import sys
 import pytest
 
 import profilebench.cli as cli
+from cli_helpers import summary_rows
 from fake_analysis import N, fake_analysis
 from profilebench.assess.results import Analysis, AnalysisStatus
 from profilebench.io.export import CAUTION
@@ -30,21 +31,11 @@ def fake(monkeypatch):
     return base, seen
 
 
-def _rows(text):
-    """Table rows of the printed summary: {first cell: second cell}."""
-    out = {}
-    for line in text.splitlines():
-        cells = re.split(r"\s{2,}", line.strip())
-        if len(cells) >= 2:
-            out.setdefault(cells[0], cells[1])
-    return out
-
-
 def test_analyse_prints_the_analysis_numbers(fake, capsys):
     base, _ = fake
     assert cli.main(["analyse", SAMPLE]) == 0
     out = capsys.readouterr().out
-    rows = _rows(out)
+    rows = summary_rows(out)
     d = base.drag
     # printed to 4 decimals for coefficients, 2 for the force, 3 for kW: equal within that rounding
     assert float(rows["Cd"]) == pytest.approx(d.cd, abs=5e-5)
@@ -147,7 +138,7 @@ def test_compare_warns_when_cd_falls_but_force_rises(monkeypatch, capsys):
     monkeypatch.setattr(cli, "_analyse", lambda p, c, table=None: next(calls))
     assert cli.main(["compare", SAMPLE, SAMPLE]) == 0
     out = capsys.readouterr().out
-    rows = _rows(out)
+    rows = summary_rows(out)
     assert float(rows["delta Cd"]) == pytest.approx(cd - d.cd, abs=5e-5)
     assert float(rows["delta Cd (%)"]) == pytest.approx(-10.0, abs=5e-3)
     assert float(rows["delta CdA"]) == pytest.approx(cd * area - d.cda, abs=5e-5)
@@ -167,7 +158,7 @@ def test_compare_with_failed_variant_exits_1(monkeypatch, capsys):
 def test_corners_lists_each_corner(fake, capsys):
     base, _ = fake
     assert cli.main(["corners", SAMPLE]) == 0
-    rows = _rows(capsys.readouterr().out)
+    rows = summary_rows(capsys.readouterr().out)
     for c in base.corners:
         assert float(rows[c.label]) == pytest.approx(c.radius * 1000, abs=0.05)
 

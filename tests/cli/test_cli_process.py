@@ -8,6 +8,7 @@ import pytest
 
 analysis_module = pytest.importorskip("profilebench.assess.analysis", exc_type=ImportError)
 
+from cli_helpers import summary_rows  # noqa: E402
 from profilebench.io.export import CAUTION  # noqa: E402
 from profilebench.io.project import load_project  # noqa: E402
 from profilebench.io.samples import default_sample_path  # noqa: E402
@@ -78,15 +79,6 @@ def test_bad_image_extension_in_a_process(tmp_path):
     assert not (tmp_path / "r.jpg").exists()
 
 
-def _rows(text):
-    out = {}
-    for line in text.splitlines():
-        cells = re.split(r"\s{2,}", line.strip())
-        if len(cells) >= 2:
-            out.setdefault(cells[0], cells[1])
-    return out
-
-
 def test_summary_numbers_equal_the_real_analysis(capsys):
     from profilebench.cli import main
 
@@ -94,7 +86,7 @@ def test_summary_numbers_equal_the_real_analysis(capsys):
     project = load_project(sample)
     a = analysis_module.analyze(project.profile, project.conditions)
     assert main(["analyse", str(sample)]) == 0
-    rows = _rows(capsys.readouterr().out)
+    rows = summary_rows(capsys.readouterr().out)
     d = a.drag
     # each value equals the Analysis's within the rounding it is printed with
     for key, value, tol in [("Cd", d.cd, 5e-5), ("friction", d.cd_friction, 5e-5),
