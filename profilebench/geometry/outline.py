@@ -631,6 +631,50 @@ def _check_nodes(profile):
         )
 
 
+def canonical_order(profile):
+    """(order, reversed) of the profile's nodes in the canonical order.
+
+    Canonical: counter-clockwise (by the signed area of the node polygon), starting at the node
+    with the smallest x (ties: the smallest y). ``order[k]`` is the index in ``profile`` of the
+    canonical node k; ``reversed`` is True when the profile runs clockwise. The same outline
+    given from any node or either way round has one canonical order.
+    """
+    xy = np.array([(nd.x, nd.y) for nd in profile.nodes], dtype=float)
+    area2 = float(np.sum(xy[:, 0] * np.roll(xy[:, 1], -1) - np.roll(xy[:, 0], -1) * xy[:, 1]))
+    m = len(xy)
+    start = min(range(m), key=lambda i: (xy[i, 0], xy[i, 1]))
+    rev = area2 < 0.0
+    step = -1 if rev else 1
+    return tuple((start + step * k) % m for k in range(m)), rev
+
+
+def canonical_profile(profile):
+    """(canonical profile, order, reversed): the profile's nodes in the canonical order (see
+    :func:`canonical_order`), remembered in the profile's cache; the profile itself when its
+    nodes are already in that order."""
+    cached = profile._cache.get("canonical")
+    if cached is not None:
+        return cached
+    order, rev = canonical_order(profile)
+    if order == tuple(range(len(order))):
+        out = (profile, order, rev)
+    else:
+        te = profile.trailing_edge
+        canon = type(profile)(tuple(profile.nodes[i] for i in order), name=profile.name,
+                              trailing_edge=None if te is None else order.index(te))
+        out = (canon, order, rev)
+    profile._cache["canonical"] = out
+    return out
+
+
+def canonical_outline(profile) -> Outline:
+    """The built outline of the profile's canonical order: the same curve as
+    :func:`build_outline`'s (its arc length starts elsewhere and may run the other way), built
+    once for every way of giving the outline. Errors name the canonical nodes; build the
+    profile's own outline for a message in its numbering."""
+    return build_outline(canonical_profile(profile)[0])
+
+
 def build_outline(profile) -> Outline:
     """Build (or fetch from the profile's cache) the closed outline of ``profile``.
 

@@ -21,9 +21,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from profilebench.errors import InputError
-from profilebench.geometry.outline import build_outline
+from profilebench.geometry.outline import build_outline, canonical_order, canonical_profile
 
-__all__ = ["CornerSpan", "Panelling", "panelize", "MIN_PANELS", "MAX_PANELS"]
+__all__ = ["CornerSpan", "Panelling", "panelize", "canonical_order", "MIN_PANELS", "MAX_PANELS"]
 
 MIN_PANELS = 20
 MAX_PANELS = 5000
@@ -32,7 +32,17 @@ _CURVATURE_SHARE = 0.6  # at most this share of the panels goes to curvature ref
 _EDGE_CLUSTER = 4.0  # panel density at a sharp edge is (1 + this) times the base density
 _EDGE_LENGTH = 0.03  # decay length of the edge clustering, as a fraction of the perimeter
 _EDGE_FULL_ANGLE = math.radians(30.0)  # an edge turning this much or more is fully clustered
+# Panels also cluster round each fillet (density (1 + _ARC_CLUSTER) times the base at the arc,
+# decaying over the edge length away from it: the faces next to a corner carry its suction peak
+# and the log-singular slope at its tangent points) and on the steep parts of the outline
+# (density (1 + _STEEP |n_x|) times the base, n the unit normal: where the pressure acts along
+# the free stream and the drag is the small difference of large forward and backward forces).
+# With neither, the samples' Cd moved by up to 4.6 % from 250 to 1000 panels; with these values
+# by at most 1.6 % (measured on the four samples; calibrated choices of this project, no source).
+_ARC_CLUSTER = 6.0
+_STEEP = 3.0
 _GRID = 2048
+_REFERENCE_PANELS = 250  # the usual count; at or below it an arc gets c = _PANELS_PER_RADIAN
 
 
 @dataclass(frozen=True)
@@ -62,10 +72,14 @@ class Panelling:
     """Panel end points of a closed outline.
 
     ``points`` (N, 2) in m, first not repeated, in the order of the nodes; panel j runs from
-    points[j] to points[(j + 1) % N]. ``s`` (N,) arc length of each point from points[0] (m).
+    points[j] to points[(j + 1) % N]. ``s`` (N,) arc length of each point from the outline's
+    start (m): node 0, or the start of node 0's fillet (points[0] is its first point on the arc).
     ``node_point`` the point index of each profile node (its own point for sharp nodes, the point
     nearest the fillet middle for rounded ones, the nearest point for smooth ones). ``corners``
     a CornerSpan for every corner (non-smooth) node, in node order. ``length`` the perimeter (m).
+    ``canonical`` each point's index in the canonical order (counter-clockwise from the
+    canonical start node, see :func:`canonical_order`): the points are the same whatever node the
+    outline starts at and whichever way round it is given, only their order follows the nodes.
     """
 
     points: np.ndarray
@@ -74,6 +88,7 @@ class Panelling:
     corners: tuple[CornerSpan, ...]
     n_panels: int
     length: float
+    canonical: np.ndarray | None = None   # (N,) each point's index in the canonical order
 
 
 def _check_count(n_panels):
@@ -117,6 +132,69 @@ def panelize(profile, n_panels: int = 250) -> Panelling:
 
 
 def _panelize(profile, n: int) -> Panelling:
+    """Panel the outline in its canonical order, then give the points in the profile's own order.
+
+    The panel points depend on where the outline starts and which way round it runs (sections
+    start at node 0, whole panels are shared out section by section), and with them every
+    result: the same outline given from another node or clockwise moved the samples' Cd by up
+    to 6 %. Panelling the canonical order makes the points the same set for every way of giving
+    the outline.
+    """
+    canon, order, rev = canonical_profile(profile)
+    m = len(order)
+    if canon is profile:
+        out = _panelize_nodes(profile, n)
+        return _with_canonical(out, np.arange(len(out.points)))
+    pc = _panelize_nodes(canon, n)
+    npts = len(pc.points)
+    S = pc.length
+    user_of_canon_node = order                    # canonical node k is profile node order[k]
+    canon_of_user_node = {u: k for k, u in enumerate(order)}
+    # the profile's own point 0 is where its outline starts: at node 0, or at the start (in the
+    # profile's direction) of node 0's fillet
+    c0 = canon_of_user_node[0]
+    span0 = next((sp for sp in pc.corners if sp.node == c0), None)
+    if span0 is None:
+        p0 = int(pc.node_point[c0])
+        s0 = float(pc.s[p0])
+    else:
+        p0 = int(span0.point_end if rev else span0.point_start)
+        s0 = float(span0.s_end if rev else span0.s_start)   # the fillet's tangent point
+    k = np.arange(npts)
+    src = (p0 - k) % npts if rev else (p0 + k) % npts     # user point k is canonical point src[k]
+    pos = np.empty(npts, dtype=int)
+    pos[src] = k                                            # canonical point j is user point pos[j]
+    pts = np.array(pc.points[src])
+    s = np.mod((s0 - pc.s[src]) if rev else (pc.s[src] - s0), S)
+    s[s > S * (1.0 - 1e-9)] = 0.0
+
+    def s_user(v):
+        out = float(np.mod((s0 - v) if rev else (v - s0), S))
+        return 0.0 if out > S * (1.0 - 1e-9) else out
+
+    node_point = tuple(int(pos[pc.node_point[canon_of_user_node[i]]]) for i in range(m))
+    spans = []
+    for sp in pc.corners:
+        a_pt, b_pt = int(pos[sp.point_start]), int(pos[sp.point_end])
+        a_s, b_s = s_user(sp.s_start), s_user(sp.s_end)
+        if rev:
+            a_pt, b_pt, a_s, b_s = b_pt, a_pt, b_s, a_s
+        spans.append(CornerSpan(user_of_canon_node[sp.node], sp.radius, sp.turning_angle_deg,
+                                sp.convex, a_s, b_s, a_pt, b_pt, sp.centre))
+    spans.sort(key=lambda sp: sp.node)
+    pts.setflags(write=False)
+    s.setflags(write=False)
+    return _with_canonical(Panelling(pts, s, node_point, tuple(spans), n, S), src)
+
+
+def _with_canonical(pan, canonical):
+    canonical = np.asarray(canonical, dtype=int)
+    canonical.setflags(write=False)
+    return Panelling(pan.points, pan.s, pan.node_point, pan.corners, pan.n_panels, pan.length,
+                     canonical)
+
+
+def _panelize_nodes(profile, n: int) -> Panelling:
     o = build_outline(profile)
     S = o.length
     edges = o.sharp_edges
@@ -142,10 +220,23 @@ def _panelize(profile, n: int) -> Panelling:
         d = np.abs(grid - e.s)
         d = np.minimum(d, S - d)
         clus += amp * np.exp(-d / ell)
+    for arc in o.arcs:
+        amp = _ARC_CLUSTER * min(1.0, abs(arc.turning_angle) / _EDGE_FULL_ANGLE)
+        lo, hi = float(arc.s_start), float(arc.s_end)
+        d = np.where(grid < lo, lo - grid, np.where(grid > hi, grid - hi, 0.0))
+        d = np.minimum(d, S - d)
+        clus += amp * np.exp(-d / ell)
+    xy = o.points_at(grid)
+    dxy = np.gradient(xy, grid, axis=0)
+    steep = np.abs(dxy[:, 1]) / np.maximum(np.hypot(dxy[:, 0], dxy[:, 1]), 1e-300)   # |n_x|
+    clus += _STEEP * steep
     base = grid + np.concatenate([[0.0], np.cumsum(0.5 * (clus[1:] + clus[:-1]) * np.diff(grid))])
     turn = o.cumulative_turn(grid)
     turn -= turn[0]
-    c = _PANELS_PER_RADIAN
+    # the curvature term grows with the panel count like the base density, so that refining
+    # refines the arcs too (at a fixed c the arcs kept their panels as the count grew, and the
+    # suction peaks on them converged slowly)
+    c = _PANELS_PER_RADIAN * max(1.0, n / _REFERENCE_PANELS)
     if turn[-1] > 0 and c * turn[-1] > _CURVATURE_SHARE * n:
         c = _CURVATURE_SHARE * n / turn[-1]
     b = (n - c * turn[-1]) / base[-1]

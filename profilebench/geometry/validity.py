@@ -17,7 +17,7 @@ from scipy.spatial import cKDTree
 
 from profilebench.errors import (GeometryError, GroundContactError, RadiusTooLargeError,
                                  SelfIntersectionError)
-from profilebench.geometry.outline import build_outline, node_description
+from profilebench.geometry.outline import build_outline, canonical_outline, node_description
 
 __all__ = ["validate", "explain", "problems", "NEAR_COINCIDENT"]
 
@@ -95,10 +95,14 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
             "they enclose the profile"))
         return out
     try:
-        outline = build_outline(profile)
-    except GeometryError as exc:
-        out.append(exc)
-        outline = None
+        # the canonical order's outline is the same curve, and the one the panelling uses
+        outline = canonical_outline(profile)
+    except GeometryError:
+        try:
+            outline = build_outline(profile)   # its error names the profile's own nodes
+        except GeometryError as exc:
+            out.append(exc)
+            outline = None
     if outline is not None:
         if not out:
             pts = outline.sample(_SAMPLES)
