@@ -7,7 +7,8 @@ absolute values):
   projected on the free-stream direction: Cd_f = sum(Cf ue^2 t_x ds) / h, with t_x the x component
   of the unit vector along the flow at the station.
 - **Pressure**: the inviscid Cp on every station that is not in the wake, Cd_p = -sum(Cp n_x ds)/h
-  (n the outward normal). Corner bubbles that reattach keep their inviscid Cp: their drag is in
+  (n the outward normal). The panel on which the layer leaves the surface counts attached up to
+  the separation point and in the wake behind it (``ProfileFlow.attached``). Corner bubbles that reattach keep their inviscid Cp: their drag is in
   the corner correction, so it is not counted twice.
 - **Base**: behind each surface's final separation point the pressure is taken constant at the
   base-pressure coefficient Cp_b (Conditions.base_pressure; REFERENCES: square-back vehicles
@@ -54,6 +55,9 @@ def estimate_drag(flow, conditions, height, corner_penalties=(), notes=()):
     cp = np.asarray(inv.cp, dtype=float)
     ue = np.asarray(inv.ue, dtype=float)
     wake = np.asarray(flow.separated, dtype=bool)
+    # attached share of each panel: 1 or 0, except on the panel where the layer leaves the surface
+    share = (np.asarray(flow.attached, dtype=float) if flow.attached is not None
+             else (~wake).astype(float))
     cp_base = float(conditions.base_pressure)
 
     # friction on attached stations, along the local flow direction (sign of ue along points)
@@ -61,15 +65,13 @@ def estimate_drag(flow, conditions, height, corner_penalties=(), notes=()):
     for k, sfl in enumerate(flow.surfaces):
         on = flow.station_surface == k
         cf[on] = np.asarray(sfl.bl.cf, dtype=float)[flow.station_bl[on]]
-    cf[wake] = 0.0
     flow_dir_x = np.sign(ue) * tangent[:, 0]
-    cd_f = float(np.sum(cf * ue ** 2 * flow_dir_x * lengths)) / height
+    cd_f = float(np.sum(share * cf * ue ** 2 * flow_dir_x * lengths)) / height
 
-    attached = ~wake
-    cd_p = float(-np.sum(cp[attached] * normal[attached, 0] * lengths[attached])) / height
-    cd_b = float(-cp_base * np.sum(normal[wake, 0] * lengths[wake])) / height
+    cd_p = float(-np.sum(share * cp * normal[:, 0] * lengths)) / height
+    cd_b = float(-cp_base * np.sum((1.0 - share) * normal[:, 0] * lengths)) / height
     cd_c = float(np.sum(corner_penalties)) if len(corner_penalties) else 0.0
-    cp_eff = np.where(wake, cp_base, cp)
+    cp_eff = share * cp + (1.0 - share) * cp_base
     cl = float(-np.sum(cp_eff * normal[:, 1] * lengths)) / height
     cd = cd_f + cd_p + cd_b + cd_c
 

@@ -293,11 +293,17 @@ def _check_inputs(s, ue, nu, speed, transition, h_separation, edges):
 # numerics
 
 
-def _local_quadratic_fit(s, ue, n_fit):
-    """Value and slope of a least-squares quadratic through the 7 nearest stations.
+def _local_quadratic_fit(s, ue, n_fit, fit_length=0.0):
+    """Value and slope of a least-squares quadratic through the stations near each station.
 
-    Only the first ``n_fit`` stations take part (the rest, past a sharp edge, get the values of
-    the last fitted station: the layer never marches there). Vectorised over stations.
+    The window of station i holds the 7 nearest stations and, with ``fit_length`` > 0, every
+    station within ``fit_length`` (m) of s[i] as well: a window of physical length, so that the
+    slope does not sharpen as the stations are refined. (The inviscid edge speed has a
+    logarithmic slope singularity where the outline's curvature jumps, at a fillet's tangent
+    points; a window of a fixed number of stations resolves it more and more as the panels are
+    refined, and the laminar separation test on Thwaites' lambda then flips with the panel
+    count.) Only the first ``n_fit`` stations take part (the rest, past a sharp edge, get the
+    values of the last fitted station: the layer never marches there). Vectorised over stations.
     """
     n = s.size
     u_fit = np.empty(n)
@@ -311,21 +317,30 @@ def _local_quadratic_fit(s, ue, n_fit):
         d_fit[:] = slope
         return u_fit, d_fit
     centre = np.arange(m)
-    start = np.clip(centre - _FIT_HALF_WIDTH, 0, m - w)
-    win = start[:, None] + np.arange(w)[None, :]
-    scale = s[win].max(axis=1) - s[win].min(axis=1)
+    lo = np.clip(centre - _FIT_HALF_WIDTH, 0, m - w)
+    hi = lo + w - 1
+    if fit_length > 0.0:
+        sm = s[:m]
+        lo = np.minimum(lo, np.searchsorted(sm, sm - fit_length, side="left"))
+        hi = np.maximum(hi, np.searchsorted(sm, sm + fit_length, side="right") - 1)
+    width = int((hi - lo).max()) + 1
+    win = lo[:, None] + np.arange(width)[None, :]
+    inside = win <= hi[:, None]
+    win = np.minimum(win, m - 1)
+    wt = inside.astype(float)
+    scale = s[hi] - s[lo]
     x = (s[win] - s[centre][:, None]) / scale[:, None]
     y = ue[win]
-    # normal equations of the fit c0 + c1 x + c2 x^2, solved by Cramer's rule (3 x 3, symmetric)
+    # weighted normal equations of the fit c0 + c1 x + c2 x^2, by Cramer's rule (3 x 3, symmetric)
     x2 = x * x
-    s1 = x.sum(axis=1)
-    s2 = x2.sum(axis=1)
-    s3 = (x2 * x).sum(axis=1)
-    s4 = (x2 * x2).sum(axis=1)
-    t0 = y.sum(axis=1)
-    t1 = (x * y).sum(axis=1)
-    t2 = (x2 * y).sum(axis=1)
-    s0 = float(w)
+    s0 = wt.sum(axis=1)
+    s1 = (wt * x).sum(axis=1)
+    s2 = (wt * x2).sum(axis=1)
+    s3 = (wt * x2 * x).sum(axis=1)
+    s4 = (wt * x2 * x2).sum(axis=1)
+    t0 = (wt * y).sum(axis=1)
+    t1 = (wt * x * y).sum(axis=1)
+    t2 = (wt * x2 * y).sum(axis=1)
     m11 = s2 * s4 - s3 * s3
     m12 = s1 * s4 - s2 * s3
     m13 = s1 * s3 - s2 * s2
@@ -365,7 +380,7 @@ def _first_index_at_or_after(s, x):
 
 
 def march_boundary_layer(s, ue, nu=1.46e-5, speed=30.0, transition="free", h_separation=2.4,
-                         edges=()) -> BoundaryLayerResult:
+                         edges=(), fit_length=0.0) -> BoundaryLayerResult:
     """March the boundary layer along one surface from the stagnation point.
 
     Parameters
@@ -389,6 +404,9 @@ def march_boundary_layer(s, ue, nu=1.46e-5, speed=30.0, transition="free", h_sep
         Bradshaw).
     edges : sequence of float
         Arc lengths (m) of sharp convex edges; an attached layer reaching one separates there.
+    fit_length : float
+        Half-width (m) of the window over which the edge-speed slope is fitted (at least the 7
+        nearest stations; 0: those only). See :func:`_local_quadratic_fit`.
 
     Returns
     -------
@@ -410,7 +428,9 @@ def march_boundary_layer(s, ue, nu=1.46e-5, speed=30.0, transition="free", h_sep
     s_edge = edges[0] if edges else None
     n_fit = n if s_edge is None else max(_first_index_at_or_after(s, s_edge) + 1, 2)
     n_fit = min(n_fit, n)
-    u_fit, d_fit = _local_quadratic_fit(s, ue, n_fit)
+    if not (isinstance(fit_length, (int, float)) and math.isfinite(fit_length) and fit_length >= 0):
+        raise InputError(f"fit_length = {fit_length!r} must be a length >= 0 in metres")
+    u_fit, d_fit = _local_quadratic_fit(s, ue, n_fit, float(fit_length))
 
     # ---- laminar layer everywhere (used up to the end of the laminar part) ----
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):

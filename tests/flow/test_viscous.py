@@ -58,12 +58,15 @@ def test_coarse_closed_pass_keeps_the_full_panelling_result(box_flows):
     pan, full, coarse = box_flows
     assert full.success and coarse.success
     # consistency with this package's own full closed-body pass (no outside value exists for
-    # the wake model's separation point): the wake starts at the same outline points, so the
-    # reported flow is the same to rounding; 1e-9 is common practice, no source
+    # the wake model's separation point): the wake starts at the separation points themselves,
+    # which the two passes place within a millimetre of each other, so the surfaces end there
+    # and the pressure drag agrees to 0.1 % (tolerances: common practice, no source)
     assert coarse.closed.inviscid.n_panels < len(pan.points)
-    np.testing.assert_array_equal(coarse.wake_points, full.wake_points)
-    np.testing.assert_allclose(coarse.inviscid.cp, full.inviscid.cp, rtol=0, atol=1e-9)
-    assert _pressure_drag(coarse) == pytest.approx(_pressure_drag(full), rel=1e-9)
+    for a, b in zip(coarse.surfaces, full.surfaces):
+        assert a.name == b.name
+        assert float(a.surface.s_end) == pytest.approx(float(b.surface.s_end), abs=1e-3)
+    np.testing.assert_allclose(coarse.wake_points[0], full.wake_points[0], rtol=0, atol=1e-3)
+    assert _pressure_drag(coarse) == pytest.approx(_pressure_drag(full), rel=1e-3)
 
 
 def test_coarse_result_geometry_is_the_full_outline(box_flows):
