@@ -9,3 +9,4 @@ os.environ.setdefault("MPLBACKEND", "Agg")
 # as profilebench/__init__.py does: one BLAS thread for the small panel systems
 for _var in ("OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS", "OMP_NUM_THREADS"):
     os.environ.setdefault(_var, "1")
+

@@ -89,19 +89,21 @@ def curvature_peaks(panelling, height):
     return tuple(peaks)
 
 
-def corner_regions(panelling, flow, spans=None):
-    """For each corner span: (surface index or -1, s_start, s_end) of its region on the surface.
+# A separation that starts within this many frontal heights ahead of a concave corner's arc (or
+# on the arc) belongs to the concave corner, not to the convex corner upstream: the pressure rise
+# ahead of a concave corner (a windscreen base, the foot of a step) starts upstream of it and the
+# separation it causes is a bubble in the corner (issue of attribution, not of the upstream
+# radius). The pressure rise ahead of a forward-facing step reaches about one step height
+# upstream (from memory); 0.15 h is a calibrated choice of this project, no source.
+CONCAVE_APPROACH_RATIO = 0.15
 
-    The region runs from the corner's arc start to the start of the next corner downstream on
-    the same surface (of either sense), or to the surface's end. It is half-open: an event at
-    the very start of the next corner belongs to that corner.
-    """
+
+def _arc_positions(panelling, flow, spans):
+    """(surface index or -1, s_start, s_end) of each span's arc on the surface it lies on."""
     perim = float(flow.upper.perimeter)
-    # positions along the panelled outline (chord lengths), the flow's own arc length
     pts = np.asarray(panelling.points, dtype=float)
     seg = np.roll(pts, -1, axis=0) - pts
     point_sigma = np.concatenate([[0.0], np.cumsum(np.hypot(seg[:, 0], seg[:, 1]))[:-1]])
-    spans = panelling.corners if spans is None else spans
     placed = []
     for span in spans:
         a, b = float(point_sigma[span.point_start]), float(point_sigma[span.point_end])
@@ -117,6 +119,35 @@ def corner_regions(panelling, flow, spans=None):
             best = (k, min(ends), max(ends))
             break
         placed.append(best)
+    return placed
+
+
+def corner_regions(panelling, flow, spans=None):
+    """For each corner span: (surface index or -1, s_start, s_end, bounded) of its region.
+
+    A corner's region starts where its arc starts on the surface (for a concave corner,
+    ``CONCAVE_APPROACH_RATIO`` frontal heights ahead of it, but not before the arc of the corner
+    upstream ends) and runs to the start of the next corner's region downstream on the same
+    surface (``bounded`` True), or to the surface's end. Regions are half-open: an event at the
+    very start of the next corner's region belongs to that corner. All bounds are lengths on the
+    outline, not station indices, so they do not move when the panels are refined.
+    """
+    spans = panelling.corners if spans is None else spans
+    placed = _arc_positions(panelling, flow, spans)
+    pts = np.asarray(panelling.points, dtype=float)
+    height = float(pts[:, 1].max() - pts[:, 1].min())
+    approach = CONCAVE_APPROACH_RATIO * height
+    starts = []
+    for i, (k, lo, hi) in enumerate(placed):
+        if k < 0:
+            starts.append(0.0)
+            continue
+        start = lo
+        if not spans[i].convex:
+            upstream_end = max([hi2 for j, (k2, _lo2, hi2) in enumerate(placed)
+                                if j != i and k2 == k and hi2 <= lo + 1e-9], default=0.0)
+            start = max(lo - approach, upstream_end, 0.0)
+        starts.append(start)
     regions = []
     for i, (k, lo, hi) in enumerate(placed):
         if k < 0:
@@ -125,43 +156,59 @@ def corner_regions(panelling, flow, spans=None):
         end = float(flow.surfaces[k].surface.s_end)
         bounded = False
         for j, (k2, lo2, _hi2) in enumerate(placed):
-            if j != i and k2 == k and lo2 > hi + 1e-9 and lo2 <= end + 1e-9:
-                end = lo2
+            if j != i and k2 == k and lo2 > hi + 1e-9 and starts[j] <= end + 1e-9:
+                end = max(starts[j], hi)
                 bounded = True
-        regions.append((k, lo, max(hi, end), bounded))
+        regions.append((k, starts[i], max(hi, end), bounded))
     return regions
 
 
-def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True):
-    """Solver verdict, margin and a detail sentence for one corner region of a surface."""
+def _event_s(e, edges):
+    """Where an event counts for attribution: an edge separation at its edge (the march reports
+    it at the station just ahead of the edge), any other event where it happens."""
+    s = float(e.s)
+    if e.kind == "edge_separation" and edges:
+        ahead = [x for x in edges if x >= s - 1e-9]
+        if ahead:
+            return float(min(ahead))
+    return s
+
+
+def surface_verdict(sfl, region, convex):
+    """:func:`_verdict` of a region (k, lo, hi, bounded) on the surface flow ``sfl``."""
+    _k, lo, hi, bounded = region
+    # the march's own sharp edges, and the surface's end (where the wake model's surface ends at
+    # the edge the closed-body layer left from)
+    edges = tuple(sfl.edges) + (float(sfl.surface.s_end),)
+    return _verdict(sfl.bl, lo, hi, convex, sfl.restarts, bounded, edges=edges)
+
+
+def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=()):
+    """Solver verdict, margin and a detail sentence for one corner region of a surface.
+
+    A separation after which the march restarted (the layer reattaches behind it) is, at a
+    concave corner, the corner's bubble (verdict CONCAVE, no drag correction: it is not a radius
+    to enlarge); at a convex corner it is the corner's separation.
+    """
     events = list(bl.events)
-    tol = 1e-9
+    tol = 1e-6   # m: positions closer than this are the same place
     final = bl.separation
-    final_s = float(final.s) if final is not None else math.inf
+    final_s = _event_s(final, edges) if final is not None else math.inf
     restart_s = [r.s for r in restarts]
     upstream_cut = max([s for s in restart_s if s < region_lo - tol], default=-math.inf)
     s_arr = np.asarray(bl.s)
-
-    def spacing(at):
-        j = int(np.clip(np.searchsorted(s_arr, at), 1, len(s_arr) - 1))
-        return float(s_arr[j] - s_arr[j - 1]) * 1.01
-
-    # an event within one station spacing ahead of a corner belongs to that corner (an edge
-    # separation is reported at the station just ahead of its edge)
-    tol_lo = spacing(region_lo)
-    tol_hi = spacing(region_hi) if bounded else -tol
-    if final_s < region_lo - tol_lo:
+    if final_s < region_lo - tol:
         return Verdict.IN_WAKE, 0.0, f"the layer already separated upstream at s = {final_s * 1e3:.0f} mm"
 
     def inside(x):
-        x = float(x)
-        return region_lo - tol_lo <= x < region_hi - tol_hi and x > upstream_cut
+        return region_lo - tol <= x < region_hi - (tol if bounded else -tol) and x > upstream_cut
 
-    in_region = sorted((e for e in events if inside(e.s)), key=lambda e: float(e.s))
+    in_region = sorted((e for e in events if inside(_event_s(e, edges))), key=lambda e: float(e.s))
     sel = (s_arr >= region_lo - tol) & (s_arr <= min(region_hi, final_s) + tol)
     margin = float(np.min(np.asarray(bl.margin)[sel])) if np.any(sel) else 1.0
     margin = min(max(margin, 0.0), 1.0)
     bubble = None
+    concave_bubble = None
     for k, e in enumerate(in_region):
         if e.kind not in SEPARATION_KINDS:
             continue
@@ -170,6 +217,10 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True):
             if nxt is not None and nxt.kind == "reattachment":
                 bubble = (e, nxt)
                 continue
+        if not convex and any(abs(float(e.s) - r) <= tol for r in restart_s):
+            concave_bubble = concave_bubble or e
+            continue
+        if e.kind == "laminar_separation":
             verdict = Verdict.LAMINAR_SEPARATION
         elif e.kind == "turbulent_separation":
             burst = "burst" in str(getattr(e, "detail", ""))
@@ -182,6 +233,10 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True):
         if bubble is not None:
             detail += f", after a laminar bubble at s = {float(bubble[0].s) * 1e3:.0f} mm"
         return verdict, 0.0, detail
+    if not convex and concave_bubble is not None:
+        return Verdict.CONCAVE, 0.0, (
+            f"concave corner; the layer separates in the adverse gradient ahead of it at "
+            f"s = {float(concave_bubble.s) * 1e3:.0f} mm and reattaches (a bubble in the corner)")
     if bubble is not None:
         return Verdict.BUBBLE_REATTACHES, margin, (
             f"laminar separation at s = {float(bubble[0].s) * 1e3:.0f} mm, reattaches turbulent "
@@ -228,7 +283,7 @@ def corners_needing_floor(panelling, flow, spans=None, regions=None):
         if k < 0 or not span.convex or id(span) not in node_spans:
             continue
         sfl = flow.surfaces[k]
-        v = _verdict(sfl.bl, lo, hi, span.convex, sfl.restarts, bounded)[0]
+        v = surface_verdict(sfl, (k, lo, hi, bounded), span.convex)[0]
         if v.separated and any(lo - 1e-9 <= r.s <= hi + 1e-9 for r in sfl.restarts):
             out.append(span.node)
     return out
@@ -265,7 +320,7 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
             bl_restarts = ()
         else:
             sfl = flow.surfaces[k]
-            verdict, margin, detail = _verdict(sfl.bl, lo, hi, span.convex, sfl.restarts, bounded)
+            verdict, margin, detail = surface_verdict(sfl, (k, lo, hi, bounded), span.convex)
             surface = sfl.name
             bl_restarts = sfl.restarts
         delta_cd = 0.0

@@ -9,16 +9,15 @@ import pytest
 from profilebench.assess.analysis import NEARBY_SHIFT_RATIO, analyze
 from profilebench.assess.corners import smallest_attached_radius
 from profilebench.errors import InputError
-from profilebench.io import load_project, sample_paths
+from sample_variants import bubble_van_project
 
 
 @pytest.fixture(scope="module")
 def van():
-    path = next(p for p in sample_paths() if p.stem == "kestrel_courier_van")
-    project = load_project(path)
+    project = bubble_van_project()
     cond = project.conditions.replace(panels=200)
     base = analyze(project.profile, cond)
-    assert base.success and base.radius_searches, "the van's sample has a corner bubble to search"
+    assert base.success and base.radius_searches, "the sharpened van has a corner bubble to search"
     return project.profile, cond, base
 
 

@@ -246,11 +246,14 @@ def test_a_long_drag_shows_superseded_results_marked_stale_then_the_final_one(wi
     assert w.undo_stack.count() == 1           # the whole drag is one undo step
 
 
-def test_drag_reuses_a_nearby_radius_search_and_the_final_outline_gets_its_own(window, qtbot):
+def test_drag_reuses_a_nearby_radius_search_and_the_final_outline_gets_its_own(window, qtbot, tmp_path):
     from profilebench.assess.analysis import analyze
 
+    from sample_variants import bubble_van_project
+    from profilebench.io import save_project
+
     w = window
-    van = next(p for p in sample_paths() if p.stem == "kestrel_courier_van")
+    van = save_project(bubble_van_project(), tmp_path / "bubble_van.json")
     assert w.open_file(van)
     wait_current(qtbot, w)
     assert w.analysis.radius_searches and not w.analysis.provisional
