@@ -67,6 +67,68 @@ CLOSED_FULL_REAR = 0.5
 CLOSED_STRIDE = 2
 
 
+# The boundary-layer methods hold above this Reynolds number on the section's length: Michel's
+# transition criterion was fitted to data for 1e5 < Re_x < 4e7 (Cebeci & Bradshaw, Momentum
+# Transfer in Boundary Layers, 1977, on Michel 1951: from memory), and below it the layer of a
+# road-vehicle section would be laminar over lengths where Thwaites' and Head's methods give no
+# transition at all. A section below it is refused as bad input (raise the speed).
+RE_MIN = 1e5
+
+# A two-dimensional section's Cd (on its frontal height) above this is implausible: the highest
+# two-dimensional drag coefficients in the handbooks are about 2.0 for a flat plate normal to the
+# stream (Fage & Johansen 1927), 2.1-2.2 for a sharp-edged square section (Delany & Sorensen,
+# NACA TN 3038, 1953) and about 2.3 for a half-tube with its open side upstream (Hoerner,
+# Fluid-Dynamic Drag, 1965, ch. 3, from memory); 3.0 leaves room for the corner corrections.
+CD_MAX = 3.0
+
+
+def _plausibility(drag):
+    """The reason the drag estimate fails a physical check, or None.
+
+    Checks: every part finite; Cd >= 0 and <= CD_MAX; skin friction >= 0 (the layer drags the
+    body downstream; a negative sum means the surfaces were marched against the flow); base drag
+    >= 0 (the separated part of the outline faces downstream; a negative sum means the "wake"
+    covers a face that looks upstream, the layer having left the body at its front).
+    """
+    numbers = [drag.cd, drag.cl, drag.cd_friction, drag.cd_pressure, drag.cd_base]
+    parts = (f"friction {drag.cd_friction:.4g}, pressure {drag.cd_pressure:.4g}, base "
+             f"{drag.cd_base:.4g}, corners {drag.cd_corners:.4g}")
+    if not _finite(numbers):
+        return "the drag estimate is not finite"
+    if drag.cd < 0.0:
+        return f"Cd = {drag.cd:.4g} is negative ({parts})"
+    if drag.cd > CD_MAX:
+        return (f"Cd = {drag.cd:.4g} exceeds {CD_MAX:g}, more than any two-dimensional section "
+                f"is known to have ({parts})")
+    if drag.cd_friction < 0.0:
+        return f"the skin friction sums to {drag.cd_friction:.4g}, against the flow ({parts})"
+    if drag.cd_base < 0.0:
+        return (f"the base drag is {drag.cd_base:.4g}: the separated part of the outline faces "
+                f"upstream ({parts})")
+    return None
+
+
+def _panelling_failure(profile, conditions, exc):
+    """An Analysis for a panel count that cannot put a panel end on every sharp node."""
+    from profilebench.assess.conditions import PANELS_RANGE
+    from profilebench.geometry.outline import canonical_outline
+
+    outline = canonical_outline(profile)
+    sharp = len(outline.sharp_edges)
+    # as the panelling counts them: the sections start at the outline's start and at each edge
+    need = int(np.unique(np.concatenate([[0.0], [e.s for e in outline.sharp_edges]])).size)
+    if need <= PANELS_RANGE[1]:
+        advice = (f"give at least {need} panels (about {min(2 * need, PANELS_RANGE[1])} for "
+                  "usable results)")
+    else:
+        advice = (f"the outline has {sharp} sharp nodes, more than the {PANELS_RANGE[1]} panels "
+                  "allowed: make the nodes of smooth stretches smooth (or simplify the outline) "
+                  "so that fewer sharp nodes remain")
+    return Analysis(AnalysisStatus.PANELLING_FAILED,
+                    f"{conditions.panels} panels cannot resolve this outline ({exc}); {advice}",
+                    profile, conditions)
+
+
 def _check_args(profile, conditions):
     if not isinstance(profile, Profile):
         raise InputError(f"profile must be a profilebench Profile, got {type(profile).__name__}")
@@ -147,7 +209,10 @@ def corner_verdict(profile, conditions, node, thickness=None):
     except ProfileBenchError:
         return None
     m = measure(profile)
-    flow = _flow(profile, conditions, panelling, m.height)
+    try:
+        flow = _flow(profile, conditions, panelling, m.height)
+    except ProfileBenchError:
+        return None
     if not flow.success:
         return None
     spans = all_spans(panelling, m.height)
@@ -276,16 +341,35 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
         validate(profile, ground=conditions.ground)
     except ProfileBenchError as exc:
         return Analysis(AnalysisStatus.INVALID_GEOMETRY, str(exc), profile, conditions)
-    panelling = panelize(profile, conditions.panels)
     m = measure(profile)
-    timings["geometry"] = time.perf_counter() - t0
     height = m.height
     t_ref = height if thickness is None else float(thickness)
     if not (math.isfinite(t_ref) and t_ref > 0):
         raise InputError(f"thickness {thickness!r} must be a positive length in metres")
+    re_l = conditions.reynolds(m.length)
+    if not re_l >= RE_MIN:
+        v_min = RE_MIN * conditions.nu / m.length
+        raise InputError(
+            f"the section Reynolds number on its length ({m.length:.3g} m) is {re_l:.3g} at "
+            f"{conditions.speed:.3g} m/s, below {RE_MIN:.0e}, where the boundary-layer methods "
+            f"hold (Michel's transition criterion was fitted above it); give a speed of at least "
+            f"{v_min:.3g} m/s (or a larger outline)")
+    try:
+        panelling = panelize(profile, conditions.panels)
+    except InputError as exc:
+        return _panelling_failure(profile, conditions, exc)
+    timings["geometry"] = time.perf_counter() - t0
 
     t1 = time.perf_counter()
-    flow = _flow(profile, conditions, panelling, height)
+    try:
+        flow = _flow(profile, conditions, panelling, height)
+    except ProfileBenchError as exc:
+        # the solver refused what it built itself (a surface too short to march, say): not the
+        # user's input, so a failed analysis with what to try
+        return Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED,
+                        f"the flow solution failed on this outline at {conditions.panels} panels "
+                        f"({exc}); try another panel count (say {conditions.panels + 50}) or "
+                        "larger radii at the tightest corners", profile, conditions, m, panelling)
     timings["flow"] = time.perf_counter() - t1
     if not flow.success:
         status = (AnalysisStatus.INVISCID_FAILED if flow.status.name == "INVISCID_FAILED"
@@ -334,16 +418,18 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
     corners = assess_corners(profile, panelling, flow, t_ref, table=table, table_flagged=flagged,
                              attached_ratios=attached_ratios, spans=spans, regions=regions)
     drag = estimate_drag(flow, conditions, height,
-                         corner_penalties=[c.delta_cd for c in corners])
+                         corner_penalties=[c.delta_cd for c in corners],
+                         edge_points=_edge_points(panelling))
     timings["assess"] = time.perf_counter() - t2
     timings["total"] = time.perf_counter() - t0
     events = _events(flow)
-    numbers = [drag.cd, drag.cl, drag.cd_friction, drag.cd_pressure, drag.cd_base, drag.cda,
-               drag.force, drag.power]
-    if not _finite(numbers):
-        return Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED,
-                        "the drag estimate is not finite; refine the panelling or smooth the outline",
-                        profile, conditions, m, panelling, flow)
+    reason = _plausibility(drag)
+    if reason is not None:
+        return Analysis(AnalysisStatus.IMPLAUSIBLE,
+                        f"{reason}; the analysis is not a result. This is a failure of the "
+                        f"solver on this outline, not of your input: try another panel count "
+                        f"(say {min(conditions.panels * 2, 2000)}), rounder corners, or a "
+                        "different trailing-edge setting", profile, conditions, m, panelling, flow)
     return Analysis(
         status=AnalysisStatus.SUCCESS, message="analysis complete", profile=profile,
         conditions=conditions, measures=m, panelling=panelling, flow=flow, corners=corners,

@@ -30,6 +30,8 @@ class AnalysisStatus(enum.Enum):
     INVALID_GEOMETRY = "invalid geometry"      # the outline failed a validity check
     INVISCID_FAILED = "inviscid solve failed"  # singular panel system
     BOUNDARY_LAYER_FAILED = "boundary-layer march failed"
+    PANELLING_FAILED = "panelling failed"      # the panel count cannot resolve the outline
+    IMPLAUSIBLE = "implausible result"         # the numbers fail a physical check (see analysis)
 
 
 class Verdict(enum.Enum):

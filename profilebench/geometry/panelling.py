@@ -202,8 +202,8 @@ def _panelize_nodes(profile, n: int) -> Panelling:
     bounds = np.unique(np.concatenate([[0.0], s_edges]))
     if bounds.size > n:
         raise InputError(
-            f"{n} panels cannot put a panel end on each of the {bounds.size} sharp nodes; use "
-            f"at least {2 * bounds.size} panels"
+            f"{n} panels cannot put a panel end on each of the {bounds.size} sharp nodes; it "
+            f"takes at least {bounds.size} panels"
         )
     ell = _EDGE_LENGTH * S
     # grid for the cumulative density: uniform, piece ends, section bounds, dense near edges
