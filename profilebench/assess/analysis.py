@@ -65,6 +65,10 @@ WAKE_RATIO = 10.0
 FIT_RATIO = 0.06
 CLOSED_FULL_REAR = 0.5
 CLOSED_STRIDE = 2
+# An arc with more points than this keeps every second one in the closed-body pass (at least 8
+# per 90 degrees either way: the panelling gives each arc at least 9 per 90 degrees and, with
+# its clustering round the fillets, usually far more). A choice of this project, no source.
+CLOSED_ARC_POINTS = 16
 
 
 # The boundary-layer methods hold above this Reynolds number on the section's length: Michel's
@@ -156,13 +160,12 @@ def _edge_points(panelling):
 def _closed_points(panelling, height):
     """Points of the coarser panelling for the wake model's closed-body pass.
 
-    Every ``CLOSED_STRIDE``-th panel point; every point of each corner's arc; every point of the
-    rear part (``x`` within ``CLOSED_FULL_REAR`` h of the rearmost point), where the final
-    separations of a road vehicle lie and where their position must match the full panelling's
-    (it places the wake). The closed-body pass only locates the separation points and corner
-    bubbles; on these points (about 60 % of them) it costs about half as much. A separation
-    found outside the fully panelled stretches makes the flow solver repeat the pass on all
-    points.
+    Every ``CLOSED_STRIDE``-th panel point (in the canonical order); every point of each
+    corner's arc (every second one on an arc of more than ``CLOSED_ARC_POINTS``); every point of
+    the rear part (``x`` within ``CLOSED_FULL_REAR`` h of the rearmost point), where the final
+    separations of a road vehicle lie. The closed-body pass only locates the separation points
+    (the wake starts there, projected on the full outline) and the corner bubbles; on these
+    points (about 60-75 % of them) it costs about half as much.
     """
     pts = panelling.points
     n = len(pts)
@@ -174,11 +177,11 @@ def _closed_points(panelling, height):
     keep |= pts[:, 0] >= float(pts[:, 0].max()) - CLOSED_FULL_REAR * height
     for span in panelling.corners:
         i0, i1 = int(span.point_start), int(span.point_end)
-        if i1 >= i0:
-            keep[i0:i1 + 1] = True
-        else:  # the arc runs through point 0
-            keep[i0:] = True
-            keep[:i1 + 1] = True
+        arc = np.arange(i0, (i1 if i1 >= i0 else i1 + n) + 1) % n    # may run through point 0
+        if arc.size > CLOSED_ARC_POINTS:
+            # a well-panelled arc keeps every second point (its ends always)
+            arc = np.concatenate([arc[::2], arc[-1:]])
+        keep[arc] = True
     return np.flatnonzero(keep)
 
 

@@ -75,7 +75,9 @@ class SurfaceFlow:
     def surface_s(self, sigma):
         """Surface arc length of an outline arc length, or None if it is not on this surface."""
         s = float(np.mod(self.direction * (sigma - self.surface.s_start), self.perimeter))
-        return s if s <= float(self.surface.s_end) + 1e-9 else None
+        if s > self.perimeter - 1e-6:   # a hair before the start (rounding)
+            s = 0.0
+        return min(s, float(self.surface.s_end)) if s <= float(self.surface.s_end) + 1e-6 else None
 
 
 @dataclass(frozen=True)
@@ -408,6 +410,15 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     else:
         j_u = _nearest_point(point_sigma, perimeter, sig[0])
         j_l = _nearest_point(point_sigma, perimeter, sig[1])
+    # an edge separation is reported at the station just ahead of its edge: the wake starts at
+    # the edge itself (the nearest sharp edge's point), not at a point next to it
+    edge_idx = [_nearest_point(point_sigma, perimeter, e) for e in edge_sigma]
+    js = []
+    for j, sep in ((j_u, seps[0]), (j_l, seps[1])):
+        if sep is not None and sep.kind == "edge_separation" and edge_idx:
+            j = min(edge_idx, key=lambda k: float(np.hypot(*(pts[k] - pts[j]))))
+        js.append(j)
+    j_u, j_l = js
     d = int(first.upper.direction)
     # a corner bubble is judged on the closed body's surface length (the wake-model surface plus
     # the closed surface behind its final separation; see the module docstring)
@@ -474,11 +485,6 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     return dataclasses.replace(flow, closed=first, wake_points=new_pts), ""
 
 
-# A coarse closed-body pass is trusted only where the points this far either side of a final
-# separation point are all in it (common practice, no source).
-_CLOSED_NEIGHBOURS = 3
-
-
 def _outline_sigma(pts):
     """Perimeter (m) and arc length of each point from points[0] (m) of a closed outline."""
     seg = np.diff(np.vstack([pts, pts[:1]]), axis=0)
@@ -524,17 +530,6 @@ def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed,
         return None
     perimeter, point_sigma = _outline_sigma(pts)
     edge_sigma = [float(point_sigma[int(k)]) for k in edge_points]
-    # the wake starts at the full outline's points nearest the separation points: they (and
-    # their neighbours) must have been in the coarse pass, or the position is not trusted
-    in_sub = np.zeros(n, dtype=bool)
-    in_sub[sub] = True
-    for sfl in (first.upper, first.lower):
-        sep = sfl.bl.separation
-        s_at = float(sep.s) if sep is not None else float(sfl.surface.s_end)
-        x, y = _separation_xy(sfl, s_at)
-        j = int(np.argmin(np.hypot(pts[:, 0] - x, pts[:, 1] - y)))
-        if not in_sub[(j + np.arange(-_CLOSED_NEIGHBOURS, _CLOSED_NEIGHBOURS + 1)) % n].all():
-            return None
     flow, note = _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed,
                             transition, h_separation, reattach_length, wake_length, base_pressure,
                             coarse=True, fit_length=fit_length)

@@ -25,7 +25,7 @@ from __future__ import annotations
 
 import bisect
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 from scipy.interpolate import CubicSpline
@@ -360,6 +360,7 @@ class Outline:
     arcs: tuple
     sharp_edges: tuple
     orientation: int
+    _samples: dict = field(default_factory=dict, init=False, repr=False, compare=False)
 
     def _locate(self, s):
         s = np.mod(np.asarray(s, float), self.length)
@@ -439,7 +440,12 @@ class Outline:
         """``n`` points (m) evenly spaced in arc length from s = 0, first not repeated."""
         if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or n < 3:
             raise InputError(f"sample count {n!r} must be an integer >= 3")
-        return self.points_at(np.linspace(0.0, self.length, int(n), endpoint=False))
+        got = self._samples.get(int(n))
+        if got is None:   # remembered: the validity check and the panelling both sample
+            got = self.points_at(np.linspace(0.0, self.length, int(n), endpoint=False))
+            got.setflags(write=False)
+            self._samples[int(n)] = got
+        return got
 
     def boundary_quadrature(self):
         """Points, derivatives and weights for integrals round the outline.
@@ -634,15 +640,17 @@ def _check_nodes(profile):
 def canonical_order(profile):
     """(order, reversed) of the profile's nodes in the canonical order.
 
-    Canonical: counter-clockwise (by the signed area of the node polygon), starting at the node
-    with the smallest x (ties: the smallest y). ``order[k]`` is the index in ``profile`` of the
+    Canonical: counter-clockwise (by the signed area of the node polygon), starting at the corner
+    (non-smooth) node with the smallest x (ties: the smallest y), or at the node with the smallest
+    x when all are smooth (a smooth run is then never cut at the start). ``order[k]`` is the index in ``profile`` of the
     canonical node k; ``reversed`` is True when the profile runs clockwise. The same outline
     given from any node or either way round has one canonical order.
     """
     xy = np.array([(nd.x, nd.y) for nd in profile.nodes], dtype=float)
     area2 = float(np.sum(xy[:, 0] * np.roll(xy[:, 1], -1) - np.roll(xy[:, 0], -1) * xy[:, 1]))
     m = len(xy)
-    start = min(range(m), key=lambda i: (xy[i, 0], xy[i, 1]))
+    corners = [i for i, nd in enumerate(profile.nodes) if not nd.smooth] or list(range(m))
+    start = min(corners, key=lambda i: (xy[i, 0], xy[i, 1]))
     rev = area2 < 0.0
     step = -1 if rev else 1
     return tuple((start + step * k) % m for k in range(m)), rev

@@ -41,6 +41,7 @@ _EDGE_FULL_ANGLE = math.radians(30.0)  # an edge turning this much or more is fu
 # by at most 1.6 % (measured on the four samples; calibrated choices of this project, no source).
 _ARC_CLUSTER = 6.0
 _STEEP = 3.0
+_STEEP_SAMPLES = 2000   # as profilebench.geometry.validity samples the outline
 _GRID = 2048
 _REFERENCE_PANELS = 250  # the usual count; at or below it an arc gets c = _PANELS_PER_RADIAN
 
@@ -226,10 +227,12 @@ def _panelize_nodes(profile, n: int) -> Panelling:
         d = np.where(grid < lo, lo - grid, np.where(grid > hi, grid - hi, 0.0))
         d = np.minimum(d, S - d)
         clus += amp * np.exp(-d / ell)
-    xy = o.points_at(grid)
-    dxy = np.gradient(xy, grid, axis=0)
-    steep = np.abs(dxy[:, 1]) / np.maximum(np.hypot(dxy[:, 0], dxy[:, 1]), 1e-300)   # |n_x|
-    clus += _STEEP * steep
+    # |n_x| = |dy/ds| on the outline's uniform sample (the one the validity check takes too)
+    xy = o.sample(_STEEP_SAMPLES)
+    s_st = np.linspace(0.0, S, _STEEP_SAMPLES, endpoint=False)
+    dxy = np.roll(xy, -1, axis=0) - np.roll(xy, 1, axis=0)
+    steep = np.abs(dxy[:, 1]) / np.maximum(np.hypot(dxy[:, 0], dxy[:, 1]), 1e-300)
+    clus += _STEEP * np.interp(grid, s_st, steep, period=S)
     base = grid + np.concatenate([[0.0], np.cumsum(0.5 * (clus[1:] + clus[:-1]) * np.diff(grid))])
     turn = o.cumulative_turn(grid)
     turn -= turn[0]

@@ -96,15 +96,18 @@ def test_outline_solution_midpoints_and_arc_length():
     assert sol.success and sol.ground
 
 
-def test_a_separation_outside_the_full_stretches_repeats_the_pass_on_all_points():
+def test_a_coarse_pass_everywhere_places_the_wake_where_the_full_pass_does():
     _, pan = _box_points()
     full = _flow(pan.points)
-    # every other point everywhere: the separation points' neighbourhoods are not all in the
-    # coarse pass, so the flow solver must fall back to the full closed-body pass, bit for bit
-    # (the reference is the same call without closed_points)
+    # every other point everywhere (no fully panelled rear): the wake still starts at the coarse
+    # pass's separation points, projected on the full outline, within 20 mm of the
+    # full pass's, and the pressure drag agrees to 1 % (consistency with this package's own full
+    # pass; tolerances common practice, no source)
     again = _flow(pan.points, _coarse(pan, rear_window=None))
-    assert again.closed.inviscid.n_panels == len(pan.points)
-    np.testing.assert_array_equal(again.inviscid.cp, full.inviscid.cp)
+    assert again.closed.inviscid.n_panels < len(pan.points)
+    for a, b in zip(again.surfaces, full.surfaces):
+        assert float(a.surface.s_end) == pytest.approx(float(b.surface.s_end), abs=0.02)
+    assert _pressure_drag(again) == pytest.approx(_pressure_drag(full), rel=0.01)
 
 
 @pytest.mark.parametrize("bad", [[0, 2, 400], [-1, 4, 8], [0.5, 2.0, 4.0]])
