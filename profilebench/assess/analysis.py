@@ -20,7 +20,7 @@ from profilebench.assess.conditions import Conditions
 import threading
 from collections import OrderedDict
 
-from profilebench.assess.corners import (EDGE_TURN_DEG, surface_verdict, all_spans, assess_corners,
+from profilebench.assess.corners import (EDGE_TURN_DEG, SEPARATION_KINDS, surface_verdict, all_spans, assess_corners,
                                          corner_regions, corners_needing_floor,
                                          smallest_attached_radius)
 from profilebench.assess.drag import estimate_drag
@@ -288,15 +288,24 @@ def nearby_radius_search(profile, conditions, node, thickness=None, within=0.0):
 
 
 def _events(flow):
+    """The flow events for the user. A separation after which the layer reattaches (the march
+    restarted turbulent behind it: a corner bubble) is a "bubble_separation", drawn with its own
+    marker, so that it is not read as the final separation."""
     events = []
     for sfl in flow.surfaces:
         sf = sfl.surface
         s_arr = np.asarray(sf.s)
+        restarts = [float(r.s) for r in sfl.restarts]
         for e in sfl.bl.events:
             x = float(np.interp(e.s, s_arr, sf.x))
             y = float(np.interp(e.s, s_arr, sf.y))
-            events.append(FlowEvent(kind=str(e.kind), surface=sfl.name, s=float(e.s), x=x, y=y,
-                                    detail=str(getattr(e, "detail", ""))))
+            kind, detail = str(e.kind), str(getattr(e, "detail", ""))
+            if kind in SEPARATION_KINDS and any(abs(float(e.s) - r) <= 1e-9 for r in restarts):
+                detail = (f"{kind.replace('_', ' ')}: {detail}; the layer reattaches behind it "
+                          "(the march restarts turbulent)")
+                kind = "bubble_separation"
+            events.append(FlowEvent(kind=kind, surface=sfl.name, s=float(e.s), x=x, y=y,
+                                    detail=detail))
     st = flow.upper.surface.stagnation
     events.insert(0, FlowEvent(kind="stagnation", surface="", s=0.0, x=float(st[0]), y=float(st[1]),
                                detail="front stagnation point"))

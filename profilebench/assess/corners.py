@@ -2,9 +2,10 @@
 smallest radius that keeps the flow attached.
 
 A corner is every node that is not smooth: a rounded node (radius > 0) or a sharp one. Its
-*region* on the surface runs from the start of its arc to the start of the next convex corner
-downstream on the same surface (or the surface's end): a separation anywhere in that region (on
-the arc, or in the pressure recovery behind it) is the corner's.
+*region* on the surface runs from the start of its arc (for a concave corner, a little ahead of
+it) to the start of the next corner's region downstream on the same surface, at most
+``CORNER_REACH_RATIO`` h behind a convex arc: a separation in that region (on the arc, or in the
+pressure recovery behind it) is the corner's. All bounds are lengths, never station counts.
 
 The thickness t of r/t is the profile's frontal height h unless the caller gives another.
 """
@@ -97,6 +98,13 @@ def curvature_peaks(panelling, height):
 # upstream (from memory); 0.15 h is a calibrated choice of this project, no source.
 CONCAVE_APPROACH_RATIO = 0.15
 
+# A convex corner owns a separation that starts on its arc or at most this many frontal heights
+# behind the arc's end (its pressure recovery); one further downstream is the surface's, not
+# the corner's: it gets no corner correction and the corner reads attached. On the samples the
+# corners' separations start 0.006 to 0.13 h behind their arcs (measured); 0.25 h is a choice of
+# this project, no source.
+CORNER_REACH_RATIO = 0.25
+
 
 def _arc_positions(panelling, flow, spans):
     """(surface index or -1, s_start, s_end) of each span's arc on the surface it lies on."""
@@ -128,7 +136,8 @@ def corner_regions(panelling, flow, spans=None):
     A corner's region starts where its arc starts on the surface (for a concave corner,
     ``CONCAVE_APPROACH_RATIO`` frontal heights ahead of it, but not before the arc of the corner
     upstream ends) and runs to the start of the next corner's region downstream on the same
-    surface (``bounded`` True), or to the surface's end. Regions are half-open: an event at the
+    surface (``bounded`` True), or to the surface's end; a convex corner's region ends at most
+    ``CORNER_REACH_RATIO`` frontal heights behind its arc. Regions are half-open: an event at the
     very start of the next corner's region belongs to that corner. All bounds are lengths on the
     outline, not station indices, so they do not move when the panels are refined.
     """
@@ -137,6 +146,7 @@ def corner_regions(panelling, flow, spans=None):
     pts = np.asarray(panelling.points, dtype=float)
     height = float(pts[:, 1].max() - pts[:, 1].min())
     approach = CONCAVE_APPROACH_RATIO * height
+    reach = CORNER_REACH_RATIO * height
     starts = []
     for i, (k, lo, hi) in enumerate(placed):
         if k < 0:
@@ -159,6 +169,8 @@ def corner_regions(panelling, flow, spans=None):
             if j != i and k2 == k and lo2 > hi + 1e-9 and starts[j] <= end + 1e-9:
                 end = max(starts[j], hi)
                 bounded = True
+        if spans[i].convex and hi + reach < end:
+            end, bounded = hi + reach, True
         regions.append((k, starts[i], max(hi, end), bounded))
     return regions
 
@@ -187,8 +199,8 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=())
     """Solver verdict, margin and a detail sentence for one corner region of a surface.
 
     A separation after which the march restarted (the layer reattaches behind it) is, at a
-    concave corner, the corner's bubble (verdict CONCAVE, no drag correction: it is not a radius
-    to enlarge); at a convex corner it is the corner's separation.
+    concave corner, the corner's bubble (verdict CONCAVE_BUBBLE, no drag correction: it is not a
+    radius to enlarge); at a convex corner it is the corner's separation.
     """
     events = list(bl.events)
     tol = 1e-6   # m: positions closer than this are the same place
@@ -234,7 +246,7 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=())
             detail += f", after a laminar bubble at s = {float(bubble[0].s) * 1e3:.0f} mm"
         return verdict, 0.0, detail
     if not convex and concave_bubble is not None:
-        return Verdict.CONCAVE, 0.0, (
+        return Verdict.CONCAVE_BUBBLE, 0.0, (
             f"concave corner; the layer separates in the adverse gradient ahead of it at "
             f"s = {float(concave_bubble.s) * 1e3:.0f} mm and reattaches (a bubble in the corner)")
     if bubble is not None:
@@ -332,6 +344,9 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
             # the table holds its last value beyond its data: a floor past the end is the end
             floor = min(floor, table.ratios[-1])
             delta_cd = float(table_share * table.penalty(r_over_t, attached_ratio=floor))
+            if delta_cd:
+                detail += (f"; drag correction {delta_cd:+.4f} for this separation (the layer "
+                           f"reattaches behind it; attached from r/t {floor:.3f})")
         name, critical, tverdict, disagreement = _table_view(table, r_over_t, verdict, table_flagged)
         out.append(CornerResult(
             node=span.node, label=label,

@@ -44,6 +44,7 @@ class Verdict(enum.Enum):
     EDGE_SEPARATION = "sharp-edge separation"
     IN_WAKE = "in separated flow upstream"
     CONCAVE = "concave corner"
+    CONCAVE_BUBBLE = "concave corner, bubble reattaches"   # separates ahead of it, reattaches
 
     @property
     def separated(self) -> bool:
@@ -137,7 +138,8 @@ class DragBreakdown:
 class FlowEvent:
     """A boundary-layer event placed on the profile: kind, surface, arc length and position (m)."""
 
-    kind: str                    # transition, laminar_separation, reattachment, turbulent_separation, edge_separation, stagnation
+    kind: str                    # transition, laminar_separation, reattachment, turbulent_separation,
+                                 # edge_separation, bubble_separation (reattaches behind), stagnation
     surface: str                 # "upper" or "lower"
     s: float                     # arc length on that surface from the stagnation point
     x: float

@@ -490,6 +490,8 @@ class ProfileCanvas(QWidget):
             path.addEllipse(QPointF(0, 0), h, h)
         elif marker == "^":
             path.addPolygon(QPolygonF([QPointF(0, -h), QPointF(h, h * 0.8), QPointF(-h, h * 0.8), QPointF(0, -h)]))
+        elif marker == "v":
+            path.addPolygon(QPolygonF([QPointF(0, h), QPointF(h, -h * 0.8), QPointF(-h, -h * 0.8), QPointF(0, h)]))
         elif marker == "D":
             path.addPolygon(QPolygonF([QPointF(0, -h), QPointF(h * 0.75, 0), QPointF(0, h), QPointF(-h * 0.75, 0), QPointF(0, -h)]))
         elif marker == "s":

@@ -57,7 +57,8 @@ def bubbles(events):
                 if f.kind == "reattachment":
                     pairs.append((e, f))
                     break
-                if f.kind in ("laminar_separation", "turbulent_separation", "edge_separation"):
+                if f.kind in ("laminar_separation", "turbulent_separation", "edge_separation",
+                              "bubble_separation"):
                     break
     return pairs
 

@@ -52,6 +52,7 @@ EVENT_STYLES = {
     "reattachment": MarkerStyle("P", OKABE_ITO["bluish_green"], OKABE_ITO["black"], "bubble reattachment", 10.0),
     "turbulent_separation": MarkerStyle("X", OKABE_ITO["vermillion"], OKABE_ITO["black"], "turbulent separation", 10.0),
     "edge_separation": MarkerStyle("s", OKABE_ITO["reddish_purple"], OKABE_ITO["black"], "sharp-edge separation", 8.0),
+    "bubble_separation": MarkerStyle("v", "white", OKABE_ITO["vermillion"], "separation, reattaches", 9.0),
 }
 
 # The laminar bubble (laminar separation followed by reattachment on the same surface) is drawn

@@ -50,7 +50,7 @@ def corner_rows(analysis):
     for c in analysis.corners:
         verdict = getattr(c.verdict, "value", str(c.verdict))
         # no margin for a concave corner or one already in separated flow from upstream
-        in_wake = getattr(c.verdict, "name", "") in ("IN_WAKE", "CONCAVE")
+        in_wake = getattr(c.verdict, "name", "") in ("IN_WAKE", "CONCAVE", "CONCAVE_BUBBLE")
         margin = "" if (not c.convex or in_wake) else f"{100 * c.margin:.0f}%"
         rows.append((
             c.label or f"node {c.node}", f"{c.radius * 1000:.1f}", f"{c.thickness * 1000:.1f}",

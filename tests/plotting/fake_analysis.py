@@ -118,7 +118,8 @@ def fake_analysis(*, events=True, name="fake ellipse", ground=True) -> Analysis:
         separated[idx[s > s_sep]] = True
         at = lambda sv: (float(np.interp(sv, s, xs)), float(np.interp(sv, s, ys)))
         if name_s == "upper":
-            kinds = [("transition", s_tr), ("turbulent_separation", s_sep)]
+            kinds = [("transition", s_tr), ("bubble_separation", 0.5 * (s_tr + s_sep)),
+                     ("turbulent_separation", s_sep)]
         else:
             kinds = [("laminar_separation", 1.0), ("reattachment", 1.4), ("transition", s_tr),
                      ("edge_separation", s_sep)]
