@@ -71,11 +71,12 @@ CLOSED_STRIDE = 2
 CLOSED_ARC_POINTS = 16
 
 
-# The boundary-layer methods hold above this Reynolds number on the section's length: Michel's
-# transition criterion was fitted to data for 1e5 < Re_x < 4e7 (Cebeci & Bradshaw, Momentum
-# Transfer in Boundary Layers, 1977, on Michel 1951: from memory), and below it the layer of a
-# road-vehicle section would be laminar over lengths where Thwaites' and Head's methods give no
-# transition at all. A section below it is refused as bad input (raise the speed).
+# The boundary-layer methods hold above this Reynolds number on the section's larger extent
+# (length or height): Michel's transition criterion was fitted to data for 1e5 < Re_x < 4e7
+# (Cebeci & Bradshaw, Momentum Transfer in Boundary Layers, 1977, on Michel 1951: from memory),
+# and below it the layer of a road-vehicle section would be laminar over lengths where
+# Thwaites' and Head's methods give no transition at all. A section below it is refused as bad
+# input (raise the speed).
 RE_MIN = 1e5
 
 # A two-dimensional section's Cd (on its frontal height) above this is implausible: the highest
@@ -358,11 +359,14 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
     t_ref = height if thickness is None else float(thickness)
     if not (math.isfinite(t_ref) and t_ref > 0):
         raise InputError(f"thickness {thickness!r} must be a positive length in metres")
-    re_l = conditions.reynolds(m.length)
+    # on the section's larger extent: its length, or its height for a section standing across
+    # the stream (a plate normal to it), along which its front layer runs
+    extent = max(m.length, m.height)
+    re_l = conditions.reynolds(extent)
     if not re_l >= RE_MIN:
-        v_min = RE_MIN * conditions.nu / m.length
+        v_min = RE_MIN * conditions.nu / extent
         raise InputError(
-            f"the section Reynolds number on its length ({m.length:.3g} m) is {re_l:.3g} at "
+            f"the section Reynolds number on its larger extent ({extent:.3g} m) is {re_l:.3g} at "
             f"{conditions.speed:.3g} m/s, below {RE_MIN:.0e}, where the boundary-layer methods "
             f"hold (Michel's transition criterion was fitted above it); give a speed of at least "
             f"{v_min:.3g} m/s (or a larger outline)")

@@ -192,7 +192,7 @@ def test_a_section_reynolds_number_below_the_methods_range_is_refused(speed):
 
 def test_the_reynolds_floor_is_where_it_says():
     body = SAMPLES["kestrel_test_body"]
-    length = 2.0   # the test body's length (m)
+    length = 2.0   # the test body's length (m), its larger extent
     v_floor = RE_MIN * body.conditions.nu / length
     assert analyze(body.profile, body.conditions.replace(speed=1.01 * v_floor)).status is not None
     with pytest.raises(InputError):
