@@ -7,10 +7,13 @@ Subcommands::
                               [--h-separation H] [--panels N] [--altitude M]
     profilebench compare BASELINE VARIANT [condition options]
     profilebench corners FILE [--smallest] [condition options]
+    profilebench import OUTLINE.csv PROJECT.json [--simplify MM] [--units mm|m] [conditions]
     profilebench samples
     profilebench bench [--only NAME ...] [--skip NAME ...]
 
-Without a subcommand the desktop editor starts (``profilebench PROJECT.json`` opens that file in
+FILE may be a project file (.json) or a CSV outline of x, y points (mm or m, see --units), which
+is analysed with the default conditions and the options given. Without a subcommand the desktop
+editor starts (``profilebench PROJECT.json`` opens that file in
 it). Exit codes: 0 success, 1 an analysis did not
 succeed (its message is printed), 2 bad input (the error's message is printed, no traceback).
 """
@@ -39,6 +42,12 @@ class _Failed(Exception):
 
 
 # --- argument parsing --------------------------------------------------------------------------
+
+def _add_units_option(p):
+    p.add_argument("--units", choices=("auto", "mm", "m"), default="auto",
+                   help="unit of a CSV outline's numbers (default: from its header, else mm when "
+                        "the extents exceed 50)")
+
 
 def _add_condition_options(p):
     g = p.add_argument_group("conditions (override the project file's)")
@@ -70,22 +79,35 @@ def build_parser() -> argparse.ArgumentParser:
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
 
     p = sub.add_parser("analyse", aliases=["analyze"],
-                       help="analyse a project file: summary table, optional image, CSV, JSON")
-    p.add_argument("file", help="project file (.json)")
+                       help="analyse a project file or a CSV outline: summary table, optional "
+                            "image, CSV, JSON")
+    p.add_argument("file", help="project file (.json) or outline points (.csv)")
     p.add_argument("--image", metavar="OUT", help="review page image (.png, .svg or .pdf)")
     p.add_argument("--csv", metavar="OUT", help="surface data, one row per panel station")
     p.add_argument("--json", metavar="OUT", help="results as JSON")
+    _add_units_option(p)
     _add_condition_options(p)
 
     p = sub.add_parser("compare", help="compare a variant with a baseline (b minus a)")
-    p.add_argument("baseline", help="baseline project file")
-    p.add_argument("variant", help="variant project file")
+    p.add_argument("baseline", help="baseline project file (.json) or outline points (.csv)")
+    p.add_argument("variant", help="variant project file (.json) or outline points (.csv)")
+    _add_units_option(p)
     _add_condition_options(p)
 
     p = sub.add_parser("corners", help="list the corners with r, t, r/t and verdicts")
-    p.add_argument("file", help="project file (.json)")
+    p.add_argument("file", help="project file (.json) or outline points (.csv)")
     p.add_argument("--smallest", action="store_true",
                    help="search the smallest radius that keeps the flow attached, per convex corner")
+    _add_units_option(p)
+    _add_condition_options(p)
+
+    p = sub.add_parser("import", help="write a project file from a CSV outline (x, y points)")
+    p.add_argument("outline", help="outline points (.csv): x, y columns in mm or m")
+    p.add_argument("project", help="the project file to write (.json); an existing file is kept")
+    p.add_argument("--simplify", type=float, metavar="MM",
+                   help="reduce the points to nodes no farther than this (mm) from the outline")
+    p.add_argument("--name", help="the profile's name (default: the file's name)")
+    _add_units_option(p)
     _add_condition_options(p)
 
     sub.add_parser("samples", help="list the sample project files")
@@ -101,10 +123,30 @@ def build_parser() -> argparse.ArgumentParser:
 
 # --- helpers -----------------------------------------------------------------------------------
 
-def _load(path):
+def _load(path, args=None):
+    """A project file, or a CSV outline as a project with the default conditions."""
+    if Path(str(path)).suffix.lower() == ".csv":
+        return _import_csv(path, getattr(args, "units", "auto"), getattr(args, "simplify", None),
+                           getattr(args, "name", None))
     from profilebench.io.project import load_project
 
     return load_project(path)
+
+
+def _import_csv(path, units="auto", simplify_mm=None, name=None):
+    from profilebench.assess.conditions import Conditions
+    from profilebench.io.points import import_points_csv, profile_from_points
+    from profilebench.io.project import Project
+
+    got = import_points_csv(path, units=units)
+    tol = None
+    if simplify_mm is not None:
+        if not simplify_mm > 0:
+            raise InputError(f"--simplify {simplify_mm!r}: give a positive distance in mm")
+        tol = simplify_mm / 1000.0
+    profile = profile_from_points(got.points, name=name or Path(str(path)).stem,
+                                  simplify_tolerance=tol)
+    return Project(profile=profile, conditions=Conditions())
 
 
 def _conditions(project, args):
@@ -194,7 +236,7 @@ def _cmd_analyse(args, out):
         value = getattr(args, opt)
         if value and Path(value).suffix.lower() != ext:
             raise InputError(f"--{opt} {value!r}: the file name must end in {ext}")
-    project = _load(args.file)
+    project = _load(args.file, args)
     cond = _conditions(project, args)
     analysis = _analyse(project.profile, cond, table=_user_table(args))
     _check_success(analysis, f"{args.file}")
@@ -220,7 +262,7 @@ def _cmd_analyse(args, out):
 def _cmd_compare(args, out):
     from profilebench.assess.compare import compare
 
-    pa, pb = _load(args.baseline), _load(args.variant)
+    pa, pb = _load(args.baseline, args), _load(args.variant, args)
     a = _analyse(pa.profile, _conditions(pa, args), table=_user_table(args))
     _check_success(a, f"baseline {args.baseline}")
     b = _analyse(pb.profile, _conditions(pb, args), table=_user_table(args))
@@ -256,7 +298,7 @@ def _cmd_compare(args, out):
 def _cmd_corners(args, out):
     from profilebench.plotting.summary import CORNER_COLUMNS, corner_rows, format_table
 
-    project = _load(args.file)
+    project = _load(args.file, args)
     cond = _conditions(project, args)
     analysis = _analyse(project.profile, cond, table=_user_table(args))
     _check_success(analysis, f"{args.file}")
@@ -267,6 +309,13 @@ def _cmd_corners(args, out):
         rows, failed = [], []
         for corner in analysis.corners:
             if not corner.convex:
+                continue
+            name = corner.label or f"node {corner.node}"
+            if project.profile.nodes[corner.node].smooth:
+                # a curvature peak of a smooth run: no node radius to vary
+                rows.append((name, f"{corner.radius * 1000:.1f}", "smooth", "n/a", "n/a", "0",
+                             "a curvature peak of a smooth run: make its node a corner to search "
+                             "its radius"))
                 continue
             r = smallest_attached_radius(project.profile, cond, corner.node)
             rows.append((
@@ -334,8 +383,32 @@ def _start_editor(argv):
     return int(run(["profilebench", *argv]) or 0)  # run() takes sys.argv-style lists
 
 
+def _cmd_import(args, out):
+    from profilebench.io.project import save_project
+    from profilebench.geometry import explain
+
+    target = Path(args.project)
+    if target.suffix.lower() != ".json":
+        raise InputError(f"{args.project!r}: the project file's name must end in .json")
+    if target.exists():
+        raise InputError(f"{args.project!r} exists; give a new file name (nothing was written)")
+    project = _import_csv(args.outline, args.units, args.simplify, args.name)
+    cond = _conditions(project, args)
+    problems = explain(project.profile, ground=cond.ground)
+    if problems:
+        raise InputError(f"the imported outline is not valid: {problems[0]}; nothing was written")
+    import dataclasses
+
+    save_project(dataclasses.replace(project, conditions=cond), target)
+    n = len(project.profile.nodes)
+    corners = sum(1 for nd in project.profile.nodes if not nd.smooth)
+    print(f"project written: {target} ({n} nodes, {corners} corners)", file=out)
+    return EXIT_OK
+
+
 COMMANDS = {"analyse": _cmd_analyse, "analyze": _cmd_analyse, "compare": _cmd_compare,
-            "corners": _cmd_corners, "samples": _cmd_samples, "bench": _cmd_bench}
+            "corners": _cmd_corners, "import": _cmd_import, "samples": _cmd_samples,
+            "bench": _cmd_bench}
 
 
 def main(argv=None) -> int:

@@ -1,0 +1,79 @@
+"""The command line with CSV outlines (analyse, corners, compare, import) and corners --smallest
+on outlines with smooth runs. In-process through main([...])."""
+
+import json
+
+import pytest
+
+from profilebench.cli import EXIT_BAD_INPUT, EXIT_OK, main
+from profilebench.io import load_project, sample_paths
+
+# a box van side outline in mm, clockwise, sharp corners except two chamfers (an invented shape)
+BOX_MM = [(0, 300), (0, 1500), (300, 1800), (3500, 1800), (4000, 1500), (4000, 300), (0.5, 300)]
+
+
+def _write_csv(path, points, header="x_mm,y_mm", scale=1.0):
+    lines = [header] + [f"{x * scale:.6g},{y * scale:.6g}" for x, y in points[:-1]]
+    path.write_text("\n".join(lines) + "\n")
+    return path
+
+
+@pytest.fixture
+def box_csv(tmp_path):
+    return _write_csv(tmp_path / "box.csv", BOX_MM)
+
+
+def test_analyse_takes_a_csv_outline(box_csv, capsys):
+    assert main(["analyse", str(box_csv)]) == EXIT_OK
+    out = capsys.readouterr().out
+    assert "box" in out and "Cd" in out
+
+
+def test_the_same_outline_in_metres_gives_the_same_table(box_csv, tmp_path, capsys):
+    metres = _write_csv(tmp_path / "box_m.csv", BOX_MM, header="x_m,y_m", scale=1e-3)
+    assert main(["analyse", str(box_csv)]) == EXIT_OK
+    mm_out = capsys.readouterr().out
+    assert main(["analyse", str(metres), "--units", "m"]) == EXIT_OK
+    m_out = capsys.readouterr().out
+    assert mm_out.replace("box.csv", "X").split("\n")[2:] == m_out.replace("box_m.csv", "X").split("\n")[2:]
+
+
+def test_import_writes_a_project_that_analyses_like_the_csv(box_csv, tmp_path, capsys):
+    target = tmp_path / "box.json"
+    assert main(["import", str(box_csv), str(target), "--speed", "100"]) == EXIT_OK
+    project = load_project(target)
+    assert len(project.profile.nodes) == 6
+    assert project.conditions.speed == pytest.approx(100 / 3.6)
+    # the file is never overwritten
+    before = target.read_bytes()
+    assert main(["import", str(box_csv), str(target)]) == EXIT_BAD_INPUT
+    assert target.read_bytes() == before
+    assert "exists" in capsys.readouterr().err
+
+
+def test_import_refuses_an_outline_below_the_ground_and_writes_nothing(tmp_path, capsys):
+    low = _write_csv(tmp_path / "low.csv", [(0, -10), (0, 1500), (4000, 1500), (4000, -10),
+                                            (0, -10)])
+    target = tmp_path / "low.json"
+    assert main(["import", str(low), str(target)]) == EXIT_BAD_INPUT
+    assert not target.exists()
+    assert "ground" in capsys.readouterr().err
+
+
+def test_compare_takes_csv_outlines(box_csv, tmp_path, capsys):
+    other = _write_csv(tmp_path / "taller.csv", [(x, y * 1.05 if y > 1000 else y) for x, y in BOX_MM])
+    assert main(["compare", str(box_csv), str(other)]) == EXIT_OK
+    assert "delta Cd" in capsys.readouterr().out
+
+
+@pytest.mark.parametrize("sample", sorted(p.stem for p in sample_paths()))
+def test_corners_smallest_lists_smooth_runs_instead_of_aborting(sample, capsys):
+    path = next(p for p in sample_paths() if p.stem == sample)
+    assert main(["corners", str(path), "--smallest", "--panels", "120"]) in (EXIT_OK, 1)
+    out, err = capsys.readouterr()
+    assert "is smooth" not in err
+    project = load_project(path)
+    smooth_peaks = [n for n in project.profile.nodes if n.smooth]
+    if "curvature peak" in out:
+        assert "smooth" in out.split("Smallest radius keeping the flow attached")[1]
+    assert smooth_peaks or "curvature peak" not in out
