@@ -105,7 +105,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("outline", help="outline points (.csv): x, y columns in mm or m")
     p.add_argument("project", help="the project file to write (.json); an existing file is kept")
     p.add_argument("--simplify", type=float, metavar="MM",
-                   help="reduce the points to nodes no farther than this (mm) from the outline")
+                   help="the fit's tolerance: the fitted outline stays this close (mm) to the "
+                        "points (default 5)")
     p.add_argument("--name", help="the profile's name (default: the file's name)")
     _add_units_option(p)
     _add_condition_options(p)
@@ -133,20 +134,30 @@ def _load(path, args=None):
     return load_project(path)
 
 
-def _import_csv(path, units="auto", simplify_mm=None, name=None):
+#: the tolerance (mm) of a CSV outline's fit when --simplify does not give one
+FIT_TOLERANCE_MM = 5.0
+
+
+def _import_csv(path, units="auto", simplify_mm=None, name=None, ground=True, report=None):
+    """A CSV outline fitted to a profile (profilebench.geometry.fit) as a Project with the
+    default conditions; ``report`` (a list) receives the fit's largest deviation and notes."""
     from profilebench.assess.conditions import Conditions
-    from profilebench.io.points import import_points_csv, profile_from_points
+    from profilebench.geometry.fit import fit_outline
+    from profilebench.io.points import import_points_csv
     from profilebench.io.project import Project
 
     got = import_points_csv(path, units=units)
-    tol = None
-    if simplify_mm is not None:
-        if not simplify_mm > 0:
-            raise InputError(f"--simplify {simplify_mm!r}: give a positive distance in mm")
-        tol = simplify_mm / 1000.0
-    profile = profile_from_points(got.points, name=name or Path(str(path)).stem,
-                                  simplify_tolerance=tol)
-    return Project(profile=profile, conditions=Conditions())
+    tol_mm = FIT_TOLERANCE_MM if simplify_mm is None else simplify_mm
+    if not tol_mm > 0:
+        raise InputError(f"--simplify {simplify_mm!r}: give a positive distance in mm")
+    fit = fit_outline(got.points, tolerance=tol_mm / 1000.0, ground=ground,
+                      name=name or Path(str(path)).stem)
+    if report is not None:
+        report.append(f"fitted within {fit.max_deviation * 1e3:.1f} mm of the points "
+                      f"(tolerance {tol_mm:g} mm): {len(fit.profile.nodes)} nodes, "
+                      f"{fit.corners} corners")
+        report.extend(f"note: {n}" for n in fit.notes)
+    return Project(profile=fit.profile, conditions=Conditions())
 
 
 def _conditions(project, args):
@@ -392,7 +403,9 @@ def _cmd_import(args, out):
         raise InputError(f"{args.project!r}: the project file's name must end in .json")
     if target.exists():
         raise InputError(f"{args.project!r} exists; give a new file name (nothing was written)")
-    project = _import_csv(args.outline, args.units, args.simplify, args.name)
+    report = []
+    project = _import_csv(args.outline, args.units, args.simplify, args.name,
+                          ground=not args.no_ground, report=report)
     cond = _conditions(project, args)
     problems = explain(project.profile, ground=cond.ground)
     if problems:
@@ -402,6 +415,8 @@ def _cmd_import(args, out):
     save_project(dataclasses.replace(project, conditions=cond), target)
     n = len(project.profile.nodes)
     corners = sum(1 for nd in project.profile.nodes if not nd.smooth)
+    for line in report:
+        print(line, file=out)
     print(f"project written: {target} ({n} nodes, {corners} corners)", file=out)
     return EXIT_OK
 

@@ -324,18 +324,23 @@ class MainWindow(QMainWindow):
 
     def import_points(self, path, simplify_mm: float = 5.0) -> bool:
         """Replace the profile by a CSV point outline (an undoable edit)."""
-        from profilebench.io import import_points_csv, profile_from_points
+        from profilebench.geometry.fit import fit_outline
+        from profilebench.io import import_points_csv
 
         try:
             pts = import_points_csv(path)
-            prof = profile_from_points(pts.points, name=Path(path).stem,
-                                       simplify_tolerance=simplify_mm / 1000.0)
+            fit = fit_outline(pts.points, tolerance=simplify_mm / 1000.0,
+                              ground=self.document.conditions.ground, name=Path(path).stem)
         except ProfileBenchError as exc:
             self._show_banner(f"cannot import {path}: {exc}", True)
             return False
+        prof = fit.profile
         self.push(commands.replace_profile(self.document.state, prof, f"Import {Path(path).name}"))
         self.canvas.fit()
-        self.statusBar().showMessage(f"imported {len(prof)} nodes ({pts.units}, {pts.units_reason})", 8000)
+        self.statusBar().showMessage(
+            f"imported {len(prof)} nodes, {fit.corners} corners, within "
+            f"{fit.max_deviation * 1e3:.1f} mm of the points ({pts.units}, {pts.units_reason})"
+            + (f"; {fit.notes[0]}" if fit.notes else ""), 12000)
         return True
 
     def export_image(self, path) -> bool:

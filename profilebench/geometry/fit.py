@@ -1,0 +1,423 @@
+"""Fitting an editable profile to a digitised outline (a traced photo, a CAD cut, a scan).
+
+``fit_outline(points, tolerance)`` turns a dense point list (either orientation, any start
+point, metres, noisy to about a millimetre) into a handful of nodes:
+
+1. The points are put in the canonical order (counter-clockwise from the point of least x), so
+   the same outline given clockwise or from another point gives the same profile.
+2. The outline is reduced with the Douglas-Peucker algorithm (shapely ``simplify``, topology
+   preserved) to a polygon no farther than ``tolerance`` from any point (the *reduced polygon*);
+   vertices that the noise put on a straight run are then dropped wherever the points from the
+   vertex before to the vertex after lie within ``tolerance`` of their least-squares line: the
+   *frame*.
+3. Each stretch of the frame joined by edges shorter than ``CORNER_EDGE_RATIO`` of the outline's
+   height and turning by more than ``SMOOTH_TURN_DEG`` between two long edges is a fillet when
+   its points lie within ``tolerance`` of a line-arc-line path: one node where the two long
+   edges' least-squares lines meet, with the radius that fits the points best (scipy
+   ``least_squares`` for a first guess, ``minimize_scalar`` on the path). A single vertex turning
+   by more than that between two long edges is a sharp corner where their lines meet.
+4. Frame vertices that turn little are smooth nodes (a spline through them: bonnets, screens,
+   roofs); those turning by less than ``STRAIGHT_TURN_DEG`` are left out.
+
+Every candidate is built and checked: a valid, simple outline (shapely), above the ground when
+asked, within ``tolerance`` of every point (the largest deviation is reported), and with the
+points' length and height within 0.5 % (or twice the tolerance, as each side may lie up to the
+tolerance from noisy points). If it fails, detail is given up step by step, each step kept if it
+helps: the smooth nodes made sharp, the straight runs' dropped vertices restored, the fillets
+one by one made sharp; if nothing passes, the reduced polygon itself (all vertices sharp, which
+meets the tolerance by construction) is returned, and the result's notes say so. An invalid
+profile is never returned: a point list that cannot give a valid one is refused with the reason.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from profilebench.errors import GeometryError, InputError
+from profilebench.geometry.profile import Node, Profile
+
+__all__ = ["FitResult", "fit_outline", "CORNER_EDGE_RATIO", "SMOOTH_TURN_DEG"]
+
+# A frame edge shorter than this share of the outline's height may belong to a corner's
+# stretch (a fillet's chords); longer edges are the straight runs between corners (a choice of
+# this project, no source).
+CORNER_EDGE_RATIO = 0.12
+# A corner's stretch must turn the outline by more than this (degrees); a frame vertex that
+# turns less and lies between long edges is a smooth node (a choice of this project, no source).
+SMOOTH_TURN_DEG = 20.0
+# A frame vertex between long edges turning by less than this (degrees) is a kink of the noise
+# in a straight run and is left out (a choice of this project, no source).
+STRAIGHT_TURN_DEG = 3.0
+# The fitted outline keeps the points' length and height within this share.
+EXTENT_TOLERANCE = 0.005
+
+
+@dataclass(frozen=True)
+class FitResult:
+    """A fitted profile and how well it follows the points.
+
+    ``max_deviation`` (m): the largest distance between a point and the built outline, or
+    between the built outline and the point polyline. ``corners``: the number of corner nodes
+    (sharp or with a radius). ``notes``: what the fit had to give up (a fillet tried sharp, the
+    frame returned as it is), each with where.
+    """
+
+    profile: Profile
+    max_deviation: float
+    tolerance: float
+    corners: int
+    notes: tuple[str, ...]
+
+
+def _clean(points):
+    pts = np.asarray(points, dtype=float)
+    if pts.ndim != 2 or pts.shape[1] != 2:
+        raise InputError(f"points must be an (N, 2) array of x, y in metres, got shape {pts.shape}")
+    if not np.all(np.isfinite(pts)):
+        raise InputError("points contain NaN or infinite values; give finite coordinates")
+    keep = np.ones(len(pts), dtype=bool)
+    keep[1:] = np.any(np.abs(np.diff(pts, axis=0)) > 0.0, axis=1)
+    pts = pts[keep]
+    if len(pts) > 1 and np.array_equal(pts[0], pts[-1]):
+        pts = pts[:-1]
+    if len(pts) < 3:
+        raise InputError(f"only {len(pts)} distinct point(s); an outline needs at least 3 points")
+    return pts
+
+
+def _canonical(pts):
+    area2 = float(np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1]))
+    if area2 < 0.0:
+        pts = pts[::-1]
+    start = min(range(len(pts)), key=lambda i: (pts[i, 0], pts[i, 1]))
+    return np.roll(pts, -start, axis=0)
+
+
+def _frame(pts, tolerance):
+    import shapely
+    from shapely.geometry import LinearRing
+
+    ring = LinearRing(pts)
+    if not ring.is_simple:
+        reason = shapely.is_valid_reason(shapely.Polygon(pts))
+        raise GeometryError(f"the points cross themselves ({reason}); remove the crossing points "
+                            "or reorder them round the outline")
+    reduced = ring.simplify(float(tolerance), preserve_topology=True)
+    frame = np.asarray(reduced.coords, dtype=float)[:-1]
+    if len(frame) < 3:
+        raise GeometryError("the points reduce to fewer than 3 vertices; give a closed outline")
+    return _canonical(_drop_spare_vertices(frame, pts, tolerance)), _canonical(frame)
+
+
+def _drop_spare_vertices(frame, pts, tolerance):
+    """The frame without the vertices whose removal keeps every point within ``tolerance`` of
+    the frame (Douglas-Peucker keeps some that the noise put there), fewest-needed first."""
+    index = [int(np.argmin(np.hypot(*(pts - v).T))) for v in frame]
+    keep = list(range(len(frame)))
+
+    def cost(k):
+        # the points from the vertex before to the vertex after: how far from their own
+        # least-squares line (a straight run with noise on it is one edge, whatever the noise
+        # did to the vertices Douglas-Peucker kept)
+        a, b = keep[(k - 1) % len(keep)], keep[(k + 1) % len(keep)]
+        i0, i1 = index[a], index[b]
+        idx = np.arange(i0, (i1 if i1 >= i0 else i1 + len(pts)) + 1) % len(pts)
+        sel = pts[idx]
+        c = sel.mean(axis=0)
+        _, _, vt = np.linalg.svd(sel - c, full_matrices=False)
+        normal = np.array([-vt[0][1], vt[0][0]])
+        return float(np.max(np.abs((sel - c) @ normal)))
+
+    while len(keep) > 3:
+        costs = [cost(k) for k in range(len(keep))]
+        k = int(np.argmin(costs))
+        if costs[k] > tolerance:
+            break
+        keep.pop(k)
+    return frame[keep]
+
+
+def _turn(frame):
+    """Signed turning angle (rad, left positive) at each frame vertex."""
+    d_in = frame - np.roll(frame, 1, axis=0)
+    d_out = np.roll(frame, -1, axis=0) - frame
+    a_in = np.arctan2(d_in[:, 1], d_in[:, 0])
+    a_out = np.arctan2(d_out[:, 1], d_out[:, 0])
+    return np.angle(np.exp(1j * (a_out - a_in)))
+
+
+def _line_intersection(p0, d0, p1, d1):
+    """Intersection of the lines p0 + t d0 and p1 + u d1, or None when nearly parallel."""
+    det = d0[0] * (-d1[1]) - d0[1] * (-d1[0])
+    if abs(det) < 1e-9 * math.hypot(*d0) * math.hypot(*d1):
+        return None
+    rhs = p1 - p0
+    t = (rhs[0] * (-d1[1]) - rhs[1] * (-d1[0])) / det
+    return p0 + t * d0
+
+
+def _circle_radius(points):
+    """Radius (m) of the least-squares circle through ``points`` (scipy least_squares)."""
+    from scipy.optimize import least_squares
+
+    c0 = points.mean(axis=0)
+    r0 = float(np.mean(np.hypot(*(points - c0).T)))
+
+    def resid(p):
+        return np.hypot(points[:, 0] - p[0], points[:, 1] - p[1]) - p[2]
+
+    sol = least_squares(resid, np.array([c0[0], c0[1], max(r0, 1e-6)]))
+    return float(abs(sol.x[2]))
+
+
+def _fillet_radius(points, corner, d_in, d_out, guess):
+    """(radius, largest distance): the fillet radius (m) between the lines through ``corner``
+    along ``d_in`` (arriving) and ``d_out`` (leaving) that best fits ``points`` (least squares
+    of the points' distances to the line-arc-line path, scipy minimize_scalar, bounded) and the
+    largest of those distances (m)."""
+    from scipy.optimize import minimize_scalar
+
+    u_in = np.asarray(d_in, float) / math.hypot(*d_in)
+    u_out = np.asarray(d_out, float) / math.hypot(*d_out)
+    theta = math.acos(max(-1.0, min(1.0, float(u_in @ u_out))))      # turning angle
+    if theta < 1e-6:
+        return guess, math.inf
+    bis = u_out - u_in
+    bis = bis / math.hypot(*bis)                                     # toward the arc's centre
+
+    def dist(r):
+        tlen = r * math.tan(0.5 * theta)
+        t_in, t_out = corner - tlen * u_in, corner + tlen * u_out    # tangent points
+        centre = corner + bis * r / math.cos(0.5 * theta)
+        rel_in = (points - t_in) @ u_in                              # > 0 past the first tangent
+        rel_out = (points - t_out) @ u_out                           # < 0 before the second
+        on_arc = (rel_in > 0) & (rel_out < 0)
+        d_arc = np.abs(np.hypot(*(points - centre).T) - r)
+        n_in = np.array([-u_in[1], u_in[0]])
+        n_out = np.array([-u_out[1], u_out[0]])
+        d_line = np.where(rel_in <= 0, np.abs((points - t_in) @ n_in),
+                          np.abs((points - t_out) @ n_out))
+        return np.where(on_arc, d_arc, d_line)
+
+    hi = max(3.0 * guess, 1e-3)
+    res = minimize_scalar(lambda r: float(np.sum(dist(r) ** 2)), bounds=(0.0, hi),
+                          method="bounded", options={"xatol": 1e-5 * hi})
+    r = float(res.x)
+    return r, float(np.max(dist(r)))
+
+
+def _deviation(profile, pts):
+    """Two-sided largest distance (m) between the built outline and the point polyline."""
+    import shapely
+
+    from profilebench.geometry.outline import build_outline
+
+    o = build_outline(profile)
+    n = max(2000, 4 * len(pts))
+    samples = o.sample(n)
+    built = shapely.LinearRing(samples)
+    given = shapely.LinearRing(pts)
+    a = float(np.max(shapely.distance(shapely.points(pts), built)))
+    b = float(np.max(shapely.distance(shapely.points(samples), given)))
+    return max(a, b), samples
+
+
+def _check(profile, pts, tolerance, ground):
+    """(ok, deviation, reason) of a candidate profile."""
+    from profilebench.geometry.validity import explain
+
+    try:
+        problems = explain(profile, ground=ground)
+    except Exception as exc:   # a build error is a reason to reject the candidate
+        return False, math.inf, str(exc)
+    if problems:
+        return False, math.inf, problems[0]
+    dev, samples = _deviation(profile, pts)
+    if dev > tolerance * (1.0 + 1e-9):
+        return False, dev, f"the outline strays {dev * 1e3:.1f} mm from the points"
+    for axis, name in ((0, "length"), (1, "height")):
+        want = float(np.ptp(pts[:, axis]))
+        got = float(np.ptp(samples[:, axis]))
+        if want > 0 and abs(got - want) > max(EXTENT_TOLERANCE * want, 2.0 * tolerance):
+            return False, dev, f"its {name} is {got * 1e3:.0f} mm against {want * 1e3:.0f} mm"
+    return True, dev, ""
+
+
+def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitResult:
+    """Fit an editable profile to a digitised outline (see the module notes).
+
+    Parameters
+    ----------
+    points : array_like, shape (N, 2)
+        The outline's points in metres, in order round it (either way, from any point).
+    tolerance : float
+        The largest distance (m) the fitted outline may keep from the points (default 5 mm).
+    ground : bool
+        The outline must stay above y = 0 (the ground) when True.
+    name : str
+        The profile's name.
+
+    Raises
+    ------
+    InputError
+        Bad points or tolerance.
+    GeometryError
+        Points that cross themselves, or an outline whose frame is itself invalid (below the
+        ground, say): the message says where.
+    """
+    if isinstance(tolerance, bool) or not isinstance(tolerance, (int, float)) or not (
+            math.isfinite(tolerance) and tolerance > 0):
+        raise InputError(f"tolerance must be a positive distance in metres, got {tolerance!r}")
+    pts = _canonical(_clean(points))
+    if ground and float(pts[:, 1].min()) <= 0.0:
+        k = int(np.argmin(pts[:, 1]))
+        raise GeometryError(
+            f"the point at ({pts[k, 0] * 1e3:.1f}, {pts[k, 1] * 1e3:.1f}) mm lies on or below the "
+            "ground (y = 0); raise the outline or fit it with the ground off")
+    frame, dp_frame = _frame(pts, tolerance)
+    m = len(frame)
+    height = float(np.ptp(pts[:, 1]))
+    edge = np.hypot(*(np.roll(frame, -1, axis=0) - frame).T)       # edge k: vertex k -> k+1
+    short = edge < CORNER_EDGE_RATIO * height
+    turn = _turn(frame)
+    notes = []
+
+    # corner stretches: maximal runs of vertices joined by short edges, between long edges
+    groups, seen = [], np.zeros(m, dtype=bool)
+    if not short.all():
+        start = int(np.flatnonzero(~short)[0]) + 1          # a vertex after a long edge
+        k = start
+        for _ in range(m):
+            v = k % m
+            if not seen[v]:
+                run = [v]
+                seen[v] = True
+                while short[run[-1]] and not seen[(run[-1] + 1) % m]:
+                    nxt = (run[-1] + 1) % m
+                    run.append(nxt)
+                    seen[nxt] = True
+                groups.append(run)
+            k += 1
+    else:
+        groups = [[v] for v in range(m)]
+
+    nodes, kinds = [], []
+    index = [int(np.argmin(np.hypot(*(pts - v).T))) for v in frame]
+
+    def _edge_line(k):
+        """(point, direction) of the least-squares line through the middle of the points that
+        frame edge k (vertex k to k + 1) stands for: its ends may already be on a fillet."""
+        i0, i1 = index[k], index[(k + 1) % m]
+        idx = np.arange(i0, (i1 if i1 >= i0 else i1 + len(pts)) + 1) % len(pts)
+        cut = len(idx) // 5
+        sel = pts[idx[cut:len(idx) - cut]] if len(idx) - 2 * cut >= 2 else pts[idx]
+        c = sel.mean(axis=0)
+        _, _, vt = np.linalg.svd(sel - c, full_matrices=False)
+        d = vt[0]
+        if float(d @ (frame[(k + 1) % m] - frame[k])) < 0:
+            d = -d
+        return c, d
+
+    def single(v):
+        a = abs(math.degrees(turn[v]))
+        if a > SMOOTH_TURN_DEG:
+            at = frame[v]
+            if not short[(v - 1) % m] and not short[v]:
+                # between two straight runs: where their fitted lines meet
+                (p0, d0), (p1, d1) = _edge_line((v - 1) % m), _edge_line(v)
+                meet = _line_intersection(p0, d0, p1, d1)
+                if meet is not None and math.hypot(*(meet - at)) <= 3.0 * tolerance:
+                    at = meet
+            nodes.append(Node(*map(float, at)))
+            kinds.append(("sharp", [v], None))
+        elif a < STRAIGHT_TURN_DEG:
+            # a kink of the noise in a straight run: left out (restored if the fit needs it)
+            kinds.append(("straight", [v], None))
+            nodes.append(None)
+        else:
+            nodes.append(Node(*map(float, frame[v]), smooth=True))
+            kinds.append(("smooth", [v], None))
+
+    for run in groups:
+        total = float(np.degrees(np.sum(turn[run])))
+        if len(run) == 1 or abs(total) <= SMOOTH_TURN_DEG:
+            for v in run:
+                single(v)
+            continue
+        # a fillet: the long edges either side, their lines' intersection, the fitted radius
+        first, last = run[0], run[-1]
+        p_in, d_in = _edge_line((first - 1) % m)
+        p_out, d_out = _edge_line(last)
+        corner = _line_intersection(p_in, d_in, p_out, d_out)
+        i0 = int(np.argmin(np.hypot(*(pts - frame[first]).T)))
+        i1 = int(np.argmin(np.hypot(*(pts - frame[last]).T)))
+        idx = np.arange(i0, (i1 if i1 >= i0 else i1 + len(pts)) + 1) % len(pts)
+        radius = _circle_radius(pts[idx]) if len(idx) >= 3 else 0.0
+        fits = False
+        if corner is not None and radius > 0:
+            radius, worst = _fillet_radius(pts[idx], corner, d_in, d_out, radius)
+            fits = worst <= tolerance
+        if not fits:
+            # not one circular fillet (a curved run joined to a corner, say): its vertices
+            # stand on their own, sharp where they turn much, smooth where they turn little
+            for v in run:
+                single(v)
+            continue
+        if False:
+            for v in run:
+                nodes.append(Node(*map(float, frame[v])))
+                kinds.append(("sharp", [v], None))
+            continue
+        nodes.append(Node(float(corner[0]), float(corner[1]), radius=radius))
+        kinds.append(("fillet", run, radius))
+
+    def profile_of(nds):
+        return Profile(tuple(nd for nd in nds if nd is not None), name=name)
+
+    candidate = list(nodes)
+    ok, dev, why = _check(profile_of(candidate), pts, tolerance, ground)
+    # if it does not pass, give up detail step by step, keeping each step that helps: the
+    # splines made polylines, the straight runs' kinks restored, the fillets one by one sharp
+    steps = [
+        ("the smooth nodes were made sharp",
+         lambda c: [None if nd is None else Node(nd.x, nd.y, nd.radius, False) for nd in c]),
+        ("the straight runs keep every vertex of the reduced outline",
+         lambda c: [Node(*map(float, frame[kinds[i][1][0]])) if nd is None else nd
+                    for i, nd in enumerate(c)]),
+    ]
+    for label, change in steps:
+        if ok:
+            break
+        trial = change(candidate)
+        t_ok, t_dev, t_why = _check(profile_of(trial), pts, tolerance, ground)
+        if t_ok or t_dev < dev:
+            notes.append(f"{label} ({why})")
+            candidate, ok, dev, why = trial, t_ok, t_dev, t_why
+    for i, (kind, _run, _radius) in enumerate(kinds):
+        if ok:
+            break
+        if kind != "fillet":
+            continue
+        trial = list(candidate)
+        trial[i] = Node(candidate[i].x, candidate[i].y)
+        t_ok, t_dev, t_why = _check(profile_of(trial), pts, tolerance, ground)
+        if t_ok or t_dev < dev:
+            notes.append(f"the fillet near ({candidate[i].x * 1e3:.0f}, "
+                         f"{candidate[i].y * 1e3:.0f}) mm was made sharp ({why})")
+            candidate, ok, dev, why = trial, t_ok, t_dev, t_why
+    if not ok:
+        frame_profile = profile_of([Node(*map(float, p)) for p in dp_frame])
+        f_ok, f_dev, f_why = _check(frame_profile, pts, tolerance, ground)
+        if not f_ok:
+            raise GeometryError(f"no valid profile fits these points within "
+                                f"{tolerance * 1e3:.1f} mm: {f_why}")
+        notes.append(f"no fit with fillets and splines passed ({why}); the reduced polygon of "
+                     f"{len(dp_frame)} sharp vertices is returned")
+        candidate, dev = list(frame_profile.nodes), f_dev
+    profile = profile_of(candidate)
+    corners = sum(1 for nd in profile.nodes if not nd.smooth)
+    return FitResult(profile=profile, max_deviation=float(dev), tolerance=float(tolerance),
+                     corners=corners, notes=tuple(notes))
