@@ -379,6 +379,36 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
 
     candidate = list(nodes)
     ok, dev, why = _check(profile_of(candidate), pts, tolerance, ground)
+    # a sharp vertex inside a curved run (a bonnet's leading edge between the bumper and the
+    # bonnet) may be a fillet the grouping could not see: try one node where the run's chords
+    # before and after it meet, with the radius that fits the points round it
+    for i, (kind, run, _r) in enumerate(kinds):
+        if ok or kind != "sharp":
+            continue
+        v = run[0]
+        if not (short[(v - 1) % m] or short[v]):
+            continue
+        a0, a1 = frame[(v - 2) % m], frame[(v - 1) % m]
+        b0, b1 = frame[(v + 1) % m], frame[(v + 2) % m]
+        corner = _line_intersection(a1, a1 - a0, b0, b1 - b0)
+        if corner is None or math.hypot(*(corner - frame[v])) > 0.1 * height:
+            continue
+        i0, i1 = index[(v - 1) % m], index[(v + 1) % m]
+        idx = np.arange(i0, (i1 if i1 >= i0 else i1 + len(pts)) + 1) % len(pts)
+        if len(idx) < 3:
+            continue
+        guess = _circle_radius(pts[idx])
+        radius, _worst = _fillet_radius(pts[idx], corner, a1 - a0, b1 - b0, guess)
+        trial = list(candidate)
+        trial[i] = Node(float(corner[0]), float(corner[1]), radius=radius)
+        for j in (i - 1, i + 1):                 # the fillet takes its neighbours' places
+            jj = j % len(trial)
+            if kinds[jj][0] in ("smooth", "straight"):
+                trial[jj] = None
+        t_ok, t_dev, t_why = _check(profile_of(trial), pts, tolerance, ground)
+        if t_ok or t_dev < dev:
+            candidate, ok, dev, why = trial, t_ok, t_dev, t_why
+            kinds[i] = ("fillet", run, radius)
     # if it does not pass, give up detail step by step, keeping each step that helps: the
     # splines made polylines, the straight runs' kinks restored, the fillets one by one sharp
     steps = [
