@@ -317,13 +317,24 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
     if regions is None:
         regions = corner_regions(panelling, flow, spans)
     attached_ratios = {} if attached_ratios is None else dict(attached_ratios)
+    from profilebench.geometry.places import place_names, place_of
+
+    places = place_names(profile)
+    pts_all = np.asarray(panelling.points, dtype=float)
+    x0, x1 = float(pts_all[:, 0].min()), float(pts_all[:, 0].max())
+    y0, y1 = float(pts_all[:, 1].min()), float(pts_all[:, 1].max())
     out = []
     for span, (k, lo, hi, bounded) in zip(spans, regions):
         node = profile.nodes[span.node]
         is_peak = id(span) not in node_spans
-        label = node.label or f"node {span.node}"
+        # a corner is named by the user's label, else by its place on the outline (a node
+        # number means nothing to the reader; it stays in CornerResult.node)
+        label = node.label or places.get(span.node) or f"node {span.node}"
         if is_peak:
-            label = f"curvature peak near {label}"
+            px, py = pts_all[span.point_start]
+            where = place_of((px - x0) / max(x1 - x0, 1e-12), (py - y0) / max(y1 - y0, 1e-12),
+                             bool(span.convex))
+            label = f"curvature peak at the {where}" + (f" ({node.label})" if node.label else "")
         r_over_t = float(span.radius) / thickness
         if k < 0:
             # on neither surface: behind both final separation points, in the wake

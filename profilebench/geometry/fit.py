@@ -448,6 +448,11 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
                      f"{len(dp_frame)} sharp vertices is returned")
         candidate, dev = list(frame_profile.nodes), f_dev
     profile = profile_of(candidate)
+    from profilebench.geometry.places import place_names
+
+    names = place_names(profile)     # corners named by where they sit (editable labels)
+    profile = Profile(tuple(Node(nd.x, nd.y, nd.radius, nd.smooth, names.get(i, ""))
+                            for i, nd in enumerate(profile.nodes)), name=name)
     corners = sum(1 for nd in profile.nodes if not nd.smooth)
     return FitResult(profile=profile, max_deviation=float(dev), tolerance=float(tolerance),
                      corners=corners, notes=tuple(notes))

@@ -95,7 +95,7 @@ def review_figure(analysis, baseline=None) -> Figure:
            col_widths=[0.32, 0.2, 0.48])
     ax_sum.set_title("Summary", fontsize=10, loc="left")
     _table(ax_cor, CORNER_COLUMNS, corner_rows(analysis), fontsize=8,
-           col_widths=[0.15, 0.06, 0.06, 0.06, 0.19, 0.06, 0.24, 0.07])
+           col_widths=[0.15, 0.06, 0.06, 0.06, 0.18, 0.05, 0.23, 0.07, 0.04])
     ax_cor.set_title("Corners", fontsize=10, loc="left")
 
     notes = [w for w in analysis.warnings]

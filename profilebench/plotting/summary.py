@@ -11,7 +11,7 @@ from profilebench.plotting.style import CAUTION
 __all__ = ["summary_rows", "corner_rows", "CORNER_COLUMNS", "format_table", "CAUTION"]
 
 CORNER_COLUMNS = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "margin",
-                  "table verdict", "delta Cd")
+                  "table verdict", "delta Cd", "node")
 
 
 def _g(value, fmt):
@@ -53,8 +53,10 @@ def corner_rows(analysis):
         in_wake = getattr(c.verdict, "name", "") in ("IN_WAKE", "CONCAVE", "CONCAVE_BUBBLE")
         margin = "" if (not c.convex or in_wake) else f"{100 * c.margin:.0f}%"
         rows.append((
-            c.label or f"node {c.node}", f"{c.radius * 1000:.1f}", f"{c.thickness * 1000:.1f}",
+            c.label or f"node {c.node}", f"{c.radius * 1000:.1f}",
+            f"{c.thickness * 1000:.1f}",
             f"{c.r_over_t:.4f}", verdict, margin, c.table_verdict, f"{c.delta_cd:+.4f}",
+            str(c.node),
         ))
     return rows
 
