@@ -183,7 +183,7 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
             raise ProjectFileError(
                 f"{shown!r} line 1: the header has {len(header)} columns {list(header)}; name "
                 "exactly one 'x' and one 'y' column, or give two columns only")
-        columns = cols
+        # else: two columns whose header names no x and y: taken as x, y in that order
     ncols = len(header) if header is not None else 2
 
     rows = []

@@ -77,3 +77,23 @@ def test_corners_smallest_lists_smooth_runs_instead_of_aborting(sample, capsys):
     if "curvature peak" in out:
         assert "smooth" in out.split("Smallest radius keeping the flow attached")[1]
     assert smooth_peaks or "curvature peak" not in out
+
+
+@pytest.mark.parametrize("rows, expect", [
+    (["x_mm,y_mm", "0,300", "4000,300"], "at least 3"),
+    (["a,b", "0,300", "0,1500", "4000,1500", "4000,300"], None),
+    (["x_mm,y_mm", "0,300", "4000,1500", "4000,300", "0,1500"], "cross"),
+    (["x_mm,y_mm", "0,-10", "0,1500", "4000,1500", "4000,-10"], "ground"),
+])
+def test_outline_files_that_are_not_outlines_are_refused_with_a_message(tmp_path, capsys, rows, expect):
+    path = tmp_path / "bad.csv"
+    path.write_text("\n".join(rows) + "\n")
+    code = main(["analyse", str(path)])
+    err = capsys.readouterr().err
+    if expect is None:
+        # a two-column header naming no x and y: read as x, y in that order (it raised a
+        # TypeError before)
+        assert code == EXIT_OK, err
+    else:
+        assert code == EXIT_BAD_INPUT
+        assert expect in err
