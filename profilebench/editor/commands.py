@@ -28,6 +28,7 @@ __all__ = [
     "pin_baseline",
     "clear_baseline",
     "replace_profile",
+    "import_profile",
     "set_underlay",
 ]
 
@@ -137,6 +138,12 @@ def clear_baseline(state: DocumentState) -> Edit:
 def replace_profile(state: DocumentState, profile, text: str) -> Edit:
     """Replace the whole profile (a finished drag, an import, a radius from a search)."""
     return Edit(text, state, replace(state, profile=profile))
+
+
+def import_profile(state: DocumentState, profile, text: str) -> Edit:
+    """Replace the profile by an imported one: the old baseline was pinned for the old outline,
+    so it goes too (one undoable edit brings both back)."""
+    return Edit(text, state, replace(state, profile=profile, baseline=None))
 
 
 def set_underlay(state: DocumentState, underlay, text: str = "Change underlay") -> Edit:

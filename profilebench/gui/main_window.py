@@ -335,7 +335,8 @@ class MainWindow(QMainWindow):
             self._show_banner(f"cannot import {path}: {exc}", True)
             return False
         prof = fit.profile
-        self.push(commands.replace_profile(self.document.state, prof, f"Import {Path(path).name}"))
+        self.select_node(None)      # the old selection was a node of the old outline
+        self.push(commands.import_profile(self.document.state, prof, f"Import {Path(path).name}"))
         self.canvas.fit()
         self.statusBar().showMessage(
             f"imported {len(prof)} nodes, {fit.corners} corners, within "
