@@ -388,17 +388,23 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         v = run[0]
         if not (short[(v - 1) % m] or short[v]):
             continue
-        a0, a1 = frame[(v - 2) % m], frame[(v - 1) % m]
-        b0, b1 = frame[(v + 1) % m], frame[(v + 2) % m]
-        corner = _line_intersection(a1, a1 - a0, b0, b1 - b0)
+        # the sides: a long edge's fitted line, else the chord one vertex further out
+        if short[(v - 1) % m]:
+            p_a, d_a = frame[(v - 1) % m], frame[(v - 1) % m] - frame[(v - 2) % m]
+        else:
+            p_a, d_a = _edge_line((v - 1) % m)
+        if short[v]:
+            p_b, d_b = frame[(v + 1) % m], frame[(v + 2) % m] - frame[(v + 1) % m]
+        else:
+            p_b, d_b = _edge_line(v)
+        corner = _line_intersection(p_a, d_a, p_b, d_b)
         if corner is None or math.hypot(*(corner - frame[v])) > 0.1 * height:
             continue
-        i0, i1 = index[(v - 1) % m], index[(v + 1) % m]
-        idx = np.arange(i0, (i1 if i1 >= i0 else i1 + len(pts)) + 1) % len(pts)
-        if len(idx) < 3:
+        near = np.flatnonzero(np.hypot(*(pts - frame[v]).T) <= 0.1 * height)
+        if len(near) < 3:
             continue
-        guess = _circle_radius(pts[idx])
-        radius, _worst = _fillet_radius(pts[idx], corner, a1 - a0, b1 - b0, guess)
+        guess = _circle_radius(pts[near])
+        radius, _worst = _fillet_radius(pts[near], corner, d_a, d_b, guess)
         trial = list(candidate)
         trial[i] = Node(float(corner[0]), float(corner[1]), radius=radius)
         for j in (i - 1, i + 1):                 # the fillet takes its neighbours' places
