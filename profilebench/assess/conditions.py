@@ -25,7 +25,7 @@ __all__ = ["Conditions", "kmh_to_ms", "ms_to_kmh", "SPEED_MAX", "TRANSITION_MODE
 
 SPEED_MAX = 150.0  # m/s; above this (about Mach 0.44 at sea level) compressibility matters
 TRANSITION_MODES = ("free", "turbulent")
-H_SEPARATION_RANGE = (1.8, 2.8)  # REFERENCES.md: turbulent separation usually taken at H 1.8..2.8
+H_SEPARATION_RANGE = (1.8, 2.8)  # turbulent separation usually taken at H 1.8..2.8 (Cebeci & Bradshaw, Momentum Transfer in Boundary Layers, 1977)
 BASE_PRESSURE_RANGE = (-1.5, 0.0)  # Cp; a plate normal to the flow about -1.4 (Roshko, from memory)
 PANELS_RANGE = (40, 2000)
 
@@ -72,7 +72,7 @@ class Conditions:
         transition position as an arc length (m, >= 0) from the stagnation point.
     h_separation : float
         Turbulent separation threshold on the shape factor H, 1.8..2.8 (default 2.4, a common
-        choice: REFERENCES.md).
+        choice, Cebeci & Bradshaw 1977).
     frontal_area : float or None
         m^2, for CdA, drag force and power.
     width : float or None
@@ -83,7 +83,7 @@ class Conditions:
         m/s, the scale test's tunnel speed, 0 < speed <= 150.
     base_pressure : float
         Cp in separated regions (base-pressure model), -1.5..0. Default -0.25: square-back
-        vehicles -0.15 to -0.3 (REFERENCES.md, from memory).
+        vehicles -0.15 to -0.3 (Roshko, NACA TN 3169, 1954, and later compilations: from memory).
     panels : int
         Panel count of the inviscid solve, 40..2000.
     """

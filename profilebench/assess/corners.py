@@ -24,8 +24,8 @@ __all__ = ["assess_corners", "corner_regions", "curvature_peaks", "all_spans",
 
 SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
 
-# a sharp node turning the outline by more than this fixes separation (DESIGN.md: "more than a few
-# degrees"; common practice, no source)
+# a sharp node turning the outline by more than this fixes separation ("more than a few degrees": a
+# convention of this project; common practice, no source)
 EDGE_TURN_DEG = 10.0
 
 

@@ -11,8 +11,8 @@ absolute values):
   the separation point and in the wake behind it (``ProfileFlow.attached``). Corner bubbles that reattach keep their inviscid Cp: their drag is in
   the corner correction, so it is not counted twice.
 - **Base**: behind each surface's final separation point the pressure is taken constant at the
-  base-pressure coefficient Cp_b (Conditions.base_pressure; REFERENCES: square-back vehicles
-  -0.15 to -0.3, from memory), Cd_b = -Cp_b * sum(n_x ds)/h over the wake stations. This is the
+  base-pressure coefficient Cp_b (Conditions.base_pressure; square-back vehicles
+  -0.15 to -0.3, Roshko, NACA TN 3169, 1954, and later compilations: from memory), Cd_b = -Cp_b * sum(n_x ds)/h over the wake stations. This is the
   usual free-streamline picture: a dead-air region of uniform pressure behind separation
   (Roshko 1954 relates Cp_b to the wake's speed parameter k = sqrt(1 - Cp_b)).
 - **Corners**: for each corner the solver finds separated whose layer then reattaches (a corner

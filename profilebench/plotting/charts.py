@@ -59,7 +59,7 @@ def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
     """Shape factor H and skin friction Cf against surface arc length s (m) on both surfaces.
 
     The turbulent separation threshold on H (the conditions' ``h_separation``, default 2.4:
-    a common choice within the usual 1.8-2.8 range, see REFERENCES.md) is drawn as a line.
+    a common choice within the usual 1.8-2.8 range, Cebeci & Bradshaw 1977) is drawn as a line.
     Stations in separated flow are left out of the curves (the march holds values there).
     """
     st = _stations_or_raise(analysis, "the boundary-layer plots")

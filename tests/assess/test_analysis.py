@@ -18,7 +18,7 @@ from profilebench.errors import InputError
 from profilebench.geometry import Node, Profile, rounded_box
 from profilebench.io import load_project, sample_paths
 
-NU = 1.46e-5  # ISO 2533 sea level kinematic viscosity, m^2/s (REFERENCES.md)
+NU = 1.46e-5  # ISO 2533 sea level kinematic viscosity, m^2/s (ISO 2533:1975 Standard Atmosphere)
 
 
 def _front(profile, word="front top"):
@@ -53,13 +53,13 @@ def test_every_sample_analyses_with_finite_numbers(sample_analyses, name):
         assert c.thickness == pytest.approx(a.measures.height)
     for arr in (a.flow.inviscid.cp, a.flow.inviscid.ue):
         assert np.all(np.isfinite(arr))
-    # typical Cd of road vehicles 0.22 to 0.8 (Heisler via REFERENCES.md); a 2D section screening
+    # typical Cd of road vehicles 0.22 to 0.8 (Heisler, Advanced Vehicle Technology, via a handbook page); a 2D section screening
     # estimate is not expected to land inside that band exactly, only in its neighbourhood
     assert 0.1 < d.cd < 1.5
 
 
 def test_force_and_power_follow_from_cd(sample_analyses):
-    # F = 1/2 rho V^2 Cd A and P = F V (REFERENCES.md, Air and forces)
+    # F = 1/2 rho V^2 Cd A and P = F V (the definition of the drag coefficient)
     a = sample_analyses["kestrel_hatch"]
     c = a.conditions
     area = c.reference_area(a.measures.height)
@@ -175,7 +175,8 @@ def body_sweep(body_searches):
 def test_body_cd_falls_steeply_to_the_attached_radius(body_sweep):
     # rule of the trade (common practice, no source): drag falls steeply as the radius grows
     # until the flow stays attached; here the sharp-edged body costs more than twice the
-    # attached one (SAE 1962 tractor data, REFERENCES.md: 0.88 sharp against 0.562 rounded)
+    # attached one (SAE Transactions vol. 70, 1962, a tractor unit's front edges, quoted
+    # second-hand: 0.88 sharp against 0.562 rounded)
     sharp, attached = body_sweep
     assert sharp > 1.5 * max(attached.values())
 

@@ -11,7 +11,7 @@ from profilebench.flow.atmosphere import standard_atmosphere
 
 def test_defaults_use_iso_2533_sea_level_air():
     c = Conditions()
-    # ISO 2533 sea level (REFERENCES.md): rho 1.225 kg/m^3, nu 1.46e-5 m^2/s, mu 1.7894e-5 Pa s
+    # ISO 2533:1975 Standard Atmosphere, sea level: rho 1.225 kg/m^3, nu 1.46e-5 m^2/s, mu 1.7894e-5 Pa s
     assert c.rho == pytest.approx(1.225, rel=1e-5)
     assert c.nu == pytest.approx(1.46e-5, rel=2e-3)
     assert c.mu == pytest.approx(1.7894e-5, rel=1e-4)
@@ -46,7 +46,7 @@ def test_reynolds_of_quarter_scale_model_beside_full_scale():
     assert full == pytest.approx(30.0 * 4.5 / nu)
     assert model == pytest.approx(60.0 * 4.5 * 0.25 / nu)
     assert model / full == pytest.approx(0.5)
-    # with REFERENCES.md's nu = 1.46e-5 m^2/s: full scale 30 * 4.5 / 1.46e-5 = 9.25e6
+    # with ISO 2533:1975 Standard Atmosphere's sea-level nu = 1.46e-5 m^2/s: full scale 30 * 4.5 / 1.46e-5 = 9.25e6
     assert full == pytest.approx(9.25e6, rel=3e-3)
     same = c.replace(tunnel_speed=120.0)
     assert same.model_reynolds(4.5) == pytest.approx(full)

@@ -9,7 +9,7 @@ from profilebench.errors import InputError, ProfileBenchError
 
 
 def test_force_and_power_example_at_120_kmh():
-    # REFERENCES.md: Cd 0.30, A 2.2 m^2, 120 km/h at sea level -> F = 449 N, P = 15.0 kW
+    # by the definition F = 1/2 rho V^2 Cd A, P = F V (ISO 2533 sea-level rho): Cd 0.30, A 2.2 m^2, 120 km/h at sea level -> F = 449 N, P = 15.0 kW
     c = Conditions(speed=kmh_to_ms(120.0))
     f = drag_force(0.30, 2.2, c.rho, c.speed)
     assert f == pytest.approx(449.0, abs=0.5)
@@ -30,7 +30,7 @@ def test_power_grows_with_cube_of_speed():
 
 
 def test_lower_cd_with_larger_area_can_give_more_force():
-    # REFERENCES.md rule of the trade (common practice, no source), checked by arithmetic:
+    # rule of the trade (common practice, no source), checked by arithmetic:
     # Cd 0.30 on 2.4 m^2 (CdA 0.72) pulls harder than Cd 0.32 on 2.1 m^2 (CdA 0.672)
     assert drag_force(0.30, 2.4, 1.225, 30.0) > drag_force(0.32, 2.1, 1.225, 30.0)
 

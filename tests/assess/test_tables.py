@@ -41,12 +41,13 @@ def test_resources_hold_at_least_the_square_section_table():
 
 def test_square_section_table_holds_the_published_points():
     t = load_table(RESOURCES_DIR / "square_section_rounded_corners_re1e5.csv")
-    # Delany & Sorensen, NACA TN 3038 (1953), via Munson, Young & Okiishi (REFERENCES.md):
+    # Delany & Sorensen, NACA TN 3038 (1953), via Munson, Young & Okiishi,
+    # Fundamentals of Fluid Mechanics (figure of 2D drag coefficients):
     # R/D 0 -> 2.2, 0.02 -> 2.0, 0.17 -> 1.2, 0.33 -> 1.0 at Re = 1e5
     assert t.ratios == (0.0, 0.02, 0.17, 0.33)
     assert t.values == (2.2, 2.0, 1.2, 1.0)
     assert t.contains(1e5)
-    # the drag still falls at 0.33 (REFERENCES.md): no critical ratio in the data
+    # the drag still falls at 0.33 (Delany & Sorensen 1953, same figure): no critical ratio in the data
     assert t.critical_ratio is None
     assert t.verdict(0.25) is RtVerdict.UNDETERMINED
     assert "NACA" in t.source and "3038" in t.source
@@ -116,7 +117,7 @@ def test_cd_rejects_bad_ratio(bad):
 
 
 def flat_tail_table(tmp_path, critical_line=""):
-    # invented numbers shaped like the SAE 1962 tractor data (REFERENCES.md): drag falls, then
+    # invented numbers shaped like the SAE 1962 tractor data (SAE Transactions vol. 70, 1962, quoted second-hand): drag falls, then
     # stays constant
     text = GOOD_HEADER + critical_line + "r_over_t,cd\n0.0,0.88\n0.05,0.725\n0.1,0.562\n0.15,0.562\n"
     return load_table(write(tmp_path, text))
@@ -152,7 +153,7 @@ def test_penalty_without_critical_ratio_uses_last_point_and_warns():
     t = builtin_tables()[0]
     with pytest.warns(ProfileBenchWarning, match="no critical ratio"):
         p = t.penalty(0.0)
-    # 2.2 - 1.0 from the published points (REFERENCES.md)
+    # 2.2 - 1.0 from the published points (Delany & Sorensen 1953 via Munson et al.)
     assert p == pytest.approx(1.2)
     # with the solver's attached ratio 0.17: 2.2 - 1.2 = 1.0
     assert t.penalty(0.0, attached_ratio=0.17) == pytest.approx(1.0)

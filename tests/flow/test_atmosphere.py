@@ -14,7 +14,8 @@ from profilebench.flow.atmosphere import (
 
 def test_sea_level_matches_iso_2533():
     air = standard_atmosphere()
-    # ISO 2533 sea-level values as listed in /work/shared/REFERENCES.md (verified there)
+    # ISO 2533:1975 Standard Atmosphere, sea-level values (T0 288.15 K, p0 101325 Pa, rho0 1.225
+    # kg/m^3; mu from Sutherland's law with the standard's constants)
     assert air.temperature == pytest.approx(288.15, abs=1e-9)
     assert air.pressure == pytest.approx(101325.0, abs=1e-6)
     assert air.density == pytest.approx(1.225, rel=1e-5)
@@ -25,7 +26,7 @@ def test_sea_level_matches_iso_2533():
 
 
 def test_sutherland_at_288_15_k():
-    # REFERENCES.md: Sutherland with beta 1.458e-6, S 110.4 K gives 1.7894e-5 Pa s at 288.15 K
+    # Sutherland's law with ISO 2533's beta 1.458e-6 and S 110.4 K gives 1.7894e-5 Pa s at 288.15 K
     assert sutherland_viscosity(288.15) == pytest.approx(1.7894e-5, rel=5e-5)
 
 

@@ -14,7 +14,7 @@ from profilebench.flow.boundary_layer import (
 )
 from profilebench.flow.head import head_h1, head_shape_factor, ludwieg_tillmann_cf
 
-NU = 1.46e-5  # air, ISO 2533 sea level (REFERENCES.md)
+NU = 1.46e-5  # air, ISO 2533:1975 Standard Atmosphere, sea level
 SPEED = 30.0
 
 

@@ -6,7 +6,7 @@ from scipy.integrate import solve_ivp
 from profilebench.flow.head import (head_entrainment, head_h1, head_shape_factor,
                                     ludwieg_tillmann_cf, march_head)
 
-NU_V = 1.46e-5 / 30.0  # nu / V for air at sea level (ISO 2533, REFERENCES.md) and 30 m/s
+NU_V = 1.46e-5 / 30.0  # nu / V for air at sea level (ISO 2533:1975 Standard Atmosphere) and 30 m/s
 
 
 def _reference(s, ue, due, theta0, h0):

@@ -32,7 +32,7 @@ def ellipse(n, ratio, a=1.0, centre=(0.0, 0.0)):
 
 
 def ellipse_speed(eta, ratio):
-    """Exact surface speed q/U on an ellipse at x = a cos eta (REFERENCES.md, Joukowski mapping)."""
+    """Exact surface speed q/U on an ellipse at x = a cos eta (Joukowski mapping, e.g. Katz & Plotkin, Low-Speed Aerodynamics)."""
     s, c = np.sin(eta), np.cos(eta)
     return (1.0 + ratio) * np.abs(s) / np.sqrt(s * s + ratio * ratio * c * c)
 
@@ -89,19 +89,19 @@ def cylinder_over_wall_speed(z, height, radius, terms=40):
 def cylinder_cp_error(n, skew):
     res = solve_inviscid(circle(n, skew=skew))
     theta = np.arctan2(res.y, res.x)
-    # exact Cp = 1 - 4 sin^2 theta (Anderson, Fundamentals of Aerodynamics; REFERENCES.md)
+    # exact Cp = 1 - 4 sin^2 theta (Anderson, Fundamentals of Aerodynamics)
     return np.abs(res.cp - (1.0 - 4.0 * np.sin(theta) ** 2)).max()
 
 
 @pytest.mark.parametrize("skew", [0.0, 0.25])
 def test_cylinder_cp_at_200_panels(skew):
-    # Cp within 0.01 of 1 - 4 sin^2 theta (REFERENCES.md, potential flow)
+    # Cp within 0.01 of 1 - 4 sin^2 theta (Anderson, Fundamentals of Aerodynamics)
     assert cylinder_cp_error(200, skew) < 0.01
 
 
 def test_cylinder_error_falls_as_panels_double():
     # uneven spacing: on an evenly spaced polygon constant-source panels are exact at the
-    # midpoints, which would hide the convergence. Error must fall steadily (REFERENCES.md)
+    # midpoints, which would hide the convergence. Error must fall steadily (common practice, no source)
     errors = [cylinder_cp_error(n, 0.25) for n in (100, 200, 400)]
     assert errors[1] < 0.7 * errors[0]
     assert errors[2] < 0.7 * errors[1]
@@ -136,9 +136,9 @@ def test_cylinder_circulation_and_mean_speed_zero():
 def test_ellipse_surface_speed(ratio, n, tol):
     res = solve_inviscid(ellipse(n, ratio))
     eta = np.arctan2(res.y / ratio, res.x)
-    # exact q/U = (1 + b/a)|sin eta| / sqrt(sin^2 eta + (b/a)^2 cos^2 eta) (REFERENCES.md)
+    # exact q/U = (1 + b/a)|sin eta| / sqrt(sin^2 eta + (b/a)^2 cos^2 eta) (Joukowski mapping, e.g. Katz & Plotkin, Low-Speed Aerodynamics)
     assert np.abs(np.abs(res.ue) - ellipse_speed(eta, ratio)).max() < tol
-    # peak speed 1 + b/a (REFERENCES.md)
+    # peak speed 1 + b/a (Joukowski mapping, e.g. Katz & Plotkin, Low-Speed Aerodynamics)
     assert np.abs(res.ue).max() == pytest.approx(1.0 + ratio, abs=tol)
 
 
@@ -172,7 +172,7 @@ def test_orientation_reversal_with_kutta_and_ground():
 # ------------------------------------------------------------------------------------------
 @pytest.mark.parametrize("kutta", [False, True])
 def test_ground_equals_body_plus_mirror_image(kutta):
-    # method of images: body over a slip ground == body + mirror body in free air (REFERENCES.md)
+    # method of images: body over a slip ground == body + mirror body in free air (method of images; any potential-flow text, e.g. Katz & Plotkin)
     if kutta:
         pts, _ = joukowski(120)
         pts = pts + [0.0, 0.5]
@@ -215,7 +215,7 @@ def test_gap_flow_speeds_up_as_the_ground_nears():
     clearances = [2.0, 1.0, 0.5, 0.25, 0.1]
     speeds = [gap_speed(c) for c in clearances]
     # Venturi effect of the gap between body and ground (common practice, no source); the far
-    # case tends to the free-air peak 1 + b/a = 1.4 (REFERENCES.md)
+    # case tends to the free-air peak 1 + b/a = 1.4 (Joukowski mapping, e.g. Katz & Plotkin, Low-Speed Aerodynamics)
     assert np.all(np.diff(speeds) > 0)
     assert speeds[0] == pytest.approx(1.4, abs=0.05)
 

@@ -13,7 +13,7 @@ from profilebench.flow.thwaites import (
 )
 from profilebench.flow.transition import michel_critical_re_theta
 
-NU = 1.46e-5  # air, ISO 2533 sea level (REFERENCES.md)
+NU = 1.46e-5  # air, ISO 2533:1975 Standard Atmosphere, sea level
 SPEED = 30.0
 
 
@@ -57,7 +57,8 @@ def _falkner_skan(beta):
 @pytest.mark.parametrize(
     "m, tol_theta, tol_h",
     [
-        # Blasius: Thwaites gives theta 1% high (0.671 vs 0.664) and H 2.61 vs 2.59 (REFERENCES.md)
+        # Blasius: Thwaites gives theta 1% high (0.671 vs 0.664) and H 2.61 vs 2.59 (Schlichting, Boundary-Layer Theory;
+        # White, Viscous Fluid Flow)
         (0.0, 0.02, 0.02),
         # favourable wedge flow m = 1/3: Thwaites within about 5% (White, Viscous Fluid Flow,
         # accuracy of Thwaites' method, from memory); measured 4.2% in theta, 5.2% in H
@@ -80,7 +81,7 @@ def test_laminar_march_against_falkner_skan(m, tol_theta, tol_h):
 
 
 def test_falkner_skan_helper_reproduces_blasius():
-    # Blasius: theta sqrt(U/(nu x)) = 0.664, H = 2.59 (Schlichting; REFERENCES.md)
+    # Blasius: theta sqrt(U/(nu x)) = 0.664, H = 2.59 (Schlichting, Boundary-Layer Theory; White, Viscous Fluid Flow)
     th, ds = _falkner_skan(0.0)
     assert th * np.sqrt(2) == pytest.approx(0.664, abs=0.001)
     assert ds / th == pytest.approx(2.59, abs=0.005)
@@ -115,7 +116,7 @@ def test_stagnation_point_limit():
 @pytest.mark.parametrize("re_l", [1e4, 1e5, 1e6])
 def test_howarth_retarded_flow_separation(re_l):
     # Howarth (1938): U = U0 (1 - x/L) separates at x/L = 0.120 (from memory 0.1198); Thwaites
-    # gives about 0.123 (REFERENCES.md); accepted band 0.115..0.126
+    # gives about 0.123 (Thwaites 1949 with lambda = -0.09); accepted band 0.115..0.126
     s = np.linspace(0.0, 1.0, 801)
     bl = march_boundary_layer(s, 1.0 - s, nu=1.0 / re_l, speed=1.0)
     first = bl.events[0]
@@ -132,7 +133,7 @@ def test_free_transition_flat_plate():
     tr = bl.transition
     assert tr is not None
     re_x = tr.s * SPEED / NU
-    # REFERENCES.md: Michel's criterion is crossed near Re_x = 1.7e6 to 3e6 on a flat plate
+    # Michel's criterion (Michel 1951, Cebeci-Smith form; from memory) is crossed near Re_x = 1.7e6 to 3e6 on a flat plate
     assert 1e6 <= re_x <= 4e6
     # independent root of 0.671 sqrt(Re_x) = Michel(Re_x) by scipy brentq (Thwaites' flat
     # plate theta = sqrt(0.45 nu x / U) with the Cebeci-Smith form of Michel's criterion)

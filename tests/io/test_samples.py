@@ -41,7 +41,7 @@ def test_sample_is_a_simple_ccw_outline_above_the_ground(path):
     assert ring.is_ccw  # the documented node order of the samples (profilebench.io docstring)
     poly = Polygon(xy)
     assert poly.is_valid and poly.area > 0
-    assert poly.bounds[1] > 0.0  # wholly above the ground y = 0 (DESIGN.md convention)
+    assert poly.bounds[1] > 0.0  # wholly above the ground y = 0 (this project's convention)
     assert 4 <= len(profile) <= 20
 
 

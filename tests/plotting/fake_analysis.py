@@ -1,7 +1,7 @@
 """A small hand-built Analysis for drawing and export tests, independent of the solvers.
 
 The inviscid part is the exact potential flow round an ellipse (Joukowski mapping; surface speed
-q/U = (1 + b/a)|sin eta| / sqrt(sin^2 eta + (b/a)^2 cos^2 eta), REFERENCES.md), Cp = 1 - q^2.
+q/U = (1 + b/a)|sin eta| / sqrt(sin^2 eta + (b/a)^2 cos^2 eta), Joukowski mapping, e.g. Katz & Plotkin, Low-Speed Aerodynamics), Cp = 1 - q^2.
 The boundary-layer arrays are plausible shapes only (theta from Thwaites' integral, H and Cf
 invented): these tests check drawing and export, not physics.
 """
@@ -78,7 +78,7 @@ class Flow:
 
 
 def ellipse_speed(eta):
-    """Exact surface speed ratio on the ellipse (REFERENCES.md, Joukowski mapping)."""
+    """Exact surface speed ratio on the ellipse (Joukowski mapping, e.g. Katz & Plotkin, Low-Speed Aerodynamics)."""
     k = B / A
     return (1 + k) * np.abs(np.sin(eta)) / np.sqrt(np.sin(eta) ** 2 + k ** 2 * np.cos(eta) ** 2)
 

@@ -36,7 +36,7 @@ def test_cp_curves_are_the_surface_values(cp_axes):
         x, cp = lines[f"{name} surface"].get_data()
         idx = getattr(a.flow, name).surface.index
         np.testing.assert_array_equal(cp, a.flow.inviscid.cp[idx])
-        # exact ellipse potential flow, Cp = 1 - q^2 with q from REFERENCES.md (Joukowski mapping):
+        # exact ellipse potential flow, Cp = 1 - q^2 with q from the Joukowski mapping, e.g. Katz & Plotkin, Low-Speed Aerodynamics:
         # the minimum Cp on an ellipse is 1 - (1 + b/a)^2
         assert cp.min() == pytest.approx(1 - (1 + B / A) ** 2, abs=2e-3)
 
