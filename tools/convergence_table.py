@@ -1,7 +1,8 @@
 """Print the convergence table of docs/validation.md: every sample at 1x, 2x and 4x the default
 panel count (Cd and each corner's verdict), and its invariance to the start node and direction.
 
-Run from the repository: ``python tools/convergence_table.py > /tmp/table.md`` and paste it in.
+Run from the repository: ``python tools/convergence_table.py``; its output replaces the table
+in docs/validation.md.
 """
 
 from __future__ import annotations

@@ -319,7 +319,8 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
     attached_ratios = {} if attached_ratios is None else dict(attached_ratios)
     from profilebench.geometry.places import place_names, place_of
 
-    places = place_names(profile)
+    places = (place_names(profile)
+              if any(not nd.smooth and not nd.label for nd in profile.nodes) else {})
     pts_all = np.asarray(panelling.points, dtype=float)
     x0, x1 = float(pts_all[:, 0].min()), float(pts_all[:, 0].max())
     y0, y1 = float(pts_all[:, 1].min()), float(pts_all[:, 1].max())

@@ -56,7 +56,6 @@ def capped_cp(inviscid, edge_points, height):
     point_sigma = np.concatenate([[0.0], np.cumsum(lengths)[:-1]])
     mid = point_sigma + 0.5 * lengths
     delta = SHARP_EDGE_CAP_RATIO * height
-    order = np.argsort(mid)
     for k in edge_points:
         e = float(point_sigma[int(k)])
         ahead = np.mod(e - mid, perim)       # distance before the edge (panels ending at it)
@@ -65,8 +64,7 @@ def capped_cp(inviscid, edge_points, height):
             near = dist < delta
             if not near.any():
                 continue
-            ref = float(np.interp(np.mod(e + sign * delta, perim), mid[order], cp[order],
-                                  period=perim))
+            ref = float(np.interp(np.mod(e + sign * delta, perim), mid, cp, period=perim))
             cp[near] = np.maximum(cp[near], ref)
     return cp
 

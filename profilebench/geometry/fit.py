@@ -89,11 +89,11 @@ def _clean(points):
 
 
 def _canonical(pts):
-    area2 = float(np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1]))
-    if area2 < 0.0:
-        pts = pts[::-1]
-    start = min(range(len(pts)), key=lambda i: (pts[i, 0], pts[i, 1]))
-    return np.roll(pts, -start, axis=0)
+    """The points in the canonical order (as the profile's nodes are panelled)."""
+    from profilebench.geometry.outline import canonical_point_order
+
+    order, _rev = canonical_point_order(pts)
+    return pts[list(order)]
 
 
 def _frame(pts, tolerance):
@@ -352,8 +352,7 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         p_in, d_in = _edge_line((first - 1) % m)
         p_out, d_out = _edge_line(last)
         corner = _line_intersection(p_in, d_in, p_out, d_out)
-        i0 = int(np.argmin(np.hypot(*(pts - frame[first]).T)))
-        i1 = int(np.argmin(np.hypot(*(pts - frame[last]).T)))
+        i0, i1 = index[first], index[last]
         idx = np.arange(i0, (i1 if i1 >= i0 else i1 + len(pts)) + 1) % len(pts)
         radius = _circle_radius(pts[idx]) if len(idx) >= 3 else 0.0
         fits = False
@@ -365,11 +364,6 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
             # stand on their own, sharp where they turn much, smooth where they turn little
             for v in run:
                 single(v)
-            continue
-        if False:
-            for v in run:
-                nodes.append(Node(*map(float, frame[v])))
-                kinds.append(("sharp", [v], None))
             continue
         nodes.append(Node(float(corner[0]), float(corner[1]), radius=radius))
         kinds.append(("fillet", run, radius))

@@ -647,10 +647,18 @@ def canonical_order(profile):
     given from any node or either way round has one canonical order.
     """
     xy = np.array([(nd.x, nd.y) for nd in profile.nodes], dtype=float)
+    corners = [i for i, nd in enumerate(profile.nodes) if not nd.smooth]
+    return canonical_point_order(xy, corners)
+
+
+def canonical_point_order(xy, starts=None):
+    """(order, reversed) of a closed polygon's points ``xy`` (N, 2) in the canonical order:
+    counter-clockwise, from the point of least x (ties: least y) among ``starts`` (indices; all
+    points when None or empty)."""
+    xy = np.asarray(xy, dtype=float)
     area2 = float(np.sum(xy[:, 0] * np.roll(xy[:, 1], -1) - np.roll(xy[:, 0], -1) * xy[:, 1]))
     m = len(xy)
-    corners = [i for i, nd in enumerate(profile.nodes) if not nd.smooth] or list(range(m))
-    start = min(corners, key=lambda i: (xy[i, 0], xy[i, 1]))
+    start = min(starts or range(m), key=lambda i: (xy[i, 0], xy[i, 1]))
     rev = area2 < 0.0
     step = -1 if rev else 1
     return tuple((start + step * k) % m for k in range(m)), rev
