@@ -30,7 +30,7 @@ import time
 import numpy as np
 
 from profilebench.assess.analysis import analyze
-from profilebench.assess.corners import smallest_attached_radius
+from profilebench.assess.radius_search import smallest_attached_radius
 from profilebench.io import load_project
 from profilebench.io.samples import sample_paths
 

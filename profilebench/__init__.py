@@ -32,7 +32,7 @@ _EXPORTS = {
     "Conditions": "profilebench.assess.conditions",
     "analyze": "profilebench.assess.analysis",
     "compare": "profilebench.assess.compare",
-    "smallest_attached_radius": "profilebench.assess.corners",
+    "smallest_attached_radius": "profilebench.assess.radius_search",
     "load_project": "profilebench.io.project",
     "save_project": "profilebench.io.project",
     "Project": "profilebench.io.project",

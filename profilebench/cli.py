@@ -315,7 +315,7 @@ def _cmd_corners(args, out):
     _check_success(analysis, f"{args.file}")
     print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
     if args.smallest:
-        from profilebench.assess.corners import smallest_attached_radius
+        from profilebench.assess.radius_search import cached_radius_search
 
         rows, failed = [], []
         for corner in analysis.corners:
@@ -328,7 +328,9 @@ def _cmd_corners(args, out):
                              "a curvature peak of a smooth run: make its node a corner to search "
                              "its radius"))
                 continue
-            r = smallest_attached_radius(project.profile, cond, corner.node)
+            # the analysis above searched the corners its drag corrections needed: those come
+            # from the cache, the others are searched now
+            r = cached_radius_search(project.profile, cond, corner.node)
             rows.append((
                 corner.label or f"node {corner.node}", f"{corner.radius * 1000:.1f}",
                 r.status.value, "n/a" if r.radius is None else f"{r.radius * 1000:.1f}",

@@ -17,20 +17,16 @@ import time
 import numpy as np
 
 from profilebench.assess.conditions import Conditions
-import threading
-from collections import OrderedDict
-
-from profilebench.assess.corners import (EDGE_TURN_DEG, SEPARATION_KINDS, surface_verdict, all_spans, assess_corners,
-                                         corner_regions, corners_needing_floor,
-                                         smallest_attached_radius)
+from profilebench.assess.corners import (SEPARATION_KINDS, all_spans, assess_corners,
+                                         corner_regions, corners_needing_floor)
 from profilebench.assess.drag import estimate_drag
+from profilebench.assess.radius_search import cached_radius_search, nearby_radius_search
 from profilebench.assess.results import Analysis, AnalysisStatus, FlowEvent
-from profilebench.errors import GeometryError, InputError, ProfileBenchError
-from profilebench.flow.viscous import solve_profile_flow
+from profilebench.assess.solve import REATTACH_RATIO, edge_points, solve_flow
+from profilebench.errors import InputError, ProfileBenchError
 from profilebench.geometry import Profile, measure, panelize, validate
 
-__all__ = ["analyze", "corner_verdict", "nearby_radius_search", "REATTACH_RATIO",
-           "NEARBY_SHIFT_RATIO", "SEARCH_MODES"]
+__all__ = ["analyze", "REATTACH_RATIO", "NEARBY_SHIFT_RATIO", "SEARCH_MODES", "RE_MIN", "CD_MAX"]
 
 # ``analyze(..., searches="nearby")`` (the editor during a drag) takes a corner's smallest attached
 # radius from a cached search on an outline whose nodes all lie within this many frontal heights
@@ -38,38 +34,6 @@ __all__ = ["analyze", "corner_verdict", "nearby_radius_search", "REATTACH_RATIO"
 # choice of this project for a live display, no source; the result is marked provisional).
 NEARBY_SHIFT_RATIO = 0.1
 SEARCH_MODES = ("run", "nearby")
-
-# A corner's separated shear layer is taken to reattach when at least this many frontal heights of
-# surface follow it (rectangular prisms' shear layers reattach on the side faces beyond a
-# length/depth of about 2.5 to 3: from memory).
-REATTACH_RATIO = 2.5
-
-# Length of the wake displacement body behind the profile, in frontal heights (see
-# profilebench.flow.viscous.solve_profile_flow). Long enough that its closure no longer changes the
-# attached pressures noticeably (the change from 10 to 20 h is below 0.01 in Cd on the test body).
-WAKE_RATIO = 10.0
-
-# The wake model's closed-body pass runs on every CLOSED_STRIDE-th panel point except within
-# CLOSED_FULL_REAR frontal heights of the rearmost point (and on corner arcs), where it keeps
-# every point. With these values the samples' Cd is that of the full closed-body pass to 0.001 %,
-# and so it was on 48 randomly perturbed samples (nodes moved by 1 % of h, radii scaled by
-# 0.5-1.5) at 150, 200, 250, 300 and 400 panels, none of which needed the full pass again (at
-# 0.3 h, 7 of 48 did at 300 panels). Strides 3 and 4 moved Cd by up to 9 % (3) and 55 % (4) on
-# some of them at 150 and 250 panels (measured; a calibrated choice of this project, no source).
-# The boundary-layer marches fit the edge-speed slope over at least this many frontal heights
-# either side of each station (see profilebench.flow.boundary_layer.march_boundary_layer): a
-# window fixed in length, not in stations, so that refining the panels does not sharpen the
-# slope at a fillet's tangent points. With a window of 7 stations the test-body sample's front
-# lower corner turned from attached to a laminar bubble between 500 and 1000 panels; with
-# 0.06 h it stays attached up to 2000 (measured; a calibrated choice of this project, no source).
-FIT_RATIO = 0.06
-CLOSED_FULL_REAR = 0.5
-CLOSED_STRIDE = 2
-# An arc with more points than this keeps every second one in the closed-body pass (at least 8
-# per 90 degrees either way: the panelling gives each arc at least 9 per 90 degrees and, with
-# its clustering round the fillets, usually far more). A choice of this project, no source.
-CLOSED_ARC_POINTS = 16
-
 
 # The boundary-layer methods hold above this Reynolds number on the section's larger extent
 # (length or height): Michel's transition criterion was fitted to data for 1e5 < Re_x < 4e7
@@ -139,153 +103,6 @@ def _check_args(profile, conditions):
         raise InputError(f"profile must be a profilebench Profile, got {type(profile).__name__}")
     if not isinstance(conditions, Conditions):
         raise InputError(f"conditions must be a profilebench Conditions, got {type(conditions).__name__}")
-
-
-def _edge_points(panelling):
-    """Panel point indices of the sharp convex edges, which fix separation.
-
-    A rounded corner is never taken for a sharp edge, however small its radius against the
-    panels: its arc always gets its own panels (see profilebench.geometry.panelling), and a rule
-    "smaller than half a panel is sharp" made the verdict depend on the panel count (the minibus
-    sample's front bumper, r = 45 mm, was a sharp edge at 100 panels and Cd 0.67, not 0.25).
-    """
-    out = []
-    for span in panelling.corners:
-        if not span.convex or abs(span.turning_angle_deg) <= EDGE_TURN_DEG:
-            continue
-        if span.radius <= 0.0:
-            out.append(int(span.point_start))
-    return out
-
-
-def _closed_points(panelling, height):
-    """Points of the coarser panelling for the wake model's closed-body pass.
-
-    Every ``CLOSED_STRIDE``-th panel point (in the canonical order); every point of each
-    corner's arc (every second one on an arc of more than ``CLOSED_ARC_POINTS``); every point of
-    the rear part (``x`` within ``CLOSED_FULL_REAR`` h of the rearmost point), where the final
-    separations of a road vehicle lie. The closed-body pass only locates the separation points
-    (the wake starts there, projected on the full outline) and the corner bubbles; on these
-    points (about 60-75 % of them) it costs about half as much.
-    """
-    pts = panelling.points
-    n = len(pts)
-    # every CLOSED_STRIDE-th point in the canonical order, the same points however the outline
-    # is given
-    canonical = (np.arange(n) if panelling.canonical is None
-                 else np.asarray(panelling.canonical))
-    keep = canonical % CLOSED_STRIDE == 0
-    keep |= pts[:, 0] >= float(pts[:, 0].max()) - CLOSED_FULL_REAR * height
-    for span in panelling.corners:
-        i0, i1 = int(span.point_start), int(span.point_end)
-        arc = np.arange(i0, (i1 if i1 >= i0 else i1 + n) + 1) % n    # may run through point 0
-        if arc.size > CLOSED_ARC_POINTS:
-            # a well-panelled arc keeps every second point (its ends always)
-            arc = np.concatenate([arc[::2], arc[-1:]])
-        keep[arc] = True
-    return np.flatnonzero(keep)
-
-
-def _flow(profile, conditions, panelling, height):
-    pts = panelling.points
-    return solve_profile_flow(
-        pts, speed=conditions.speed, nu=conditions.nu, ground=conditions.ground,
-        kutta_node=(None if profile.trailing_edge is None
-                    else int(panelling.node_point[profile.trailing_edge])),
-        transition=conditions.transition, h_separation=conditions.h_separation,
-        edge_points=_edge_points(panelling),
-        reattach_length=REATTACH_RATIO * height,
-        wake_length=WAKE_RATIO * height, base_pressure=conditions.base_pressure,
-        closed_points=_closed_points(panelling, height),
-        fit_length=FIT_RATIO * height,
-    )
-
-
-def corner_verdict(profile, conditions, node, thickness=None):
-    """The solver's verdict on one corner (a :class:`Verdict`), or None if the flow failed.
-
-    The fast path of :func:`analyze` used by the smallest-attached-radius search: no drag, no
-    tables.
-    """
-    try:
-        validate(profile, ground=conditions.ground)
-        panelling = panelize(profile, conditions.panels)
-    except ProfileBenchError:
-        return None
-    m = measure(profile)
-    try:
-        flow = _flow(profile, conditions, panelling, m.height)
-    except ProfileBenchError:
-        return None
-    if not flow.success:
-        return None
-    spans = all_spans(panelling, m.height)
-    regions = corner_regions(panelling, flow, spans)
-    for span, (k, lo, hi, bounded) in zip(spans[: len(panelling.corners)], regions):
-        if span.node == node:
-            if k < 0:
-                from profilebench.assess.results import Verdict
-                return Verdict.IN_WAKE
-            sfl = flow.surfaces[k]
-            return surface_verdict(sfl, (k, lo, hi, bounded), span.convex)[0]
-    raise GeometryError(f"node {node} is not a corner of the profile")
-
-
-_SEARCH_CACHE: "OrderedDict[tuple, object]" = OrderedDict()
-_SEARCH_LOCK = threading.Lock()
-_SEARCH_CACHE_SIZE = 128
-
-
-def _search_key_nodes(profile, node):
-    """The nodes as the search cache keys them: (x, y, radius, smooth), the searched corner's own
-    radius left out (the search does not depend on it)."""
-    return tuple((n.x, n.y, 0.0 if i == node else n.radius, n.smooth)
-                 for i, n in enumerate(profile.nodes))
-
-
-def cached_radius_search(profile, conditions, node, thickness=None):
-    """:func:`smallest_attached_radius`, remembered for the same profile, conditions and corner.
-
-    The search depends on every node except the searched corner's own radius, so the key leaves
-    that radius out: changing only that corner's radius (a radius drag) reuses the answer.
-    """
-    key = (_search_key_nodes(profile, node), profile.trailing_edge, conditions, node, thickness)
-    with _SEARCH_LOCK:
-        hit = _SEARCH_CACHE.get(key)
-        if hit is not None:
-            _SEARCH_CACHE.move_to_end(key)
-            return hit
-    result = smallest_attached_radius(profile, conditions, node, thickness=thickness)
-    with _SEARCH_LOCK:
-        _SEARCH_CACHE[key] = result
-        while len(_SEARCH_CACHE) > _SEARCH_CACHE_SIZE:
-            _SEARCH_CACHE.popitem(last=False)
-    return result
-
-
-def nearby_radius_search(profile, conditions, node, thickness=None, within=0.0):
-    """A cached smallest-attached-radius search of ``node`` on a nearby outline, or None.
-
-    Candidates are the cached searches of the same corner at the same conditions and thickness,
-    on a profile with the same number of nodes, the same smooth flags, the same radii (the
-    corner's own aside: the search does not depend on it) and the same trailing edge, whose every
-    node lies within ``within`` metres of this profile's. Returns ``(search, shift)`` for the
-    candidate with the smallest largest node shift (m; 0.0 for this very outline).
-    """
-    here = _search_key_nodes(profile, node)
-    best, best_shift = None, None
-    with _SEARCH_LOCK:
-        items = list(_SEARCH_CACHE.items())
-    for (key_nodes, te, cond, k_node, k_thick), result in items:
-        if (k_node != node or te != profile.trailing_edge or cond != conditions
-                or k_thick != thickness or len(key_nodes) != len(here)):
-            continue
-        if any(a[2:] != b[2:] for a, b in zip(key_nodes, here)):
-            continue
-        shift = max(math.hypot(a[0] - b[0], a[1] - b[1]) for a, b in zip(key_nodes, here))
-        if shift <= within and (best_shift is None or shift < best_shift):
-            best, best_shift = result, shift
-    return None if best is None else (best, float(best_shift))
 
 
 def _events(flow):
@@ -378,7 +195,7 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
 
     t1 = time.perf_counter()
     try:
-        flow = _flow(profile, conditions, panelling, height)
+        flow = solve_flow(profile, conditions, panelling, height)
     except ProfileBenchError as exc:
         # the solver refused what it built itself (a surface too short to march, say): not the
         # user's input, so a failed analysis with what to try
@@ -435,7 +252,7 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
                              attached_ratios=attached_ratios, spans=spans, regions=regions)
     drag = estimate_drag(flow, conditions, height,
                          corner_penalties=[c.delta_cd for c in corners],
-                         edge_points=_edge_points(panelling))
+                         edge_points=edge_points(panelling))
     timings["assess"] = time.perf_counter() - t2
     timings["total"] = time.perf_counter() - t0
     events = _events(flow)

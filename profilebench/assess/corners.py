@@ -20,7 +20,7 @@ from profilebench.assess.results import CornerResult, RadiusSearch, SearchStatus
 from profilebench.errors import GeometryError, RadiusTooLargeError
 
 __all__ = ["assess_corners", "corner_regions", "curvature_peaks", "all_spans",
-           "smallest_attached_radius", "largest_fitting_radius"]
+           "largest_fitting_radius"]
 
 SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
 
@@ -394,51 +394,3 @@ def _extent(profile):
     xs = [n.x for n in profile.nodes]
     ys = [n.y for n in profile.nodes]
     return max(max(xs) - min(xs), max(ys) - min(ys))
-
-
-def smallest_attached_radius(profile, conditions, node, thickness=None, tolerance=None):
-    """The smallest radius (m) at ``node`` that keeps the flow attached round that corner.
-
-    The corner's radius is varied and the flow re-solved (inviscid and boundary layer) at each
-    try; bisection on the solver's verdict (attached or a reattaching laminar bubble counts as
-    attached). Tolerance: 1 mm or 1% of the radius, whichever is larger. Returns a
-    :class:`RadiusSearch`; "none within the largest radius that fits" is a valid answer.
-    """
-    from profilebench.assess.analysis import corner_verdict
-
-    if profile.nodes[node].smooth:
-        raise GeometryError(f"node {node} is smooth, not a corner; make it a corner first")
-    r_max = largest_fitting_radius(profile, node) * 0.999
-    solves = 0
-
-    def attached(r):
-        nonlocal solves
-        solves += 1
-        v = corner_verdict(profile.with_radius(node, r), conditions, node, thickness=thickness)
-        if v is None:
-            raise _SearchFailed(f"the flow could not be solved at r = {r * 1e3:.1f} mm")
-        return not v.separated
-
-    try:
-        if attached(0.0):
-            return RadiusSearch(node, SearchStatus.ALWAYS_ATTACHED, 0.0, r_max, (0.0, 0.0), 0.0, solves,
-                                "attached even as a sharp edge")
-        if not attached(r_max):
-            return RadiusSearch(node, SearchStatus.NONE_FITS, None, r_max, (r_max, r_max), 0.0, solves,
-                                f"separated even at the largest radius that fits, {r_max * 1e3:.0f} mm")
-        lo, hi = 0.0, r_max
-        while hi - lo > max(1e-3, 0.01 * hi):
-            mid = 0.5 * (lo + hi)
-            if attached(mid):
-                hi = mid
-            else:
-                lo = mid
-    except _SearchFailed as exc:
-        return RadiusSearch(node, SearchStatus.FAILED, None, r_max, (0.0, r_max), 0.0, solves, str(exc))
-    tol = max(1e-3, 0.01 * hi)
-    return RadiusSearch(node, SearchStatus.FOUND, hi, r_max, (lo, hi), tol, solves,
-                        f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)")
-
-
-class _SearchFailed(Exception):
-    pass

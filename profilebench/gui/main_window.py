@@ -50,8 +50,9 @@ BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px s
 BANNER_INFO = "background: #fff6d5; color: #5a4500; padding: 4px; border: 1px solid #e0d090;"
 
 
-# the radius search (a bisection of whole analyses) runs in a child process of its own
-_search = functools.partial(call, "profilebench.assess.corners:smallest_attached_radius")
+# the radius search (a bisection of whole analyses) runs in a child process of its own, through
+# that process's search cache; a search the shown analysis already ran is taken from it
+_search = functools.partial(call, "profilebench.assess.radius_search:cached_radius_search")
 
 
 class MainWindow(QMainWindow):
@@ -600,6 +601,12 @@ class MainWindow(QMainWindow):
         if self.document.profile.nodes[node].smooth:
             self.corner_table.message.setText(f"node {node} is smooth; make it a corner first")
             return
+        done = self._search_in_analysis(node)
+        if done is not None:
+            self.searches[node] = done
+            self.corner_table.message.setText(f"{done.message} (from the analysis shown)")
+            self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+            return
         self.searches[node] = "running"
         self._search_node = node
         self._search_state = self.document.state
@@ -607,6 +614,15 @@ class MainWindow(QMainWindow):
         self.corner_table.message.setText(f"searching the smallest attached radius at node {node}…")
         if self.analysis is not None:
             self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+
+    def _search_in_analysis(self, node):
+        """The search of ``node`` that the shown analysis ran for this very outline, or None
+        (none ran, the analysis is of an earlier outline, or its search was a nearby one's)."""
+        a = self.analysis
+        if (a is None or self.analysis_state != self.document.state
+                or node in getattr(a, "provisional", ())):
+            return None
+        return next((r for r in getattr(a, "radius_searches", ()) if r.node == node), None)
 
     def _search_finished(self, generation, result, seconds):
         if self._search_state != self.document.state:

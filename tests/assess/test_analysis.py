@@ -9,10 +9,11 @@ import warnings
 import numpy as np
 import pytest
 
-from profilebench.assess.analysis import analyze, corner_verdict
+from profilebench.assess.analysis import analyze
+from profilebench.assess.radius_search import corner_verdict
 from profilebench.assess.compare import compare
 from profilebench.assess.conditions import Conditions
-from profilebench.assess.corners import smallest_attached_radius
+from profilebench.assess.radius_search import smallest_attached_radius
 from profilebench.assess.results import AnalysisStatus, SearchStatus, Verdict
 from profilebench.errors import InputError
 from profilebench.geometry import Node, Profile, rounded_box

@@ -7,7 +7,7 @@ import numpy as np
 import pytest
 
 from profilebench.assess.analysis import NEARBY_SHIFT_RATIO, analyze
-from profilebench.assess.corners import smallest_attached_radius
+from profilebench.assess.radius_search import smallest_attached_radius
 from profilebench.errors import InputError
 from sample_variants import bubble_van_project
 

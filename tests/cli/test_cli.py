@@ -189,11 +189,11 @@ def _search(status, radius, message):
 
 
 def test_corners_smallest_prints_each_convex_corner(fake, monkeypatch, capsys):
-    import profilebench.assess.corners as corners
+    import profilebench.assess.radius_search as radius_search
     from profilebench.assess.results import SearchStatus
 
     base, _ = fake
-    monkeypatch.setattr(corners, "smallest_attached_radius", _search(SearchStatus.FOUND, 0.123, "found it"))
+    monkeypatch.setattr(radius_search, "cached_radius_search", _search(SearchStatus.FOUND, 0.123, "found it"))
     assert cli.main(["corners", SAMPLE, "--smallest"]) == 0
     out = capsys.readouterr().out
     section = out.split("Smallest radius")[1]
@@ -203,10 +203,10 @@ def test_corners_smallest_prints_each_convex_corner(fake, monkeypatch, capsys):
 
 
 def test_corners_smallest_failure_exits_1(fake, monkeypatch, capsys):
-    import profilebench.assess.corners as corners
+    import profilebench.assess.radius_search as radius_search
     from profilebench.assess.results import SearchStatus
 
-    monkeypatch.setattr(corners, "smallest_attached_radius",
+    monkeypatch.setattr(radius_search, "cached_radius_search",
                         _search(SearchStatus.FAILED, None, "flow could not be solved"))
     assert cli.main(["corners", SAMPLE, "--smallest"]) == 1
     assert "flow could not be solved" in capsys.readouterr().err

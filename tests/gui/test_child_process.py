@@ -121,7 +121,7 @@ def test_an_injected_analysis_runs_on_a_thread(qtbot):
 
 
 def test_radius_search_from_the_window_matches_the_search_here(window, qtbot):
-    from profilebench.assess.corners import smallest_attached_radius
+    from profilebench.assess.radius_search import smallest_attached_radius
 
     w = window
     node = next(i for i, n in enumerate(w.document.profile.nodes) if not n.smooth)

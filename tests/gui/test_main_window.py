@@ -287,3 +287,24 @@ def test_a_superseded_result_newer_than_a_shown_failure_replaces_its_banner(wind
     w._analysis_lagging(10_000, good, 0.02)
     assert not w.banner.isVisible() and w.last_message == ""
     assert w.analysis is good and w.canvas.stale and 10_000 not in w._requested
+
+
+def test_find_smallest_radius_takes_the_search_the_shown_analysis_ran(window, qtbot, tmp_path):
+    from sample_variants import bubble_van_project
+    from profilebench.io import save_project
+
+    w = window
+    van = save_project(bubble_van_project(), tmp_path / "bubble_van.json")
+    assert w.open_file(van)
+    wait_current(qtbot, w)
+    ran = w.analysis.radius_searches[0]
+    requests = []
+    w.search_runner.request = lambda *args: requests.append(args)   # no child should be asked
+    w.find_smallest_radius(ran.node)
+    assert w.searches[ran.node] is ran and requests == []
+    assert "from the analysis shown" in w.corner_table.message.text()
+    # another corner, which the analysis did not search, goes to the search child
+    other = next(i for i, n in enumerate(w.document.profile.nodes)
+                 if not n.smooth and i != ran.node)
+    w.find_smallest_radius(other)
+    assert len(requests) == 1 and w.searches[other] == "running"

@@ -20,7 +20,7 @@ from hypothesis import strategies as st
 
 from profilebench import Conditions, Profile, analyze, load_project
 from profilebench.assess.analysis import CD_MAX, RE_MIN
-from profilebench.assess.corners import smallest_attached_radius
+from profilebench.assess.radius_search import smallest_attached_radius
 from profilebench.assess.results import AnalysisStatus
 from profilebench.errors import InputError
 from profilebench.geometry import rounded_box

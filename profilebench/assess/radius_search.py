@@ -1,0 +1,190 @@
+"""The smallest attached radius of a corner: the search, the verdict it needs, and its cache.
+
+:func:`smallest_attached_radius` varies one corner's radius and re-solves the flow at each try
+(:func:`corner_verdict`: the analysis's own flow, no drag and no tables), bisecting on the
+solver's verdict. :class:`SearchCache` remembers answers by everything a search depends on; the
+analysis (:func:`profilebench.assess.analysis.analyze`) and the editor's "find the smallest
+attached radius" both go through :func:`cached_radius_search`, so that a corner searched once is
+not searched again.
+"""
+
+from __future__ import annotations
+
+import math
+import threading
+from collections import OrderedDict
+
+from profilebench.assess.corners import (all_spans, corner_regions, largest_fitting_radius,
+                                         surface_verdict)
+from profilebench.assess.results import RadiusSearch, SearchStatus, Verdict
+from profilebench.assess.solve import solve_flow
+from profilebench.errors import GeometryError, ProfileBenchError
+from profilebench.geometry import measure, panelize, validate
+
+__all__ = ["corner_verdict", "smallest_attached_radius", "SearchCache", "SEARCH_CACHE",
+           "cached_radius_search", "nearby_radius_search"]
+
+
+def corner_verdict(profile, conditions, node, thickness=None):
+    """The solver's verdict on one corner (a :class:`Verdict`), or None if the flow failed.
+
+    The fast path of the analysis used by the smallest-attached-radius search: no drag, no
+    tables.
+    """
+    try:
+        validate(profile, ground=conditions.ground)
+        panelling = panelize(profile, conditions.panels)
+    except ProfileBenchError:
+        return None
+    m = measure(profile)
+    try:
+        flow = solve_flow(profile, conditions, panelling, m.height)
+    except ProfileBenchError:
+        return None
+    if not flow.success:
+        return None
+    spans = all_spans(panelling, m.height)
+    regions = corner_regions(panelling, flow, spans)
+    for span, (k, lo, hi, bounded) in zip(spans[: len(panelling.corners)], regions):
+        if span.node == node:
+            if k < 0:
+                return Verdict.IN_WAKE
+            return surface_verdict(flow.surfaces[k], (k, lo, hi, bounded), span.convex)[0]
+    raise GeometryError(f"node {node} is not a corner of the profile")
+
+
+class _SearchFailed(Exception):
+    pass
+
+
+def smallest_attached_radius(profile, conditions, node, thickness=None, tolerance=None):
+    """The smallest radius (m) at ``node`` that keeps the flow attached round that corner.
+
+    The corner's radius is varied and the flow re-solved (inviscid and boundary layer) at each
+    try; bisection on the solver's verdict (attached or a reattaching laminar bubble counts as
+    attached). Tolerance: 1 mm or 1% of the radius, whichever is larger. Returns a
+    :class:`RadiusSearch`; "none within the largest radius that fits" is a valid answer.
+    """
+    if profile.nodes[node].smooth:
+        raise GeometryError(f"node {node} is smooth, not a corner; make it a corner first")
+    r_max = largest_fitting_radius(profile, node) * 0.999
+    solves = 0
+
+    def attached(r):
+        nonlocal solves
+        solves += 1
+        v = corner_verdict(profile.with_radius(node, r), conditions, node, thickness=thickness)
+        if v is None:
+            raise _SearchFailed(f"the flow could not be solved at r = {r * 1e3:.1f} mm")
+        return not v.separated
+
+    try:
+        if attached(0.0):
+            return RadiusSearch(node, SearchStatus.ALWAYS_ATTACHED, 0.0, r_max, (0.0, 0.0), 0.0, solves,
+                                "attached even as a sharp edge")
+        if not attached(r_max):
+            return RadiusSearch(node, SearchStatus.NONE_FITS, None, r_max, (r_max, r_max), 0.0, solves,
+                                f"separated even at the largest radius that fits, {r_max * 1e3:.0f} mm")
+        lo, hi = 0.0, r_max
+        while hi - lo > max(1e-3, 0.01 * hi):
+            mid = 0.5 * (lo + hi)
+            if attached(mid):
+                hi = mid
+            else:
+                lo = mid
+    except _SearchFailed as exc:
+        return RadiusSearch(node, SearchStatus.FAILED, None, r_max, (0.0, r_max), 0.0, solves, str(exc))
+    tol = max(1e-3, 0.01 * hi)
+    return RadiusSearch(node, SearchStatus.FOUND, hi, r_max, (lo, hi), tol, solves,
+                        f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)")
+
+
+def _key_nodes(profile, node):
+    """The nodes as the cache keys them: (x, y, radius, smooth), the searched corner's own radius
+    left out (the search does not depend on it)."""
+    return tuple((n.x, n.y, 0.0 if i == node else n.radius, n.smooth)
+                 for i, n in enumerate(profile.nodes))
+
+
+class SearchCache:
+    """Smallest-attached-radius searches remembered by what they depend on (thread-safe, LRU).
+
+    The key is the profile's nodes (the searched corner's own radius left out: changing only
+    that radius, a radius drag, reuses the answer), its trailing edge, the conditions, the node
+    and the reference thickness.
+    """
+
+    def __init__(self, size=128):
+        if not isinstance(size, int) or isinstance(size, bool) or size < 1:
+            raise ValueError(f"size must be a positive whole number of searches, got {size!r}")
+        self.size = size
+        self._items: OrderedDict[tuple, RadiusSearch] = OrderedDict()
+        self._lock = threading.Lock()
+
+    @staticmethod
+    def key(profile, conditions, node, thickness=None):
+        return (_key_nodes(profile, node), profile.trailing_edge, conditions, node, thickness)
+
+    def __len__(self):
+        with self._lock:
+            return len(self._items)
+
+    def clear(self):
+        with self._lock:
+            self._items.clear()
+
+    def get(self, key):
+        """The search stored under ``key``, or None (a hit becomes the most recent)."""
+        with self._lock:
+            hit = self._items.get(key)
+            if hit is not None:
+                self._items.move_to_end(key)
+            return hit
+
+    def put(self, key, search):
+        with self._lock:
+            self._items[key] = search
+            self._items.move_to_end(key)
+            while len(self._items) > self.size:
+                self._items.popitem(last=False)
+
+    def nearby(self, profile, conditions, node, thickness=None, within=0.0):
+        """A stored search of ``node`` on an outline whose nodes all lie within ``within`` m of
+        this profile's (otherwise the same radii, smooth flags, trailing edge, conditions and
+        thickness): ``(search, shift)`` with the smallest largest node shift, or None."""
+        here = _key_nodes(profile, node)
+        with self._lock:
+            items = list(self._items.items())
+        best, best_shift = None, None
+        for (key_nodes, te, cond, k_node, k_thick), result in items:
+            if (k_node != node or te != profile.trailing_edge or cond != conditions
+                    or k_thick != thickness or len(key_nodes) != len(here)):
+                continue
+            if any(a[2:] != b[2:] for a, b in zip(key_nodes, here)):
+                continue
+            shift = max(math.hypot(a[0] - b[0], a[1] - b[1]) for a, b in zip(key_nodes, here))
+            if shift <= within and (best_shift is None or shift < best_shift):
+                best, best_shift = result, shift
+        return None if best is None else (best, float(best_shift))
+
+
+# The cache a process's analyses and searches share unless they are given another.
+SEARCH_CACHE = SearchCache()
+
+
+def cached_radius_search(profile, conditions, node, thickness=None, cache=None):
+    """:func:`smallest_attached_radius`, remembered in ``cache`` (default :data:`SEARCH_CACHE`)."""
+    cache = SEARCH_CACHE if cache is None else cache
+    key = SearchCache.key(profile, conditions, node, thickness)
+    hit = cache.get(key)
+    if hit is not None:
+        return hit
+    result = smallest_attached_radius(profile, conditions, node, thickness=thickness)
+    cache.put(key, result)
+    return result
+
+
+def nearby_radius_search(profile, conditions, node, thickness=None, within=0.0, cache=None):
+    """A cached search of ``node`` on a nearby outline (see :meth:`SearchCache.nearby`), or None."""
+    cache = SEARCH_CACHE if cache is None else cache
+    return cache.nearby(profile, conditions, node, thickness=thickness, within=within)
