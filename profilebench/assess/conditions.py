@@ -20,12 +20,14 @@ from profilebench.flow.atmosphere import (
     Air,
     standard_atmosphere,
 )
+# turbulent separation usually taken at H 1.8..2.8 (Cebeci & Bradshaw, Momentum Transfer in
+# Boundary Layers, 1977): the range the boundary-layer march itself accepts
+from profilebench.flow.boundary_layer import H_SEPARATION_RANGE
 
 __all__ = ["Conditions", "kmh_to_ms", "ms_to_kmh", "SPEED_MAX", "TRANSITION_MODES"]
 
 SPEED_MAX = 150.0  # m/s; above this (about Mach 0.44 at sea level) compressibility matters
 TRANSITION_MODES = ("free", "turbulent")
-H_SEPARATION_RANGE = (1.8, 2.8)  # turbulent separation usually taken at H 1.8..2.8 (Cebeci & Bradshaw, Momentum Transfer in Boundary Layers, 1977)
 BASE_PRESSURE_RANGE = (-1.5, 0.0)  # Cp; a plate normal to the flow about -1.4 (Roshko, from memory)
 PANELS_RANGE = (40, 2000)
 

@@ -18,11 +18,11 @@ import numpy as np
 
 from profilebench.assess.results import CornerResult, RadiusSearch, SearchStatus, Verdict
 from profilebench.errors import GeometryError, RadiusTooLargeError
+from profilebench.flow.boundary_layer import SEPARATION_KINDS
 
 __all__ = ["assess_corners", "corner_regions", "curvature_peaks", "all_spans",
            "largest_fitting_radius"]
 
-SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
 
 # a sharp node turning the outline by more than this fixes separation ("more than a few degrees": a
 # convention of this project; common practice, no source)

@@ -65,6 +65,7 @@ __all__ = [
     "BUBBLE_BURST_H",
     "BUBBLE_MAX_LENGTH_THETA",
     "H_SEPARATION_RANGE",
+    "SEPARATION_KINDS",
 ]
 
 #: Shape factor given to a turbulent layer where it starts (transition, or fully turbulent
@@ -91,7 +92,8 @@ EVENT_KINDS = (
     "turbulent_separation",
     "edge_separation",
 )
-_SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
+#: The event kinds at which the layer leaves the surface.
+SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
 _FIT_HALF_WIDTH = 3
 
 
@@ -363,20 +365,275 @@ def _crossing(s, g, i):
     return float(s[i - 1] + f * (s[i] - s[i - 1]))
 
 
-class _Fill:
-    """Mutable station arrays while the march builds them."""
+def _first_index_at_or_after(s, x):
+    return int(np.searchsorted(s, x, side="left"))
 
-    def __init__(self, n):
+
+class _March:
+    """One surface's march: the inputs, the station arrays being filled and the events.
+
+    The phases of :func:`march_boundary_layer` are its methods, over this one shared set of
+    arrays: the laminar layer everywhere (:meth:`laminar`), the end of the laminar part
+    (:meth:`laminar_end`), then the turbulent march, the laminar bubble or the separated
+    remainder, and the result (:meth:`result`).
+    """
+
+    def __init__(self, s, ue, nu, speed, h_sep, edges, fit_length):
+        self.s, self.ue, self.nu, self.speed, self.h_sep = s, ue, nu, speed, h_sep
+        self.n = n = s.size
+        self.nu_v = nu / speed
+        self.s_edge = edges[0] if edges else None
+        n_fit = n if self.s_edge is None else max(_first_index_at_or_after(s, self.s_edge) + 1, 2)
+        self.u_fit, self.d_fit = _local_quadratic_fit(s, ue, min(n_fit, n), fit_length)
         self.theta = np.zeros(n)
         self.H = np.zeros(n)
         self.cf = np.zeros(n)
         self.re_theta = np.zeros(n)
         self.margin = np.zeros(n)
         self.regime = np.empty(n, dtype=object)
+        self.events: list[Event] = []
+        self.status = MarchStatus.COMPLETED
+        self.failure_msg = ""
 
+    # ---- phase 1: the laminar layer everywhere (used up to the end of the laminar part) ----
+    def laminar(self):
+        s, ue, nu_v, n = self.s, self.ue, self.nu_v, self.n
+        with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+            theta_l = thwaites_momentum_thickness(s, ue, nu_v)
+            lam = theta_l**2 * self.d_fit / nu_v
+            stopped = np.zeros(n, dtype=bool)
+            stopped[1:] = ue[1:] == 0.0
+            lam[stopped] = -np.inf
+            h_l = thwaites_shape_factor(np.where(np.isfinite(lam), lam, LAMBDA_SEPARATION))
+            l_l = thwaites_shear(np.where(np.isfinite(lam), lam, LAMBDA_SEPARATION))
+            re_t_l = ue * theta_l / nu_v
+            cf_l = np.where(re_t_l > 0, 2.0 * l_l / re_t_l, 0.0)
+            re_x = ue * s / nu_v
+            g_tr = re_t_l - michel_critical_re_theta(re_x)
+        if ue[0] == 0.0:
+            cf_l[0] = 0.0  # stagnation: tau_w = 0
+        elif theta_l[0] == 0.0:
+            cf_l[0] = cf_l[1]  # sharp leading edge: cf unbounded, next station reported
+        self.theta_l, self.lam, self.stopped, self.h_l = theta_l, lam, stopped, h_l
+        self.re_t_l, self.cf_l, self.g_tr = re_t_l, cf_l, g_tr
+        self.margin_l = np.clip(1.0 + lam / (-LAMBDA_SEPARATION), 0.0, 1.0)
 
-def _first_index_at_or_after(s, x):
-    return int(np.searchsorted(s, x, side="left"))
+    # ---- phase 2: where the laminar part ends: the first of edge, separation, transition ----
+    def laminar_end(self, transition):
+        """(s, kind) of the end of the laminar part; kind "none" if it reaches the end."""
+        s = self.s
+        candidates = []  # (s, priority, kind)
+        if self.s_edge is not None:
+            candidates.append((self.s_edge, 0, "edge"))
+        sep_idx = np.flatnonzero((self.lam <= LAMBDA_SEPARATION) | self.stopped)
+        if sep_idx.size:
+            i = int(sep_idx[0])
+            if self.stopped[i]:
+                candidates.append((float(s[i]), 1, "stopped"))
+            else:
+                candidates.append((_crossing(s, LAMBDA_SEPARATION - self.lam, i), 1,
+                                   "laminar_separation"))
+        if transition == "turbulent":
+            candidates.append((float(s[0]), 2, "turbulent"))
+        else:
+            tr_idx = np.flatnonzero(self.g_tr >= 0)
+            if tr_idx.size:
+                i = int(tr_idx[0])
+                candidates.append((_crossing(s, self.g_tr, i), 3, "free"))
+            if not isinstance(transition, str):
+                candidates.append((transition, 2, "forced"))
+        if not candidates:
+            return None, "none"
+        x_end, _, kind = min(candidates, key=lambda c: (c[0], c[1]))
+        return x_end, kind
+
+    # ---- filling the station arrays ----
+    def fill_laminar(self, upto_s):
+        k = _first_index_at_or_after(self.s, upto_s)
+        self.theta[:k] = self.theta_l[:k]
+        self.H[:k] = self.h_l[:k]
+        self.cf[:k] = self.cf_l[:k]
+        self.re_theta[:k] = self.re_t_l[:k]
+        self.margin[:k] = self.margin_l[:k]
+        self.regime[:k] = Regime.LAMINAR
+        return k
+
+    def fill_separated(self, from_s, theta_sep, h_sepv):
+        k = _first_index_at_or_after(self.s, from_s)
+        u_at = float(np.interp(from_s, self.s, self.ue))
+        self.theta[k:] = theta_sep
+        self.H[k:] = h_sepv
+        self.cf[k:] = 0.0
+        self.re_theta[k:] = u_at * theta_sep / self.nu_v
+        self.margin[k:] = 0.0
+        self.regime[k:] = Regime.SEPARATED
+
+    def fill_march(self, m, regime, cf_zero=False):
+        k = m.index
+        if k.size == 0:
+            return
+        self.theta[k] = m.theta
+        self.H[k] = m.H
+        self.cf[k] = 0.0 if cf_zero else m.cf
+        self.re_theta[k] = self.ue[k] * m.theta / self.nu_v
+        if regime is Regime.SEPARATED:
+            self.margin[k] = 0.0
+        else:
+            self.margin[k] = np.clip(
+                (self.h_sep - m.H) / (self.h_sep - FLAT_PLATE_TURBULENT_H), 0.0, 1.0)
+        self.regime[k] = regime
+
+    def event(self, kind, x, detail):
+        e = Event(kind=kind, s=float(x), index=_first_index_at_or_after(self.s, x), detail=detail)
+        self.events.append(e)
+        return e
+
+    def fail(self, what, m):
+        self.status = MarchStatus.NUMERICAL_FAILURE
+        self.failure_msg = (f"{what} failed at s = {m.s_stop:.6g} m (non-finite state); values "
+                            "held from there")
+        self.fill_separated(m.s_stop, m.theta_stop, m.h_stop)
+
+    # ---- phase 3: the turbulent layer ----
+    def turbulent(self, x0, th0, h0):
+        """Attached turbulent march from x0 (Head), its stations filled; returns the march."""
+        m = march_head(self.s, self.u_fit, self.d_fit, x0, th0, h0, self.nu_v,
+                       h_above=self.h_sep, s_limit=self.s_edge)
+        self.fill_march(m, Regime.TURBULENT)
+        return m
+
+    def close_turbulent(self, m):
+        """The event that ends an attached turbulent march, and the separated remainder."""
+        if m.stop == "end":
+            return
+        if m.stop == "h_above":
+            self.event("turbulent_separation", m.s_stop,
+                       f"turbulent separation: H reached {self.h_sep:g} (Head)")
+        elif m.stop == "limit":
+            self.event("edge_separation", m.s_stop, "attached turbulent layer reaches a sharp edge")
+        elif m.stop == "stopped":
+            self.event("turbulent_separation", m.s_stop, "edge speed falls to zero: the flow stops")
+        else:
+            self.fail("turbulent march", m)
+            return
+        self.fill_separated(m.s_stop, m.theta_stop, m.h_stop)
+
+    def transition(self, kind, x_end, th_x):
+        """Transition (free, forced, or turbulent from the start), then the turbulent march."""
+        s, ue = self.s, self.ue
+        k0 = 0
+        if kind == "turbulent":
+            # start where Head's equations are regular: first station with ue > 0 and theta > 0
+            k0 = 0 if (ue[0] > 0 and self.theta_l[0] > 0) else 1
+            x0, th0 = float(s[k0]), float(self.theta_l[k0])
+            if k0 == 1:
+                self.theta[0] = self.theta_l[0]
+                self.H[0] = TURBULENT_START_H
+                self.re_theta[0] = self.re_t_l[0]
+                self.margin[0] = 1.0
+                self.regime[0] = Regime.TURBULENT
+            self.event("transition", s[0],
+                       f"turbulent from the start: theta from Thwaites, H = {TURBULENT_START_H:g}")
+        else:
+            self.fill_laminar(x_end)
+            x0, th0 = x_end, th_x
+            if kind == "free":
+                rx = float(np.interp(x_end, s, ue)) * x_end / self.nu_v
+                detail = (f"free transition, Michel's criterion (Cebeci-Smith form) at "
+                          f"Re_x = {rx:.3g}")
+            else:
+                detail = "forced transition at the given arc length"
+            self.event("transition", x_end, detail)
+        m = self.turbulent(x0, th0, TURBULENT_START_H)
+        if kind == "turbulent" and k0 == 1 and m.index.size:
+            self.cf[0] = 0.0 if ue[0] == 0.0 else m.cf[0]
+        self.close_turbulent(m)
+
+    # ---- phase 3': a laminar separation bubble ----
+    def bubble(self, x_end, th_x):
+        """Laminar separation: a turbulent bubble that reattaches, bursts or meets an edge."""
+        self.fill_laminar(x_end)
+        ls = self.event("laminar_separation", x_end,
+                        f"laminar separation (Thwaites, lambda = {LAMBDA_SEPARATION:g}): bubble")
+        h_re = self.h_sep - BUBBLE_REATTACH_HYSTERESIS
+        l_max = x_end + BUBBLE_MAX_LENGTH_THETA * th_x
+        limit = l_max if self.s_edge is None else min(l_max, self.s_edge)
+        mb = march_head(self.s, self.u_fit, self.d_fit, x_end, th_x, BUBBLE_RESTART_H, self.nu_v,
+                        h_above=BUBBLE_BURST_H, h_below=h_re, s_limit=limit)
+        self.fill_march(mb, Regime.SEPARATED, cf_zero=True)
+        if mb.stop == "h_below":
+            self.event("reattachment", mb.s_stop,
+                       f"bubble from s = {ls.s:.4g} m reattaches turbulent (H fell to {h_re:g}), "
+                       f"length {mb.s_stop - ls.s:.3g} m")
+            self.close_turbulent(self.turbulent(mb.s_stop, mb.theta_stop, mb.h_stop))
+        elif mb.stop == "end":
+            pass   # the surface ends inside the bubble: separated from laminar separation on
+        elif mb.stop == "limit" and self.s_edge is not None and mb.s_stop >= self.s_edge:
+            self.event("edge_separation", mb.s_stop,
+                       f"bubble from s = {ls.s:.4g} m still open at a sharp edge: layer leaves there")
+            self.fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
+        elif mb.stop in ("h_above", "limit", "stopped"):
+            why = {
+                "h_above": f"H rose to {BUBBLE_BURST_H:g}",
+                "limit": f"no reattachment within {BUBBLE_MAX_LENGTH_THETA:g} theta",
+                "stopped": "edge speed falls to zero",
+            }[mb.stop]
+            self.event("turbulent_separation", mb.s_stop,
+                       f"bubble from s = {ls.s:.4g} m burst ({why}): the layer separates")
+            self.fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
+        else:
+            self.fail("bubble march", mb)
+
+    def run(self, transition):
+        x_end, kind = self.laminar_end(transition)
+        if kind == "none":
+            self.fill_laminar(self.s[-1] + 1.0)
+            return
+        finite = np.isfinite(self.theta_l)
+        th_x = float(np.interp(x_end, self.s[finite], self.theta_l[finite]))
+        h_x = float(np.interp(x_end, self.s, self.h_l))
+        if kind == "edge":
+            self.fill_laminar(x_end)
+            self.event("edge_separation", x_end, "attached laminar layer reaches a sharp edge")
+            self.fill_separated(x_end, th_x, h_x)
+        elif kind == "stopped":
+            self.fill_laminar(x_end)
+            k = _first_index_at_or_after(self.s, x_end)
+            self.event("laminar_separation", x_end, "edge speed falls to zero: the flow stops")
+            self.fill_separated(x_end, float(self.theta_l[k - 1]), float(self.h_l[k - 1]))
+        elif kind == "laminar_separation":
+            self.bubble(x_end, th_x)
+        else:   # "turbulent", "free", "forced"
+            self.transition(kind, x_end, th_x)
+
+    # ---- phase 4: the result ----
+    def result(self):
+        separation = None
+        for e in self.events:
+            if e.kind in SEPARATION_KINDS:
+                separation = e
+            elif e.kind == "reattachment":
+                separation = None
+        # anything not reached (numerical failure) is already filled by fill_separated
+        if self.status is MarchStatus.COMPLETED:
+            if separation is None:
+                message = "boundary layer attached to the end of the surface"
+            else:
+                message = f"{separation.kind.replace('_', ' ')} at s = {separation.s:.4g} m"
+        else:
+            message = self.failure_msg
+        arrays = dict(
+            s=self.s, ue=self.ue, theta=self.theta, delta_star=self.H * self.theta, H=self.H,
+            cf=self.cf, cf_free_stream=self.cf * self.ue**2, re_theta=self.re_theta,
+            regime=self.regime, margin=self.margin,
+        )
+        for arr in arrays.values():
+            arr.setflags(write=False)
+        return BoundaryLayerResult(
+            **arrays, events=self.events, separation=separation, status=self.status,
+            success=self.status is MarchStatus.COMPLETED, message=message, nu=self.nu,
+            speed=self.speed, h_separation=self.h_sep,
+        )
 
 
 def march_boundary_layer(s, ue, nu=1.46e-5, speed=30.0, transition="free", h_separation=2.4,
@@ -423,241 +680,9 @@ def march_boundary_layer(s, ue, nu=1.46e-5, speed=30.0, transition="free", h_sep
     s, ue, nu, speed, transition, h_sep, edges = _check_inputs(
         s, ue, nu, speed, transition, h_separation, edges
     )
-    n = s.size
-    nu_v = nu / speed
-    s_edge = edges[0] if edges else None
-    n_fit = n if s_edge is None else max(_first_index_at_or_after(s, s_edge) + 1, 2)
-    n_fit = min(n_fit, n)
     if not (isinstance(fit_length, (int, float)) and math.isfinite(fit_length) and fit_length >= 0):
         raise InputError(f"fit_length = {fit_length!r} must be a length >= 0 in metres")
-    u_fit, d_fit = _local_quadratic_fit(s, ue, n_fit, float(fit_length))
-
-    # ---- laminar layer everywhere (used up to the end of the laminar part) ----
-    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        theta_l = thwaites_momentum_thickness(s, ue, nu_v)
-        lam = theta_l**2 * d_fit / nu_v
-        stopped = np.zeros(n, dtype=bool)
-        stopped[1:] = ue[1:] == 0.0
-        lam[stopped] = -np.inf
-        h_l = thwaites_shape_factor(np.where(np.isfinite(lam), lam, LAMBDA_SEPARATION))
-        l_l = thwaites_shear(np.where(np.isfinite(lam), lam, LAMBDA_SEPARATION))
-        re_t_l = ue * theta_l / nu_v
-        cf_l = np.where(re_t_l > 0, 2.0 * l_l / re_t_l, 0.0)
-        re_x = ue * s / nu_v
-        g_tr = re_t_l - michel_critical_re_theta(re_x)
-    if ue[0] == 0.0:
-        cf_l[0] = 0.0  # stagnation: tau_w = 0
-    elif theta_l[0] == 0.0:
-        cf_l[0] = cf_l[1]  # sharp leading edge: cf unbounded, next station reported
-    margin_l = np.clip(1.0 + lam / (-LAMBDA_SEPARATION), 0.0, 1.0)
-
-    # ---- end of the laminar part: the first of edge, laminar separation, transition ----
-    candidates = []  # (s, priority, kind, detail)
-    if s_edge is not None:
-        candidates.append((s_edge, 0, "edge", ""))
-    sep_idx = np.flatnonzero((lam <= LAMBDA_SEPARATION) | stopped)
-    if sep_idx.size:
-        i = int(sep_idx[0])
-        if stopped[i]:
-            candidates.append((float(s[i]), 1, "stopped", ""))
-        else:
-            candidates.append((_crossing(s, LAMBDA_SEPARATION - lam, i), 1,
-                               "laminar_separation", ""))
-    if transition == "turbulent":
-        candidates.append((float(s[0]), 2, "turbulent", ""))
-    else:
-        tr_idx = np.flatnonzero(g_tr >= 0)
-        if tr_idx.size:
-            i = int(tr_idx[0])
-            candidates.append((_crossing(s, g_tr, i), 3, "free", ""))
-        if not isinstance(transition, str):
-            candidates.append((transition, 2, "forced", ""))
-    out = _Fill(n)
-    events: list[Event] = []
-    status = MarchStatus.COMPLETED
-    failure_msg = ""
-
-    def fill_laminar(upto_s):
-        k = _first_index_at_or_after(s, upto_s)
-        out.theta[:k] = theta_l[:k]
-        out.H[:k] = h_l[:k]
-        out.cf[:k] = cf_l[:k]
-        out.re_theta[:k] = re_t_l[:k]
-        out.margin[:k] = margin_l[:k]
-        out.regime[:k] = Regime.LAMINAR
-        return k
-
-    def fill_separated(from_s, theta_sep, h_sepv):
-        k = _first_index_at_or_after(s, from_s)
-        u_at = float(np.interp(from_s, s, ue))
-        out.theta[k:] = theta_sep
-        out.H[k:] = h_sepv
-        out.cf[k:] = 0.0
-        out.re_theta[k:] = u_at * theta_sep / nu_v
-        out.margin[k:] = 0.0
-        out.regime[k:] = Regime.SEPARATED
-
-    def fill_march(m, regime, cf_zero=False):
-        k = m.index
-        if k.size == 0:
-            return
-        out.theta[k] = m.theta
-        out.H[k] = m.H
-        out.cf[k] = 0.0 if cf_zero else m.cf
-        out.re_theta[k] = ue[k] * m.theta / nu_v
-        if regime is Regime.SEPARATED:
-            out.margin[k] = 0.0
-        else:
-            out.margin[k] = np.clip(
-                (h_sep - m.H) / (h_sep - FLAT_PLATE_TURBULENT_H), 0.0, 1.0
-            )
-        out.regime[k] = regime
-
-    def ev(kind, x, detail):
-        e = Event(kind=kind, s=float(x), index=_first_index_at_or_after(s, x), detail=detail)
-        events.append(e)
-        return e
-
-    def turbulent(x0, th0, h0):
-        """Attached turbulent march from x0; returns (kind, s, theta, H) of the stop."""
-        m = march_head(s, u_fit, d_fit, x0, th0, h0, nu_v, h_above=h_sep, s_limit=s_edge)
-        fill_march(m, Regime.TURBULENT)
-        return m
-
-    def close_turbulent(m):
-        nonlocal status, failure_msg
-        if m.stop == "end":
-            return
-        if m.stop == "h_above":
-            ev("turbulent_separation", m.s_stop,
-               f"turbulent separation: H reached {h_sep:g} (Head)")
-        elif m.stop == "limit":
-            ev("edge_separation", m.s_stop, "attached turbulent layer reaches a sharp edge")
-        elif m.stop == "stopped":
-            ev("turbulent_separation", m.s_stop, "edge speed falls to zero: the flow stops")
-        else:
-            status = MarchStatus.NUMERICAL_FAILURE
-            failure_msg = (
-                f"turbulent march failed at s = {m.s_stop:.6g} m (non-finite state); values "
-                "held from there"
-            )
-        fill_separated(m.s_stop, m.theta_stop, m.h_stop)
-
-    x_end, _, kind, _ = min(candidates, key=lambda c: (c[0], c[1])) if candidates else (
-        None, 0, "none", "")
-    if kind == "none":
-        fill_laminar(s[-1] + 1.0)
-    else:
-        finite = np.isfinite(theta_l)
-        th_x = float(np.interp(x_end, s[finite], theta_l[finite]))
-        h_x = float(np.interp(x_end, s, h_l))
-        if kind == "edge":
-            fill_laminar(x_end)
-            ev("edge_separation", x_end, "attached laminar layer reaches a sharp edge")
-            fill_separated(x_end, th_x, h_x)
-        elif kind == "stopped":
-            fill_laminar(x_end)
-            k = _first_index_at_or_after(s, x_end)
-            th_x, h_x = float(theta_l[k - 1]), float(h_l[k - 1])
-            ev("laminar_separation", x_end, "edge speed falls to zero: the flow stops")
-            fill_separated(x_end, th_x, h_x)
-        elif kind in ("turbulent", "free", "forced"):
-            if kind == "turbulent":
-                # start where Head's equations are regular: first station with ue > 0 and theta > 0
-                k0 = 0 if (ue[0] > 0 and theta_l[0] > 0) else 1
-                x0, th0 = float(s[k0]), float(theta_l[k0])
-                if k0 == 1:
-                    out.theta[0] = theta_l[0]
-                    out.H[0] = TURBULENT_START_H
-                    out.re_theta[0] = re_t_l[0]
-                    out.margin[0] = 1.0
-                    out.regime[0] = Regime.TURBULENT
-                ev("transition", s[0],
-                   f"turbulent from the start: theta from Thwaites, H = {TURBULENT_START_H:g}")
-            else:
-                fill_laminar(x_end)
-                x0, th0 = x_end, th_x
-                if kind == "free":
-                    rx = float(np.interp(x_end, s, ue)) * x_end / nu_v
-                    detail = (f"free transition, Michel's criterion (Cebeci-Smith form) at "
-                              f"Re_x = {rx:.3g}")
-                else:
-                    detail = "forced transition at the given arc length"
-                ev("transition", x_end, detail)
-            m = turbulent(x0, th0, TURBULENT_START_H)
-            if kind == "turbulent" and k0 == 1 and m.index.size:
-                out.cf[0] = 0.0 if ue[0] == 0.0 else m.cf[0]
-            close_turbulent(m)
-        elif kind == "laminar_separation":
-            fill_laminar(x_end)
-            ls = ev("laminar_separation", x_end,
-                    f"laminar separation (Thwaites, lambda = {LAMBDA_SEPARATION:g}): bubble")
-            h_re = h_sep - BUBBLE_REATTACH_HYSTERESIS
-            l_max = x_end + BUBBLE_MAX_LENGTH_THETA * th_x
-            limit = l_max if s_edge is None else min(l_max, s_edge)
-            mb = march_head(s, u_fit, d_fit, x_end, th_x, BUBBLE_RESTART_H, nu_v,
-                            h_above=BUBBLE_BURST_H, h_below=h_re, s_limit=limit)
-            fill_march(mb, Regime.SEPARATED, cf_zero=True)
-            if mb.stop == "h_below":
-                ev("reattachment", mb.s_stop,
-                   f"bubble from s = {ls.s:.4g} m reattaches turbulent (H fell to {h_re:g}), "
-                   f"length {mb.s_stop - ls.s:.3g} m")
-                m = turbulent(mb.s_stop, mb.theta_stop, mb.h_stop)
-                close_turbulent(m)
-            elif mb.stop == "end":
-                # surface ends inside the bubble: the layer is separated from laminar separation
-                pass
-            elif mb.stop == "limit" and s_edge is not None and mb.s_stop >= s_edge:
-                ev("edge_separation", mb.s_stop,
-                   f"bubble from s = {ls.s:.4g} m still open at a sharp edge: layer leaves there")
-                fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
-            elif mb.stop in ("h_above", "limit", "stopped"):
-                why = {
-                    "h_above": f"H rose to {BUBBLE_BURST_H:g}",
-                    "limit": f"no reattachment within {BUBBLE_MAX_LENGTH_THETA:g} theta",
-                    "stopped": "edge speed falls to zero",
-                }[mb.stop]
-                ev("turbulent_separation", mb.s_stop,
-                   f"bubble from s = {ls.s:.4g} m burst ({why}): the layer separates")
-                fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
-            else:
-                status = MarchStatus.NUMERICAL_FAILURE
-                failure_msg = (f"bubble march failed at s = {mb.s_stop:.6g} m (non-finite "
-                               "state); values held from there")
-                fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
-
-    separation = None
-    for e in events:
-        if e.kind in _SEPARATION_KINDS:
-            separation = e
-        elif e.kind == "reattachment":
-            separation = None
-
-    # anything not reached (numerical failure) is already filled by fill_separated
-    delta_star = out.H * out.theta
-    cf_fs = out.cf * ue**2
-    if status is MarchStatus.COMPLETED:
-        if separation is None:
-            message = "boundary layer attached to the end of the surface"
-        else:
-            message = f"{separation.kind.replace('_', ' ')} at s = {separation.s:.4g} m"
-    else:
-        message = failure_msg
-
-    arrays = dict(
-        s=s, ue=ue, theta=out.theta, delta_star=delta_star, H=out.H, cf=out.cf,
-        cf_free_stream=cf_fs, re_theta=out.re_theta, regime=out.regime, margin=out.margin,
-    )
-    for a in arrays.values():
-        a.setflags(write=False)
-    return BoundaryLayerResult(
-        **arrays,
-        events=events,
-        separation=separation,
-        status=status,
-        success=status is MarchStatus.COMPLETED,
-        message=message,
-        nu=nu,
-        speed=speed,
-        h_separation=h_sep,
-    )
+    march = _March(s, ue, nu, speed, h_sep, edges, float(fit_length))
+    march.laminar()
+    march.run(transition)
+    return march.result()

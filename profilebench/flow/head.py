@@ -53,6 +53,19 @@ STEP_THETA = 200.0
 _H1_ASYMPTOTE = 3.3
 #: Edge speed ratio below which the flow is taken as stopped (rear stagnation).
 UE_STOPPED = 1e-6
+# Head's constants as they appear in the stage function (see the module docstring): Cf/2 of
+# Ludwieg-Tillmann (0.246 / 2) with its H and Re_theta exponents, and Head's entrainment
+# function F = 0.0306 (H1 - 3)^-0.6169.
+_LT_CF = 0.246
+_CF_HALF = 0.5 * _LT_CF
+_LT_H_EXPONENT = -0.678
+_LT_RE_EXPONENT = -0.268
+_ENTRAIN = 0.0306
+_ENTRAIN_EXPONENT = -0.6169
+# H1 is held just above its asymptote inside a stage (H unbounded there)
+_H1_MIN = _H1_ASYMPTOTE + 1e-9
+# a sub-step is halved at most this many times when a stage leaves the physical range
+_HALVINGS = 8
 
 
 def head_h1(h):
@@ -82,14 +95,13 @@ def head_shape_factor(h1):
 
 def head_entrainment(h1):
     """Head's entrainment function F = 0.0306 (H1 - 3)^-0.6169 (Head 1958), dimensionless."""
-    return 0.0306 * (np.asarray(h1, dtype=float) - 3.0) ** -0.6169
+    return _ENTRAIN * (np.asarray(h1, dtype=float) - 3.0) ** _ENTRAIN_EXPONENT
 
 
 def ludwieg_tillmann_cf(h, re_theta):
     """Ludwieg-Tillmann skin friction Cf = 0.246 10^(-0.678 H) Re_theta^-0.268 (local, on Ue)."""
-    return 0.246 * 10.0 ** (-0.678 * np.asarray(h, dtype=float)) * np.asarray(
-        re_theta, dtype=float
-    ) ** -0.268
+    return (_LT_CF * 10.0 ** (_LT_H_EXPONENT * np.asarray(h, dtype=float))
+            * np.asarray(re_theta, dtype=float) ** _LT_RE_EXPONENT)
 
 
 @dataclass(frozen=True)
@@ -112,39 +124,21 @@ class HeadMarch:
     h_stop: float
 
 
-def _hermite(sa, h, ua, ub, da, db, s):
-    t = (s - sa) / h
-    t2 = t * t
-    t3 = t2 * t
-    u = (2 * t3 - 3 * t2 + 1) * ua + (t3 - 2 * t2 + t) * h * da + (3 * t2 - 2 * t3) * ub + (
-        t3 - t2
-    ) * h * db
-    du = ((6 * t2 - 6 * t) * ua + (3 * t2 - 4 * t + 1) * h * da + (6 * t - 6 * t2) * ub) / h + (
-        3 * t2 - 2 * t
-    ) * db
-    return u, du
+def _rates(theta, big, u, du, nu_v, _pow=math.pow, _h1_min=_H1_MIN, _cf=_CF_HALF,
+           _lt_h=_LT_H_EXPONENT, _lt_re=_LT_RE_EXPONENT, _f=_ENTRAIN, _f_exp=_ENTRAIN_EXPONENT):
+    """d theta/ds and d(theta H1)/ds at a state: Head's two equations (one Runge-Kutta stage).
 
-
-def _rhs(theta, big, u, du, nu_v):
-    """Derivatives of (theta, theta H1) at a state (pure floats, for speed)."""
+    Pure floats for speed: this is the hot path of the march (the constants are bound as
+    default arguments, which Python reads as fast as locals). ``big`` = theta H1.
+    """
     h1 = big / theta
-    if h1 <= _H1_ASYMPTOTE + 1e-9:
-        h1 = _H1_ASYMPTOTE + 1e-9
-    hh = _h_of_h1(h1)
-    re_t = u * theta / nu_v
-    cf = 0.246 * 10.0 ** (-0.678 * hh) * re_t**-0.268
+    if h1 <= _h1_min:
+        h1 = _h1_min
+    d = h1 - 3.3
+    hh = 1.1 + 0.86 * _pow(d, -0.777) if h1 >= 5.3 else 0.6778 + 1.1538 * _pow(d, -0.326)
     g = du / u
-    dtheta = 0.5 * cf - (hh + 2.0) * theta * g
-    dbig = 0.0306 * (h1 - 3.0) ** -0.6169 - big * g
-    return dtheta, dbig
-
-
-def _dh_dh1(h1: float) -> float:
-    """Slope dH/dH1 of :func:`_h_of_h1`."""
-    d = max(h1 - _H1_ASYMPTOTE, 1e-9)
-    if h1 >= 5.3:
-        return -0.777 * 0.86 * d**-1.777
-    return -0.326 * 1.1538 * d**-1.326
+    return (_cf * _pow(10.0, _lt_h * hh) * _pow(u * theta / nu_v, _lt_re) - (hh + 2.0) * theta * g,
+            _f * _pow(h1 - 3.0, _f_exp) - big * g)
 
 
 def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above,
@@ -200,7 +194,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
             index=index,
             theta=th_arr,
             H=h_arr,
-            cf=0.246 * 10.0 ** (-0.678 * h_arr) * re_t**-0.268,
+            cf=ludwieg_tillmann_cf(h_arr, re_t),
             stop=stop,
             s_stop=float(s_stop),
             theta_stop=float(th_stop),
@@ -212,12 +206,8 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
         th_out.append(th)
         h_out.append(hh)
 
-    h1_min = _H1_ASYMPTOTE + 1e-9
+    rates = _rates
     pw = math.pow
-
-    # The right-hand side of Head's equations (see the module docstring; the inverse H(H1) and
-    # Ludwieg-Tillmann's Cf = 0.246 10^(-0.678 H) Re_theta^-0.268, halved to Cf/2 = 0.123 ...)
-    # is written out at each of the four Runge-Kutta stages below: this loop is the hot path.
     while True:
         # record stations that coincide with the current position
         while i < n and s_l[i] <= x and not (hit_limit and s_l[i] >= s_end):
@@ -229,7 +219,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
         sa, sb = s_l[j], s_l[j + 1]
         hseg = sb - sa
         ua, ub, da, db = u_l[j], u_l[j + 1], d_l[j], d_l[j + 1]
-        # cubic Hermite on this interval as a polynomial in t = (s - sa) / hseg:
+        # the edge speed on this interval, a cubic Hermite in t = (s - sa) / hseg:
         # u = ua + t (c1 + t (c2 + t c3)), du/ds = (c1 + t (2 c2 + 3 t c3)) / hseg
         c1 = hseg * da
         c2 = 3.0 * (ub - ua) - hseg * (2.0 * da + db)
@@ -247,25 +237,16 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
                 du0 = (c1 + t * (c2d + t * c3d)) * inv_h
             if u0 <= UE_STOPPED:
                 return finish("stopped", x, theta, h)
-            # k1a, k1b = rhs(theta, big, u0, du0), inlined
-            r_th = theta
-            r_bg = big
-            r_h1 = r_bg / r_th
-            if r_h1 <= h1_min:
-                r_h1 = h1_min
-            r_d = r_h1 - 3.3
-            r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
-            r_g = du0 / u0
-            k1a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(u0 * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
-            k1b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
-            # step control: relative change of theta <= STEP_THETA_CHANGE, change of H <=
-            # STEP_H_CHANGE per sub-step, and never longer than STEP_THETA momentum thicknesses
+            k1a, k1b = rates(theta, big, u0, du0, nu_v)
+            # sub-step: relative change of theta <= STEP_THETA_CHANGE, change of H <=
+            # STEP_H_CHANGE, never longer than STEP_THETA momentum thicknesses
             h1 = big / theta
-            dh1 = (k1b - h1 * k1a) / theta
             dd = h1 - _H1_ASYMPTOTE
             if dd < 1e-9:
                 dd = 1e-9
+            # dH/dH1 of the inverse branches, times dH1/ds
             slope = -0.777 * 0.86 * pw(dd, -1.777) if h1 >= 5.3 else -0.326 * 1.1538 * pw(dd, -1.326)
+            dh1 = (k1b - h1 * k1a) / theta
             rate_h = abs(slope * dh1)
             rate_t = abs(k1a) / theta
             step = min(target - x, STEP_THETA * theta)
@@ -276,11 +257,10 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
             # a stage state that leaves the physical range (theta <= 0, H1 below its asymptote)
             # makes the powers undefined: halve the sub-step and try again, a few times at most
             stages_ok = False
-            for _attempt in range(8):
+            for _attempt in range(_HALVINGS):
                 try:
-                    xm = x + 0.5 * step
                     x1 = x + step
-                    t = (xm - sa) * inv_h
+                    t = (x + 0.5 * step - sa) * inv_h
                     um = ua + t * (c1 + t * (c2 + t * c3))
                     dum = (c1 + t * (c2d + t * c3d)) * inv_h
                     t = (x1 - sa) * inv_h
@@ -288,42 +268,14 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
                     du1 = (c1 + t * (c2d + t * c3d)) * inv_h
                     if um <= UE_STOPPED or u1 <= UE_STOPPED:
                         return finish("stopped", x, theta, h)
+                    # classical fourth-order Runge-Kutta, one stage function
                     hs = 0.5 * step
-                    # k2a, k2b = rhs(theta + hs * k1a, big + hs * k1b, um, dum), inlined
-                    r_th = theta + hs * k1a
-                    r_bg = big + hs * k1b
-                    r_h1 = r_bg / r_th
-                    if r_h1 <= h1_min:
-                        r_h1 = h1_min
-                    r_d = r_h1 - 3.3
-                    r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
-                    r_g = dum / um
-                    k2a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(um * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
-                    k2b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
-                    # k3a, k3b = rhs(theta + hs * k2a, big + hs * k2b, um, dum), inlined
-                    r_th = theta + hs * k2a
-                    r_bg = big + hs * k2b
-                    r_h1 = r_bg / r_th
-                    if r_h1 <= h1_min:
-                        r_h1 = h1_min
-                    r_d = r_h1 - 3.3
-                    r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
-                    r_g = dum / um
-                    k3a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(um * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
-                    k3b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
-                    # k4a, k4b = rhs(theta + step * k3a, big + step * k3b, u1, du1), inlined
-                    r_th = theta + step * k3a
-                    r_bg = big + step * k3b
-                    r_h1 = r_bg / r_th
-                    if r_h1 <= h1_min:
-                        r_h1 = h1_min
-                    r_d = r_h1 - 3.3
-                    r_hh = 1.1 + 0.86 * pw(r_d, -0.777) if r_h1 >= 5.3 else 0.6778 + 1.1538 * pw(r_d, -0.326)
-                    r_g = du1 / u1
-                    k4a = 0.123 * pw(10.0, -0.678 * r_hh) * pw(u1 * r_th / nu_v, -0.268) - (r_hh + 2.0) * r_th * r_g
-                    k4b = 0.0306 * pw(r_h1 - 3.0, -0.6169) - r_bg * r_g
-                    th_new = theta + step / 6.0 * (k1a + 2 * k2a + 2 * k3a + k4a)
-                    big_new = big + step / 6.0 * (k1b + 2 * k2b + 2 * k3b + k4b)
+                    k2a, k2b = rates(theta + hs * k1a, big + hs * k1b, um, dum, nu_v)
+                    k3a, k3b = rates(theta + hs * k2a, big + hs * k2b, um, dum, nu_v)
+                    k4a, k4b = rates(theta + step * k3a, big + step * k3b, u1, du1, nu_v)
+                    sixth = step / 6.0
+                    th_new = theta + sixth * (k1a + 2.0 * k2a + 2.0 * k3a + k4a)
+                    big_new = big + sixth * (k1b + 2.0 * k2b + 2.0 * k3b + k4b)
                     stages_ok = (math.isfinite(th_new) and math.isfinite(big_new) and th_new > 0.0
                                  and big_new > 0.0)
                 except (ValueError, ZeroDivisionError, OverflowError):
@@ -336,7 +288,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
             if not stages_ok:
                 return finish("failure", x, theta, h)
             h1_new = big_new / th_new
-            h_new = _h_of_h1(h1_new) if h1_new > _H1_ASYMPTOTE + 1e-9 else math.inf
+            h_new = _h_of_h1(h1_new) if h1_new > _H1_MIN else math.inf
             if h_new >= h_above:
                 f = (h_above - h) / (h_new - h) if math.isfinite(h_new) and h_new > h else 0.0
                 return finish("h_above", x + f * step, theta + f * (th_new - theta), h_above)
