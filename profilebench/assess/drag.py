@@ -74,7 +74,7 @@ def estimate_drag(flow, conditions, height, corner_penalties=(), notes=(), edge_
 
     Parameters
     ----------
-    flow : profilebench.flow.viscous.ProfileFlow
+    flow : profilebench.flow.profile_flow.ProfileFlow
         A successful flow solution; its inviscid part carries the panel lengths, outward normals
         and tangents used here.
     conditions : profilebench.assess.conditions.Conditions

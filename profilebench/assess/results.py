@@ -157,7 +157,7 @@ class Analysis:
     conditions: object
     measures: object = None
     panelling: object = None
-    flow: object = None          # profilebench.flow.viscous.ProfileFlow
+    flow: object = None          # profilebench.flow.profile_flow.ProfileFlow
     corners: tuple[CornerResult, ...] = ()
     drag: DragBreakdown | None = None
     events: tuple[FlowEvent, ...] = ()

@@ -10,7 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from profilebench.assess.corners import EDGE_TURN_DEG
-from profilebench.flow.viscous import solve_profile_flow
+from profilebench.flow.profile_flow import solve_profile_flow
 
 __all__ = ["solve_flow", "edge_points", "closed_points", "REATTACH_RATIO", "WAKE_RATIO",
            "FIT_RATIO", "CLOSED_FULL_REAR", "CLOSED_STRIDE", "CLOSED_ARC_POINTS"]
@@ -21,7 +21,7 @@ __all__ = ["solve_flow", "edge_points", "closed_points", "REATTACH_RATIO", "WAKE
 REATTACH_RATIO = 2.5
 
 # Length of the wake displacement body behind the profile, in frontal heights (see
-# profilebench.flow.viscous.solve_profile_flow). Long enough that its closure no longer changes the
+# profilebench.flow.profile_flow.solve_profile_flow). Long enough that its closure no longer changes the
 # attached pressures noticeably (the change from 10 to 20 h is below 0.01 in Cd on the test body).
 WAKE_RATIO = 10.0
 
@@ -96,7 +96,7 @@ def solve_flow(profile, conditions, panelling, height):
     """The flow (inviscid with the wake model, both boundary layers) of a panelled profile.
 
     The one place where the analysis and the radius search set up
-    :func:`~profilebench.flow.viscous.solve_profile_flow` from a profile and its conditions.
+    :func:`~profilebench.flow.profile_flow.solve_profile_flow` from a profile and its conditions.
     """
     pts = panelling.points
     return solve_profile_flow(

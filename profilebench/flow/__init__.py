@@ -18,7 +18,7 @@ from profilebench.flow.boundary_layer import (  # boundary layer
     Regime,
     march_boundary_layer,
 )
-from profilebench.flow.viscous import (  # both surfaces of a profile
+from profilebench.flow.profile_flow import (  # both surfaces of a profile
     FlowStatus,
     ProfileFlow,
     SurfaceFlow,

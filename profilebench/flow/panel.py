@@ -40,6 +40,8 @@ from profilebench.errors import GroundContactError, InputError, SelfIntersection
 __all__ = [
     "InviscidStatus",
     "InviscidSolution",
+    "InfluenceCoefficients",
+    "influence_coefficients",
     "solve_inviscid",
     "solve_inviscid_bodies",
 ]
@@ -412,6 +414,41 @@ def _lu_solve(mat: np.ndarray, rhs: np.ndarray):
     return x, InviscidStatus.SOLVED, (
         f"solved {mat.shape[0]} panel equations (reciprocal condition number {rcond:.2e})"
     )
+
+
+@dataclass(frozen=True, eq=False)
+class InfluenceCoefficients:
+    """The panel method's influence coefficients of one body (see the module docstring).
+
+    ``src_n[i, j]`` / ``src_t[i, j]``: outward-normal / tangential speed at midpoint i of a unit
+    source on panel j (with its ground image); ``vor_n[i]`` / ``vor_t[i]``: those of a unit
+    uniform vortex sheet on all the panels (with its image of opposite sign). ``tangent``,
+    ``normal``: unit vectors of each panel (outward normal); ``clockwise``: the orientation.
+    """
+
+    src_n: np.ndarray
+    src_t: np.ndarray
+    vor_n: np.ndarray
+    vor_t: np.ndarray
+    tangent: np.ndarray
+    normal: np.ndarray
+    clockwise: bool
+
+
+def influence_coefficients(points, ground: bool = False) -> InfluenceCoefficients:
+    """The influence coefficients that :func:`solve_inviscid` assembles for ``points``.
+
+    For checks of the formulas (and for other solvers on the same panels); the same input
+    checks as :func:`solve_inviscid`.
+    """
+    pts = _check_outline(points, "points", bool(ground))
+    _check_simple(pts, "points")
+    geom, src_n, src_t, vor_n, vor_t = _assemble([pts], bool(ground))
+    return InfluenceCoefficients(
+        src_n=src_n, src_t=src_t, vor_n=vor_n[:, 0].copy(), vor_t=vor_t[:, 0].copy(),
+        tangent=np.column_stack([geom["tx"], geom["ty"]]),
+        normal=np.column_stack([geom["nx"], geom["ny"]]),
+        clockwise=bool(geom["clockwise"][0]))
 
 
 # --------------------------------------------------------------------------------------------

@@ -1,7 +1,7 @@
 """Read-outs of an analysis for drawing and export: outline, surface stations, events.
 
 These helpers only read the public result types (:class:`profilebench.assess.results.Analysis`,
-whose ``flow`` is a :class:`profilebench.flow.viscous.ProfileFlow`) and a bare
+whose ``flow`` is a :class:`profilebench.flow.profile_flow.ProfileFlow`) and a bare
 :class:`profilebench.geometry.profile.Profile`; they compute no physics.
 """
 
@@ -117,7 +117,7 @@ def surface_stations(analysis) -> tuple[SurfaceStations, ...]:
 
     The boundary-layer arrays may start with an extra station at the stagnation point itself
     (not an inviscid station); they are aligned from the end, as
-    :func:`profilebench.flow.viscous.solve_profile_flow` does. Returns () when the analysis has
+    :func:`profilebench.flow.profile_flow.solve_profile_flow` does. Returns () when the analysis has
     no surface flow (e.g. a failed analysis).
     """
     flow = getattr(analysis, "flow", None)

@@ -5,7 +5,7 @@ import numpy as np
 import pytest
 from scipy.integrate import quad
 
-from profilebench.flow.panel import _assemble
+from profilebench.flow.panel import influence_coefficients
 
 
 def _source_velocity(p, a, b):
@@ -38,17 +38,16 @@ def _outline(n):
 @pytest.mark.parametrize("i,j", [(0, 5), (3, 11), (17, 2), (9, 10), (20, 19)])
 def test_source_influence_matches_quadrature(ground, i, j):
     pts = _outline(24)
-    geom, src_n, src_t, vor_n, vor_t = _assemble([pts], ground)
+    inf = influence_coefficients(pts, ground)
     a, b = pts[j], pts[(j + 1) % len(pts)]
     mid = 0.5 * (pts[i] + pts[(i + 1) % len(pts)])
     v = _source_velocity(mid, a, b)
     if ground:
         # image panel mirrored about y = 0, same strength (method of images)
         v = v + _source_velocity(mid, a * [1, -1], b * [1, -1])
-    t = np.array([geom["tx"][i], geom["ty"][i]])
-    nrm = np.array([geom["nx"][i], geom["ny"][i]])
-    assert src_t[i, j] == pytest.approx(float(v @ t), abs=1e-10)
-    assert src_n[i, j] == pytest.approx(float(v @ nrm), abs=1e-10)
+    t, nrm = inf.tangent[i], inf.normal[i]
+    assert inf.src_t[i, j] == pytest.approx(float(v @ t), abs=1e-10)
+    assert inf.src_n[i, j] == pytest.approx(float(v @ nrm), abs=1e-10)
 
 
 @pytest.mark.parametrize("ground", [False, True])
@@ -56,7 +55,7 @@ def test_vortex_influence_matches_quadrature(ground):
     # a unit vortex sheet's velocity is the source velocity turned +90 degrees (counter-clockwise
     # positive); images carry the opposite sign; summed over every panel of the body
     pts = _outline(16)
-    geom, src_n, src_t, vor_n, vor_t = _assemble([pts], ground)
+    inf = influence_coefficients(pts, ground)
     n = len(pts)
     for i in (0, 7):
         mid = 0.5 * (pts[i] + pts[(i + 1) % n])
@@ -70,10 +69,9 @@ def test_vortex_influence_matches_quadrature(ground):
                 s = _source_velocity(mid, a * [1, -1], b * [1, -1])
                 v -= np.array([-s[1], s[0]])
         # the panel's own sheet: tangential jump of half the strength, outer side (Katz & Plotkin)
-        t = np.array([geom["tx"][i], geom["ty"][i]])
-        nrm = np.array([geom["nx"][i], geom["ny"][i]])
-        sgn = 1.0 if geom["clockwise"][0] else -1.0
+        t, nrm = inf.tangent[i], inf.normal[i]
+        sgn = 1.0 if inf.clockwise else -1.0
         own_t = -0.5 * sgn
-        assert vor_t[i, 0] == pytest.approx(float(v @ t) + own_t, abs=1e-10)
-        assert vor_n[i, 0] == pytest.approx(float(v @ nrm), abs=1e-10)
+        assert inf.vor_t[i] == pytest.approx(float(v @ t) + own_t, abs=1e-10)
+        assert inf.vor_n[i] == pytest.approx(float(v @ nrm), abs=1e-10)
 

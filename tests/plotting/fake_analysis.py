@@ -8,7 +8,6 @@ invented): these tests check drawing and export, not physics.
 
 from __future__ import annotations
 
-import enum
 from dataclasses import dataclass
 
 import numpy as np
@@ -18,16 +17,11 @@ from profilebench.assess.conditions import Conditions
 from profilebench.assess.results import (
     Analysis, AnalysisStatus, CornerResult, DragBreakdown, FlowEvent, Verdict,
 )
+from profilebench.flow.boundary_layer import Regime
 from profilebench.geometry.profile import Profile
 
 A, B, XC, YC = 2.0, 0.6, 2.2, 0.9
 N = 160
-
-
-class Regime(enum.Enum):
-    LAMINAR = "laminar"
-    TURBULENT = "turbulent"
-    SEPARATED = "separated"
 
 
 @dataclass(frozen=True)

@@ -34,7 +34,8 @@ from profilebench.errors import InputError, ProfileBenchError
 from profilebench.flow.panel import InviscidSolution, InviscidStatus, solve_inviscid
 from profilebench.flow.stagnation import split_surfaces
 
-__all__ = ["FlowStatus", "SurfaceFlow", "ProfileFlow", "solve_profile_flow"]
+__all__ = ["FlowStatus", "SurfaceFlow", "ProfileFlow", "solve_profile_flow", "march_surface",
+           "BubbleRestart"]
 
 
 class FlowStatus(enum.Enum):
@@ -149,9 +150,15 @@ def _merge(first, second, s_offset, i_offset):
     return type(first)(**fields)
 
 
-def _march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_length,
-                   restart_hints=(), hint_tolerance=0.0, beyond=0.0, fit_length=0.0):
+def march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_length,
+                  restart_hints=(), hint_tolerance=0.0, beyond=0.0, fit_length=0.0):
     """March one surface, restarting turbulent after corner bubbles (see module docstring).
+
+    ``s``, ``ue``, ``nu``, ``speed``, ``transition``, ``h_separation``, ``edges``,
+    ``fit_length``: as for :func:`~profilebench.flow.boundary_layer.march_boundary_layer`.
+    ``reattach_length`` (m or None): a separation with at least this much surface behind it is
+    a corner bubble, and the march restarts turbulent just behind it. Returns
+    ``(BoundaryLayerResult, tuple of BubbleRestart)``.
 
     ``restart_hints``: arc lengths where an earlier march of the same surface restarted; a
     separation within ``hint_tolerance`` of one restarts too (so the wake-model march keeps the
@@ -199,7 +206,7 @@ def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition,
         ue = np.asarray(sf.ue, dtype=float)
         hints = () if restart_hints is None else restart_hints[k]
         tol = 0.0 if reattach_length is None else 0.1 * reattach_length
-        bl, restarts = _march_surface(s, ue, nu, speed, transition, h_separation, edges,
+        bl, restarts = march_surface(s, ue, nu, speed, transition, h_separation, edges,
                                       reattach_length, hints, tol, beyond[k], fit_length)
         if not bl.success:
             return ProfileFlow(FlowStatus.BOUNDARY_LAYER_FAILED, f"{name} surface: {bl.message}", res)

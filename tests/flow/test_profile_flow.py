@@ -5,10 +5,10 @@ import pytest
 import shapely
 
 from profilebench.errors import InputError
-from profilebench.flow.viscous import _outline_solution, solve_profile_flow
-from profilebench.flow.panel import InviscidStatus
+from profilebench.assess.solve import closed_points
+from profilebench.flow.profile_flow import march_surface, solve_profile_flow
 from profilebench.geometry import panelize
-from profilebench.geometry.shapes import ellipse_points, rounded_box
+from profilebench.geometry.shapes import rounded_box
 
 SPEED = 30.0
 NU = 1.5e-5
@@ -21,12 +21,12 @@ def _box_points():
     return prof, pan
 
 
-def _coarse(pan, rear_window=0.3 * HEIGHT, stride=2):
+def _every_other_point(pan):
+    """Every other panel point and every corner arc's, with no fully panelled rear: a coarser
+    subset than the analysis's own (profilebench.assess.solve.closed_points)."""
     pts = pan.points
     keep = np.zeros(len(pts), dtype=bool)
-    keep[::stride] = True
-    if rear_window is not None:
-        keep |= pts[:, 0] >= pts[:, 0].max() - rear_window
+    keep[::2] = True
     for span in pan.corners:
         i0, i1 = span.point_start, span.point_end
         if i1 >= i0:
@@ -51,7 +51,7 @@ def _pressure_drag(flow):
 @pytest.fixture(scope="module")
 def box_flows():
     _, pan = _box_points()
-    return pan, _flow(pan.points), _flow(pan.points, _coarse(pan))
+    return pan, _flow(pan.points), _flow(pan.points, closed_points(pan, HEIGHT))
 
 
 def test_coarse_closed_pass_keeps_the_full_panelling_result(box_flows):
@@ -83,17 +83,13 @@ def test_coarse_result_geometry_is_the_full_outline(box_flows):
     inside = shapely.points(inv.x - eps * inv.normal[:, 0], inv.y - eps * inv.normal[:, 1])
     assert not shapely.contains(poly, out).any()
     assert shapely.contains(poly, inside).all()
-
-
-def test_outline_solution_midpoints_and_arc_length():
-    pts = ellipse_points(2.0, 0.5, 64, centre=(0.0, 1.0))
-    sol = _outline_solution(pts, True, np.zeros(64), np.ones(64), InviscidStatus.SOLVED, "x")
-    nxt = np.roll(pts, -1, axis=0)
     # midpoints and the midpoint arc length by numpy (cumulative chord lengths)
-    np.testing.assert_allclose(sol.x, 0.5 * (pts[:, 0] + nxt[:, 0]), rtol=0, atol=1e-15)
+    pts = pan.points
+    nxt = np.roll(pts, -1, axis=0)
+    np.testing.assert_allclose(inv.x, 0.5 * (pts[:, 0] + nxt[:, 0]), rtol=0, atol=1e-15)
     chords = np.linalg.norm(nxt - pts, axis=1)
-    np.testing.assert_allclose(sol.s, np.cumsum(chords) - 0.5 * chords, rtol=1e-13)
-    assert sol.success and sol.ground
+    np.testing.assert_allclose(inv.s, np.cumsum(chords) - 0.5 * chords, rtol=1e-13)
+    assert inv.success and inv.ground
 
 
 def test_a_coarse_pass_everywhere_places_the_wake_where_the_full_pass_does():
@@ -103,7 +99,7 @@ def test_a_coarse_pass_everywhere_places_the_wake_where_the_full_pass_does():
     # pass's separation points, projected on the full outline, within 20 mm of the
     # full pass's, and the pressure drag agrees to 1 % (consistency with this package's own full
     # pass; tolerances common practice, no source)
-    again = _flow(pan.points, _coarse(pan, rear_window=None))
+    again = _flow(pan.points, _every_other_point(pan))
     assert again.closed.inviscid.n_panels < len(pan.points)
     for a, b in zip(again.surfaces, full.surfaces):
         assert float(a.surface.s_end) == pytest.approx(float(b.surface.s_end), abs=0.02)
@@ -125,17 +121,15 @@ THWAITES_HOWARTH_SEPARATION = 0.123
 
 @pytest.mark.parametrize("beyond, restarted", [(0.0, False), (0.5, True)])
 def test_a_bubble_is_judged_on_the_closed_body_length_behind_it(beyond, restarted):
-    from profilebench.flow.viscous import _march_surface
-
     s = np.linspace(1e-3, 0.9, 300)
     ue = 1.0 - s   # L = 1 m
-    bl, restarts = _march_surface(s, ue, 1.5e-5, 1.0, "free", 2.4, (), 1.0, beyond=beyond)
+    bl, restarts = march_surface(s, ue, 1.5e-5, 1.0, "free", 2.4, (), 1.0, beyond=beyond)
     lam = [e for e in bl.events if e.kind == "laminar_separation"]
     assert lam[0].s == pytest.approx(THWAITES_HOWARTH_SEPARATION, abs=0.002)  # Thwaites, above
     # the short bubble reattaches turbulent and the layer separates again at s0 ~ 0.3 m, leaving
     # 0.6 m of surface behind: below reattach_length = 1 m, so no restart; with ``beyond`` = 0.5 m
     # of closed body behind the surface's end it is 1.1 m: a corner bubble, restarted (the rule
-    # in the module docstring of profilebench.flow.viscous)
+    # in the module docstring of profilebench.flow.profile_flow)
     assert bool(restarts) is restarted
     s0 = restarts[0].s if restarts else bl.separation.s
     assert 0.9 - s0 < 1.0 <= 0.9 - s0 + 0.5
