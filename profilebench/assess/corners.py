@@ -19,6 +19,7 @@ import numpy as np
 from profilebench.assess.results import CornerResult, RadiusSearch, SearchStatus, Verdict
 from profilebench.errors import GeometryError, RadiusTooLargeError
 from profilebench.flow.boundary_layer import SEPARATION_KINDS
+from profilebench.geometry.polyline import arc_length, edges, signed_area
 
 __all__ = ["assess_corners", "corner_regions", "curvature_peaks", "all_spans",
            "largest_fitting_radius"]
@@ -48,12 +49,11 @@ def curvature_peaks(panelling, height):
 
     pts = np.asarray(panelling.points, dtype=float)
     n = len(pts)
-    seg = np.roll(pts, -1, axis=0) - pts
+    seg = edges(pts)
     lengths = np.hypot(seg[:, 0], seg[:, 1])
     heading = np.arctan2(seg[:, 1], seg[:, 0])
     turn = np.angle(np.exp(1j * (heading - np.roll(heading, 1))))     # at point j: panel j-1 -> j
-    area2 = np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1])
-    convex_sign = 1.0 if area2 > 0 else -1.0   # counter-clockwise: left turns are convex
+    convex_sign = 1.0 if signed_area(pts) > 0 else -1.0   # counter-clockwise: left turns are convex
     kappa = turn / (0.5 * (lengths + np.roll(lengths, 1)))
     taken = np.zeros(n, dtype=bool)
     for span in panelling.corners:
@@ -110,8 +110,7 @@ def _arc_positions(panelling, flow, spans):
     """(surface index or -1, s_start, s_end) of each span's arc on the surface it lies on."""
     perim = float(flow.upper.perimeter)
     pts = np.asarray(panelling.points, dtype=float)
-    seg = np.roll(pts, -1, axis=0) - pts
-    point_sigma = np.concatenate([[0.0], np.cumsum(np.hypot(seg[:, 0], seg[:, 1]))[:-1]])
+    point_sigma = arc_length(pts)[1]
     placed = []
     for span in spans:
         a, b = float(point_sigma[span.point_start]), float(point_sigma[span.point_end])

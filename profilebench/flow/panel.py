@@ -36,6 +36,7 @@ import numpy as np
 from scipy.linalg import lapack
 
 from profilebench.errors import GroundContactError, InputError, SelfIntersectionError
+from profilebench.geometry.polyline import edge_lengths, is_clockwise, signed_area
 
 __all__ = [
     "InviscidStatus",
@@ -154,8 +155,7 @@ def _check_outline(points, name: str, ground: bool) -> np.ndarray:
             f"({int(bad.sum())} such point(s))"
         )
     size = float(np.ptp(pts, axis=0).max())
-    seg = np.roll(pts, -1, axis=0) - pts
-    length = np.hypot(seg[:, 0], seg[:, 1])
+    length = edge_lengths(pts)
     short = length <= _REPEAT_TOL * max(size, np.finfo(float).tiny)
     if short.any():
         i = int(np.flatnonzero(short)[0])
@@ -169,7 +169,7 @@ def _check_outline(points, name: str, ground: bool) -> np.ndarray:
             f"{name}: points {i} and {j} are repeated (both at {tuple(pts[i])}); remove one of "
             "them so every panel has a length"
         )
-    area = 0.5 * float(np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1]))
+    area = signed_area(pts)
     if abs(area) <= 1e-12 * size * size:
         raise InputError(
             f"{name} encloses no area (the points are collinear); give a closed outline round a body"
@@ -286,9 +286,9 @@ def _assemble(pts_list, ground: bool):
     # orientation of each body: outward normal = sgn * left normal, sgn = -1 counter-clockwise
     sgn_list, clockwise = [], []
     for p in pts_list:
-        area2 = float(np.sum(p[:, 0] * np.roll(p[:, 1], -1) - np.roll(p[:, 0], -1) * p[:, 1]))
-        clockwise.append(area2 < 0.0)
-        sgn_list.append(np.full(p.shape[0], 1.0 if area2 < 0.0 else -1.0))
+        cw = is_clockwise(p)
+        clockwise.append(cw)
+        sgn_list.append(np.full(p.shape[0], 1.0 if cw else -1.0))
     sgn = np.concatenate(sgn_list)
     nx = -ty * sgn
     ny = tx * sgn

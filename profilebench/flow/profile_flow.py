@@ -33,6 +33,8 @@ from profilebench.flow.boundary_layer import march_boundary_layer
 from profilebench.errors import InputError, ProfileBenchError
 from profilebench.flow.panel import InviscidSolution, InviscidStatus, solve_inviscid
 from profilebench.flow.stagnation import split_surfaces
+from profilebench.geometry.polyline import (arc_length, edge_lengths, edges, is_clockwise,
+                                            midpoints, outward_normals)
 
 __all__ = ["FlowStatus", "SurfaceFlow", "ProfileFlow", "solve_profile_flow", "march_surface",
            "BubbleRestart"]
@@ -288,8 +290,7 @@ def _wake_outline(pts, j_l, j_u, d, wake_length):
     xu, yu = body[-1]
     xl, yl = body[0]
     x_end = float(pts[:, 0].max()) + wake_length
-    seg = np.roll(pts, -1, axis=0) - pts
-    lens = np.hypot(seg[:, 0], seg[:, 1])
+    lens = edge_lengths(pts)
     first_u = float(lens[j_u % n] if d > 0 else lens[(j_u - 1) % n])
     first_l = float(lens[(j_l - 1) % n] if d > 0 else lens[j_l % n])
     refine = min(1.0, _WAKE_REFERENCE_POINTS / n)
@@ -335,23 +336,20 @@ def _outline_solution(pts, ground, ue, cp, status, message):
     closed-body pass ran on a coarser panelling and the wake model's speeds are reported on the
     full one.
     """
-    b = np.roll(pts, -1, axis=0)
-    seg = b - pts
+    seg = edges(pts)
     length = np.hypot(seg[:, 0], seg[:, 1])
-    tx = seg[:, 0] / length
-    ty = seg[:, 1] / length
-    area2 = float(np.sum(pts[:, 0] * b[:, 1] - b[:, 0] * pts[:, 1]))
-    sgn = 1.0 if area2 < 0.0 else -1.0   # outward normal = sgn * left normal (as in panel.py)
+    mid = midpoints(pts)
     arrays = dict(
-        x=0.5 * (pts[:, 0] + b[:, 0]), y=0.5 * (pts[:, 1] + b[:, 1]),
+        x=mid[:, 0], y=mid[:, 1],
         s=np.cumsum(length) - 0.5 * length, ue=np.asarray(ue, dtype=float),
         cp=np.asarray(cp, dtype=float), points=pts.copy(), panel_length=length,
-        tangent=np.column_stack([tx, ty]), normal=np.column_stack([-ty * sgn, tx * sgn]),
+        tangent=np.column_stack([seg[:, 0] / length, seg[:, 1] / length]),
+        normal=outward_normals(pts),
     )
     for arr in arrays.values():
         arr.setflags(write=False)
     return InviscidSolution(**arrays, circulation=0.0, perimeter=float(length.sum()),
-                            clockwise=area2 < 0.0, ground=bool(ground), kutta_node=None,
+                            clockwise=is_clockwise(pts), ground=bool(ground), kutta_node=None,
                             status=status, success=status is InviscidStatus.SOLVED,
                             message=message)
 
@@ -474,8 +472,7 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     else:
         inviscid = dataclasses.replace(res0, ue=ue, cp=cp, message=message)
     surfaces = []
-    seg_new = np.roll(new_pts, -1, axis=0) - new_pts
-    sigma_ju = float(np.hypot(seg_new[: m - 1, 0], seg_new[: m - 1, 1]).sum())  # wake outline starts at j_l
+    sigma_ju = float(edge_lengths(new_pts)[: m - 1].sum())  # the wake outline starts at j_l
     for new_sf in (split.upper, split.lower):
         s_junction = sigma_ju if new_sf.direction > 0 else 0.0
         sf = _surface_in_original(new_sf, orig_of_new, m, d, float(point_sigma[j_l]), perimeter,
@@ -490,13 +487,6 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     if not flow.success:
         return first, f"wake model skipped: {flow.message}"
     return dataclasses.replace(flow, closed=first, wake_points=new_pts), ""
-
-
-def _outline_sigma(pts):
-    """Perimeter (m) and arc length of each point from points[0] (m) of a closed outline."""
-    seg = np.diff(np.vstack([pts, pts[:1]]), axis=0)
-    lengths = np.hypot(seg[:, 0], seg[:, 1])
-    return float(lengths.sum()), np.concatenate([[0.0], np.cumsum(lengths)[:-1]])
 
 
 def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed, transition,
@@ -528,14 +518,14 @@ def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed,
     split = split_surfaces(res_c)
     if not split.success:
         return None
-    perim_c, sigma_c = _outline_sigma(pts_c)
+    perim_c, sigma_c = arc_length(pts_c)
     pos = {int(j): k for k, j in enumerate(sub)}
     edge_sigma_c = [float(sigma_c[pos[int(k)]]) for k in edge_points]
     first = _marched(res_c, (split.upper, split.lower), ("upper", "lower"), perim_c, edge_sigma_c,
                      nu, speed, transition, h_separation, reattach_length, fit_length=fit_length)
     if not first.success:
         return None
-    perimeter, point_sigma = _outline_sigma(pts)
+    perimeter, point_sigma = arc_length(pts)
     edge_sigma = [float(point_sigma[int(k)]) for k in edge_points]
     flow, note = _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed,
                             transition, h_separation, reattach_length, wake_length, base_pressure,
@@ -598,10 +588,7 @@ def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transit
     res = inviscid if inviscid is not None else solve_inviscid(pts, ground=ground, kutta_node=kutta_node)
     if not res.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, res.message, res)
-    seg = np.diff(np.vstack([pts, pts[:1]]), axis=0)
-    lengths = np.hypot(seg[:, 0], seg[:, 1])
-    perimeter = float(lengths.sum())
-    point_sigma = np.concatenate([[0.0], np.cumsum(lengths)[:-1]])
+    perimeter, point_sigma = arc_length(pts)
     edge_sigma = [float(point_sigma[int(k)]) for k in edge_points]
     split = split_surfaces(res)
     if not split.success:

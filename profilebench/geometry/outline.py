@@ -33,6 +33,7 @@ from scipy.linalg import solve_banded
 from scipy.optimize import brentq, root
 
 from profilebench.errors import GeometryError, InputError, RadiusTooLargeError
+from profilebench.geometry.polyline import edge_lengths, is_clockwise
 
 __all__ = ["CornerArc", "SharpEdge", "Outline", "build_outline", "node_description"]
 
@@ -627,7 +628,7 @@ def _check_nodes(profile):
         )
     xy = np.array(profile.xy, float)
     ext = float(np.max(np.ptp(xy, axis=0)))
-    d = np.hypot(*(np.roll(xy, -1, axis=0) - xy).T)
+    d = edge_lengths(xy)
     tol = 1e-9 * max(ext, 1e-3)
     for i in np.flatnonzero(d <= tol):
         j = (i + 1) % n
@@ -656,10 +657,9 @@ def canonical_point_order(xy, starts=None):
     counter-clockwise, from the point of least x (ties: least y) among ``starts`` (indices; all
     points when None or empty)."""
     xy = np.asarray(xy, dtype=float)
-    area2 = float(np.sum(xy[:, 0] * np.roll(xy[:, 1], -1) - np.roll(xy[:, 0], -1) * xy[:, 1]))
     m = len(xy)
     start = min(starts or range(m), key=lambda i: (xy[i, 0], xy[i, 1]))
-    rev = area2 < 0.0
+    rev = is_clockwise(xy)
     step = -1 if rev else 1
     return tuple((start + step * k) % m for k in range(m)), rev
 

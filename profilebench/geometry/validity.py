@@ -18,6 +18,7 @@ from scipy.spatial import cKDTree
 from profilebench.errors import (GeometryError, GroundContactError, RadiusTooLargeError,
                                  SelfIntersectionError)
 from profilebench.geometry.outline import build_outline, canonical_outline, node_description
+from profilebench.geometry.polyline import signed_area
 
 __all__ = ["validate", "explain", "problems", "NEAR_COINCIDENT"]
 
@@ -79,7 +80,7 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
                 "edge or give at least that"))
     if out:
         return out
-    area = 0.5 * float(np.sum(xy[:, 0] * np.roll(xy[:, 1], -1) - np.roll(xy[:, 0], -1) * xy[:, 1]))
+    area = signed_area(xy)
     spread = np.linalg.svd(xy - xy.mean(axis=0), compute_uv=False)
     if spread[-1] <= 1e-9 * max(size, 1e-3):
         out.append(GeometryError(
