@@ -21,7 +21,7 @@ from profilebench.assess.corners import (SEPARATION_KINDS, all_spans, assess_cor
                                          corner_regions, corners_needing_floor)
 from profilebench.assess.drag import estimate_drag
 from profilebench.assess.radius_search import cached_radius_search, nearby_radius_search
-from profilebench.assess.results import Analysis, AnalysisStatus, FlowEvent
+from profilebench.assess.results import Analysis, AnalysisStatus, FlowEvent, FlowEventKind
 from profilebench.assess.solve import REATTACH_RATIO, edge_points, solve_flow
 from profilebench.errors import InputError, ProfileBenchError
 from profilebench.geometry import Profile, measure, panelize, validate
@@ -117,15 +117,15 @@ def _events(flow):
         for e in sfl.bl.events:
             x = float(np.interp(e.s, s_arr, sf.x))
             y = float(np.interp(e.s, s_arr, sf.y))
-            kind, detail = str(e.kind), str(getattr(e, "detail", ""))
+            kind, detail = FlowEventKind(e.kind), str(getattr(e, "detail", ""))
             if kind in SEPARATION_KINDS and any(abs(float(e.s) - r) <= 1e-9 for r in restarts):
                 detail = (f"{kind.replace('_', ' ')}: {detail}; the layer reattaches behind it "
                           "(the march restarts turbulent)")
-                kind = "bubble_separation"
+                kind = FlowEventKind.BUBBLE_SEPARATION
             events.append(FlowEvent(kind=kind, surface=sfl.name, s=float(e.s), x=x, y=y,
                                     detail=detail))
     st = flow.upper.surface.stagnation
-    events.insert(0, FlowEvent(kind="stagnation", surface="", s=0.0, x=float(st[0]), y=float(st[1]),
+    events.insert(0, FlowEvent(kind=FlowEventKind.STAGNATION, surface="", s=0.0, x=float(st[0]), y=float(st[1]),
                                detail="front stagnation point"))
     return tuple(events)
 

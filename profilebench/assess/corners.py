@@ -18,7 +18,7 @@ import numpy as np
 
 from profilebench.assess.results import CornerResult, RadiusSearch, SearchStatus, Verdict
 from profilebench.errors import GeometryError, RadiusTooLargeError
-from profilebench.flow.boundary_layer import SEPARATION_KINDS
+from profilebench.flow.boundary_layer import SEPARATION_KINDS, EventKind
 from profilebench.geometry.polyline import arc_length, edges, signed_area
 
 __all__ = ["assess_corners", "corner_regions", "curvature_peaks", "all_spans",
@@ -178,7 +178,7 @@ def _event_s(e, edges):
     """Where an event counts for attribution: an edge separation at its edge (the march reports
     it at the station just ahead of the edge), any other event where it happens."""
     s = float(e.s)
-    if e.kind == "edge_separation" and edges:
+    if e.kind is EventKind.EDGE_SEPARATION and edges:
         ahead = [x for x in edges if x >= s - 1e-9]
         if ahead:
             return float(min(ahead))
@@ -223,17 +223,17 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=())
     for k, e in enumerate(in_region):
         if e.kind not in SEPARATION_KINDS:
             continue
-        if e.kind == "laminar_separation":
-            nxt = next((f for f in in_region[k + 1:] if f.kind in SEPARATION_KINDS + ("reattachment",)), None)
-            if nxt is not None and nxt.kind == "reattachment":
+        if e.kind is EventKind.LAMINAR_SEPARATION:
+            nxt = next((f for f in in_region[k + 1:] if f.kind in SEPARATION_KINDS + (EventKind.REATTACHMENT,)), None)
+            if nxt is not None and nxt.kind is EventKind.REATTACHMENT:
                 bubble = (e, nxt)
                 continue
         if not convex and any(abs(float(e.s) - r) <= tol for r in restart_s):
             concave_bubble = concave_bubble or e
             continue
-        if e.kind == "laminar_separation":
+        if e.kind is EventKind.LAMINAR_SEPARATION:
             verdict = Verdict.LAMINAR_SEPARATION
-        elif e.kind == "turbulent_separation":
+        elif e.kind is EventKind.TURBULENT_SEPARATION:
             burst = "burst" in str(getattr(e, "detail", ""))
             verdict = Verdict.LAMINAR_SEPARATION if burst else Verdict.TURBULENT_SEPARATION
         else:

@@ -9,9 +9,21 @@ from __future__ import annotations
 import enum
 from dataclasses import dataclass, field
 
+from typing import TYPE_CHECKING
+
 import numpy as np
 
+from profilebench.enums import TextEnum
+
+if TYPE_CHECKING:   # for the annotations only (no import at run time: no circle)
+    from profilebench.assess.conditions import Conditions
+    from profilebench.flow.profile_flow import ProfileFlow
+    from profilebench.geometry.measures import Measures
+    from profilebench.geometry.panelling import Panelling
+    from profilebench.geometry.profile import Profile
+
 __all__ = [
+    "FlowEventKind",
     "AnalysisStatus",
     "SearchStatus",
     "Verdict",
@@ -134,17 +146,33 @@ class DragBreakdown:
     notes: tuple[str, ...] = ()
 
 
+class FlowEventKind(TextEnum):
+    """Kinds of the events shown on a profile: the boundary layer's own
+    (:class:`profilebench.flow.boundary_layer.EventKind`), a corner bubble's separation and the
+    front stagnation point."""
+
+    STAGNATION = "stagnation"
+    TRANSITION = "transition"
+    LAMINAR_SEPARATION = "laminar_separation"
+    REATTACHMENT = "reattachment"
+    TURBULENT_SEPARATION = "turbulent_separation"
+    EDGE_SEPARATION = "edge_separation"
+    BUBBLE_SEPARATION = "bubble_separation"   # a separation behind which the layer reattaches
+
+
 @dataclass(frozen=True)
 class FlowEvent:
     """A boundary-layer event placed on the profile: kind, surface, arc length and position (m)."""
 
-    kind: str                    # transition, laminar_separation, reattachment, turbulent_separation,
-                                 # edge_separation, bubble_separation (reattaches behind), stagnation
-    surface: str                 # "upper" or "lower"
+    kind: FlowEventKind
+    surface: str                 # "upper", "lower" (a SurfaceName), or "" at the stagnation point
     s: float                     # arc length on that surface from the stagnation point
     x: float
     y: float
     detail: str = ""
+
+    def __post_init__(self):
+        object.__setattr__(self, "kind", FlowEventKind(self.kind))
 
 
 @dataclass(frozen=True)
@@ -153,11 +181,11 @@ class Analysis:
 
     status: AnalysisStatus
     message: str
-    profile: object
-    conditions: object
-    measures: object = None
-    panelling: object = None
-    flow: object = None          # profilebench.flow.profile_flow.ProfileFlow
+    profile: Profile
+    conditions: Conditions
+    measures: Measures | None = None
+    panelling: Panelling | None = None
+    flow: ProfileFlow | None = None
     corners: tuple[CornerResult, ...] = ()
     drag: DragBreakdown | None = None
     events: tuple[FlowEvent, ...] = ()

@@ -41,8 +41,9 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from profilebench.enums import TextEnum
 from profilebench.errors import InputError
-from profilebench.flow.head import march_head
+from profilebench.flow.head import HeadStop, march_head
 from profilebench.flow.thwaites import (
     LAMBDA_SEPARATION,
     thwaites_momentum_thickness,
@@ -66,6 +67,7 @@ __all__ = [
     "BUBBLE_MAX_LENGTH_THETA",
     "H_SEPARATION_RANGE",
     "SEPARATION_KINDS",
+    "EventKind",
 ]
 
 #: Shape factor given to a turbulent layer where it starts (transition, or fully turbulent
@@ -84,16 +86,23 @@ BUBBLE_BURST_H = 3.5
 BUBBLE_MAX_LENGTH_THETA = 100.0
 #: Accepted turbulent separation thresholds on H (Cebeci & Bradshaw quote 1.8-2.8; 2.4 common).
 H_SEPARATION_RANGE = (1.8, 2.8)
+
+
+class EventKind(TextEnum):
+    """Boundary-layer event kinds, in the trade's terms."""
+
+    TRANSITION = "transition"
+    LAMINAR_SEPARATION = "laminar_separation"
+    REATTACHMENT = "reattachment"
+    TURBULENT_SEPARATION = "turbulent_separation"
+    EDGE_SEPARATION = "edge_separation"
+
+
 #: Event kinds, in the trade's terms.
-EVENT_KINDS = (
-    "transition",
-    "laminar_separation",
-    "reattachment",
-    "turbulent_separation",
-    "edge_separation",
-)
+EVENT_KINDS = tuple(EventKind)
 #: The event kinds at which the layer leaves the surface.
-SEPARATION_KINDS = ("laminar_separation", "turbulent_separation", "edge_separation")
+SEPARATION_KINDS = (EventKind.LAMINAR_SEPARATION, EventKind.TURBULENT_SEPARATION,
+                    EventKind.EDGE_SEPARATION)
 _FIT_HALF_WIDTH = 3
 
 
@@ -121,16 +130,18 @@ class Event:
     station); ``detail``: a short text.
     """
 
-    kind: str
+    kind: EventKind
     s: float
     index: int
     detail: str
 
     def __post_init__(self):
-        if self.kind not in EVENT_KINDS:
+        try:
+            object.__setattr__(self, "kind", EventKind(self.kind))
+        except ValueError:
             raise InputError(
                 f"event kind {self.kind!r} is unknown; use one of {', '.join(EVENT_KINDS)}"
-            )
+            ) from None
 
 
 @dataclass(frozen=True)
@@ -369,6 +380,18 @@ def _first_index_at_or_after(s, x):
     return int(np.searchsorted(s, x, side="left"))
 
 
+class _LaminarEnd(enum.Enum):
+    """What ends the laminar part of a march."""
+
+    NONE = "reaches the end of the surface"
+    EDGE = "a sharp edge"
+    STOPPED = "the edge speed falls to zero"
+    LAMINAR_SEPARATION = "laminar separation"
+    TURBULENT = "turbulent from the start"
+    FREE = "free transition"
+    FORCED = "forced transition"
+
+
 class _March:
     """One surface's march: the inputs, the station arrays being filled and the events.
 
@@ -420,30 +443,30 @@ class _March:
 
     # ---- phase 2: where the laminar part ends: the first of edge, separation, transition ----
     def laminar_end(self, transition):
-        """(s, kind) of the end of the laminar part; kind "none" if it reaches the end."""
+        """(s, kind) of the end of the laminar part (kind a :class:`_LaminarEnd`)."""
         s = self.s
         candidates = []  # (s, priority, kind)
         if self.s_edge is not None:
-            candidates.append((self.s_edge, 0, "edge"))
+            candidates.append((self.s_edge, 0, _LaminarEnd.EDGE))
         sep_idx = np.flatnonzero((self.lam <= LAMBDA_SEPARATION) | self.stopped)
         if sep_idx.size:
             i = int(sep_idx[0])
             if self.stopped[i]:
-                candidates.append((float(s[i]), 1, "stopped"))
+                candidates.append((float(s[i]), 1, _LaminarEnd.STOPPED))
             else:
                 candidates.append((_crossing(s, LAMBDA_SEPARATION - self.lam, i), 1,
-                                   "laminar_separation"))
+                                   _LaminarEnd.LAMINAR_SEPARATION))
         if transition == "turbulent":
-            candidates.append((float(s[0]), 2, "turbulent"))
+            candidates.append((float(s[0]), 2, _LaminarEnd.TURBULENT))
         else:
             tr_idx = np.flatnonzero(self.g_tr >= 0)
             if tr_idx.size:
                 i = int(tr_idx[0])
-                candidates.append((_crossing(s, self.g_tr, i), 3, "free"))
+                candidates.append((_crossing(s, self.g_tr, i), 3, _LaminarEnd.FREE))
             if not isinstance(transition, str):
-                candidates.append((transition, 2, "forced"))
+                candidates.append((transition, 2, _LaminarEnd.FORCED))
         if not candidates:
-            return None, "none"
+            return None, _LaminarEnd.NONE
         x_end, _, kind = min(candidates, key=lambda c: (c[0], c[1]))
         return x_end, kind
 
@@ -504,15 +527,15 @@ class _March:
 
     def close_turbulent(self, m):
         """The event that ends an attached turbulent march, and the separated remainder."""
-        if m.stop == "end":
+        if m.stop is HeadStop.END:
             return
-        if m.stop == "h_above":
-            self.event("turbulent_separation", m.s_stop,
+        if m.stop is HeadStop.H_ABOVE:
+            self.event(EventKind.TURBULENT_SEPARATION, m.s_stop,
                        f"turbulent separation: H reached {self.h_sep:g} (Head)")
-        elif m.stop == "limit":
-            self.event("edge_separation", m.s_stop, "attached turbulent layer reaches a sharp edge")
-        elif m.stop == "stopped":
-            self.event("turbulent_separation", m.s_stop, "edge speed falls to zero: the flow stops")
+        elif m.stop is HeadStop.LIMIT:
+            self.event(EventKind.EDGE_SEPARATION, m.s_stop, "attached turbulent layer reaches a sharp edge")
+        elif m.stop is HeadStop.STOPPED:
+            self.event(EventKind.TURBULENT_SEPARATION, m.s_stop, "edge speed falls to zero: the flow stops")
         else:
             self.fail("turbulent march", m)
             return
@@ -522,7 +545,7 @@ class _March:
         """Transition (free, forced, or turbulent from the start), then the turbulent march."""
         s, ue = self.s, self.ue
         k0 = 0
-        if kind == "turbulent":
+        if kind is _LaminarEnd.TURBULENT:
             # start where Head's equations are regular: first station with ue > 0 and theta > 0
             k0 = 0 if (ue[0] > 0 and self.theta_l[0] > 0) else 1
             x0, th0 = float(s[k0]), float(self.theta_l[k0])
@@ -532,20 +555,20 @@ class _March:
                 self.re_theta[0] = self.re_t_l[0]
                 self.margin[0] = 1.0
                 self.regime[0] = Regime.TURBULENT
-            self.event("transition", s[0],
+            self.event(EventKind.TRANSITION, s[0],
                        f"turbulent from the start: theta from Thwaites, H = {TURBULENT_START_H:g}")
         else:
             self.fill_laminar(x_end)
             x0, th0 = x_end, th_x
-            if kind == "free":
+            if kind is _LaminarEnd.FREE:
                 rx = float(np.interp(x_end, s, ue)) * x_end / self.nu_v
                 detail = (f"free transition, Michel's criterion (Cebeci-Smith form) at "
                           f"Re_x = {rx:.3g}")
             else:
                 detail = "forced transition at the given arc length"
-            self.event("transition", x_end, detail)
+            self.event(EventKind.TRANSITION, x_end, detail)
         m = self.turbulent(x0, th0, TURBULENT_START_H)
-        if kind == "turbulent" and k0 == 1 and m.index.size:
+        if kind is _LaminarEnd.TURBULENT and k0 == 1 and m.index.size:
             self.cf[0] = 0.0 if ue[0] == 0.0 else m.cf[0]
         self.close_turbulent(m)
 
@@ -553,7 +576,7 @@ class _March:
     def bubble(self, x_end, th_x):
         """Laminar separation: a turbulent bubble that reattaches, bursts or meets an edge."""
         self.fill_laminar(x_end)
-        ls = self.event("laminar_separation", x_end,
+        ls = self.event(EventKind.LAMINAR_SEPARATION, x_end,
                         f"laminar separation (Thwaites, lambda = {LAMBDA_SEPARATION:g}): bubble")
         h_re = self.h_sep - BUBBLE_REATTACH_HYSTERESIS
         l_max = x_end + BUBBLE_MAX_LENGTH_THETA * th_x
@@ -561,24 +584,24 @@ class _March:
         mb = march_head(self.s, self.u_fit, self.d_fit, x_end, th_x, BUBBLE_RESTART_H, self.nu_v,
                         h_above=BUBBLE_BURST_H, h_below=h_re, s_limit=limit)
         self.fill_march(mb, Regime.SEPARATED, cf_zero=True)
-        if mb.stop == "h_below":
-            self.event("reattachment", mb.s_stop,
+        if mb.stop is HeadStop.H_BELOW:
+            self.event(EventKind.REATTACHMENT, mb.s_stop,
                        f"bubble from s = {ls.s:.4g} m reattaches turbulent (H fell to {h_re:g}), "
                        f"length {mb.s_stop - ls.s:.3g} m")
             self.close_turbulent(self.turbulent(mb.s_stop, mb.theta_stop, mb.h_stop))
-        elif mb.stop == "end":
+        elif mb.stop is HeadStop.END:
             pass   # the surface ends inside the bubble: separated from laminar separation on
-        elif mb.stop == "limit" and self.s_edge is not None and mb.s_stop >= self.s_edge:
-            self.event("edge_separation", mb.s_stop,
+        elif mb.stop is HeadStop.LIMIT and self.s_edge is not None and mb.s_stop >= self.s_edge:
+            self.event(EventKind.EDGE_SEPARATION, mb.s_stop,
                        f"bubble from s = {ls.s:.4g} m still open at a sharp edge: layer leaves there")
             self.fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
-        elif mb.stop in ("h_above", "limit", "stopped"):
+        elif mb.stop in (HeadStop.H_ABOVE, HeadStop.LIMIT, HeadStop.STOPPED):
             why = {
-                "h_above": f"H rose to {BUBBLE_BURST_H:g}",
-                "limit": f"no reattachment within {BUBBLE_MAX_LENGTH_THETA:g} theta",
-                "stopped": "edge speed falls to zero",
+                HeadStop.H_ABOVE: f"H rose to {BUBBLE_BURST_H:g}",
+                HeadStop.LIMIT: f"no reattachment within {BUBBLE_MAX_LENGTH_THETA:g} theta",
+                HeadStop.STOPPED: "edge speed falls to zero",
             }[mb.stop]
-            self.event("turbulent_separation", mb.s_stop,
+            self.event(EventKind.TURBULENT_SEPARATION, mb.s_stop,
                        f"bubble from s = {ls.s:.4g} m burst ({why}): the layer separates")
             self.fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
         else:
@@ -586,24 +609,24 @@ class _March:
 
     def run(self, transition):
         x_end, kind = self.laminar_end(transition)
-        if kind == "none":
+        if kind is _LaminarEnd.NONE:
             self.fill_laminar(self.s[-1] + 1.0)
             return
         finite = np.isfinite(self.theta_l)
         th_x = float(np.interp(x_end, self.s[finite], self.theta_l[finite]))
         h_x = float(np.interp(x_end, self.s, self.h_l))
-        if kind == "edge":
+        if kind is _LaminarEnd.EDGE:
             self.fill_laminar(x_end)
-            self.event("edge_separation", x_end, "attached laminar layer reaches a sharp edge")
+            self.event(EventKind.EDGE_SEPARATION, x_end, "attached laminar layer reaches a sharp edge")
             self.fill_separated(x_end, th_x, h_x)
-        elif kind == "stopped":
+        elif kind is _LaminarEnd.STOPPED:
             self.fill_laminar(x_end)
             k = _first_index_at_or_after(self.s, x_end)
-            self.event("laminar_separation", x_end, "edge speed falls to zero: the flow stops")
+            self.event(EventKind.LAMINAR_SEPARATION, x_end, "edge speed falls to zero: the flow stops")
             self.fill_separated(x_end, float(self.theta_l[k - 1]), float(self.h_l[k - 1]))
-        elif kind == "laminar_separation":
+        elif kind is _LaminarEnd.LAMINAR_SEPARATION:
             self.bubble(x_end, th_x)
-        else:   # "turbulent", "free", "forced"
+        else:   # turbulent from the start, free or forced transition
             self.transition(kind, x_end, th_x)
 
     # ---- phase 4: the result ----
@@ -612,7 +635,7 @@ class _March:
         for e in self.events:
             if e.kind in SEPARATION_KINDS:
                 separation = e
-            elif e.kind == "reattachment":
+            elif e.kind is EventKind.REATTACHMENT:
                 separation = None
         # anything not reached (numerical failure) is already filled by fill_separated
         if self.status is MarchStatus.COMPLETED:

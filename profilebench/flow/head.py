@@ -31,7 +31,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from profilebench.enums import TextEnum
+
 __all__ = [
+    "HeadStop",
     "head_h1",
     "head_shape_factor",
     "head_entrainment",
@@ -104,21 +107,30 @@ def ludwieg_tillmann_cf(h, re_theta):
             * np.asarray(re_theta, dtype=float) ** _LT_RE_EXPONENT)
 
 
+class HeadStop(TextEnum):
+    """Why a turbulent march stopped."""
+
+    END = "end"              # the surface end reached
+    H_ABOVE = "h_above"      # H rose to the upper limit (separation, or a bubble bursting)
+    H_BELOW = "h_below"      # H fell to the lower limit (a bubble reattaching)
+    LIMIT = "limit"          # the given arc length reached (a sharp edge, the longest bubble)
+    STOPPED = "stopped"      # the edge speed fell to zero
+    FAILURE = "failure"      # a non-finite state
+
+
 @dataclass(frozen=True)
 class HeadMarch:
     """Result of one turbulent march.
 
     ``index``: stations reached strictly before the stop (ints); ``theta`` (m), ``H``, ``cf`` at
-    those stations. ``stop``: "end" (surface end reached), "h_above", "h_below", "limit"
-    (the given arc length), "stopped" (edge speed fell to zero) or "failure" (non-finite
-    state). ``s_stop`` (m), ``theta_stop`` (m), ``h_stop``: the state where the march stopped.
+    those stations. ``stop``: a :class:`HeadStop`. ``s_stop`` (m), ``theta_stop`` (m), ``h_stop``: the state where the march stopped.
     """
 
     index: np.ndarray
     theta: np.ndarray
     H: np.ndarray
     cf: np.ndarray
-    stop: str
+    stop: HeadStop
     s_stop: float
     theta_stop: float
     h_stop: float
@@ -195,7 +207,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
             theta=th_arr,
             H=h_arr,
             cf=ludwieg_tillmann_cf(h_arr, re_t),
-            stop=stop,
+            stop=HeadStop(stop),
             s_stop=float(s_stop),
             theta_stop=float(th_stop),
             h_stop=float(h_stop),
@@ -214,7 +226,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
             record(i, theta, h)
             i += 1
         if x >= s_end:
-            return finish("limit" if hit_limit else "end", x, theta, h)
+            return finish(HeadStop.LIMIT if hit_limit else HeadStop.END, x, theta, h)
         j = max(0, min(i - 1, n - 2))
         sa, sb = s_l[j], s_l[j + 1]
         hseg = sb - sa
@@ -236,7 +248,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
                 u0 = ua + t * (c1 + t * (c2 + t * c3))
                 du0 = (c1 + t * (c2d + t * c3d)) * inv_h
             if u0 <= UE_STOPPED:
-                return finish("stopped", x, theta, h)
+                return finish(HeadStop.STOPPED, x, theta, h)
             k1a, k1b = rates(theta, big, u0, du0, nu_v)
             # sub-step: relative change of theta <= STEP_THETA_CHANGE, change of H <=
             # STEP_H_CHANGE, never longer than STEP_THETA momentum thicknesses
@@ -267,7 +279,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
                     u1 = ua + t * (c1 + t * (c2 + t * c3))
                     du1 = (c1 + t * (c2d + t * c3d)) * inv_h
                     if um <= UE_STOPPED or u1 <= UE_STOPPED:
-                        return finish("stopped", x, theta, h)
+                        return finish(HeadStop.STOPPED, x, theta, h)
                     # classical fourth-order Runge-Kutta, one stage function
                     hs = 0.5 * step
                     k2a, k2b = rates(theta + hs * k1a, big + hs * k1b, um, dum, nu_v)
@@ -286,15 +298,15 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
                 if step < 1e-12 * max(1.0, abs(x)):
                     break
             if not stages_ok:
-                return finish("failure", x, theta, h)
+                return finish(HeadStop.FAILURE, x, theta, h)
             h1_new = big_new / th_new
             h_new = _h_of_h1(h1_new) if h1_new > _H1_MIN else math.inf
             if h_new >= h_above:
                 f = (h_above - h) / (h_new - h) if math.isfinite(h_new) and h_new > h else 0.0
-                return finish("h_above", x + f * step, theta + f * (th_new - theta), h_above)
+                return finish(HeadStop.H_ABOVE, x + f * step, theta + f * (th_new - theta), h_above)
             if h_below is not None and h_new <= h_below:
                 f = (h - h_below) / (h - h_new) if h > h_new else 0.0
-                return finish("h_below", x + f * step, theta + f * (th_new - theta), h_below)
+                return finish(HeadStop.H_BELOW, x + f * step, theta + f * (th_new - theta), h_below)
             x = x1
             x_known = x1
             if target - x < 1e-12 * max(1.0, abs(target)):

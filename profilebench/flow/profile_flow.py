@@ -29,15 +29,26 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from profilebench.flow.boundary_layer import march_boundary_layer
+from profilebench.enums import TextEnum
+from profilebench.flow.boundary_layer import BoundaryLayerResult, EventKind, march_boundary_layer
 from profilebench.errors import InputError, ProfileBenchError
 from profilebench.flow.panel import InviscidSolution, InviscidStatus, solve_inviscid
-from profilebench.flow.stagnation import split_surfaces
+from profilebench.flow.stagnation import Surface, split_surfaces
 from profilebench.geometry.polyline import (arc_length, edge_lengths, edges, is_clockwise,
                                             midpoints, outward_normals)
 
-__all__ = ["FlowStatus", "SurfaceFlow", "ProfileFlow", "solve_profile_flow", "march_surface",
+__all__ = ["FlowStatus", "SurfaceName", "SURFACE_NAMES", "SurfaceFlow", "ProfileFlow", "solve_profile_flow", "march_surface",
            "BubbleRestart"]
+
+
+class SurfaceName(TextEnum):
+    """The two surfaces of a profile, split at the front stagnation point."""
+
+    UPPER = "upper"
+    LOWER = "lower"
+
+
+SURFACE_NAMES = (SurfaceName.UPPER, SurfaceName.LOWER)
 
 
 class FlowStatus(enum.Enum):
@@ -51,16 +62,16 @@ class BubbleRestart:
     """A corner separation after which the march was restarted turbulent (surface arc length, m)."""
 
     s: float
-    kind: str
+    kind: EventKind
 
 
 @dataclass(frozen=True)
 class SurfaceFlow:
     """One surface: its edge speed (``surface``), its boundary layer (``bl``) and any restarts."""
 
-    name: str
-    surface: object
-    bl: object
+    name: SurfaceName
+    surface: Surface
+    bl: BoundaryLayerResult
     restarts: tuple[BubbleRestart, ...]
     edges: tuple[float, ...]     # surface arc lengths of the sharp edges passed to the march
     perimeter: float             # outline length (m)
@@ -137,7 +148,7 @@ def _merge(first, second, s_offset, i_offset):
     # transition of the real layer, so it is dropped
     shifted = tuple(
         dataclasses.replace(e, s=e.s + s_offset, index=e.index + i_offset) for e in second.events
-        if not (e.kind == "transition" and e.index <= 1)
+        if not (e.kind is EventKind.TRANSITION and e.index <= 1)
     )
     kept = tuple(e for e in first.events if e.index <= i_offset)
     fields["events"] = list(kept + shifted)
@@ -186,7 +197,7 @@ def march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_le
                                     fit_length=fit_length)
         if not tail.success:
             break
-        restarts.append(BubbleRestart(s=float(sep.s), kind=str(sep.kind)))
+        restarts.append(BubbleRestart(s=float(sep.s), kind=EventKind(sep.kind)))
         bl = _merge(bl, tail, s_offset=float(s[i0] - rest_s[0]), i_offset=i0)
     return bl, tuple(restarts)
 
@@ -218,7 +229,7 @@ def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition,
             first = fallback_separation[k]
             ev = dataclasses.replace(first, s=float(s[-1]), index=len(s) - 1)
             bl = dataclasses.replace(bl, separation=ev, events=list(bl.events) + [ev])
-        flows.append(SurfaceFlow(name=name, surface=sf, bl=bl, restarts=restarts, edges=edges,
+        flows.append(SurfaceFlow(name=SurfaceName(name), surface=sf, bl=bl, restarts=restarts, edges=edges,
                                  perimeter=perimeter))
         idx = np.asarray(sf.index, dtype=int)
         offset = len(bl.s) - len(idx)   # station 0 is the stagnation point itself
@@ -420,7 +431,7 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     edge_idx = [_nearest_point(point_sigma, perimeter, e) for e in edge_sigma]
     js = []
     for j, sep in ((j_u, seps[0]), (j_l, seps[1])):
-        if sep is not None and sep.kind == "edge_separation" and edge_idx:
+        if sep is not None and sep.kind is EventKind.EDGE_SEPARATION and edge_idx:
             j = min(edge_idx, key=lambda k: float(np.hypot(*(pts[k] - pts[j]))))
         js.append(j)
     j_u, j_l = js
@@ -441,7 +452,7 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
         sig_full = sig
     moved = np.array(pts, dtype=float)
     for j, sg, sep in ((j_u, sig_full[0], seps[0]), (j_l, sig_full[1], seps[1])):
-        if sep is not None and sep.kind != "edge_separation":   # an edge stays where it is
+        if sep is not None and sep.kind is not EventKind.EDGE_SEPARATION:   # an edge stays put
             moved[j] = _point_at_sigma(pts, point_sigma, perimeter, sg)
     new_pts, m = _wake_outline(moved, j_l, j_u, d, wake_length)
     if ground and float(new_pts[:, 1].min()) <= 0.0:
@@ -480,7 +491,7 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
         if sf is None:
             return first, "wake model skipped: a surface is too short"
         surfaces.append(sf)
-    flow = _marched(inviscid, surfaces, ("upper", "lower"), perimeter, edge_sigma, nu, speed,
+    flow = _marched(inviscid, surfaces, SURFACE_NAMES, perimeter, edge_sigma, nu, speed,
                     transition, h_separation, reattach_length, fallback_separation=seps,
                     restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
                     beyond=beyond, fit_length=fit_length)
@@ -521,7 +532,7 @@ def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed,
     perim_c, sigma_c = arc_length(pts_c)
     pos = {int(j): k for k, j in enumerate(sub)}
     edge_sigma_c = [float(sigma_c[pos[int(k)]]) for k in edge_points]
-    first = _marched(res_c, (split.upper, split.lower), ("upper", "lower"), perim_c, edge_sigma_c,
+    first = _marched(res_c, (split.upper, split.lower), SURFACE_NAMES, perim_c, edge_sigma_c,
                      nu, speed, transition, h_separation, reattach_length, fit_length=fit_length)
     if not first.success:
         return None
@@ -593,7 +604,7 @@ def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transit
     split = split_surfaces(res)
     if not split.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, split.message, res)
-    first = _marched(res, (split.upper, split.lower), ("upper", "lower"), perimeter, edge_sigma,
+    first = _marched(res, (split.upper, split.lower), SURFACE_NAMES, perimeter, edge_sigma,
                      nu, speed, transition, h_separation, reattach_length, fit_length=fit_length)
     if not first.success or wake_length is None or kutta_node is not None:
         return first
