@@ -28,6 +28,10 @@ TRANSITION_MODES = ("free", "turbulent")
 H_SEPARATION_RANGE = (1.8, 2.8)  # turbulent separation usually taken at H 1.8..2.8 (Cebeci & Bradshaw, Momentum Transfer in Boundary Layers, 1977)
 BASE_PRESSURE_RANGE = (-1.5, 0.0)  # Cp; a plate normal to the flow about -1.4 (Roshko, from memory)
 PANELS_RANGE = (40, 2000)
+# largest frontal area (m^2) and width (m) taken: far beyond any vehicle, and small enough that
+# a force from them stays finite (common practice, no source)
+FRONTAL_AREA_MAX = 1.0e4
+WIDTH_MAX = 1.0e4
 
 
 def kmh_to_ms(speed_kmh: float) -> float:
@@ -177,8 +181,8 @@ class Conditions:
             setf("transition", v)
 
         in_range("h_separation", *H_SEPARATION_RANGE)
-        positive_or_none("frontal_area", "m^2")
-        positive_or_none("width", "m")
+        positive_or_none("frontal_area", "m^2", upper=FRONTAL_AREA_MAX)
+        positive_or_none("width", "m", upper=WIDTH_MAX)
         in_range("model_scale", 0.0, 1.0, lo_open=True)
         positive_or_none("tunnel_speed", "m/s", upper=SPEED_MAX)
         in_range("base_pressure", *BASE_PRESSURE_RANGE)

@@ -20,7 +20,12 @@ from dataclasses import dataclass, field, replace
 
 from profilebench.errors import GeometryError
 
-__all__ = ["Node", "Profile"]
+__all__ = ["Node", "Profile", "MAX_COORDINATE"]
+
+#: Largest magnitude of a node coordinate or radius (m). A road vehicle is under 50 m long; far
+#: beyond that a value is a slip (a unit, a typo) and near the float limit the geometry
+#: overflows (common practice, no source).
+MAX_COORDINATE = 10000.0
 
 
 @dataclass(frozen=True)
@@ -43,6 +48,11 @@ class Node:
             if not math.isfinite(value):
                 raise GeometryError(
                     f"node {name} is {value!r}; give a finite number in metres"
+                )
+            if abs(value) > MAX_COORDINATE:
+                raise GeometryError(
+                    f"node {name} = {value:.4g} m is beyond the limit of {MAX_COORDINATE:g} m; "
+                    "give it in metres (a vehicle is a few metres long)"
                 )
             object.__setattr__(self, name, float(value))
         if self.radius < 0:

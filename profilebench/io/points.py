@@ -29,8 +29,8 @@ from pathlib import Path
 
 import numpy as np
 
-from profilebench.errors import InputError, ProjectFileError
-from profilebench.geometry.profile import Node, Profile
+from profilebench.errors import InputError, ProjectFileError, excerpt
+from profilebench.geometry.profile import MAX_COORDINATE, Node, Profile
 from profilebench.io.atomic import atomic_write_text, read_input_bytes
 
 __all__ = [
@@ -186,7 +186,7 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         # else: two columns whose header names no x and y: taken as x, y in that order
     ncols = len(header) if header is not None else 2
 
-    rows = []
+    rows, row_lines = [], []
     decimal_comma = False
     for number, content in lines:
         cells = _split(content, delimiter)
@@ -200,16 +200,17 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
             parsed = _to_float(cells[col], delimiter)
             if parsed is None:
                 raise ProjectFileError(
-                    f"{shown!r} line {number}, column {col + 1}: {cells[col]!r} is not a number; "
-                    "fix that cell or remove the line")
+                    f"{shown!r} line {number}, column {col + 1}: {excerpt(cells[col])} is not a "
+                    "number; fix that cell or remove the line")
             value, used = parsed
             if not math.isfinite(value):
                 raise ProjectFileError(
-                    f"{shown!r} line {number}, column {col + 1}: {cells[col]!r} is not a finite "
-                    "number; remove or fix that point")
+                    f"{shown!r} line {number}, column {col + 1}: {excerpt(cells[col])} is not a "
+                    "finite number; remove or fix that point")
             decimal_comma |= used
             values.append(value)
         rows.append(values)
+        row_lines.append(number)
     if len(rows) < 3:
         raise ProjectFileError(
             f"{shown!r} has {len(rows)} point(s); an outline needs at least 3: add points")
@@ -234,6 +235,13 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
             reason = f"largest extent {extent:.6g} <= {MM_THRESHOLD:g}, so metres"
     if chosen == "mm":
         pts = pts / 1000.0
+    beyond = np.flatnonzero(np.any(np.abs(pts) > MAX_COORDINATE, axis=1))
+    if beyond.size:
+        k = int(beyond[0])
+        raise ProjectFileError(
+            f"{shown!r} line {row_lines[k]}: the point ({rows[k][0]:.4g}, {rows[k][1]:.4g}) {chosen} "
+            f"lies beyond {MAX_COORDINATE:g} m from the origin, farther than any vehicle; fix "
+            "that point, or give the unit (units='mm' or 'm') if it was misread")
     return PointImport(pts, chosen, reason, delimiter, decimal_comma, header)
 
 
