@@ -375,12 +375,14 @@ class MainWindow(QMainWindow):
 
     def export_image(self, path) -> bool:
         """Write the annotated view (review page) as PNG, SVG or PDF via profilebench.plotting."""
+        from profilebench.io.atomic import check_writable
         from profilebench.plotting import review_figure, save_figure
 
         if self.analysis is None:
             self._show_banner("nothing to export yet: no successful analysis", True)
             return False
         try:
+            check_writable(path)        # a folder that refuses files: a message, not an OSError
             baseline = self.baseline_analysis or self.document.baseline
             fig = review_figure(self.analysis, baseline=baseline)
             save_figure(fig, path)

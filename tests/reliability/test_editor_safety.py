@@ -192,3 +192,13 @@ def test_a_corrupt_newest_recovery_copy_is_set_aside_and_the_older_one_restored(
     assert (folder / f"damaged-{DEAD_PIDS[1]}.json").exists()
     assert not old.exists() and not new.exists()
     assert recovery.left_behind(folder) == []                  # nothing offered next time
+
+
+@pytest.mark.parametrize("name", ["view.png", "surface.csv"])
+def test_an_export_into_a_folder_that_refuses_files_says_so(make_window, qtbot, name):
+    w = make_window()
+    qtbot.waitUntil(lambda: w.results_current, timeout=WAIT_MS)
+    target = f"/sys/{name}"                 # sysfs refuses new files, even to root
+    export = w.export_image if name.endswith(".png") else w.export_surface_csv
+    assert export(target) is False
+    assert w.last_message.startswith("export failed") and "/sys" in w.last_message
