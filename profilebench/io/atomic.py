@@ -22,7 +22,7 @@ import stat
 import tempfile
 import time
 from pathlib import Path
-from typing import Callable, TextIO
+from typing import BinaryIO, Callable, TextIO
 
 from profilebench.errors import ProjectFileError
 
@@ -31,7 +31,7 @@ try:                    # POSIX: a writer holds a lock on its temporary file whi
 except ImportError:     # pragma: no cover - Windows: stale files are recognised by age instead
     fcntl = None
 
-__all__ = ["atomic_write_text", "read_input_bytes", "check_input_file", "check_writable",
+__all__ = ["atomic_write_text", "atomic_write_bytes", "read_input_bytes", "check_input_file", "check_writable",
            "megabytes"]
 
 #: without file locks (Windows), a temporary file this old (s) counts as left by a dead writer
@@ -160,6 +160,12 @@ def _file_mode_for(target: Path) -> int:
         return 0o666 & ~umask
 
 
+def atomic_write_bytes(path, write: Callable[[BinaryIO], None]) -> Path:
+    """Write a binary file atomically (an image): as :func:`atomic_write_text`, but ``write``
+    gets a file object open for bytes."""
+    return _atomic_write(path, write, {"mode": "wb"})
+
+
 def atomic_write_text(path, write: Callable[[TextIO], None], *, encoding: str = "utf-8",
                       errors: str = "strict") -> Path:
     """Write a text file atomically.
@@ -185,6 +191,11 @@ def atomic_write_text(path, write: Callable[[TextIO], None], *, encoding: str = 
         fails while writing (the original error is chained as ``__cause__``). The previous
         file, if any, is intact and no temporary file is left behind.
     """
+    return _atomic_write(path, write, {"mode": "w", "encoding": encoding, "errors": errors,
+                                       "newline": "\n"})
+
+
+def _atomic_write(path, write, open_args: dict) -> Path:
     target, folder = _target_and_folder(path)
     mode = _file_mode_for(target)
     try:
@@ -200,7 +211,7 @@ def atomic_write_text(path, write: Callable[[TextIO], None], *, encoding: str = 
     try:
         if fcntl is not None:
             fcntl.flock(fd, fcntl.LOCK_EX)      # released when this process ends, however
-        with os.fdopen(fd, "w", encoding=encoding, errors=errors, newline="\n") as fh:
+        with os.fdopen(fd, **open_args) as fh:
             write(fh)
             fh.flush()
             os.fsync(fh.fileno())

@@ -207,3 +207,20 @@ def test_a_child_never_imports_a_module_from_the_current_folder(tmp_path, monkey
         child.close()
     assert got[0][0] is True, got[0][1]
     assert not marker.exists()
+
+
+def test_an_image_saved_onto_a_link_writes_its_target_and_cleans_stale_temporaries(tmp_path):
+    from matplotlib.figure import Figure
+
+    from profilebench.plotting.review import save_figure
+
+    real = tmp_path / "real.png"
+    link = tmp_path / "view.png"
+    link.symlink_to(real)
+    stale = tmp_path / ".real.png.abcdefgh.tmp"        # left by a killed export of that file
+    stale.write_bytes(b"half an image")
+    fig = Figure(figsize=(1, 1))
+    fig.add_subplot().plot([0, 1], [0, 1])
+    save_figure(fig, link)
+    assert link.is_symlink() and real.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature
+    assert not stale.exists()
