@@ -13,7 +13,7 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 
-from profilebench.errors import ConditionsError
+from profilebench.errors import ConditionsError, excerpt
 from profilebench.flow.atmosphere import (
     ALTITUDE_MAX,
     ALTITUDE_MIN,
@@ -49,7 +49,11 @@ def _number(name: str, value) -> float:
         raise ConditionsError(
             f"{name} must be a number, got {value!r} ({type(value).__name__}); give a plain float"
         )
-    value = float(value)
+    try:
+        value = float(value)
+    except OverflowError:   # a whole number beyond any float
+        raise ConditionsError(f"{name} is a whole number of {len(str(abs(value)))} digits, too "
+                              "large; give a plain number") from None
     if not math.isfinite(value):
         raise ConditionsError(f"{name} is {value!r}; give a finite number")
     return value
@@ -195,7 +199,8 @@ class Conditions:
             )
         if not PANELS_RANGE[0] <= p <= PANELS_RANGE[1]:
             raise ConditionsError(
-                f"panels = {p!r} is outside the allowed range {PANELS_RANGE[0]}..{PANELS_RANGE[1]}; "
+                f"panels = {excerpt(str(p))} is outside the allowed range "
+                f"{PANELS_RANGE[0]}..{PANELS_RANGE[1]}; "
                 "give a panel count in that range"
             )
 

@@ -45,14 +45,15 @@ class Node:
                 raise GeometryError(
                     f"node {name} must be a number in metres, got {value!r}; give a plain float"
                 )
-            if not math.isfinite(value):
+            if isinstance(value, float) and not math.isfinite(value):
                 raise GeometryError(
                     f"node {name} is {value!r}; give a finite number in metres"
                 )
-            if abs(value) > MAX_COORDINATE:
+            if abs(value) > MAX_COORDINATE:     # an int of any size compares without overflow
+                shown = f"{value:.4g} m" if abs(value) < 1e300 else "a number beyond any float"
                 raise GeometryError(
-                    f"node {name} = {value:.4g} m is beyond the limit of {MAX_COORDINATE:g} m; "
-                    "give it in metres (a vehicle is a few metres long)"
+                    f"node {name} = {shown} is beyond the limit of {MAX_COORDINATE:g} m; give "
+                    "it in metres (a vehicle is a few metres long)"
                 )
             object.__setattr__(self, name, float(value))
         if self.radius < 0:

@@ -17,7 +17,7 @@ import pytest
 
 import profilebench.cli as cli
 import profilebench.io.project as project_module
-from profilebench import Conditions, load_project
+from profilebench import Conditions, Node, load_project
 from profilebench.assess.tables import MAX_TABLE_BYTES, load_table
 from profilebench.cli import main
 from profilebench.errors import ConditionsError, ProfileBenchError, ProjectFileError, TableError
@@ -320,3 +320,15 @@ def test_a_broken_link_says_what_it_is(tmp_path, kind):
     message = str(info.value)
     assert "no project file" not in message
     assert ("symbolic links" in message) if kind == "loop" else ("gone.json" in message)
+
+
+@pytest.mark.parametrize("make", [
+    lambda: Conditions(speed=10**400), lambda: Conditions(transition=10**400),
+    lambda: Conditions(width=10**400), lambda: Conditions(panels=10**400),
+    lambda: Node(10**400, 0.5), lambda: Node(0.5, -(10**400)),
+], ids=["speed", "transition", "width", "panels", "node-x", "node-y"])
+def test_a_python_int_beyond_any_float_is_refused_in_the_api(make):
+    # float(10**400) raises OverflowError (IEEE 754 doubles end near 1.8e308)
+    with pytest.raises(ProfileBenchError) as info:
+        make()
+    assert "0" * 100 not in str(info.value)
