@@ -58,8 +58,9 @@ def write_recovery(folder, document) -> Path:
     folder = Path(folder)
     try:
         folder.mkdir(parents=True, exist_ok=True)
-    except OSError as exc:
-        raise ProjectFileError(f"cannot create the recovery folder {folder}: {exc.strerror}; "
+    except (OSError, ValueError) as exc:       # ValueError: a NUL in the configured folder
+        reason = getattr(exc, "strerror", None) or str(exc)
+        raise ProjectFileError(f"cannot create the recovery folder {folder}: {reason}; "
                                "choose another recovery folder in the settings") from exc
     path = recovery_file(folder)
     # the underlay is not kept in the recovery copy (its path is relative to the project file)
@@ -77,7 +78,7 @@ def remove_recovery(folder, pid: int | None = None) -> bool:
     for p in (path, _origin_file(path)):
         try:
             p.unlink()
-        except FileNotFoundError:
+        except (FileNotFoundError, ValueError):   # gone, or a folder name no file can have
             pass
     return found
 

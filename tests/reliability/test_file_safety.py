@@ -224,3 +224,11 @@ def test_an_image_saved_onto_a_link_writes_its_target_and_cleans_stale_temporari
     save_figure(fig, link)
     assert link.is_symlink() and real.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # PNG signature
     assert not stale.exists()
+
+
+def test_a_recovery_folder_name_no_folder_can_have_is_reported(base):
+    doc = Document(base.profile, base.conditions)
+    with pytest.raises(ProjectFileError, match="recovery folder"):
+        recovery.write_recovery("/tmp/re\0covery", doc)       # a NUL, as a bad setting may hold
+    assert recovery.left_behind("/tmp/re\0covery") == []
+    assert recovery.remove_recovery("/tmp/re\0covery") is False
