@@ -135,11 +135,11 @@ def _check_outputs(outputs, inputs):
         for given in inputs:
             if given is None:
                 continue
-            same = Path(given).resolve() == target.resolve()
             try:
-                same = same or os.path.samefile(given, target)
-            except OSError:
-                pass
+                same = (Path(given).resolve() == target.resolve()
+                        or (os.path.exists(given) and os.path.samefile(given, target)))
+            except (OSError, ValueError):   # an input that cannot exist: refused when read
+                same = False
             if same:
                 raise InputError(f"--{opt} {value!r} is the input file {given!r}: writing it would "
                                  "destroy that input; give another file name (nothing was written)")

@@ -76,9 +76,9 @@ def _target_and_folder(path) -> tuple[Path, Path]:
         raise ProjectFileError(f"cannot save to {shown!r}: the file name is {len(name)} "
                                f"characters, over the {NAME_MAX} a file system allows; choose a "
                                "shorter name")
-    target = _real_target(path)
-    folder = target.parent if str(target.parent) else Path(".")
     try:
+        target = _real_target(path)
+        folder = target.parent if str(target.parent) else Path(".")
         if target.is_dir():
             raise ProjectFileError(
                 f"cannot save to {str(target)!r}: it is a folder; give a file name such as "
@@ -91,8 +91,8 @@ def _target_and_folder(path) -> tuple[Path, Path]:
             raise ProjectFileError(
                 f"cannot save to {str(target)!r}: the folder {str(folder)!r} does not exist; "
                 "create it first or choose another location")
-    except OSError as exc:
-        raise ProjectFileError(f"cannot save to {str(target)!r}: {exc.strerror or exc}; choose "
+    except OSError as exc:      # a folder name too long, a folder that cannot be entered
+        raise ProjectFileError(f"cannot save to {shown!r}: {exc.strerror or exc}; choose "
                                "another location") from exc
     return target, folder
 
@@ -210,7 +210,10 @@ def _atomic_write(path, write, open_args: dict) -> Path:
     in_place = False
     try:
         if fcntl is not None:
-            fcntl.flock(fd, fcntl.LOCK_EX)      # released when this process ends, however
+            try:
+                fcntl.flock(fd, fcntl.LOCK_EX)  # released when this process ends, however
+            except OSError:     # a file system without locks: others cannot lock it either,
+                pass            # so they never take this file for a stale one
         with os.fdopen(fd, **open_args) as fh:
             write(fh)
             fh.flush()
@@ -336,5 +339,8 @@ def check_writable(path) -> Path:
             f"cannot write {str(target)!r}: {exc.strerror or exc} (a file cannot be created in "
             f"{str(folder)!r}); choose a folder you can write to, or a shorter file name") from exc
     os.close(fd)
-    os.unlink(probe)
+    try:
+        os.unlink(probe)
+    except FileNotFoundError:   # another save took it for a stale temporary meanwhile
+        pass
     return target
