@@ -123,14 +123,15 @@ def _check_numbers(args):
 
 
 def _check_outputs(outputs, inputs):
-    """Each output (option, path) given: a file name, writable, and none of the ``inputs``."""
+    """Each output (what, path) given: a file name, writable, and none of the ``inputs``;
+    ``what`` names it in messages ("--json", "the project file")."""
     from profilebench.io.atomic import check_writable
 
-    for opt, value in outputs:
+    for what, value in outputs:
         if value is None:
             continue
         if not value.strip():
-            raise InputError(f"--{opt} was given an empty file name; give the file to write")
+            raise InputError(f"{what} was given an empty file name; give the file to write")
         target = check_writable(value)
         for given in inputs:
             if given is None:
@@ -141,7 +142,7 @@ def _check_outputs(outputs, inputs):
             except (OSError, ValueError):   # an input that cannot exist: refused when read
                 same = False
             if same:
-                raise InputError(f"--{opt} {value!r} is the input file {given!r}: writing it would "
+                raise InputError(f"{what} {value!r} is the input file {given!r}: writing it would "
                                  "destroy that input; give another file name (nothing was written)")
 
 
@@ -351,7 +352,7 @@ def _cmd_analyse(args, out):
         value = getattr(args, opt)
         if value and Path(value).suffix.lower() != ext:
             raise InputError(f"--{opt} {value!r}: the file name must end in {ext}")
-    _check_outputs([("image", args.image), ("csv", args.csv), ("json", args.json)],
+    _check_outputs([("--image", args.image), ("--csv", args.csv), ("--json", args.json)],
                    [args.file, getattr(args, "table", None)])
     project = _load(args.file, args)
     cond = _conditions(project, args)
@@ -509,7 +510,8 @@ def _cmd_import(args, out):
         raise InputError(f"{args.project!r}: the project file's name must end in .json")
     if target.exists():
         raise InputError(f"{args.project!r} exists; give a new file name (nothing was written)")
-    _check_outputs([("project", args.project)], [args.outline, getattr(args, "table", None)])
+    _check_outputs([("the project file", args.project)],
+                   [args.outline, getattr(args, "table", None)])
     report = []
     project = _import_csv(args.outline, args.units, args.simplify, args.name,
                           ground=not args.no_ground, report=report)

@@ -332,3 +332,21 @@ def test_a_python_int_beyond_any_float_is_refused_in_the_api(make):
     with pytest.raises(ProfileBenchError) as info:
         make()
     assert "0" * 100 not in str(info.value)
+
+
+def test_an_editor_field_does_not_echo_a_number_of_thousands_of_digits():
+    from profilebench.editor.fields import parse_number
+
+    with pytest.raises(ProfileBenchError) as info:
+        parse_number("9" * 5000, "speed", "km/h")
+    assert "speed" in str(info.value) and "9" * 100 not in str(info.value)
+
+
+def test_import_checks_its_project_file_before_fitting(tmp_path, monkeypatch, capsys):
+    outline = tmp_path / "outline.csv"
+    outline.write_text("x,y\n0,0.2\n2,0.2\n2,1.2\n0,1.2\n", encoding="utf-8")
+    fitted = []
+    monkeypatch.setattr(cli, "_import_csv", lambda *a, **k: fitted.append(a))
+    code = main(["import", str(outline), "/proc/profilebench-p.json"])  # no new files in /proc
+    assert code == cli.EXIT_BAD_INPUT and "/proc" in _no_traceback(capsys)
+    assert not fitted                             # refused before the (slow) fit
