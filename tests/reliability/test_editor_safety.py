@@ -111,7 +111,7 @@ def test_a_bad_autosave_interval_in_the_environment_falls_back_and_says_so(make_
     assert w.errors_reported and AUTOSAVE_ENV in w.errors_reported[0][1]
 
 
-def test_an_underlay_that_is_a_pipe_is_refused_at_open_without_freezing(tmp_path, sample_dict):
+def test_an_underlay_that_is_a_pipe_is_refused_at_open_and_at_load_without_freezing(tmp_path, sample_dict):
     os.mkfifo(tmp_path / "photo.png")
     sample_dict["underlay"] = {"path": "photo.png", "points_px": [[0, 0], [100, 0]],
                                "points_m": [[0, 0], [1, 0]]}
@@ -127,6 +127,7 @@ def test_an_underlay_that_is_a_pipe_is_refused_at_open_without_freezing(tmp_path
         w = MainWindow({str(project)!r}, recovery_dir={str(tmp_path / "rec")!r},
                        settings=QSettings({str(tmp_path / "s.ini")!r}, QSettings.IniFormat))
         print("OPENED", w.document.path, "|", " ".join(w.startup_problems), flush=True)
+        print("LOADED", w.load_underlay({str(tmp_path / "photo.png")!r}), w.last_message, flush=True)
         w.shutdown(10000)
         os._exit(0)
     """)
@@ -135,7 +136,8 @@ def test_an_underlay_that_is_a_pipe_is_refused_at_open_without_freezing(tmp_path
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                           timeout=120)
     assert "OPENED None |" in done.stdout, done.stderr[-2000:]
-    assert "not a regular file" in done.stdout
+    assert "not a regular file" in done.stdout.split("LOADED")[0]
+    assert "LOADED False" in done.stdout and "not a regular file" in done.stdout.split("LOADED")[1]
     assert time.monotonic() - t0 < 120
 
 

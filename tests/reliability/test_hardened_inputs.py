@@ -350,3 +350,16 @@ def test_import_checks_its_project_file_before_fitting(tmp_path, monkeypatch, ca
     code = main(["import", str(outline), "/proc/profilebench-p.json"])  # no new files in /proc
     assert code == cli.EXIT_BAD_INPUT and "/proc" in _no_traceback(capsys)
     assert not fitted                             # refused before the (slow) fit
+
+
+def test_an_underlay_path_through_a_loop_of_links_is_refused(tmp_path):
+    from profilebench.io import Project, Underlay, resolve_underlay
+
+    (tmp_path / "a.png").symlink_to(tmp_path / "b.png")
+    (tmp_path / "b.png").symlink_to(tmp_path / "a.png")
+    base = load_project(default_sample_path())
+    project = Project(base.profile, base.conditions,
+                      underlay=Underlay("a.png", ((0, 0), (100, 0)), ((0.0, 0.0), (1.0, 0.0))))
+    with pytest.raises(ProjectFileError) as info:   # Python < 3.13 raised RuntimeError here
+        resolve_underlay(project, tmp_path / "p.json")
+    assert info.value.path == "underlay.path"
