@@ -10,8 +10,8 @@ Links are kept: a symbolic link is written through to the file it points to (the
 link), and a file with several hard links is rewritten in place once its complete new content
 is safely on disk beside it, so every link sees the new content (that last copy is not atomic:
 should it fail, the complete new content stays in the temporary file, which the error names).
-A temporary file left by a writer that was killed (it holds no lock any more) is removed at the
-next save of the same file.
+A temporary file left by a writer that was killed (it holds no lock any more, and is older than
+:data:`FRESH_TMP_SECONDS`) is removed at the next save of the same file.
 """
 
 from __future__ import annotations
@@ -31,11 +31,14 @@ try:                    # POSIX: a writer holds a lock on its temporary file whi
 except ImportError:     # pragma: no cover - Windows: stale files are recognised by age instead
     fcntl = None
 
-__all__ = ["atomic_write_text", "atomic_write_bytes", "read_input_bytes", "check_input_file", "check_writable",
-           "megabytes"]
+__all__ = ["atomic_write_text", "atomic_write_bytes", "read_input_bytes", "check_input_file",
+           "check_writable", "megabytes"]
 
 #: without file locks (Windows), a temporary file this old (s) counts as left by a dead writer
 STALE_TMP_SECONDS = 3600.0
+#: a temporary file younger than this (s) is never taken for a stale one: a writer creates it
+#: a moment before it locks it (common practice, no source)
+FRESH_TMP_SECONDS = 2.0
 #: characters of the target's name kept in its temporary files' names (which add 14 more), so a
 #: name near the file system's 255-byte limit still gets a temporary file
 TMP_NAME_CHARS = 120
@@ -45,7 +48,7 @@ NAME_MAX = 255
 
 def megabytes(size: int) -> str:
     """A byte count for messages, in MiB (2**20 bytes) as the limits are set: "20 MiB"."""
-    return f"{size / 2**20:.3g} MiB"
+    return f"{size / 2**20:.4g} MiB"
 
 
 def _real_target(path) -> Path:
@@ -109,10 +112,12 @@ def _is_stale(name: str, folder: Path) -> bool:
     except OSError:
         return False
     try:
-        if not stat.S_ISREG(os.fstat(fd).st_mode):
+        st = os.fstat(fd)
+        age = time.time() - st.st_mtime
+        if not stat.S_ISREG(st.st_mode) or age < FRESH_TMP_SECONDS:
             return False
         if fcntl is None:
-            return time.time() - os.fstat(fd).st_mtime > STALE_TMP_SECONDS
+            return age > STALE_TMP_SECONDS
         try:
             fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
         except OSError:
@@ -208,27 +213,23 @@ def _atomic_write(path, write, open_args: dict) -> Path:
             "shorter file name") from exc
     tmp = Path(tmp_name)
     in_place = False
+    lock = _lock(fd)
     try:
-        if fcntl is not None:
-            try:
-                fcntl.flock(fd, fcntl.LOCK_EX)  # released when this process ends, however
-            except OSError:     # a file system without locks: others cannot lock it either,
-                pass            # so they never take this file for a stale one
         with os.fdopen(fd, **open_args) as fh:
             write(fh)
             fh.flush()
             os.fsync(fh.fileno())
-            os.chmod(tmp, mode)
-            _remove_stale_temporaries(target, folder, tmp.name)
-            try:
-                in_place = target.stat().st_nlink > 1
-            except FileNotFoundError:
-                in_place = False
-            if in_place:
-                _copy_into(tmp, target)
-                tmp.unlink()
-            else:
-                os.replace(tmp, target)
+        os.chmod(tmp, mode)
+        _remove_stale_temporaries(target, folder, tmp.name)
+        try:
+            in_place = target.stat().st_nlink > 1
+        except FileNotFoundError:
+            in_place = False
+        if in_place:
+            _copy_into(tmp, target)
+            tmp.unlink()
+        else:
+            os.replace(tmp, target)
     except BaseException as exc:
         if in_place and tmp.exists():
             raise ProjectFileError(
@@ -247,8 +248,25 @@ def _atomic_write(path, write, open_args: dict) -> Path:
             f"could not save {str(target)!r}: {type(exc).__name__}: {exc}; the previous file "
             "(if any) is unchanged. Check free disk space and write permission, then save again"
         ) from exc
+    finally:
+        if lock is not None:
+            os.close(lock)
     _fsync_folder(folder)
     return target
+
+
+def _lock(fd: int) -> int | None:
+    """A second descriptor of the temporary file ``fd``, holding a lock on it until closed (POSIX
+    flock): a writer killed at any moment releases it, so others know its file is stale. The
+    writing descriptor itself may then be closed before the rename (Windows needs that)."""
+    if fcntl is None:
+        return None
+    lock = os.dup(fd)      # the same open file: its lock lasts until both are closed
+    try:
+        fcntl.flock(lock, fcntl.LOCK_EX)
+    except OSError:     # a file system without locks: others cannot lock it either, so they
+        pass            # never take this file for a stale one
+    return lock
 
 
 def _fsync_folder(folder: Path) -> None:

@@ -19,6 +19,7 @@ from profilebench import load_project, save_project
 from profilebench.editor import Document, recovery
 from profilebench.errors import ProjectFileError
 from profilebench.gui.child_process import ChildProcess, import_modules
+from profilebench.io.atomic import FRESH_TMP_SECONDS
 from profilebench.io.samples import default_sample_path
 
 from test_saves_and_security import CHILD as SAVING_LOOP
@@ -31,6 +32,14 @@ def base():
 
 def _newer(project, text="a newer version"):
     return dataclasses.replace(project, notes=text)
+
+
+def _age(paths, seconds=FRESH_TMP_SECONDS + 10):
+    """Date files back, as a save a few seconds later finds them (a younger temporary file may
+    be one a live writer has just created and not yet locked)."""
+    then = time.time() - seconds
+    for p in paths:
+        os.utime(p, (then, then))
 
 
 # --- links --------------------------------------------------------------------------------------
@@ -101,16 +110,18 @@ def test_temporaries_of_a_killed_writer_are_removed_at_the_next_save(tmp_path, b
         (tmp_path / name).write_text("half a project")
     other = tmp_path / ".other.json.abcdefgh.tmp"          # another file's: not touched
     other.write_text("x")
+    _age(tmp_path.glob(".*.tmp"))
     save_project(base, target)
     assert not list(tmp_path.glob(".project.json.*.tmp")), f"{left} left by the kills"
     assert other.exists() and load_project(target) == base
 
 
-def test_a_temporary_of_a_save_in_progress_is_kept(tmp_path, base):
+def test_a_temporary_of_a_save_in_progress_or_just_created_is_kept(tmp_path, base):
     fcntl = pytest.importorskip("fcntl")
     busy = tmp_path / ".p.json.inprogrs.tmp"
     fd = os.open(busy, os.O_CREAT | os.O_WRONLY)
     fcntl.flock(fd, fcntl.LOCK_EX)               # as a live writer holds its temporary file
+    _age([busy])                                 # old, but locked: a long save in progress
     try:
         # a second process tries to clean it: the lock is another open file description's
         save_project(base, tmp_path / "p.json")
@@ -119,6 +130,10 @@ def test_a_temporary_of_a_save_in_progress_is_kept(tmp_path, base):
         os.close(fd)
     save_project(base, tmp_path / "p.json")      # the writer is gone: now it is stale
     assert not busy.exists()
+    fresh = tmp_path / ".p.json.justmade.tmp"    # created a moment ago, not locked yet
+    fresh.write_text("")
+    save_project(base, tmp_path / "p.json")
+    assert fresh.exists()
 
 
 def test_a_name_near_the_file_system_limit_still_saves(tmp_path, base):
@@ -219,6 +234,7 @@ def test_an_image_saved_onto_a_link_writes_its_target_and_cleans_stale_temporari
     link.symlink_to(real)
     stale = tmp_path / ".real.png.abcdefgh.tmp"        # left by a killed export of that file
     stale.write_bytes(b"half an image")
+    _age([stale])
     fig = Figure(figsize=(1, 1))
     fig.add_subplot().plot([0, 1], [0, 1])
     save_figure(fig, link)
@@ -232,3 +248,28 @@ def test_a_recovery_folder_name_no_folder_can_have_is_reported(base):
         recovery.write_recovery("/tmp/re\0covery", doc)       # a NUL, as a bad setting may hold
     assert recovery.left_behind("/tmp/re\0covery") == []
     assert recovery.remove_recovery("/tmp/re\0covery") is False
+
+
+CONCURRENT = """
+import dataclasses, sys, time
+from profilebench import load_project, save_project
+base = dataclasses.replace(load_project(sys.argv[1]), notes="x" * 100000)
+t0, errors = time.monotonic(), 0
+while time.monotonic() - t0 < float(sys.argv[3]):
+    try:
+        save_project(base, sys.argv[2])
+    except Exception as exc:
+        errors += 1
+        print(type(exc).__name__, exc, flush=True)
+print("errors", errors)
+"""
+
+
+def test_two_processes_saving_one_file_never_take_each_other_for_stale(tmp_path):
+    # the cleaner must leave a live writer's temporary file alone, even one just created
+    target = tmp_path / "p.json"
+    args = [sys.executable, "-c", CONCURRENT, str(default_sample_path()), str(target), "2.0"]
+    procs = [subprocess.Popen(args, stdout=subprocess.PIPE, text=True) for _ in range(2)]
+    outs = [p.communicate(timeout=60)[0] for p in procs]
+    assert all(out.strip().endswith("errors 0") for out in outs), outs
+    assert load_project(target).notes == "x" * 100000
