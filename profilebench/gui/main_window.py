@@ -159,8 +159,8 @@ class MainWindow(QMainWindow):
         self.resize(1500, 950)
         self.startup_problems = []          # what went wrong at start-up, told once it is shown
         if path is not None and not self.open_file(path):
-            self.startup_problems.append(f"{path} was not opened: {self.last_message}; the "
-                                         "default profile is shown instead")
+            self.startup_problems.append(f"{self.last_message}; the default profile is shown "
+                                         "instead")
         if self.document is None:
             self.new_document()
 
