@@ -171,9 +171,23 @@ def _add_condition_options(p):
                    help="ISO 2533 geopotential altitude in metres")
 
 
+class _Parser(argparse.ArgumentParser):
+    """argparse, whose usage errors do not echo a value of thousands of characters in full."""
+
+    def error(self, message):
+        self.print_usage(sys.stderr)
+        self.exit(EXIT_BAD_INPUT, f"{self.prog}: error: "
+                                  f"{terminal_text(_shorten_numbers(_shorten_quoted(message)))}\n")
+
+
+def _shorten_quoted(message: str) -> str:
+    return re.sub(r"'([^']{%d,})'" % (SHOWN_NUMBER_CHARS + 1),
+                  lambda m: repr(_short_number(m.group(1))), message)
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``profilebench`` command."""
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog="profilebench",
         description="Screening aerodynamics of 2D vehicle side profiles. Without a subcommand the "
                     "desktop editor starts; 'profilebench PROJECT.json' opens that file in it.",

@@ -363,3 +363,10 @@ def test_an_underlay_path_through_a_loop_of_links_is_refused(tmp_path):
     with pytest.raises(ProjectFileError) as info:   # Python < 3.13 raised RuntimeError here
         resolve_underlay(project, tmp_path / "p.json")
     assert info.value.path == "underlay.path"
+
+
+@pytest.mark.parametrize("option, value", [("--panels", "9" * 5000), ("--speed", "x" * 500)])
+def test_a_usage_error_does_not_echo_a_huge_value(option, value, capsys):
+    assert main(["analyse", str(default_sample_path()), option, value]) == cli.EXIT_BAD_INPUT
+    err = _no_traceback(capsys)
+    assert option in err and value[:100] not in err
