@@ -370,3 +370,16 @@ def test_a_usage_error_does_not_echo_a_huge_value(option, value, capsys):
     assert main(["analyse", str(default_sample_path()), option, value]) == cli.EXIT_BAD_INPUT
     err = _no_traceback(capsys)
     assert option in err and value[:100] not in err
+
+
+def test_a_point_file_too_dense_to_fit_is_refused_before_the_fit(tmp_path):
+    from profilebench.io.points import MAX_POINTS
+
+    n = MAX_POINTS + 1
+    rows = "".join(f"{2 + 2 * math.cos(2 * math.pi * k / n):.6f},"
+                   f"{0.9 + 0.7 * math.sin(2 * math.pi * k / n):.6f}\n" for k in range(n))
+    path = tmp_path / "dense.csv"
+    path.write_text("x,y\n" + rows, encoding="utf-8")
+    with pytest.raises(ProjectFileError) as info:
+        import_points_csv(path)
+    assert str(MAX_POINTS) in str(info.value) and "thin" in str(info.value)
