@@ -15,23 +15,33 @@ FILE may be a project file (.json) or a CSV outline of x, y points (mm or m, see
 is analysed with the default conditions and the options given. Without a subcommand the desktop
 editor starts (``profilebench PROJECT.json`` opens that file in
 it). Exit codes: 0 success, 1 an analysis did not
-succeed (its message is printed), 2 bad input (the error's message is printed, no traceback).
+succeed (its message is printed), 2 bad input (the error's message is printed, no traceback),
+130 interrupted (Ctrl-C). Output files are checked before any work: their folder must be
+writable and none may be one of the input files. Text printed to the terminal has its control
+characters (ANSI escapes in a label) and lone surrogates shown as escapes; a reader that stops
+early (``| head``) only cuts the printed text short: the files asked for are still written.
 """
 
 from __future__ import annotations
 
 import argparse
+import math
+import os
+import re
 import sys
 from pathlib import Path
 
 import profilebench
 from profilebench.errors import InputError, ProfileBenchError
 
-__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_FAILED", "EXIT_BAD_INPUT"]
+__all__ = ["main", "build_parser", "EXIT_OK", "EXIT_FAILED", "EXIT_BAD_INPUT", "EXIT_INTERRUPTED"]
 
 EXIT_OK = 0
 EXIT_FAILED = 1
 EXIT_BAD_INPUT = 2
+EXIT_INTERRUPTED = 130      # 128 + SIGINT, as shells report a Ctrl-C
+#: longest number echoed in a message (characters); longer ones are cut with "..."
+SHOWN_NUMBER_CHARS = 24
 
 #: the benchmark scripts ``profilebench bench`` runs, from benchmarks/ beside the package
 BENCH_SCRIPTS = ("bench_inviscid", "bench_boundary_layer", "bench_analyze", "bench_gui")
@@ -39,6 +49,101 @@ BENCH_SCRIPTS = ("bench_inviscid", "bench_boundary_layer", "bench_analyze", "ben
 
 class _Failed(Exception):
     """An analysis came back without success; carries the message to print."""
+
+
+# control characters (but newline and tab), DEL, the C1 controls, and lone surrogates
+_UNPRINTABLE = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\ud800-\udfff]")
+
+
+def terminal_text(text: str) -> str:
+    """``text`` safe to print: control characters and lone surrogates as escapes (``\\x1b``)."""
+    return _UNPRINTABLE.sub(lambda m: m.group().encode("unicode_escape", "backslashreplace")
+                            .decode("ascii"), text)
+
+
+class _TerminalStream:
+    """A text stream for the terminal: escapes what :func:`terminal_text` escapes, and a reader
+    that closed the pipe (``| head``) silences the rest of the output instead of failing."""
+
+    def __init__(self, stream):
+        self.stream = stream
+        self.broken = False
+
+    def write(self, text):
+        if self.broken:
+            return len(text)
+        text = terminal_text(str(text))
+        try:
+            self.stream.write(text)
+        except UnicodeEncodeError:
+            enc = getattr(self.stream, "encoding", None) or "ascii"
+            self._guarded(lambda: self.stream.write(text.encode(enc, "backslashreplace").decode(enc)))
+        except BrokenPipeError:
+            self.broken = True
+        return len(text)
+
+    def _guarded(self, fn):
+        try:
+            fn()
+        except BrokenPipeError:
+            self.broken = True
+
+    def flush(self):
+        if not self.broken:
+            self._guarded(self.stream.flush)
+
+    def silence_if_broken(self):
+        """After a broken pipe: point the real stream at the null device, so the interpreter's
+        last flush at exit does not fail either."""
+        if not self.broken:
+            return
+        try:
+            fd = self.stream.fileno()
+        except (AttributeError, OSError, ValueError):
+            return
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, fd)
+        os.close(devnull)
+
+
+def _short_number(text: str) -> str:
+    return text if len(text) <= SHOWN_NUMBER_CHARS else text[:SHOWN_NUMBER_CHARS - 3] + "..."
+
+
+def _check_numbers(args):
+    """Command-line numbers: finite, and not so long that no field could use them."""
+    for name, value in vars(args).items():
+        option = "--" + name.replace("_", "-")
+        if isinstance(value, float) and not math.isfinite(value):
+            raise InputError(f"{option} {value!r}: give a finite number")
+        if isinstance(value, int) and not isinstance(value, bool) and abs(value) >= 10**18:
+            digits = len(str(abs(value))) if abs(value) < 10**4000 else "thousands of"
+            raise InputError(f"{option}: a whole number of {digits} digits is too large; give "
+                             "a plain number")
+
+
+def _check_outputs(outputs, inputs):
+    """Each output (what, path) given: a file name, writable, and none of the ``inputs``;
+    ``what`` names it in messages ("--json", "the project file")."""
+    from profilebench.io.atomic import check_writable
+
+    for what, value in outputs:
+        if value is None:
+            continue
+        if not value.strip():
+            raise InputError(f"{what} was given an empty file name; give the file to write")
+        target = check_writable(value)
+        for given in inputs:
+            if given is None:
+                continue
+            try:
+                same = (Path(given).resolve() == target.resolve()
+                        or (os.path.exists(given) and os.path.samefile(given, target)))
+            except (OSError, ValueError):   # an input that cannot exist: refused when read
+                same = False
+            if same:
+                raise InputError(f"{what} {value!r} is the input file {given!r}: writing it would "
+                                 "destroy that input; give another file name (nothing was written)")
 
 
 # --- argument parsing --------------------------------------------------------------------------
@@ -66,9 +171,23 @@ def _add_condition_options(p):
                    help="ISO 2533 geopotential altitude in metres")
 
 
+class _Parser(argparse.ArgumentParser):
+    """argparse, whose usage errors do not echo a value of thousands of characters in full."""
+
+    def error(self, message):
+        self.print_usage(sys.stderr)
+        self.exit(EXIT_BAD_INPUT, f"{self.prog}: error: "
+                                  f"{terminal_text(_shorten_numbers(_shorten_quoted(message)))}\n")
+
+
+def _shorten_quoted(message: str) -> str:
+    return re.sub(r"'([^']{%d,})'" % (SHOWN_NUMBER_CHARS + 1),
+                  lambda m: repr(_short_number(m.group(1))), message)
+
+
 def build_parser() -> argparse.ArgumentParser:
     """The argument parser of the ``profilebench`` command."""
-    parser = argparse.ArgumentParser(
+    parser = _Parser(
         prog="profilebench",
         description="Screening aerodynamics of 2D vehicle side profiles. Without a subcommand the "
                     "desktop editor starts; 'profilebench PROJECT.json' opens that file in it.",
@@ -247,6 +366,8 @@ def _cmd_analyse(args, out):
         value = getattr(args, opt)
         if value and Path(value).suffix.lower() != ext:
             raise InputError(f"--{opt} {value!r}: the file name must end in {ext}")
+    _check_outputs([("--image", args.image), ("--csv", args.csv), ("--json", args.json)],
+                   [args.file, getattr(args, "table", None)])
     project = _load(args.file, args)
     cond = _conditions(project, args)
     analysis = _analyse(project.profile, cond, table=_user_table(args))
@@ -405,6 +526,8 @@ def _cmd_import(args, out):
         raise InputError(f"{args.project!r}: the project file's name must end in .json")
     if target.exists():
         raise InputError(f"{args.project!r} exists; give a new file name (nothing was written)")
+    _check_outputs([("the project file", args.project)],
+                   [args.outline, getattr(args, "table", None)])
     report = []
     project = _import_csv(args.outline, args.units, args.simplify, args.name,
                           ground=not args.no_ground, report=report)
@@ -440,12 +563,25 @@ def main(argv=None) -> int:
         return int(exc.code or 0)
     if args.command is None:
         return _start_editor(argv)
-    out = sys.stdout
+    out, err = _TerminalStream(sys.stdout), _TerminalStream(sys.stderr)
     try:
+        _check_numbers(args)
         return COMMANDS[args.command](args, out)
     except ProfileBenchError as exc:
-        print(f"profilebench: error: {exc}", file=sys.stderr)
+        print(f"profilebench: error: {_shorten_numbers(str(exc))}", file=err)
         return EXIT_BAD_INPUT
     except _Failed as exc:
-        print(f"profilebench: {exc}", file=sys.stderr)
+        print(f"profilebench: {exc}", file=err)
         return EXIT_FAILED
+    except KeyboardInterrupt:
+        print("\nprofilebench: interrupted (Ctrl-C); files being written were left as they were",
+              file=err)
+        return EXIT_INTERRUPTED
+    finally:
+        out.flush()
+        out.silence_if_broken()
+
+
+def _shorten_numbers(message: str) -> str:
+    """Very long digit runs in a message (a number echoed from the input) cut short."""
+    return re.sub(r"\d{%d,}" % (SHOWN_NUMBER_CHARS + 1), lambda m: _short_number(m.group()), message)

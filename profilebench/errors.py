@@ -19,6 +19,7 @@ __all__ = [
     "ProjectFileError",
     "TableError",
     "ProfileBenchWarning",
+    "excerpt",
 ]
 
 
@@ -81,3 +82,10 @@ class TableError(ProfileBenchError):
 
 class ProfileBenchWarning(UserWarning):
     """A result is usable but should be read with care (an option ignored, a table extrapolated...)."""
+
+
+def excerpt(text: str, chars: int = 60) -> str:
+    """A piece of the user's input for a message: its repr, cut to ``chars`` characters, so a
+    long line or a number of thousands of digits is not echoed in full."""
+    shown = repr(text)
+    return shown if len(shown) <= chars else shown[:chars - 4] + "...'"

@@ -13,7 +13,7 @@ import math
 from collections.abc import Mapping
 from dataclasses import dataclass
 
-from profilebench.errors import ConditionsError
+from profilebench.errors import ConditionsError, excerpt
 from profilebench.flow.atmosphere import (
     ALTITUDE_MAX,
     ALTITUDE_MIN,
@@ -30,6 +30,10 @@ SPEED_MAX = 150.0  # m/s; above this (about Mach 0.44 at sea level) compressibil
 TRANSITION_MODES = ("free", "turbulent")
 BASE_PRESSURE_RANGE = (-1.5, 0.0)  # Cp; a plate normal to the flow about -1.4 (Roshko, from memory)
 PANELS_RANGE = (40, 2000)
+# largest frontal area (m^2) and width (m) taken: far beyond any vehicle, and small enough that
+# a force from them stays finite (common practice, no source)
+FRONTAL_AREA_MAX = 1.0e4
+WIDTH_MAX = 1.0e4
 
 
 def kmh_to_ms(speed_kmh: float) -> float:
@@ -47,7 +51,11 @@ def _number(name: str, value) -> float:
         raise ConditionsError(
             f"{name} must be a number, got {value!r} ({type(value).__name__}); give a plain float"
         )
-    value = float(value)
+    try:
+        value = float(value)
+    except OverflowError:   # a whole number beyond any float
+        raise ConditionsError(f"{name} is a whole number of {len(str(abs(value)))} digits, too "
+                              "large; give a plain number") from None
     if not math.isfinite(value):
         raise ConditionsError(f"{name} is {value!r}; give a finite number")
     return value
@@ -179,8 +187,8 @@ class Conditions:
             setf("transition", v)
 
         in_range("h_separation", *H_SEPARATION_RANGE)
-        positive_or_none("frontal_area", "m^2")
-        positive_or_none("width", "m")
+        positive_or_none("frontal_area", "m^2", upper=FRONTAL_AREA_MAX)
+        positive_or_none("width", "m", upper=WIDTH_MAX)
         in_range("model_scale", 0.0, 1.0, lo_open=True)
         positive_or_none("tunnel_speed", "m/s", upper=SPEED_MAX)
         in_range("base_pressure", *BASE_PRESSURE_RANGE)
@@ -193,7 +201,8 @@ class Conditions:
             )
         if not PANELS_RANGE[0] <= p <= PANELS_RANGE[1]:
             raise ConditionsError(
-                f"panels = {p!r} is outside the allowed range {PANELS_RANGE[0]}..{PANELS_RANGE[1]}; "
+                f"panels = {excerpt(str(p))} is outside the allowed range "
+                f"{PANELS_RANGE[0]}..{PANELS_RANGE[1]}; "
                 "give a panel count in that range"
             )
 

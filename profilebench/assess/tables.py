@@ -19,6 +19,7 @@ the nearest end point is held, and a :class:`~profilebench.errors.ProfileBenchWa
 from __future__ import annotations
 
 import math
+import os
 import warnings
 from dataclasses import dataclass, field
 from enum import Enum
@@ -28,7 +29,7 @@ from pathlib import Path
 import numpy as np
 from scipy.interpolate import PchipInterpolator
 
-from profilebench.errors import InputError, ProfileBenchWarning, TableError
+from profilebench.errors import InputError, ProfileBenchWarning, TableError, excerpt
 
 __all__ = [
     "RtTable",
@@ -43,12 +44,16 @@ __all__ = [
     "REQUIRED_KEYS",
     "OPTIONAL_KEYS",
     "COLUMNS",
+    "MAX_TABLE_BYTES",
 ]
 
 RESOURCES_DIR = Path(__file__).resolve().parent.parent / "resources"
 REQUIRED_KEYS = ("name", "source", "reynolds_min", "reynolds_max", "thickness", "quantity")
 OPTIONAL_KEYS = ("critical_ratio", "notes")
 COLUMNS = ("r_over_t", "cd")
+#: Largest table file read (bytes): a table is a few kB; this refuses a wrong file (an image, a
+#: device such as /dev/zero) before it is read into memory.
+MAX_TABLE_BYTES = 4 * 1024 * 1024
 # The curve "stops falling" at a point when no later point lies more than this fraction of the
 # point's value below it (common practice, no source).
 FLAT_TOLERANCE = 0.02
@@ -327,17 +332,25 @@ def load_table(path) -> RtTable:
     Raises
     ------
     TableError
-        With the file name, the line number and how to fix it: a missing or unknown header key,
+        For a missing file, a folder, a device or pipe, a file over :data:`MAX_TABLE_BYTES`;
+        and with the file name, the line number and how to fix it: a missing or unknown header key,
         a non-numeric cell, fewer than 2 data rows, r/t not strictly increasing, a negative
         value, reynolds_min >= reynolds_max.
     """
+    from profilebench.errors import ProjectFileError
+    from profilebench.input_files import read_input_bytes
+
     p = Path(path)
     fname = p.name
     try:
-        text = p.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise TableError(f"{p}: no such table file; check the path") from None
-    except (OSError, UnicodeDecodeError) as exc:
+        if not os.path.lexists(p):
+            raise TableError(f"{p}: no such table file; check the path")
+        # bounded: a device (/dev/zero), a pipe or a huge file is refused before it is read
+        raw = read_input_bytes(p, "table file", "choose an r/t table CSV file", MAX_TABLE_BYTES)
+        text = raw.decode("utf-8")
+    except ProjectFileError as exc:
+        raise TableError(str(exc)) from None
+    except UnicodeDecodeError as exc:
         raise TableError(f"{p}: cannot be read as UTF-8 text ({exc}); save it as a text CSV") \
             from None
 
@@ -362,7 +375,7 @@ def load_table(path) -> RtTable:
             if not body:
                 continue
             if ":" not in body:
-                raise err(n, f"header line {body!r} is not 'key: value'",
+                raise err(n, f"header line {excerpt(body)} is not 'key: value'",
                           f"write it as '# key: value' with a key among {', '.join(allowed)}")
             key, value = (s.strip() for s in body.split(":", 1))
             key = key.lower()
@@ -378,22 +391,22 @@ def load_table(path) -> RtTable:
         if columns_line is None:
             cells = [c.strip().lower() for c in line.split(",")]
             if tuple(cells) != COLUMNS:
-                raise err(n, f"column row {line!r} is not 'r_over_t,cd'",
+                raise err(n, f"column row {excerpt(line)} is not 'r_over_t,cd'",
                           "put the row 'r_over_t,cd' after the header lines")
             columns_line = n
             continue
         cells = [c.strip() for c in line.split(",")]
         if len(cells) != 2:
-            raise err(n, f"row {line!r} has {len(cells)} cells", "give two: r_over_t,cd")
+            raise err(n, f"row {excerpt(line)} has {len(cells)} cells", "give two: r_over_t,cd")
         nums = []
         for col, cell in zip(COLUMNS, cells):
             try:
                 v = float(cell)
             except ValueError:
-                raise err(n, f"{col} cell {cell!r} is not a number",
+                raise err(n, f"{col} cell {excerpt(cell)} is not a number",
                           "write a plain decimal number such as 0.17") from None
             if not math.isfinite(v):
-                raise err(n, f"{col} cell {cell!r} is not finite", "give a finite number")
+                raise err(n, f"{col} cell {excerpt(cell)} is not finite", "give a finite number")
             if v < 0:
                 raise err(n, f"{col} = {v:g} is negative", "give a value >= 0")
             nums.append(v)
@@ -417,10 +430,10 @@ def load_table(path) -> RtTable:
         try:
             v = float(value)
         except ValueError:
-            raise err(n, f"{key} {value!r} is not a number", "give a plain number such as 1e5") \
+            raise err(n, f"{key} {excerpt(value)} is not a number", "give a plain number such as 1e5") \
                 from None
         if not math.isfinite(v) or v <= 0:
-            raise err(n, f"{key} = {value!r} must be a finite number > 0", "correct it")
+            raise err(n, f"{key} = {excerpt(value)} must be a finite number > 0", "correct it")
         return v
 
     re_min, re_max = number("reynolds_min"), number("reynolds_max")
@@ -434,7 +447,7 @@ def load_table(path) -> RtTable:
         try:
             crit = float(value)
         except ValueError:
-            raise err(n, f"critical_ratio {value!r} is not a number",
+            raise err(n, f"critical_ratio {excerpt(value)} is not a number",
                       "give a plain number or leave the key out") from None
         if not (rows[0][0] <= crit <= rows[-1][0]):
             raise err(n, f"critical_ratio {crit:g} lies outside the tabulated r/t "

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import math
 
-from profilebench.errors import InputError
+from profilebench.errors import InputError, excerpt
 
 __all__ = ["parse_number", "parse_length_mm", "parse_speed_kmh", "parse_optional", "format_mm"]
 
@@ -24,9 +24,9 @@ def parse_number(text: str, name: str, unit: str = "", minimum: float | None = N
     try:
         value = float(raw)
     except ValueError:
-        raise InputError(f"{name}: {text.strip()!r} is not a number; type a number{u}, e.g. 100") from None
+        raise InputError(f"{name}: {excerpt(text.strip())} is not a number; type a number{u}, e.g. 100") from None
     if not math.isfinite(value):
-        raise InputError(f"{name}: {text.strip()!r} is not a finite number; type a number{u}")
+        raise InputError(f"{name}: {excerpt(text.strip())} is not a finite number; type a number{u}")
     if minimum is not None and (value <= minimum if exclusive_minimum else value < minimum):
         op = ">" if exclusive_minimum else ">="
         raise InputError(f"{name} = {value:g}{u} is too small; it must be {op} {minimum:g}{u}")

@@ -42,6 +42,9 @@ LAPSE_TROPOSPHERE = -0.0065  # K/m
 H_TROPOPAUSE = 11000.0  # m, geopotential
 ALTITUDE_MIN = -2000.0  # m, geopotential
 ALTITUDE_MAX = 20000.0  # m, geopotential (top of the isothermal layer)
+# K: hottest air taken (an offset beyond weather or any tunnel is a slip; far beyond it the
+# viscosity law overflows): common practice, no source
+TEMPERATURE_MAX = 500.0
 
 _T_TROPOPAUSE = T_SEA_LEVEL + LAPSE_TROPOSPHERE * H_TROPOPAUSE  # 216.65 K
 _P_TROPOPAUSE = P_SEA_LEVEL * (_T_TROPOPAUSE / T_SEA_LEVEL) ** (
@@ -140,7 +143,8 @@ def standard_atmosphere(altitude: float = 0.0, temperature_offset: float = 0.0) 
     Raises
     ------
     ConditionsError
-        Altitude out of range, a non-finite input, or an absolute temperature <= 0 K.
+        Altitude out of range, a non-finite input, or an absolute temperature <= 0 K or above
+        TEMPERATURE_MAX (500 K).
     """
     h = _finite_number("altitude", altitude)
     dt = _finite_number("temperature_offset", temperature_offset)
@@ -156,6 +160,12 @@ def standard_atmosphere(altitude: float = 0.0, temperature_offset: float = 0.0) 
         raise ConditionsError(
             f"temperature_offset {dt!r} K gives an absolute temperature of {t:.4g} K at "
             f"{h:.0f} m; the offset must be above {-t_std:.2f} K there"
+        )
+    if t > TEMPERATURE_MAX:
+        raise ConditionsError(
+            f"temperature_offset {dt:.4g} K gives an absolute temperature of {t:.4g} K at "
+            f"{h:.0f} m, above the {TEMPERATURE_MAX:g} K taken for air; give an offset of at most "
+            f"{TEMPERATURE_MAX - t_std:.2f} K there"
         )
     rho = p / (GAS_CONSTANT * t)
     mu = sutherland_viscosity(t)

@@ -20,7 +20,12 @@ from dataclasses import dataclass, field, replace
 
 from profilebench.errors import GeometryError
 
-__all__ = ["Node", "Profile"]
+__all__ = ["Node", "Profile", "MAX_COORDINATE"]
+
+#: Largest magnitude of a node coordinate or radius (m). A road vehicle is under 50 m long; far
+#: beyond that a value is a slip (a unit, a typo) and near the float limit the geometry
+#: overflows (common practice, no source).
+MAX_COORDINATE = 10000.0
 
 
 @dataclass(frozen=True)
@@ -40,9 +45,15 @@ class Node:
                 raise GeometryError(
                     f"node {name} must be a number in metres, got {value!r}; give a plain float"
                 )
-            if not math.isfinite(value):
+            if isinstance(value, float) and not math.isfinite(value):
                 raise GeometryError(
                     f"node {name} is {value!r}; give a finite number in metres"
+                )
+            if abs(value) > MAX_COORDINATE:     # an int of any size compares without overflow
+                shown = f"{value:.4g} m" if abs(value) < 1e300 else "a number beyond any float"
+                raise GeometryError(
+                    f"node {name} = {shown} is beyond the limit of {MAX_COORDINATE:g} m; give "
+                    "it in metres (a vehicle is a few metres long)"
                 )
             object.__setattr__(self, name, float(value))
         if self.radius < 0:

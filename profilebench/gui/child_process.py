@@ -3,19 +3,21 @@
 Some libraries (matplotlib's Agg backend, Qt through PySide6) keep Python's global interpreter
 lock during each of their C++ calls, several ms each; run on a thread of the editor, such work
 stops the GUI thread as long. :class:`ChildProcess` runs it in a separate interpreter instead
-(``python -m profilebench.gui.child_process``): jobs and results cross its stdin and stdout as
-pickles. This module imports no Qt, so the child never loads it.
+(Python in isolated mode, ``-I``, with the import path given explicitly, so nothing lying in the
+current folder is imported): jobs and results cross its stdin and stdout as pickles. This module
+imports no Qt, so the child never loads it.
 """
 
 from __future__ import annotations
 
 import atexit
+import sys
 import threading
 import time
 import traceback
 
 __all__ = ["ChildProcess", "call", "call_with_keywords", "import_modules", "shared_child",
-           "CHILD_NICENESS"]
+           "child_command", "child_path", "CHILD_NICENESS"]
 
 # The child runs at a lower CPU priority (POSIX niceness increment) than the editor: when the
 # cores are busy, the GUI thread is scheduled first and background work waits instead.
@@ -23,7 +25,7 @@ CHILD_NICENESS = 5
 
 
 class ChildProcess:
-    """One Python child process that runs pickled ``fn(*args)`` jobs (``python -m`` this module).
+    """One Python child process that runs pickled ``fn(*args)`` jobs (:func:`child_command`).
 
     Requests go to the child's stdin and results come back on its stdout as pickles; a writer
     and a reader thread of this process do the piping (blocking pipe I/O releases the
@@ -53,19 +55,10 @@ class ChildProcess:
             return job
 
     def _start(self):
-        import os
         import queue
         import subprocess
-        import sys
-        from pathlib import Path
 
-        import profilebench
-
-        env = dict(os.environ)      # the child finds this very package first
-        root = str(Path(profilebench.__file__).resolve().parents[1])
-        env["PYTHONPATH"] = os.pathsep.join([root] + [p for p in [env.get("PYTHONPATH")] if p])
-        proc = subprocess.Popen([sys.executable, "-m", "profilebench.gui.child_process"],
-                                stdin=subprocess.PIPE, stdout=subprocess.PIPE, env=env)
+        proc = subprocess.Popen(child_command(), stdin=subprocess.PIPE, stdout=subprocess.PIPE)
         outbox = queue.Queue()
         self._proc, self._outbox = proc, outbox
         threading.Thread(target=self._write, args=(proc, outbox), daemon=True,
@@ -129,6 +122,43 @@ class ChildProcess:
         except Exception:
             proc.kill()
             proc.wait()
+
+
+#: the child's start: the import path is set before anything else is imported
+_BOOT = ("import sys; sys.path[:] = {path!r}; "
+         "from profilebench.gui.child_process import _serve; _serve()")
+
+
+def child_path() -> list[str]:
+    """The child's import path: this very package's folder first, then the editor's own path
+    without the current folder (a ``numpy.py`` lying in the folder the editor was started from
+    must not be imported)."""
+    import os
+    from pathlib import Path
+
+    import profilebench
+
+    root = str(Path(profilebench.__file__).resolve().parents[1])
+    try:
+        here = os.path.realpath(os.getcwd())
+    except OSError:                 # the current folder was deleted
+        here = None
+    path = [root]
+    for entry in sys.path:
+        if not entry or entry == "." or entry == root:
+            continue
+        if here is not None and os.path.realpath(entry) == here:
+            continue
+        if entry not in path:
+            path.append(entry)
+    return path
+
+
+def child_command() -> list[str]:
+    """The command that starts a child: Python in isolated mode (``-I``: no current folder or
+    script folder on the import path, no PYTHON* variables, no user site folder) with the import
+    path given explicitly by :func:`child_path`."""
+    return [sys.executable, "-I", "-c", _BOOT.format(path=child_path())]
 
 
 _shared: dict = {}

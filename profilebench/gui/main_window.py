@@ -50,6 +50,23 @@ BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px s
 BANNER_INFO = "background: #fff6d5; color: #5a4500; padding: 4px; border: 1px solid #e0d090;"
 
 
+#: longest autosave interval (ms): a day (a QTimer holds at most 2**31 - 1 ms, about 24.8 days)
+AUTOSAVE_MAX_MS = 24 * 3600 * 1000
+
+
+def _interval_ms(name, value) -> int:
+    """An autosave interval from a setting or the environment: whole ms, 100 ms to a day."""
+    try:
+        ms = float(value)
+    except (TypeError, ValueError):
+        raise InputError(f"{name} = {str(value)[:40]!r} is not a number; give the autosave "
+                         "interval in milliseconds, e.g. 60000") from None
+    if not 100 <= ms <= AUTOSAVE_MAX_MS:      # also refuses NaN and infinity
+        raise InputError(f"{name} = {str(value)[:40]!r} ms is outside 100 ms to "
+                         f"{AUTOSAVE_MAX_MS} ms (a day); give an interval in that range")
+    return int(ms)
+
+
 # the radius search (a bisection of whole analyses) runs in a child process of its own, through
 # that process's search cache; a search the shown analysis already ran is taken from it
 _search = functools.partial(call, "profilebench.assess.radius_search:cached_radius_search")
@@ -141,7 +158,12 @@ class MainWindow(QMainWindow):
         self._build_menus()
         self.statusBar().showMessage("ready")
         self.resize(1500, 950)
-        self.open_file(path) if path is not None else self.new_document()
+        self.startup_problems = []          # what went wrong at start-up, told once it is shown
+        if path is not None and not self.open_file(path):
+            self.startup_problems.append(f"{self.last_message}; the default profile is shown "
+                                         "instead")
+        if self.document is None:
+            self.new_document()
 
         self.recovery_dir = Path(recovery_dir if recovery_dir is not None else self._default_recovery_dir())
         self.autosave_ms = self._autosave_interval(autosave_ms)
@@ -151,7 +173,14 @@ class MainWindow(QMainWindow):
         self._autosave_timer.setInterval(self.autosave_ms)
         self._autosave_timer.timeout.connect(self.autosave)
         self._autosave_timer.start()
+        QTimer.singleShot(0, self._tell_startup_problems)   # after the caller could set report_error
         QTimer.singleShot(0, self.offer_recovery)   # after the caller could set ask_recover
+
+    def _tell_startup_problems(self):
+        if self.startup_problems:
+            text = "\n\n".join(self.startup_problems)
+            self.statusBar().showMessage(self.startup_problems[0], 20000)
+            self.report_error("Started with problems", text)
 
     # ------------------------------------------------------------------ construction
     def _dock(self, title, widget, area):
@@ -347,12 +376,14 @@ class MainWindow(QMainWindow):
 
     def export_image(self, path) -> bool:
         """Write the annotated view (review page) as PNG, SVG or PDF via profilebench.plotting."""
+        from profilebench.io.atomic import check_writable
         from profilebench.plotting import review_figure, save_figure
 
         if self.analysis is None:
             self._show_banner("nothing to export yet: no successful analysis", True)
             return False
         try:
+            check_writable(path)        # a folder that refuses files: a message, not an OSError
             baseline = self.baseline_analysis or self.document.baseline
             fig = review_figure(self.analysis, baseline=baseline)
             save_figure(fig, path)
@@ -658,6 +689,11 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ underlay
     def _underlay_from_image(self, path) -> Underlay:
+        from profilebench.io.atomic import check_input_file
+        from profilebench.io.project import MAX_UNDERLAY_BYTES
+
+        # a pipe, a device or a huge file would stall the image reader: refused first
+        check_input_file(path, "underlay image", "choose a PNG or JPEG image", MAX_UNDERLAY_BYTES)
         reader = QImageReader(str(path))
         size = reader.size()
         if not size.isValid() or size.width() <= 0:
@@ -819,20 +855,24 @@ class MainWindow(QMainWindow):
         return Path(base or Path.home() / ".profilebench") / "recovery"
 
     def _autosave_interval(self, given) -> int:
-        """The autosave interval (ms) from the argument, the environment or the settings."""
+        """The autosave interval (ms) from the argument, the environment or the settings.
+
+        A bad argument raises InputError; a bad environment variable or setting is reported
+        (in :attr:`startup_problems`) and the next source, or the default, is used.
+        """
         sources = [("autosave_ms argument", given), (AUTOSAVE_ENV, os.environ.get(AUTOSAVE_ENV)),
                    ("setting autosave_ms", self.settings.value("autosave_ms", None))]
         for name, value in sources:
             if value is None or value == "":
                 continue
             try:
-                ms = int(float(value))
-            except (TypeError, ValueError):
-                raise InputError(f"{name} = {value!r} is not a number; give the autosave interval "
-                                 "in milliseconds, e.g. 60000") from None
-            if ms < 100:
-                raise InputError(f"{name} = {value!r} ms is too short; give at least 100 ms")
-            return ms
+                return _interval_ms(name, value)
+            except InputError as exc:
+                if value is given:
+                    raise
+                self.startup_problems.append(f"{exc}; the autosave interval is "
+                                             f"{AUTOSAVE_MS} ms instead")
+                log.warning("%s", exc)
         return AUTOSAVE_MS
 
     def autosave(self) -> bool:
@@ -848,9 +888,14 @@ class MainWindow(QMainWindow):
         try:
             recovery.write_recovery(self.recovery_dir, doc)
         except ProfileBenchError as exc:
-            if self.autosave_error != str(exc):
+            if self.autosave_error != str(exc):     # told once per distinct failure
                 log.warning("recovery copy not written: %s", exc)
                 self.statusBar().showMessage(f"recovery copy not written: {exc}", 10000)
+                self.report_error(
+                    "Recovery copy not written",
+                    f"Your unsaved changes are not protected by a recovery copy:\n\n{exc}\n\n"
+                    "Save the project to keep them, or choose another recovery folder (setting "
+                    "recovery_dir).")
             self.autosave_error = str(exc)
             return False
         self.autosave_error = ""
@@ -881,17 +926,24 @@ class MainWindow(QMainWindow):
         """Offer the newest recovery copy left by a process that ended; True when restored."""
         from profilebench.io import load_project
 
-        copies = recovery.left_behind(self.recovery_dir)
+        copies, project = recovery.left_behind(self.recovery_dir), None
+        while copies and project is None:   # the newest copy that can be read
+            try:
+                project = load_project(copies[0].path)
+            except ProfileBenchError as exc:
+                try:
+                    aside = recovery.set_aside(self.recovery_dir, copies[0])
+                    where = f"set aside as {aside}"
+                except ProfileBenchError as why:
+                    where = str(why)
+                self._show_banner(f"the recovery copy {copies[0].path} cannot be read ({exc}); "
+                                  f"{where}", True)
+                copies.pop(0)
         if not copies:
             return False
         copy = copies[0]
         restored = False
         if self.ask_recover(copy):
-            try:
-                project = load_project(copy.path)
-            except ProfileBenchError as exc:
-                self._show_banner(f"the recovery copy {copy.path} cannot be read: {exc}", True)
-                return False
             doc = Document(project.profile, project.conditions, path=copy.origin,
                            baseline=project.baseline)
             doc.mark_unsaved()
@@ -924,8 +976,15 @@ class MainWindow(QMainWindow):
         return answer == "discard"
 
     def closeEvent(self, event):
-        if not self.confirm_discard():
-            event.ignore()
+        event.ignore()          # closed only when the work is saved or knowingly discarded
+        try:
+            allowed = self.confirm_discard()
+        except Exception as exc:        # a failure while saving must not close the window
+            log.exception("saving before closing failed")
+            self.report_error("Not closed", f"The project could not be saved ({exc}); the "
+                                            "window stays open so nothing is lost.")
+            allowed = False
+        if not allowed:
             return
         self.shutdown()
         self._autosave_timer.stop()

@@ -16,8 +16,8 @@ Reading rules (:func:`import_points_csv`):
   even a 1:50 model measured in millimetres spans more than 50 mm (common practice, no source).
   The decision and its reason come back in :class:`PointImport`. An explicit unit that contradicts
   the header is an error.
-- Non-numeric cells are reported with their line and column; NaN/infinite values and fewer than 3
-  points are refused.
+- Non-numeric cells are reported with their line and column; NaN/infinite values, points beyond
+  10 km, fewer than 3 points and more than :data:`MAX_POINTS` are refused.
 """
 
 from __future__ import annotations
@@ -29,13 +29,14 @@ from pathlib import Path
 
 import numpy as np
 
-from profilebench.errors import InputError, ProjectFileError
-from profilebench.geometry.profile import Node, Profile
+from profilebench.errors import InputError, ProjectFileError, excerpt
+from profilebench.geometry.profile import MAX_COORDINATE, Node, Profile
 from profilebench.io.atomic import atomic_write_text, read_input_bytes
 
 __all__ = [
     "MM_THRESHOLD",
     "MAX_POINTS_BYTES",
+    "MAX_POINTS",
     "PointImport",
     "import_points_csv",
     "read_points_csv",
@@ -47,6 +48,10 @@ __all__ = [
 MM_THRESHOLD = 50.0
 #: Largest point file read (bytes), refused before reading.
 MAX_POINTS_BYTES = 20 * 1024 * 1024
+#: Most points read from a point file. A digitised side outline has hundreds to a few thousand
+#: points; fitting an outline of 20000 took 45 s (measured), so more is refused with a remedy
+#: rather than left to run for minutes.
+MAX_POINTS = 10000
 
 _MM_WORDS = {"mm", "millimetre", "millimetres", "millimeter", "millimeters"}
 _M_WORDS = {"m", "metre", "metres", "meter", "meters"}
@@ -186,7 +191,11 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         # else: two columns whose header names no x and y: taken as x, y in that order
     ncols = len(header) if header is not None else 2
 
-    rows = []
+    if len(lines) > MAX_POINTS:         # the header row is already taken off
+        raise ProjectFileError(
+            f"{shown!r} has {len(lines)} points, over the limit of {MAX_POINTS} for an "
+            "outline; thin it out (keep every second or tenth point) and import it again")
+    rows, row_lines = [], []
     decimal_comma = False
     for number, content in lines:
         cells = _split(content, delimiter)
@@ -200,16 +209,17 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
             parsed = _to_float(cells[col], delimiter)
             if parsed is None:
                 raise ProjectFileError(
-                    f"{shown!r} line {number}, column {col + 1}: {cells[col]!r} is not a number; "
-                    "fix that cell or remove the line")
+                    f"{shown!r} line {number}, column {col + 1}: {excerpt(cells[col])} is not a "
+                    "number; fix that cell or remove the line")
             value, used = parsed
             if not math.isfinite(value):
                 raise ProjectFileError(
-                    f"{shown!r} line {number}, column {col + 1}: {cells[col]!r} is not a finite "
-                    "number; remove or fix that point")
+                    f"{shown!r} line {number}, column {col + 1}: {excerpt(cells[col])} is not a "
+                    "finite number; remove or fix that point")
             decimal_comma |= used
             values.append(value)
         rows.append(values)
+        row_lines.append(number)
     if len(rows) < 3:
         raise ProjectFileError(
             f"{shown!r} has {len(rows)} point(s); an outline needs at least 3: add points")
@@ -234,6 +244,13 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
             reason = f"largest extent {extent:.6g} <= {MM_THRESHOLD:g}, so metres"
     if chosen == "mm":
         pts = pts / 1000.0
+    beyond = np.flatnonzero(np.any(np.abs(pts) > MAX_COORDINATE, axis=1))
+    if beyond.size:
+        k = int(beyond[0])
+        raise ProjectFileError(
+            f"{shown!r} line {row_lines[k]}: the point ({rows[k][0]:.4g}, {rows[k][1]:.4g}) {chosen} "
+            f"lies beyond {MAX_COORDINATE:g} m from the origin, farther than any vehicle; fix "
+            "that point, or give the unit (units='mm' or 'm') if it was misread")
     return PointImport(pts, chosen, reason, delimiter, decimal_comma, header)
 
 

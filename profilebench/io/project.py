@@ -20,8 +20,11 @@ node ``radius`` (0), ``smooth`` (false) and ``label`` (""). Unknown keys are ref
 usually a misspelt field that would otherwise be ignored).
 
 Reading uses the :mod:`json` module only (data, never code). Every field is checked and the first
-bad one is reported with its JSON path, e.g. ``profile.nodes[3].radius``. Saving is atomic
-(see :mod:`profilebench.io.atomic`).
+bad one is reported with its JSON path, e.g. ``profile.nodes[3].radius``. Limits keep a wrong or
+hostile file from costing time or memory: at most :data:`MAX_PROJECT_BYTES` bytes, at most
+:data:`MAX_NODES` nodes per profile (counted while the JSON is parsed, before any node is built),
+whole numbers of at most :data:`MAX_INTEGER_DIGITS` digits, and text without lone surrogates
+(which no file or terminal can encode). Saving is atomic (see :mod:`profilebench.io.atomic`).
 """
 
 from __future__ import annotations
@@ -41,6 +44,9 @@ __all__ = [
     "FORMAT_VERSION",
     "UNITS",
     "MAX_PROJECT_BYTES",
+    "MAX_NODES",
+    "MAX_INTEGER_DIGITS",
+    "MAX_UNDERLAY_BYTES",
     "Underlay",
     "Project",
     "profile_to_dict",
@@ -59,6 +65,17 @@ UNITS = "SI (m, m/s)"
 #: Largest project file read (bytes). A real project is a few kB; the limit stops a wrong file
 #: (an image, a data dump) from being read into memory.
 MAX_PROJECT_BYTES = 20 * 1024 * 1024
+#: Most nodes in one profile. A drawn profile has tens of nodes and a fitted outline a few
+#: hundred; this is far above both and keeps a solve of the outline quick (common practice, no
+#: source).
+MAX_NODES = 5000
+#: Most JSON objects in a project file: two profiles of MAX_NODES nodes and a few more objects.
+MAX_OBJECTS = 2 * MAX_NODES + 100
+#: Longest whole number (digits) in a project file: no field needs more (a node index, a panel
+#: count), and Python refuses to convert ones over 4300 digits.
+MAX_INTEGER_DIGITS = 30
+#: Largest underlay image read (bytes).
+MAX_UNDERLAY_BYTES = 200 * 1024 * 1024
 
 
 def _conditions_class():
@@ -239,7 +256,27 @@ def _fail(path: str, what: str):
     raise ProjectFileError(f"{path}: {what}", path=path)
 
 
+class _HugeInteger:
+    """A whole number in the file with more than MAX_INTEGER_DIGITS digits (never converted)."""
+
+    __slots__ = ("digits",)
+
+    def __init__(self, text: str):
+        self.digits = len(text.lstrip("-"))
+
+    def __repr__(self):
+        return f"a whole number of {self.digits} digits"
+
+
+def _parse_int(text: str):
+    if len(text.lstrip("-")) > MAX_INTEGER_DIGITS:
+        return _HugeInteger(text)
+    return int(text)
+
+
 def _show(value) -> str:
+    if isinstance(value, _HugeInteger):
+        return repr(value)
     if isinstance(value, float) and not math.isfinite(value):
         return repr(value)
     text = json.dumps(value, ensure_ascii=True) if isinstance(value, (str, int, float, bool, type(None))) else type(value).__name__
@@ -251,7 +288,7 @@ def _kind(value) -> str:
         return "null"
     if isinstance(value, bool):
         return "a boolean"
-    if isinstance(value, (int, float)):
+    if isinstance(value, (int, float, _HugeInteger)):
         return "a number"
     if isinstance(value, str):
         return "a string"
@@ -285,6 +322,8 @@ def _join(path: str, key: str) -> str:
 
 
 def _number(value, path: str, unit: str = "in metres") -> float:
+    if isinstance(value, _HugeInteger):
+        _fail(path, f"number {unit} is too large: {_show(value)}; give a plain number")
     if isinstance(value, bool) or not isinstance(value, (int, float)):
         _fail(path, f"expected a number {unit}, got {_show(value)}")
     try:
@@ -299,6 +338,10 @@ def _number(value, path: str, unit: str = "in metres") -> float:
 def _string(value, path: str) -> str:
     if not isinstance(value, str):
         _fail(path, f"expected a string, got {_show(value)}")
+    surrogate = next((i for i, c in enumerate(value) if "\ud800" <= c <= "\udfff"), None)
+    if surrogate is not None:
+        _fail(path, f"holds a lone surrogate {value[surrogate]!r} at character {surrogate}, which "
+              "is not a character (no file or screen can show it); fix or retype that text")
     return value
 
 
@@ -345,6 +388,9 @@ def profile_from_dict(d, path: str = "profile") -> Profile:
         _fail(npath, f"expected a list of node objects, got {_kind(nodes_raw)}")
     if len(nodes_raw) < 3:
         _fail(npath, f"has {len(nodes_raw)} node(s); a closed outline needs at least 3")
+    if len(nodes_raw) > MAX_NODES:
+        _fail(npath, f"has {len(nodes_raw)} nodes, over the limit of {MAX_NODES}; simplify the "
+              "outline (fit it with fewer nodes)")
     nodes = tuple(_node_from_dict(n, f"{npath}[{i}]") for i, n in enumerate(nodes_raw))
     te = d.get("trailing_edge", None)
     tpath = _join(path, "trailing_edge")
@@ -421,6 +467,9 @@ def project_from_dict(d) -> Project:
               "the lengths to metres and speeds to m/s")
     profile = profile_from_dict(d["profile"], "profile")
     cond_raw = _obj(d["conditions"], "conditions", "a conditions object")
+    for key, value in cond_raw.items():
+        if isinstance(value, _HugeInteger):
+            _fail(f"conditions.{key}", f"number is too large: {_show(value)}; give a plain number")
     try:
         conditions = _conditions_class().from_dict(cond_raw)
     except ProfileBenchError as exc:
@@ -453,7 +502,14 @@ def _reject_constant(name):
     return float(name)
 
 
-def _pairs_no_duplicates(pairs):
+def _pairs_no_duplicates(pairs, counter=None):
+    if counter is not None:
+        counter[0] += 1
+        if counter[0] > MAX_OBJECTS:
+            raise ProjectFileError(
+                f"the file holds more than {MAX_OBJECTS} JSON objects, more than a project of "
+                f"two profiles of {MAX_NODES} nodes each has; simplify the outline or choose "
+                "the right file")
     out = {}
     for key, value in pairs:
         if key in out:
@@ -472,8 +528,9 @@ def load_project(path) -> Project:
     ------
     ProjectFileError
         For a missing file, a folder, an empty, oversized (over :data:`MAX_PROJECT_BYTES`,
-        refused before reading), non-UTF-8, non-JSON or truncated file, and for the first bad
-        field (its JSON path in the message and in ``.path``).
+        refused before reading), non-UTF-8, non-JSON or truncated file, a file of more than
+        :data:`MAX_NODES` nodes in a profile (refused while parsing, before any node is
+        built), and for the first bad field (its JSON path in the message and in ``.path``).
     """
     p = Path(path)
     shown = str(p)
@@ -486,8 +543,10 @@ def load_project(path) -> Project:
         raise ProjectFileError(
             f"{shown!r} is not UTF-8 text (byte {exc.start}); it is not a profilebench project file"
         ) from exc
+    counter = [0]
     try:
-        data = json.loads(text, parse_constant=_reject_constant, object_pairs_hook=_pairs_no_duplicates)
+        data = json.loads(text, parse_constant=_reject_constant, parse_int=_parse_int,
+                          object_pairs_hook=lambda pairs: _pairs_no_duplicates(pairs, counter))
     except json.JSONDecodeError as exc:
         if exc.pos >= len(text.rstrip()):
             raise ProjectFileError(
@@ -500,6 +559,11 @@ def load_project(path) -> Project:
         ) from exc
     except RecursionError as exc:
         raise ProjectFileError(f"{shown!r} is nested too deeply to be a project file") from exc
+    except ValueError as exc:    # ProjectFileError passes through; anything else the parser refuses
+        if isinstance(exc, ProjectFileError):
+            raise
+        raise ProjectFileError(f"{shown!r} cannot be read as a project file ({exc}); choose a "
+                               "profilebench project file") from exc
     return project_from_dict(data)
 
 
@@ -507,6 +571,10 @@ def load_project(path) -> Project:
 # Underlay paths
 # --------------------------------------------------------------------------------------------
 def _relative_parts(rel: str):
+    if any(ord(c) < 32 for c in rel):
+        raise ProjectFileError(
+            f"underlay.path {rel!r} holds a control character (such as NUL), which no file name "
+            "can; give the image's file name relative to the project file", path="underlay.path")
     text = rel.replace("\\", "/")
     if PurePosixPath(text).is_absolute() or PureWindowsPath(rel).is_absolute() or PureWindowsPath(rel).drive:
         raise ProjectFileError(
@@ -530,9 +598,14 @@ def resolve_underlay(project: Project, project_path) -> Path | None:
     """
     if project.underlay is None:
         return None
-    base = Path(project_path).resolve().parent
     parts = _relative_parts(project.underlay.path)
-    target = base.joinpath(*parts).resolve()
+    try:
+        base = Path(project_path).resolve().parent
+        target = base.joinpath(*parts).resolve()
+    except (OSError, RuntimeError, ValueError) as exc:   # a loop of links (RuntimeError < 3.13)
+        raise ProjectFileError(
+            f"underlay.path {project.underlay.path!r} cannot be followed ({exc}); put the image "
+            "itself in the project folder", path="underlay.path") from exc
     if not target.is_relative_to(base):
         raise ProjectFileError(
             f"underlay.path {project.underlay.path!r} resolves to {str(target)!r}, outside the "

@@ -5,8 +5,6 @@ The page is a plain :class:`matplotlib.figure.Figure` with an Agg canvas (no pyp
 
 from __future__ import annotations
 
-import os
-import tempfile
 from pathlib import Path
 
 from matplotlib.backends.backend_agg import FigureCanvasAgg
@@ -136,15 +134,7 @@ def save_figure(fig, path, dpi=None) -> Path:
         )
     if target.is_dir():
         raise InputError(f"cannot write {str(target)!r}: it is a folder; give a file name")
-    fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            fig.savefig(fh, format=fmt, dpi=dpi or fig.dpi)
-        os.replace(tmp, target)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except FileNotFoundError:
-            pass
-        raise
-    return target
+    from profilebench.io.atomic import atomic_write_bytes
+
+    # atomic, through links, a killed writer's temporary files cleaned (profilebench.io.atomic)
+    return atomic_write_bytes(target, lambda fh: fig.savefig(fh, format=fmt, dpi=dpi or fig.dpi))

@@ -15,7 +15,7 @@ from hypothesis import strategies as st
 import profilebench.io.project as project_module
 from profilebench.assess.conditions import Conditions
 from profilebench.errors import InputError, ProfileBenchError, ProjectFileError
-from profilebench.geometry.profile import Node, Profile
+from profilebench.geometry.profile import MAX_COORDINATE, Node, Profile
 from profilebench.io import (
     FORMAT_VERSION,
     Project,
@@ -69,7 +69,9 @@ def test_loading_never_modifies_the_file(tmp_path):
     assert (path.read_bytes(), path.stat().st_mtime_ns) == before
 
 
-finite = st.floats(min_value=-1e6, max_value=1e6, allow_nan=False, allow_infinity=False)
+# every coordinate a node may hold (profilebench.geometry.profile.MAX_COORDINATE)
+finite = st.floats(min_value=-MAX_COORDINATE, max_value=MAX_COORDINATE, allow_nan=False,
+                   allow_infinity=False)
 radius = st.floats(min_value=0.0, max_value=10.0, allow_nan=False)
 
 
@@ -227,7 +229,7 @@ def test_huge_file_is_refused_before_reading(tmp_path, monkeypatch):
         return real_open(*args, **kw)
 
     monkeypatch.setattr("builtins.open", spy)
-    with pytest.raises(ProjectFileError, match="MB limit"):
+    with pytest.raises(ProjectFileError, match="MiB limit"):
         load_project(path)
     assert Path(path) not in [Path(p) for p in opened if isinstance(p, (str, os.PathLike))]
 

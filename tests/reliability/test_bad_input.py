@@ -279,7 +279,7 @@ def test_project_that_is_huge_is_refused_before_reading(tmp_path):
         fh.truncate(MAX_PROJECT_BYTES + 1)
     with pytest.raises(ProjectFileError) as info:
         load_project(path)
-    assert "MB" in str(info.value) and "limit" in str(info.value)
+    assert "20 MiB" in str(info.value) and "limit" in str(info.value)  # 20 * 2**20 bytes
 
 
 @pytest.mark.parametrize("make", ["missing", "folder"])

@@ -6,11 +6,8 @@ from __future__ import annotations
 import json
 import os
 import pickle
-import signal
-import subprocess
 import sys
 import textwrap
-import time
 from pathlib import Path
 
 import pytest
@@ -22,7 +19,7 @@ from profilebench.errors import ProjectFileError
 from profilebench.io import Project, Underlay, resolve_underlay
 from profilebench.io.samples import default_sample_path
 
-from reliability_helpers import write_json
+from reliability_helpers import kill_while_saving, write_json
 
 CHILD = textwrap.dedent("""
     import sys, dataclasses
@@ -41,15 +38,7 @@ CHILD = textwrap.dedent("""
 def test_sigkill_during_saves_leaves_a_complete_project(tmp_path, delay):
     target = tmp_path / "project.json"
     base = load_project(default_sample_path())
-    proc = subprocess.Popen([sys.executable, "-c", CHILD, str(default_sample_path()), str(target)])
-    try:
-        t0 = time.monotonic()
-        while not target.exists() and time.monotonic() - t0 < 20:
-            time.sleep(0.01)
-        time.sleep(delay)
-    finally:
-        proc.send_signal(signal.SIGKILL)
-        proc.wait()
+    kill_while_saving(CHILD, default_sample_path(), target, delay)
     assert target.exists()
     loaded = load_project(target)
     # the file equals one of the saved versions: the base project with notes "version k xxx..."
