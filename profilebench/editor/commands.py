@@ -3,8 +3,8 @@
 Profiles and conditions are immutable values, so an edit keeps both states and undo restores the
 very same value (exact, no re-computation). The functions below check the user's input and build
 the edit; they raise a :class:`~profilebench.errors.ProfileBenchError` subclass with a message
-saying what is wrong and how to fix it. Apply an edit with :class:`~profilebench.editor.history.History`
-or, in the window, through the Qt undo stack.
+saying what is wrong and how to fix it. Apply an edit with ``Document.set_state(edit.after)``;
+the window records it as one step of its Qt undo stack (profilebench.gui.undo.push_edit).
 """
 
 from __future__ import annotations

@@ -29,7 +29,7 @@ from profilebench.gui.canvas import ProfileCanvas
 from profilebench.gui.conditions_panel import ConditionsPanel
 from profilebench.gui.node_panel import NodePanel
 from profilebench.gui.results_panels import CornerTable, PlotPanel, SummaryPanel
-from profilebench.gui.undo import EditCommand
+from profilebench.gui.undo import push_edit
 from profilebench.gui.child_process import call
 from profilebench.gui.worker import AnalysisRunner, ProcessTaskRunner
 
@@ -409,13 +409,8 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ edits
     def push(self, edit) -> bool:
-        """Apply an editor edit as one undo step."""
-        if not edit.changes_anything:
-            # a drag that ended where it started: make sure the document shows the start
-            self.document.set_state(edit.after)
-            return False
-        self.undo_stack.push(EditCommand(self.document, edit))
-        return True
+        """Apply an editor edit as one undo step (nothing recorded if it changes nothing)."""
+        return push_edit(self.undo_stack, self.document, edit)
 
     def _try(self, make_edit) -> bool:
         """Build an edit and push it; a refused edit shows its reason in the banner."""

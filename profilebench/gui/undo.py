@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from PySide6.QtGui import QUndoCommand
 
-__all__ = ["EditCommand"]
+__all__ = ["EditCommand", "push_edit"]
 
 
 class EditCommand(QUndoCommand):
@@ -20,3 +20,16 @@ class EditCommand(QUndoCommand):
 
     def undo(self):
         self.document.set_state(self.edit.before)
+
+
+def push_edit(stack, document, edit) -> bool:
+    """Apply ``edit`` to ``document`` as one step of the QUndoStack ``stack``.
+
+    An edit that changes nothing (a drag that ended where it started) is not recorded; the
+    document is still set to its state, so that it shows the start. Returns whether it was pushed.
+    """
+    if not edit.changes_anything:
+        document.set_state(edit.after)
+        return False
+    stack.push(EditCommand(document, edit))
+    return True

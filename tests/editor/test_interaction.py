@@ -9,7 +9,6 @@ from shapely.geometry import LineString, Point
 
 from profilebench.assess.conditions import Conditions
 from profilebench.editor.document import Document
-from profilebench.editor.history import History
 from profilebench.editor.interaction import (
     NodeDrag,
     RadiusDrag,
@@ -87,21 +86,6 @@ def test_snap(value, grid, expected):
 def test_snap_refuses_negative_grid():
     with pytest.raises(InputError):
         snap(1.0, -0.01)
-
-
-def test_whole_drag_is_one_undo_step_and_undo_is_exact():
-    doc = Document(BOX, Conditions())
-    history = History(doc)
-    sx, sy = VIEW.to_screen(*BOX.xy[1])
-    drag = NodeDrag(doc.state, 1, VIEW, sx + 3, sy + 2)   # grabbed a little off the centre
-    for k in range(1, 31):
-        doc.preview_profile(drag.move(VIEW, sx + 3 + k, sy + 2 - k))
-    history.push(drag.finish())
-    # the grab offset is kept: the node moved by exactly the cursor's displacement
-    assert doc.profile.xy[1] == pytest.approx((4.0 + 30 / 100.0, 0.2 + 30 / 100.0))
-    assert len(history) == 1
-    history.undo()
-    assert doc.profile == BOX
 
 
 def test_drag_snaps_to_grid():
