@@ -1,3 +1,5 @@
+"""The flow: inviscid panel method with ground, stagnation split, boundary layers, wake model."""
+
 from profilebench.flow.panel import (  # inviscid panel method
     InviscidSolution,
     InviscidStatus,
@@ -24,3 +26,10 @@ from profilebench.flow.profile_flow import (  # both surfaces of a profile
     SurfaceFlow,
     solve_profile_flow,
 )
+
+__all__ = [
+    "InviscidSolution", "InviscidStatus", "solve_inviscid", "solve_inviscid_bodies",
+    "SplitStatus", "Surface", "SurfaceEnd", "SurfaceSplit", "split_surfaces",
+    "BoundaryLayerResult", "Event", "MarchStatus", "Regime", "march_boundary_layer",
+    "FlowStatus", "ProfileFlow", "SurfaceFlow", "solve_profile_flow",
+]

@@ -240,6 +240,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
         inv_h = 1.0 / hseg
         target = min(sb, s_end)
         x_known = None  # position whose u, du are already known (end of the last sub-step)
+        u1 = du1 = 0.0   # the edge speed there (set by the first sub-step)
         while x < target:
             if x == x_known:
                 u0, du0 = u1, du1
