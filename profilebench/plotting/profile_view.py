@@ -12,6 +12,7 @@ from matplotlib.patches import Patch, Polygon, Rectangle
 
 from profilebench.assess.results import Verdict
 from profilebench.errors import InputError
+from profilebench.plotting.labels import FRONT_FRACTION, LABEL_GID, LEADER_GID, LabelSpec, place_labels
 from profilebench.plotting.stations import is_analysis, outline_of
 from profilebench.plotting.style import (
     BASELINE_COLOUR,
@@ -23,6 +24,11 @@ from profilebench.plotting.style import (
 )
 
 __all__ = ["draw_profile", "draw_events", "bubbles", "corner_label", "CP_FLOOR"]
+
+#: gids of the hatched areas (labels keep off them; tests find them by these)
+GROUND_GID = "ground-band"
+SEPARATED_GID = "separated-flow"
+BASELINE_CHANGE_GID = "baseline-change"
 
 #: Lowest Cp of the colour scale on the outline (display only; the data are not changed).
 CP_FLOOR = -3.0
@@ -92,103 +98,71 @@ def corner_label(corner) -> str:
     return text
 
 
-def _overlap_area(bb, others):
-    total = 0.0
-    for o in others:
-        w = min(bb.x1, o.x1) - max(bb.x0, o.x0)
-        h = min(bb.y1, o.y1) - max(bb.y0, o.y0)
-        if w > 0 and h > 0:
-            total += w * h
-    return total
+def _fill_box(ax, xlim, ylim):
+    """Set limits that hold ``xlim`` and ``ylim`` and fill the axes box at equal aspect:
+    the spare width (or height, above the profile) becomes room for labels."""
+    fig = ax.figure
+    pos = ax.get_position()
+    box_w = pos.width * fig.get_figwidth()
+    box_h = pos.height * fig.get_figheight()
+    (x0, x1), (y0, y1) = xlim, ylim
+    want_w = (y1 - y0) * box_w / box_h
+    if want_w > x1 - x0:
+        grow = 0.5 * (want_w - (x1 - x0))
+        x0, x1 = x0 - grow, x1 + grow
+    else:
+        y1 = y0 + (x1 - x0) * box_h / box_w
+    ax.set_xlim(x0, x1)
+    ax.set_ylim(y0, y1)
 
 
-def _outside_area(bb, frame):
-    w = max(0.0, min(bb.x1, frame.x1) - max(bb.x0, frame.x0))
-    h = max(0.0, min(bb.y1, frame.y1) - max(bb.y0, frame.y0))
-    return bb.width * bb.height - w * h
+def _label_colour(corner):
+    if corner.verdict.separated:
+        return OKABE_ITO["vermillion"]
+    if corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES):
+        return OKABE_ITO["bluish_green"]
+    return OKABE_ITO["black"]  # in the wake of an upstream separation, or concave
 
 
-def _label_corners(ax, corners, x, y, scale, avoid=()):
-    """Place one label per corner outside the outline, avoiding other labels and the outline.
+def _label_corners(ax, corners, x, y, *, obstacles, markers, ground, scale):
+    """One label per corner, placed by :func:`profilebench.plotting.labels.place_labels`.
 
-    Candidate positions lie on rays from the corner, pointing away from the outline's centroid
-    and turned by up to +-80 degrees, at growing distances. Each candidate is scored by its
-    overlap (in display pixels^2) with labels already placed, with the outline, and with the
-    area outside the axes; the first candidate with no overlap wins, else the least-overlapping.
-    Without a renderer (a canvas that cannot measure text) the first candidate is used.
+    Labels keep outside the outline, off the hatching and markers, away from the front 30 % of
+    the outline where they can, and apart from each other, each with a leader line to its
+    corner. When some label finds no free place the axes get more room above the profile (and
+    at its ends) and the placement is made again, up to four times.
+    Without a renderer (a canvas that cannot measure text) labels stay at their corners.
     """
     if not corners:
         return []
-    cx, cy = float(np.mean(x)), float(np.mean(y))
-    fig = ax.figure
-    renderer = None
-    if hasattr(fig.canvas, "get_renderer"):
-        try:
-            renderer = fig.canvas.get_renderer()
-        except Exception:
-            renderer = None
-    if renderer is not None:
-        ax.apply_aspect()  # the final axes box: text extents measured now stay valid
-        frame = ax.get_window_extent(renderer)
-        # the outline, densified so that short labels cannot slip between its points
-        xc, yc = _closed(x, y)
-        t = np.linspace(0.0, len(xc) - 1.0, 4 * len(xc))
-        dense = np.column_stack([np.interp(t, np.arange(len(xc)), xc),
-                                 np.interp(t, np.arange(len(yc)), yc)])
-        if len(avoid):
-            # event markers count heavily: a label must not hide a marker
-            dense = np.vstack([dense] + [np.asarray(avoid, dtype=float)] * 20)
-        dense = ax.transData.transform(dense)
-    placed, texts = [], []
+    texts = []
     for c in corners:
-        d = np.array([c.x - cx, c.y - cy])
-        d = d / (np.hypot(*d) or 1.0)
-        if c.verdict.separated:
-            colour = OKABE_ITO["vermillion"]
-        elif c.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES):
-            colour = OKABE_ITO["bluish_green"]
-        else:  # in the wake of an upstream separation, or concave
-            colour = OKABE_ITO["black"]
-        text = ax.annotate(
-            corner_label(c), xy=(c.x, c.y), xytext=(c.x, c.y), textcoords="data",
-            fontsize=7, ha="center", va="center", color=OKABE_ITO["black"],
-            bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.9),
-            arrowprops=dict(arrowstyle="-", color=colour, lw=0.8), zorder=8,
-        )
-        best, best_score = None, np.inf
-        for dist in (0.08, 0.13, 0.19, 0.26):
-            for ang in (0.0, 20.0, -20.0, 40.0, -40.0, 60.0, -60.0, 80.0, -80.0):
-                a = np.radians(ang)
-                dd = (d[0] * np.cos(a) - d[1] * np.sin(a), d[0] * np.sin(a) + d[1] * np.cos(a))
-                pos = (c.x + dist * scale * dd[0], c.y + dist * scale * dd[1])
-                if renderer is None:
-                    best = pos
-                    break
-                text.xyann = pos
-                bb = text.get_window_extent(renderer)
-                m = 7.0  # px: about half a marker, so a label does not cover a marker's edge
-                hits = np.count_nonzero((dense[:, 0] > bb.x0 - m) & (dense[:, 0] < bb.x1 + m)
-                                        & (dense[:, 1] > bb.y0 - m) & (dense[:, 1] < bb.y1 + m))
-                score = (_overlap_area(bb, placed) + 4.0 * _outside_area(bb, frame)
-                         + 50.0 * hits + 1e-3 * dist)
-                if score < best_score:
-                    best, best_score = pos, score
-                if score < 1.0:
-                    break
-            if renderer is None or best_score < 1.0:
-                break
-        text.xyann = best
-        if renderer is not None:
-            # shift a label that still pokes out of the axes back inside (by its overflow)
-            bb = text.get_window_extent(renderer)
-            shift_px = (max(frame.x0 + 1.0 - bb.x0, 0.0) - max(bb.x1 - (frame.x1 - 1.0), 0.0),
-                        max(frame.y0 + 1.0 - bb.y0, 0.0) - max(bb.y1 - (frame.y1 - 1.0), 0.0))
-            if shift_px != (0.0, 0.0):
-                inv = ax.transData.inverted()
-                p0 = ax.transData.transform(best)
-                text.xyann = tuple(inv.transform((p0[0] + shift_px[0], p0[1] + shift_px[1])))
-            placed.append(text.get_window_extent(renderer))
-        texts.append(text)
+        colour = _label_colour(c)
+        texts.append(ax.text(
+            c.x, c.y, corner_label(c), fontsize=7, ha="center", va="center",
+            color=OKABE_ITO["black"], gid=LABEL_GID, zorder=8,
+            bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.95),
+        ))
+    fig = ax.figure
+    if not hasattr(fig.canvas, "get_renderer"):
+        return texts
+    xmin, xmax = float(np.min(x)), float(np.max(x))
+    front_x = xmin + FRONT_FRACTION * (xmax - xmin)
+    in_front = x <= front_x
+    front_box = (xmin - 0.02 * scale, float(np.min(y[in_front])) if not ground else 0.0,
+                 front_x, float(np.max(y[in_front])) + 0.03 * scale)
+    specs = [LabelSpec((c.x, c.y), t, _label_colour(c)) for c, t in zip(corners, texts)]
+    outline_xy = np.column_stack([x, y])
+    for attempt in range(5):
+        failed = place_labels(ax, specs, outline_xy=outline_xy, obstacles=obstacles,
+                              markers_xy=markers, front_box=front_box)
+        if failed == 0 or attempt == 4:
+            break
+        for line in [ln for ln in ax.lines if ln.get_gid() == LEADER_GID]:
+            line.remove()
+        x0, x1 = ax.get_xlim()
+        y0, y1 = ax.get_ylim()
+        _fill_box(ax, (x0 - 0.04 * scale, x1 + 0.04 * scale), (y0, y1 + 0.1 * scale))
     return texts
 
 
@@ -220,7 +194,7 @@ def _shade_separated(ax, x, y, mask, depth):
         poly = np.column_stack([np.concatenate([px, ox[::-1]]), np.concatenate([py, oy[::-1]])])
         handle = ax.add_patch(Polygon(poly, closed=True, facecolor=SEPARATED_COLOUR, alpha=0.35,
                                       edgecolor="none", hatch="///", zorder=2,
-                                      label="separated flow"))
+                                      label="separated flow", gid=SEPARATED_GID))
     return handle
 
 
@@ -248,7 +222,7 @@ def _baseline_difference(ax, baseline_xy, current_xy):
         path = MplPath.make_compound_path(*[MplPath(r, closed=True) for r in rings])
         handle = ax.add_patch(PathPatch(path, facecolor="none", edgecolor=BASELINE_COLOUR,
                                         hatch="xx", linewidth=0.0, zorder=1,
-                                        label="change from baseline"))
+                                        label="change from baseline", gid=BASELINE_CHANGE_GID))
     return handle
 
 
@@ -361,7 +335,8 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         strip = 0.04 * scale
         x0, x1 = float(x.min()) - 0.1 * length, float(x.max()) + 0.1 * length
         ax.add_patch(Rectangle((x0, -strip), x1 - x0, strip, facecolor="white",
-                               edgecolor=OKABE_ITO["black"], hatch="////", linewidth=0.0, zorder=1))
+                               edgecolor=OKABE_ITO["black"], hatch="////", linewidth=0.0, zorder=1,
+                               gid=GROUND_GID))
         ax.plot([x0, x1], [0.0, 0.0], color=OKABE_ITO["black"], lw=1.2, zorder=2)
         legend_handles.append(Patch(facecolor="white", edgecolor=OKABE_ITO["black"], hatch="////",
                                     label="ground (y = 0)"))
@@ -369,9 +344,9 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     ax.set_aspect("equal", adjustable="box")
     labelled = analysis is not None and corners and len(analysis.corners) > 0
     pad = 0.28 * scale if labelled else 0.08 * scale
-    ax.set_xlim(float(x.min()) - pad, float(x.max()) + pad)
     ylo = -0.06 * scale if ground else float(y.min()) - 0.6 * pad
-    ax.set_ylim(min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.45 * pad)
+    _fill_box(ax, (float(x.min()) - pad, float(x.max()) + pad),
+              (min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.45 * pad))
     ax.set_xlabel("x, rearward (m)")
     ax.set_ylabel("y, up (m)")
     if title is None:
@@ -379,8 +354,11 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     ax.set_title(title)
 
     if analysis is not None and corners:
-        avoid = [(e.x, e.y) for e in analysis.events] if events else []
-        out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, scale, avoid)
+        markers = [(e.x, e.y) for e in analysis.events] if events else []
+        hatched = [p for p in ax.patches
+                   if p.get_gid() in (GROUND_GID, SEPARATED_GID, BASELINE_CHANGE_GID)]
+        out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, obstacles=hatched,
+                                              markers=markers, ground=ground, scale=scale)
 
     if legend and legend_handles:
         if legend_outside:
