@@ -158,11 +158,12 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
 
     Returns
     -------
-    int
-        The number of labels that found no free place (placed where they overlap least).
+    (int, int)
+        The numbers of labels that found no free place (placed where they overlap least) and
+        of labels that found one only with a leader crossing the body, the ground or a label.
     """
     if not specs:
-        return 0
+        return 0, 0
     fig = ax.figure
     if renderer is None:
         renderer = fig.canvas.get_renderer()
@@ -223,13 +224,14 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
         score = leader + 600.0 * in_front
         return blocked, score, bx0, by0, px, py
 
-    def leaders_ok(k, ends):
-        """For each end point (n, 2): does the leader from the corner keep off the body, the
-        ground band and the labels placed (outside the corner's own marker)?"""
+    def leader_hits(k, ends):
+        """For each end point (n, 2): how many samples of the leader from the corner fall on
+        the body, the ground band or a label placed (outside the corner's own marker)."""
         a = anchors[k]
         d = ends - a
         length = np.hypot(d[:, 0], d[:, 1])
-        m = int(min(max(np.ceil(length.max(initial=1.0) / CELL_PX), 2), 250))
+        # samples at most 4 px apart along the longest leader, at most 160 of them
+        m = int(min(max(np.ceil(length.max(initial=1.0) / (2 * CELL_PX)), 2), 160))
         t = np.linspace(0.0, 1.0, m)[None, :]
         px_ = a[0] + t * d[:, :1]
         py_ = a[1] + t * d[:, 1:]
@@ -239,16 +241,16 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
         ok = (i >= 0) & (i < ras.ny) & (j >= 0) & (j < ras.nx) & ~near
         i, j = np.where(ok, i, 0), np.where(ok, j, 0)
         hit = (leader_block[i, j] | labels[i, j]) & ok
-        return ~hit.any(axis=1)
+        return hit.sum(axis=1)
 
-    def feasible(k, res):
-        """Free places of label k whose leader is clear (the first 12000 by score)."""
+    def feasible(k, res, first=20000):
+        """Free places of label k whose leader is clear (among the ``first`` by score)."""
         blocked, score, bx0, by0, px, py = res
         free_idx = np.flatnonzero(blocked == 0)
-        free_idx = free_idx[np.argsort(score[free_idx])][:12000]
+        free_idx = free_idx[np.argsort(score[free_idx])][:first]
         if not len(free_idx):
             return free_idx
-        return free_idx[leaders_ok(k, np.column_stack([px[free_idx], py[free_idx]]))]
+        return free_idx[leader_hits(k, np.column_stack([px[free_idx], py[free_idx]])) == 0]
 
     # the most constrained label first: fewest clear places on the empty axes
     first = ras.table(labels)
@@ -256,7 +258,7 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
     for k in range(len(specs)):
         res = candidates(k, first)
         counts[k] = -1 if res is None else len(feasible(k, res))
-    failed = 0
+    crowded = crossing = 0
     for k in sorted(counts, key=lambda kk: (counts[kk], kk)):
         labels_sat = ras.table(labels | leader_cells)
         res = candidates(k, labels_sat)
@@ -275,13 +277,22 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
                          np.column_stack([px[good], py[good]])], axis=1))
                 choice = (float(cost.min()), int(good[np.argmin(cost)]))
             else:
-                failed += 1
-                choice = (np.inf, int(np.argmin(blocked * 1e6 + score)))
+                free_idx = np.flatnonzero(blocked == 0)
+                if len(free_idx):
+                    # a free box whose leader crosses least
+                    crossing += 1
+                    free_idx = free_idx[np.argsort(score[free_idx])][:20000]
+                    hits = leader_hits(k, np.column_stack([px[free_idx], py[free_idx]]))
+                    c = int(free_idx[np.lexsort((score[free_idx], hits))[0]])
+                else:
+                    crowded += 1
+                    c = int(np.argmin(blocked * 1e6 + score))
+                choice = (np.inf, c)
             c = choice[1]
             box = (bx0[c], by0[c], bx0[c] + w, by0[c] + h)
             end = np.array([px[c], py[c]])
         else:
-            failed += 1
+            crowded += 1
             box = (anchors[k][0], anchors[k][1], anchors[k][0] + w, anchors[k][1] + h)
             end = anchors[k]
         centre = ((box[0] + box[2]) / 2.0, (box[1] + box[3]) / 2.0)
@@ -296,4 +307,4 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
             ras.fill_polyline(leader_cells, [start, end], 2.0)
             data = ax.transData.inverted().transform(np.array([anchors[k], end]))
             ax.plot(data[:, 0], data[:, 1], color=spec.colour, lw=0.8, zorder=7, gid=LEADER_GID)
-    return failed
+    return crowded, crossing

@@ -5,10 +5,13 @@ Everything draws onto a given matplotlib Axes, so the desktop editor and the rev
 
 from __future__ import annotations
 
+import textwrap
+
 import numpy as np
 from matplotlib.collections import LineCollection
 from matplotlib.colors import TwoSlopeNorm
 from matplotlib.patches import Patch, Polygon, Rectangle
+from matplotlib.patheffects import withStroke
 
 from profilebench.assess.results import Verdict
 from profilebench.errors import InputError
@@ -23,15 +26,35 @@ from profilebench.plotting.style import (
     SEPARATED_COLOUR,
 )
 
-__all__ = ["draw_profile", "draw_events", "bubbles", "corner_label", "CP_FLOOR"]
+__all__ = ["draw_profile", "draw_events", "bubbles", "corner_label", "CP_FLOOR", "CP_MIN_RANGE",
+           "check_cp_min"]
 
 #: gids of the hatched areas (labels keep off them; tests find them by these)
 GROUND_GID = "ground-band"
 SEPARATED_GID = "separated-flow"
 BASELINE_CHANGE_GID = "baseline-change"
 
-#: Lowest Cp of the colour scale on the outline (display only; the data are not changed).
+#: Lowest Cp of the colour scale on the outline, the default of every figure (display only;
+#: the data are not changed). Users set their own with ``cp_min`` (CLI ``--cp-min``).
 CP_FLOOR = -3.0
+#: the range a user's cp_min may take
+CP_MIN_RANGE = (-20.0, -0.1)
+BASELINE_GID = "baseline-outline"
+BASELINE_LINE_COLOUR = "#333333"
+
+
+def check_cp_min(cp_min):
+    """Raise InputError unless ``cp_min`` is a number in :data:`CP_MIN_RANGE`."""
+    lo, hi = CP_MIN_RANGE
+    try:
+        v = float(cp_min)
+    except (TypeError, ValueError):
+        raise InputError(f"the Cp colour scale's lowest value {cp_min!r} is not a number; give "
+                         f"one from {lo:g} to {hi:g}, such as {CP_FLOOR:g}") from None
+    if not (lo <= v <= hi):
+        raise InputError(f"the Cp colour scale's lowest value {cp_min!r} is outside "
+                         f"[{lo:g}, {hi:g}]; give one in that range, such as {CP_FLOOR:g}")
+    return v
 
 
 def _closed(x, y):
@@ -89,13 +112,20 @@ def draw_events(ax, events, *, y_of=None, x_of=None, zorder=6):
 
 
 def corner_label(corner) -> str:
-    """Short label of a corner: its name, r/t and the solver's verdict with margin."""
+    """Short label of a corner: its name (wrapped), r/t with the separation margin, and the
+    solver's verdict, on three short lines (labels stay narrow enough to sit beside a nose)."""
     name = corner.label or f"node {corner.node}"
     verdict = getattr(corner.verdict, "value", str(corner.verdict))
-    text = f"{name}\nr/t {corner.r_over_t:.3f}: {verdict}"
+    second = f"r/t {corner.r_over_t:.3f}"
     if corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES) and corner.margin is not None:
-        text += f", {100 * corner.margin:.0f}% margin"
-    return text
+        second += f", {100 * corner.margin:.0f}% sep. margin"
+    return "\n".join(textwrap.wrap(name, 30) + [second, verdict])
+
+
+#: more corners than this get a smaller label font
+MANY_CORNERS = 12
+#: placements tried, each with more room than the last, before a label may overlap
+PLACEMENT_ATTEMPTS = 8
 
 
 def _fill_box(ax, xlim, ylim):
@@ -130,16 +160,17 @@ def _label_corners(ax, corners, x, y, *, obstacles, markers, ground, scale):
     Labels keep outside the outline, off the hatching and markers, away from the front 30 % of
     the outline where they can, and apart from each other, each with a leader line to its
     corner. When some label finds no free place the axes get more room above the profile (and
-    at its ends) and the placement is made again, up to four times.
+    at its ends) and the placement is made again (up to PLACEMENT_ATTEMPTS times).
     Without a renderer (a canvas that cannot measure text) labels stay at their corners.
     """
     if not corners:
         return []
     texts = []
+    size = 7 if len(corners) <= MANY_CORNERS else 6  # imported outlines may have dozens
     for c in corners:
         colour = _label_colour(c)
         texts.append(ax.text(
-            c.x, c.y, corner_label(c), fontsize=7, ha="center", va="center",
+            c.x, c.y, corner_label(c), fontsize=size, ha="center", va="center",
             color=OKABE_ITO["black"], gid=LABEL_GID, zorder=8,
             bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.95),
         ))
@@ -153,16 +184,17 @@ def _label_corners(ax, corners, x, y, *, obstacles, markers, ground, scale):
                  front_x, float(np.max(y[in_front])) + 0.03 * scale)
     specs = [LabelSpec((c.x, c.y), t, _label_colour(c)) for c, t in zip(corners, texts)]
     outline_xy = np.column_stack([x, y])
-    for attempt in range(5):
-        failed = place_labels(ax, specs, outline_xy=outline_xy, obstacles=obstacles,
-                              markers_xy=markers, front_box=front_box)
-        if failed == 0 or attempt == 4:
+    for attempt in range(PLACEMENT_ATTEMPTS):
+        crowded, crossing = place_labels(ax, specs, outline_xy=outline_xy, obstacles=obstacles,
+                                         markers_xy=markers, front_box=front_box)
+        # more room always helps a crowded label; a crossing leader gets two tries
+        if crowded == 0 and (crossing == 0 or attempt >= 1) or attempt == PLACEMENT_ATTEMPTS - 1:
             break
         for line in [ln for ln in ax.lines if ln.get_gid() == LEADER_GID]:
             line.remove()
         x0, x1 = ax.get_xlim()
         y0, y1 = ax.get_ylim()
-        _fill_box(ax, (x0 - 0.04 * scale, x1 + 0.04 * scale), (y0, y1 + 0.1 * scale))
+        _fill_box(ax, (x0 - 0.04 * scale, x1 + 0.04 * scale), (y0, y1 + 0.12 * scale))
     return texts
 
 
@@ -227,7 +259,7 @@ def _baseline_difference(ax, baseline_xy, current_xy):
 
 
 def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, corners=True,
-                 colorbar=True, legend=True, title=None, legend_outside=False):
+                 colorbar=True, legend=True, title=None, cp_min=CP_FLOOR):
     """Draw an annotated profile at true aspect ratio onto ``ax``.
 
     Parameters
@@ -242,17 +274,25 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         Draw the ground (y = 0, hatched strip below). Default: the analysis' conditions, else True.
     cp, events, corners, colorbar, legend : bool
         Switch the layers on or off.
-    legend_outside : bool
-        Put the legend left of the axes (for pages with room there) instead of inside it.
+    cp_min : float
+        The lowest Cp of the colour scale (fixed, not taken from the data, so that figures can
+        be compared; default :data:`CP_FLOOR`). Must be below 0.
 
     Returns
     -------
     dict
         Handles by layer: "outline", "cp" (LineCollection or None), "colorbar", "events"
-        ({kind: handle}), "corner_labels", "legend".
+        ({kind: handle}), "corner_labels", "legend", "legend_handles" (for a legend drawn
+        elsewhere).
+
+    Raises
+    ------
+    InputError
+        For a ``cp_min`` that is not a finite number below 0.
     """
     if ax is None or not hasattr(ax, "plot"):
         raise InputError("draw_profile needs a matplotlib Axes to draw on; got " f"{type(ax).__name__}")
+    check_cp_min(cp_min)
     analysis = obj if is_analysis(obj) else None
     outline = outline_of(obj)
     x, y = outline.x, outline.y
@@ -263,14 +303,17 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         cond = getattr(analysis, "conditions", None)
         ground = bool(getattr(cond, "ground", True))
     out = {"outline": None, "cp": None, "colorbar": None, "events": {}, "corner_labels": [],
-           "legend": None}
+           "legend": None, "legend_handles": []}
     legend_handles = []
 
     if baseline is not None:
         bl = outline_of(baseline)
         bx, by = _closed(bl.x, bl.y)
-        legend_handles.append(ax.plot(bx, by, color=BASELINE_COLOUR, lw=1.5, ls="--", zorder=1,
-                                      label="baseline")[0])
+        # over the Cp band (zorder 3) and the outline, with a white halo so that it shows on
+        # every colour of the band
+        legend_handles.append(ax.plot(bx, by, color=BASELINE_LINE_COLOUR, lw=1.3, ls=(0, (5, 3)),
+                                      zorder=5.5, label="baseline", gid=BASELINE_GID,
+                                      path_effects=[withStroke(linewidth=3.0, foreground="white")])[0])
         try:
             h = _baseline_difference(ax, np.column_stack([bl.x, bl.y]), np.column_stack([x, y]))
             if h is not None:
@@ -288,22 +331,20 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         cpv = np.asarray(inv.cp, dtype=float)
         seg = np.stack([np.column_stack([xc[:-1], yc[:-1]]), np.column_stack([xc[1:], yc[1:]])], axis=1)
         seg_cp = 0.5 * (cpv + np.roll(cpv, -1))
-        # Colour scale from Cp = 1 (stagnation) down to the lowest Cp, but not below CP_FLOOR:
-        # the suction peaks at small corners would otherwise wash out the rest of the band.
-        # Values below the floor show in the floor's colour, flagged by the colourbar's arrow.
-        vmin = max(min(float(cpv.min()), -0.1), CP_FLOOR)
-        norm = TwoSlopeNorm(vmin=vmin, vcenter=0.0, vmax=1.0)
+        # A fixed colour scale from Cp = 1 (stagnation) down to cp_min, the same on every page:
+        # values below it show in the end colour, flagged by the colourbar's arrow.
+        norm = TwoSlopeNorm(vmin=float(cp_min), vcenter=0.0, vmax=1.0)
         lc = LineCollection(seg, cmap=CP_COLORMAP, norm=norm, linewidths=5.0, zorder=3,
                             capstyle="round")
         lc.set_array(seg_cp)
         ax.add_collection(lc)
         out["cp"] = lc
         if colorbar:
-            saturated = float(cpv.min()) < CP_FLOOR
+            saturated = float(cpv.min()) < cp_min
             cb = ax.figure.colorbar(lc, ax=ax, fraction=0.03, pad=0.01,
                                     extend="min" if saturated else "neither")
             cb.set_label("Cp, colour band on the outline"
-                         + (f" (below {CP_FLOOR:g} in the end colour)" if saturated else ""))
+                         + (f" (below {cp_min:g} in the end colour)" if saturated else ""))
             out["colorbar"] = cb
 
     if analysis is not None and flow is not None and getattr(flow, "separated", None) is not None:
@@ -360,11 +401,8 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, obstacles=hatched,
                                               markers=markers, ground=ground, scale=scale)
 
+    out["legend_handles"] = legend_handles
     if legend and legend_handles:
-        if legend_outside:
-            out["legend"] = ax.legend(handles=legend_handles, loc="upper right", fontsize=8,
-                                      framealpha=0.9, bbox_to_anchor=(-0.07, 1.0))
-        else:
-            out["legend"] = ax.legend(handles=legend_handles, loc="upper left", fontsize=7,
-                                      framealpha=0.9, ncol=2)
+        out["legend"] = ax.legend(handles=legend_handles, loc="upper left", fontsize=7,
+                                  framealpha=0.9, ncol=2)
     return out
