@@ -46,6 +46,13 @@ GIL_SWITCH_INTERVAL_S = 0.001
 AUTOSAVE_MS = 60000         # default interval of the recovery copy
 AUTOSAVE_ENV = "PROFILEBENCH_AUTOSAVE_MS"
 PLOT_INTERVAL_MS = 200      # plots are rendered at most this often, and not during a drag
+def _same_analysis(a, b) -> bool:
+    """Do document states ``a`` and ``b`` have the same analysis? Only the profile and the
+    conditions enter it: pinning a baseline, an underlay or the selection leave it current."""
+    return (a is not None and b is not None and a.profile == b.profile
+            and a.conditions == b.conditions)
+
+
 BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px solid #e0a080;"
 BANNER_INFO = "background: #fff6d5; color: #5a4500; padding: 4px; border: 1px solid #e0d090;"
 
@@ -127,6 +134,8 @@ class MainWindow(QMainWindow):
         self.resizeDocks([self._docks["Flow conditions"]], [300], Qt.Horizontal)
         self.resizeDocks([self._docks["Drag summary"]], [330], Qt.Horizontal)
         self.resizeDocks([self._docks["Corners"]], [250], Qt.Vertical)
+        # the corner table's nine columns get the larger share of the bottom row
+        self.resizeDocks([self._docks["Corners"], self._docks["Plots"]], [900, 600], Qt.Horizontal)
 
         self._plot_timer = QTimer(self)
         self._plot_timer.setSingleShot(True)
@@ -383,6 +392,8 @@ class MainWindow(QMainWindow):
             self.document.set_state(edit.after)
             return False
         self.undo_stack.push(EditCommand(self.document, edit))
+        # the inspector shows the node where the edit left it (a drag's preview did not update it)
+        self.node_panel.set_node(self.document.profile, self.document.selection.node)
         return True
 
     def _try(self, make_edit) -> bool:
@@ -442,7 +453,7 @@ class MainWindow(QMainWindow):
         self._shown_state = state
         sel = self.document.selection.node
         self.canvas.set_state(state, sel)
-        self.canvas.set_stale(self.analysis_state is not None and self.analysis_state != state)
+        self.canvas.set_stale(self.analysis_state is not None and not _same_analysis(self.analysis_state, state))
         if prev is None or prev.conditions != state.conditions or force:
             self.conditions_panel.set_conditions(state.conditions)
         if not self.canvas.dragging:
@@ -483,7 +494,7 @@ class MainWindow(QMainWindow):
         keep a nearby outline's smallest attached radius)."""
         a = self.analysis
         if (a is not None and a.provisional and not self.canvas.dragging and not self.runner.busy
-                and self.analysis_state == self.document.state):
+                and _same_analysis(self.analysis_state, self.document.state)):
             self._request_analysis(self.document.state, "run")
             self.statusBar().showMessage("searching the smallest attached radius of the corner "
                                          "bubbles for the final outline…")
@@ -508,7 +519,7 @@ class MainWindow(QMainWindow):
         self.lagging_shown += 1
         # a failure shown earlier was for an older outline than this one: _show_analysis hides
         # its banner
-        self._show_analysis(analysis, state, seconds, stale=state != self.document.state)
+        self._show_analysis(analysis, state, seconds, stale=not _same_analysis(state, self.document.state))
         self.statusBar().showMessage(f"Cd {analysis.drag.cd:.4f} for an earlier position "
                                      f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
                                      "analysed")
@@ -593,7 +604,7 @@ class MainWindow(QMainWindow):
     def results_current(self) -> bool:
         """True when the shown analysis is for the document's current state."""
         return (not self.runner.busy and self.analysis is not None
-                and self.analysis_state == self.document.state)
+                and _same_analysis(self.analysis_state, self.document.state))
 
     # ------------------------------------------------------------------ corner radius search
     def find_smallest_radius(self, node):
@@ -609,7 +620,7 @@ class MainWindow(QMainWindow):
             self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
 
     def _search_finished(self, generation, result, seconds):
-        if self._search_state != self.document.state:
+        if not _same_analysis(self._search_state, self.document.state):
             self.corner_table.message.setText("the profile changed during the search; search again")
             self.searches.pop(self._search_node, None)
         else:
