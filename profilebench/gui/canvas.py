@@ -31,7 +31,7 @@ from profilebench.editor.view import ViewTransform, fit_view
 from profilebench.errors import ProfileBenchError
 from profilebench.gui.refcount_guard import restore_none_refcount
 from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
-from profilebench.plotting.profile_view import bubbles, corner_label
+from profilebench.plotting.profile_view import CP_FLOOR, bubbles, check_cp_min, corner_label
 from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
                                          OKABE_ITO, SEPARATED_COLOUR)
 
@@ -39,6 +39,25 @@ __all__ = ["ProfileCanvas", "outline_points"]
 
 _CMAP = colormaps[CP_COLORMAP]
 _CP_BINS = 64          # the Cp band is drawn with this many pen colours
+#: the scale bar's length is 1, 2 or 5 x 10^k mm, as near this many pixels as those allow
+SCALE_BAR_PX = 110.0
+
+
+def scale_bar_length(scale_px_per_m: float, target_px: float = SCALE_BAR_PX) -> float:
+    """A round scale-bar length (m): 1, 2 or 5 x 10^k mm, the one nearest ``target_px`` at
+    ``scale_px_per_m`` (in log terms), so the bar is between about 0.6 and 1.6 x target."""
+    if not (scale_px_per_m > 0 and math.isfinite(scale_px_per_m)):
+        return 0.0
+    want_mm = 1000.0 * target_px / scale_px_per_m
+    k = math.floor(math.log10(want_mm))
+    options = [m * 10.0 ** e for e in (k - 1, k, k + 1) for m in (1.0, 2.0, 5.0)]
+    best = min(options, key=lambda mm: abs(math.log(mm / want_mm)))
+    return best / 1000.0
+
+
+def _length_text(metres: float) -> str:
+    mm = metres * 1000.0
+    return f"{mm / 1000.0:g} m" if mm >= 1000.0 else f"{mm:g} mm"
 
 
 def _remember(cache: dict, profile, result):
@@ -144,6 +163,7 @@ class ProfileCanvas(QWidget):
         self.stale = False
         self.grid: float | None = None  # snapping grid (m), None: off
         self.show_cp = True
+        self.cp_min = CP_FLOOR          # the Cp colour scale's lowest value (fixed, user-set)
         self.cp_offset_curve = False
         self.picking = False
         self._outline_cache: dict = {}
@@ -160,6 +180,8 @@ class ProfileCanvas(QWidget):
         self._overlay = None            # (key, under image, over image)
         self.overlay_renders = 0
         self._label_rects: list = []
+        self.scale_bar = (0.0, 0.0)     # (length m, length px) of the last scale bar drawn
+        self.radius_readout = None      # the selected corner's "r ... mm" box (px) last drawn
         # outlines are built in a child process of their own (never behind an analysis, and
         # their Python-heavy building does not share the interpreter lock with the GUI thread)
         # (its child starts now: started after the first analysis, it was still importing during
@@ -434,7 +456,13 @@ class ProfileCanvas(QWidget):
         return n if area2 > 0 else -n   # counter-clockwise: the tangent turned clockwise
 
     def _cp_norm(self, cp):
-        return TwoSlopeNorm(vmin=min(float(cp.min()), -0.1), vcenter=0.0, vmax=1.0)
+        # one fixed scale (as on the review page), so that outlines compare by colour
+        return TwoSlopeNorm(vmin=float(self.cp_min), vcenter=0.0, vmax=1.0)
+
+    def set_cp_min(self, cp_min: float):
+        """Set the Cp colour scale's lowest value (InputError outside the allowed range)."""
+        self.cp_min = check_cp_min(cp_min)
+        self.update()
 
     def _draw_cp(self, qp: QPainter, alpha: float):
         st = self._stations()
@@ -610,8 +638,17 @@ class ProfileCanvas(QWidget):
             qp.drawPath(path)
             qp.restore()
             r = prof.nodes[self.selected].radius
+            # on a white box, over the corner labels: never hidden under one
+            text = f"r {r * 1000:.0f} mm"
+            fm = QFontMetricsF(qp.font())
+            box = QRectF(hx + 7, hy - 6 - fm.ascent() - 2, fm.horizontalAdvance(text) + 4,
+                         fm.height() + 2)
+            qp.setPen(QPen(QColor(OKABE_ITO["blue"]), 0.8))
+            qp.setBrush(QColor(255, 255, 255, 240))
+            qp.drawRect(box)
             qp.setPen(QColor(OKABE_ITO["blue"]))
-            qp.drawText(QPointF(hx + 9, hy - 6), f"r {r * 1000:.0f} mm")
+            qp.drawText(QPointF(hx + 9, hy - 6), text)
+            self.radius_readout = box
 
     def _draw_readouts(self, qp: QPainter, pts):
         xmin, ymin = pts.min(axis=0)
@@ -620,8 +657,11 @@ class ProfileCanvas(QWidget):
                  f"frontal height {1000 * (ymax - ymin):.0f} mm",
                  f"ground clearance {1000 * ymin:.0f} mm"]
         fm = QFontMetricsF(self.font())
-        w = max(fm.horizontalAdvance(t) for t in lines) + 12
-        h = fm.height() * len(lines) + 8
+        bar_m = scale_bar_length(self.view.scale)
+        bar_px = bar_m * self.view.scale
+        bar_text = _length_text(bar_m)
+        w = max([fm.horizontalAdvance(t) for t in lines] + [bar_px + 10 + fm.horizontalAdvance(bar_text)]) + 12
+        h = fm.height() * (len(lines) + 1) + 12
         rect = QRectF(8, 8, w, h)
         qp.setPen(QColor(180, 180, 180))
         qp.setBrush(QColor(255, 255, 255, 220))
@@ -629,6 +669,15 @@ class ProfileCanvas(QWidget):
         qp.setPen(QColor(20, 20, 20))
         for k, t in enumerate(lines):
             qp.drawText(QPointF(14, 8 + fm.ascent() + 4 + k * fm.height()), t)
+        # the scale bar: a round length at the current zoom, end ticks, its length beside it
+        y = 8 + 4 + len(lines) * fm.height() + fm.height() / 2 + 2
+        qp.setPen(QPen(QColor(20, 20, 20), 2.0))
+        qp.drawLine(QPointF(14, y), QPointF(14 + bar_px, y))
+        qp.setPen(QPen(QColor(20, 20, 20), 1.2))
+        for x in (14, 14 + bar_px):
+            qp.drawLine(QPointF(x, y - 4), QPointF(x, y + 4))
+        qp.drawText(QPointF(14 + bar_px + 8, y + fm.ascent() / 2 - 1), bar_text)
+        self.scale_bar = (bar_m, bar_px)
 
     def _draw_legend(self, qp: QPainter):
         st = self._stations()
@@ -699,7 +748,7 @@ class ProfileCanvas(QWidget):
     # ----------------------------------------------------------------- overlay cache
     def _overlay_key(self):
         v = self.view
-        return (id(self.analysis), self.stale, self.show_cp, self.cp_offset_curve, self.selected,
+        return (id(self.analysis), self.stale, self.show_cp, self.cp_min, self.cp_offset_curve, self.selected,
                 getattr(self.state, "baseline", None) is not None, v.scale, v.offset_x, v.offset_y,
                 self.width(), self.height(), self.devicePixelRatioF())
 
@@ -725,9 +774,9 @@ class ProfileCanvas(QWidget):
             self.overlay_runner.request(key, self.analysis, self._scene())
         if o is None:
             return None, None, None
-        if o[0][6:9] == key[6:9]:
+        if o[0][7:10] == key[7:10]:
             return o[2], o[3], None
-        s0, ox0, oy0 = o[0][6:9]
+        s0, ox0, oy0 = o[0][7:10]
         k = self.view.scale / s0
         return o[2], o[3], (k, self.view.offset_x - k * ox0, self.view.offset_y - k * oy0)
 
@@ -848,6 +897,7 @@ class _OverlayScene:
         self.state = canvas.state
         self.stale = canvas.stale
         self.show_cp = canvas.show_cp
+        self.cp_min = canvas.cp_min
         self.cp_offset_curve = canvas.cp_offset_curve
         self.selected = canvas.selected
         self._size = (canvas.width(), canvas.height())

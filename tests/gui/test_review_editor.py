@@ -1,7 +1,10 @@
 """The editor as a design review sees it: the node inspector after a drag, a pinned baseline
 that leaves the results current, tables that fit at 1500 x 950, the margin defined."""
 
-from PySide6.QtCore import QPointF
+import math
+
+import pytest
+from PySide6.QtCore import QPointF, Qt
 
 from gui_helpers import ANALYSIS_TIMEOUT_MS, wait_current
 from profilebench.editor.fields import format_mm
@@ -79,3 +82,81 @@ def test_shared_corner_notes_said_once_under_the_table(window):
     assert len(verdicts) == 1    # the built-in table gives no critical ratio for any corner
     assert t.notes.text().count(verdicts.pop()) == 1
     assert {t.cell(r, 6) for r in range(t.table.rowCount())} == {"(see note)"}
+
+
+def test_scale_bar_is_a_round_length_at_the_zoom(window, qtbot):
+    from profilebench.gui.canvas import scale_bar_length
+
+    c = window.canvas
+    for factor in (1.0, 3.0, 0.4):
+        c.zoom(factor)
+        c.repaint()
+        length, px = c.scale_bar
+        assert px == pytest.approx(length * c.view.scale)      # true to the drawing's scale
+        mm = round(length * 1000, 6)
+        mantissa = mm / 10 ** math.floor(math.log10(mm))
+        assert round(mantissa, 6) in (1.0, 2.0, 5.0)
+        assert 0.6 * 110 <= px <= 1.6 * 110
+    # 1 px per mm: a 110 px bar is 100 mm (nearest of 50, 100, 200 in log terms)
+    assert scale_bar_length(1000.0) == pytest.approx(0.1)
+
+
+def test_radius_readout_drawn_on_its_own_box(window, qtbot):
+    w = window
+    corner = next(c for c in w.analysis.corners if c.radius > 0)
+    w.select_node(corner.node)
+    qtbot.waitUntil(lambda: w.canvas.up_to_date, timeout=ANALYSIS_TIMEOUT_MS)
+    img = w.canvas.grab().toImage()
+    box = w.canvas.radius_readout
+    assert box is not None
+    dpr = img.devicePixelRatioF()
+    colours = [img.pixelColor(int(x * dpr), int(y * dpr))
+               for x in range(int(box.left()) + 2, int(box.right()) - 1)
+               for y in range(int(box.top()) + 2, int(box.bottom()) - 1)]
+    white = sum(1 for q in colours if min(q.red(), q.green(), q.blue()) > 230)
+    blue = sum(1 for q in colours if q.blue() > 120 and q.red() < 80)   # the readout's text
+    assert white > 0.5 * len(colours) and blue > 0
+
+
+def test_cp_scale_setting_fixed_remembered_and_exported(window, qtbot, tmp_path, settings, monkeypatch):
+    import profilebench.plotting as plotting
+
+    w = window
+    assert w.canvas._cp_norm(w.analysis.flow.inviscid.cp).vmin == -3.0   # the default of every page
+    assert w.set_cp_scale(-2.0)
+    assert w.canvas._cp_norm(w.analysis.flow.inviscid.cp).vmin == -2.0   # not from the data
+    assert float(settings.value("cp_scale_min")) == -2.0
+    got = {}
+    real = plotting.review_figure
+    monkeypatch.setattr(plotting, "review_figure", lambda a, **kw: got.update(kw) or real(a, **kw))
+    assert w.export_image(tmp_path / "page.png")
+    assert got["cp_min"] == -2.0
+    assert not w.set_cp_scale(0.5)                                      # refused, named
+    assert "Cp colour scale" in w.last_message
+    assert w.canvas.cp_min == -2.0
+
+
+def test_search_shows_a_busy_bar_that_cancels(window, qtbot):
+    w = window
+    corner = next(c for c in w.analysis.corners if c.radius > 0 and c.convex)
+    w.find_smallest_radius(corner.node)
+    assert w.progress.isVisible() and w.progress.kind == "search"
+    assert w.progress.bar.maximum() == 0          # busy mode: no fraction is claimed
+    qtbot.mouseClick(w.progress.cancel_button, Qt.LeftButton)
+    assert not w.progress.isVisible()
+    assert corner.node not in w.searches
+    assert w.corner_table.message.text() == "search cancelled"
+    qtbot.waitUntil(lambda: not w.search_runner.busy, timeout=ANALYSIS_TIMEOUT_MS)
+    qtbot.wait(50)
+    assert corner.node not in w.searches          # its result was not shown
+
+
+def test_long_analysis_shows_the_busy_bar_and_cancel_marks_stale(window, qtbot):
+    w = window
+    corner = next(c for c in w.analysis.corners if c.radius > 0)
+    w.set_radius(corner.node, corner.radius * 1.3)
+    assert w.runner.busy                         # the child takes tens of ms at least
+    w._long_analysis()                           # as the timer does after LONG_WORK_MS
+    assert w.progress.kind == "analysis" and w.progress.isVisible()
+    qtbot.mouseClick(w.progress.cancel_button, Qt.LeftButton)
+    assert w.canvas.stale and "analysis cancelled" in w.last_message
