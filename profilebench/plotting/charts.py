@@ -58,11 +58,13 @@ def draw_cp(ax, analysis, *, events=True, legend=True):
 #: the shape-factor axis: laminar H reaches about 3.5 at Thwaites' separation (lambda = -0.09,
 #: Cebeci & Bradshaw's fits) and a bubble bursts at 3.5; beyond 4 the curve is clipped
 H_AXIS = (1.0, 4.0)
+#: gid of the legend entries that say a curve is clipped
+CLIP_NOTE_GID = "clip-note"
 
 
 def _clip_note(ax, what):
-    ax.text(0.99, 0.04, what, transform=ax.transAxes, ha="right", va="bottom", fontsize=7,
-            color=OKABE_ITO["black"], bbox=dict(fc="white", ec="none", alpha=0.8, pad=1.0))
+    """Say in the axes' legend (off the data) that a curve is clipped."""
+    ax.plot([], [], ls="none", label=what, gid=CLIP_NOTE_GID)
 
 
 def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
@@ -71,8 +73,8 @@ def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
     The turbulent separation threshold on H (the conditions' ``h_separation``, default 2.4:
     a common choice within the usual 1.8-2.8 range, Cebeci & Bradshaw 1977) is drawn as a line.
     Stations in separated flow are left out of the curves (the march holds values there).
-    H is shown on :data:`H_AXIS` and Cf up to 1.5 times its 98th percentile (the stagnation
-    point's Cf is singular): a curve beyond the axis is clipped and a note on the axes says so.
+    H is shown on :data:`H_AXIS` and Cf up to twice its 90th percentile (the stagnation point's
+    Cf is singular): a curve beyond the axis is clipped and its legend says so.
     The legend sits right of the axes, off the data.
     """
     st = _stations_or_raise(analysis, "the boundary-layer plots")
@@ -95,15 +97,14 @@ def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
     ax_h.set_ylim(*H_AXIS)
     h_max = max((float(np.nanmax(h)) for h in h_all if h.size), default=H_AXIS[0])
     if h_max > H_AXIS[1]:
-        _clip_note(ax_h, f"H above {H_AXIS[1]:g} clipped (max {h_max:.1f})")
+        _clip_note(ax_h, f"H above {H_AXIS[1]:g} clipped\n(max {h_max:.1f})")
     cf = np.concatenate(cf_all) if cf_all else np.zeros(0)
     cf = cf[np.isfinite(cf)]
     if cf.size:
-        top = 1.5 * float(np.percentile(cf, 98))
+        top = 2.0 * float(np.percentile(cf, 90))
         if top > 0 and float(cf.max()) > top:
             ax_cf.set_ylim(min(0.0, float(cf.min())), top)
-            _clip_note(ax_cf, f"Cf above {top:.3g} clipped (max {float(cf.max()):.3g}, near "
-                              "the stagnation point)")
+            _clip_note(ax_cf, f"Cf above {top:.3g} clipped\n(max {float(cf.max()):.3g})")
     ax_h.set_ylabel("H")
     ax_cf.set_ylabel("Cf")
     ax_cf.set_xlabel("s from the stagnation point (m)")

@@ -170,7 +170,7 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
            col_widths=[0.32, 0.2, 0.48], bottom=room)
     ax_sum.set_title("Summary", fontsize=10, loc="left")
     _table(ax_cor, CORNER_COLUMNS, corner_rows(analysis), fontsize=8,
-           col_widths=[0.2, 0.06, 0.06, 0.06, 0.2, 0.07, 0.17, 0.06, 0.04])
+           col_widths=[0.27, 0.055, 0.055, 0.055, 0.2, 0.07, 0.12, 0.06, 0.04])
     ax_cor.set_title("Corners", fontsize=10, loc="left")
 
     notes = corner_notes(analysis) + [f"{n}: {d}" for n, d in corner_disagreements(analysis)]

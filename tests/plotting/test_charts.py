@@ -117,10 +117,10 @@ def test_shape_factor_axis_clipped_with_a_note():
         a.flow, upper=dataclasses.replace(a.flow.upper, bl=dataclasses.replace(bl, H=H))))
     fig, ax_h, _ = _bl_figure(spiky)
     assert ax_h.get_ylim() == (1.0, 4.0)   # laminar separation (Thwaites) at H about 3.5
-    notes = [t.get_text() for t in ax_h.texts]
-    assert notes == ["H above 4 clipped (max 9.0)"]
+    notes = [t.get_text() for t in ax_h.get_legend().get_texts() if "clipped" in t.get_text()]
+    assert notes == ["H above 4 clipped\n(max 9.0)"]
 
 
 def test_shape_factor_axis_without_spike_has_no_note():
     _, ax_h, _ = _bl_figure(fake_analysis())
-    assert not ax_h.texts
+    assert not [t for t in ax_h.get_legend().get_texts() if "clipped" in t.get_text()]
