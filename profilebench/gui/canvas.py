@@ -31,6 +31,7 @@ from profilebench.editor.view import ViewTransform, fit_view
 from profilebench.errors import ProfileBenchError
 from profilebench.gui.refcount_guard import restore_none_refcount
 from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
+from profilebench.plotting.labels import FRONT_FRACTION, place_boxes
 from profilebench.plotting.profile_view import CP_FLOOR, bubbles, check_cp_min, corner_label
 from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
                                          OKABE_ITO, SEPARATED_COLOUR)
@@ -39,6 +40,9 @@ __all__ = ["ProfileCanvas", "outline_points"]
 
 _CMAP = colormaps[CP_COLORMAP]
 _CP_BINS = 64          # the Cp band is drawn with this many pen colours
+#: a label over the front end costs this many px of leader on the canvas (less than on the
+#: page: the canvas has no room in front of the nose, and long leaders cross the drawing)
+CANVAS_FRONT_COST = 150.0
 #: the scale bar's length is 1, 2 or 5 x 10^k mm, as near this many pixels as those allow
 SCALE_BAR_PX = 110.0
 
@@ -259,7 +263,7 @@ class ProfileCanvas(QWidget):
         xmax, ymax = pts.max(axis=0)
         ymin = min(ymin, 0.0)
         # wide margin: room for the corner labels and the legend beside the outline
-        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=max(60, 0.14 * self.width()))
+        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=max(60, 0.2 * self.width()))
         self._fitted = True
         self.update()
 
@@ -565,7 +569,39 @@ class ProfileCanvas(QWidget):
             if e.kind in EVENT_STYLES:
                 self._draw_marker(qp, e.kind, QPointF(*self.view.to_screen(e.x, e.y)), alpha)
 
+    def _label_obstacles(self):
+        """(outline, hatched polygons, ground polygons, markers) in screen px for the labels."""
+        st = self._stations()
+        if st is None:
+            return None
+        pts = st[0]
+        v = self.view
+        to_px = lambda xy: np.column_stack([v.offset_x + v.scale * xy[:, 0],  # noqa: E731
+                                            v.offset_y - v.scale * xy[:, 1]])
+        outline = to_px(pts)
+        hatched = []
+        mask = getattr(getattr(self.analysis, "flow", None), "separated", None)
+        if mask is not None and len(mask) == len(pts) and np.any(mask):
+            off = pts + self._outward(pts) * (22.0 / v.scale)
+            idx = np.flatnonzero(np.asarray(mask, bool))
+            n = len(pts)
+            for run in np.split(idx, np.flatnonzero(np.diff(idx) > 1) + 1):
+                ends = np.append(run, (run[-1] + 1) % n)
+                hatched.append(to_px(np.vstack([pts[ends], off[ends][::-1]])))
+        ground = []
+        if getattr(self.state.conditions, "ground", False):
+            _, sy = v.to_screen(0, 0)
+            # the hatched strip and its caption below it
+            ground.append(np.array([(0, sy - 2), (self.width(), sy - 2), (self.width(), sy + 30),
+                                    (0, sy + 30)], float))
+        events = tuple(getattr(self.analysis, "events", ()) or ())
+        markers = np.array([v.to_screen(e.x, e.y) for e in events], float).reshape(-1, 2)
+        return outline, hatched, ground, markers
+
     def _draw_corner_labels(self, qp: QPainter, alpha: float):
+        """Corner labels placed as on the review page (profilebench.plotting.labels): outside
+        the outline, off the ground and the separated-flow band, clear of each other and of
+        the front 30 % where there is room, each with a leader line to its corner."""
         corners = getattr(self.analysis, "corners", ()) or ()
         self._label_rects = []
         if not corners:
@@ -574,36 +610,36 @@ class ProfileCanvas(QWidget):
         font.setPointSizeF(max(font.pointSizeF() - 1, 7))
         qp.setFont(font)
         fm = QFontMetricsF(font)
-        placed = []
-        cx_all = np.mean([c.x for c in corners])
-        cy_all = np.mean([c.y for c in corners])
-        for c in corners:
-            text = corner_label(c)
-            sx, sy = self.view.to_screen(c.x, c.y)
-            cx, cy = self.view.to_screen(cx_all, cy_all)
-            d = np.array([sx - cx, sy - cy])
-            d = d / max(np.hypot(*d), 1e-9)
+        texts = [corner_label(c) for c in corners]
+        sizes = []
+        for text in texts:
             lines = text.splitlines() or [text]
-            w = max(fm.horizontalAdvance(t) for t in lines) + 8
-            h = fm.height() * len(lines) + 4
-            x = sx + d[0] * 26 - (w if d[0] < 0 else 0)
-            y = sy + d[1] * 26 - (h if d[1] < 0 else 0)
-            # keep the label on the canvas (drawing position only)
-            x = min(max(x, 2.0), self.width() - w - 2.0)
-            y = min(max(y, 2.0), self.height() - h - 2.0)
-            rect = QRectF(x, y, w, h)
-            for _ in range(6):
-                if not any(rect.intersects(r) for r in placed):
-                    break
-                rect.translate(0, h + 2 if d[1] >= 0 else -(h + 2))
-            placed.append(rect)
+            sizes.append((max(fm.horizontalAdvance(t) for t in lines) + 8,
+                          fm.height() * len(lines) + 4))
+        anchors = np.array([self.view.to_screen(c.x, c.y) for c in corners], float)
+        obstacles = self._label_obstacles()
+        if obstacles is None:
+            return
+        outline, hatched, ground, markers = obstacles
+        xmin, xmax = float(outline[:, 0].min()), float(outline[:, 0].max())
+        front_x = xmin + FRONT_FRACTION * (xmax - xmin)
+        near = outline[outline[:, 0] <= front_x]
+        front = (xmin - 10.0, float(near[:, 1].min()) - 10.0, front_x, float(near[:, 1].max()) + 10.0)
+        # on the canvas a lower corner's label may sit below the thin ground strip, its leader
+        # crossing the strip (the page keeps leaders off its deep ground band)
+        placed, _, _ = place_boxes((0.0, 0.0, float(self.width()), float(self.height())), sizes,
+                                   anchors, outline_px=outline, hatched_px=hatched + ground,
+                                   markers_px=markers, front_px=front,
+                                   front_cost=CANVAS_FRONT_COST)
+        for c, text, (sx, sy), (box, end) in zip(corners, texts, anchors, placed):
+            rect = QRectF(QPointF(box[0], box[1]), QPointF(box[2], box[3]))
             self._label_rects.append(QRectF(rect))
             sep = getattr(c.verdict, "separated", False)
             colour = QColor(OKABE_ITO["vermillion"]) if sep else QColor(OKABE_ITO["bluish_green"])
             if c.node == self.selected:
                 colour = QColor(OKABE_ITO["blue"])
-            qp.setPen(QPen(_qcolor("#606060", 0.6 * alpha), 0.8))
-            qp.drawLine(QPointF(sx, sy), rect.center())
+            qp.setPen(QPen(_qcolor("#606060", 0.7 * alpha), 0.8))
+            qp.drawLine(QPointF(sx, sy), QPointF(float(end[0]), float(end[1])))
             qp.setPen(QPen(colour, 1.6 if c.node == self.selected else 1.0))
             qp.setBrush(QColor(255, 255, 255, int(225 * alpha)))
             qp.drawRoundedRect(rect, 3, 3)
@@ -930,5 +966,6 @@ class _OverlayScene:
     _draw_marker = ProfileCanvas._draw_marker
     _draw_events = ProfileCanvas._draw_events
     _draw_corner_labels = ProfileCanvas._draw_corner_labels
+    _label_obstacles = ProfileCanvas._label_obstacles
     _draw_legend = ProfileCanvas._draw_legend
     _legend_position = ProfileCanvas._legend_position

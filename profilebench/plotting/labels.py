@@ -19,7 +19,7 @@ from __future__ import annotations
 import numpy as np
 from matplotlib.path import Path as MplPath
 
-__all__ = ["place_labels", "LabelSpec", "CELL_PX", "FRONT_FRACTION", "LABEL_GID", "LEADER_GID"]
+__all__ = ["place_labels", "place_boxes", "LabelSpec", "CELL_PX", "FRONT_FRACTION", "LABEL_GID", "LEADER_GID"]
 
 #: raster cell size in display pixels
 CELL_PX = 2.0
@@ -55,9 +55,9 @@ class _Raster:
     """Boolean layers over the axes box in display pixels, with summed-area tables."""
 
     def __init__(self, frame):
-        self.x0, self.y0 = frame.x0, frame.y0
-        self.nx = max(int(np.ceil(frame.width / CELL_PX)), 1)
-        self.ny = max(int(np.ceil(frame.height / CELL_PX)), 1)
+        self.x0, self.y0 = frame[0], frame[1]
+        self.nx = max(int(np.ceil((frame[2] - frame[0]) / CELL_PX)), 1)
+        self.ny = max(int(np.ceil((frame[3] - frame[1]) / CELL_PX)), 1)
         cx = self.x0 + (np.arange(self.nx) + 0.5) * CELL_PX
         cy = self.y0 + (np.arange(self.ny) + 0.5) * CELL_PX
         gx, gy = np.meshgrid(cx, cy)
@@ -168,39 +168,90 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
     if renderer is None:
         renderer = fig.canvas.get_renderer()
     ax.apply_aspect()
-    frame = ax.get_window_extent(renderer)
-    ras = _Raster(frame)
+    bb = ax.get_window_extent(renderer)
     to_px = ax.transData.transform
+    hatched, ground = [], []
+    for patch in obstacles:
+        path = patch.get_path().transformed(patch.get_transform())
+        polys = [poly for poly in path.to_polygons() if len(poly) >= 3]
+        (ground if getattr(patch, "get_gid", lambda: None)() == "ground-band" else hatched).extend(polys)
+    markers = to_px(np.asarray(markers_xy, float).reshape(-1, 2)) if len(markers_xy) else ()
+    front = None
+    if front_box is not None:
+        (fx0, fy0), (fx1, fy1) = to_px([front_box[:2], front_box[2:]])
+        front = (fx0, fy0, fx1, fy1)
+    anchors = to_px(np.array([s.anchor for s in specs], float).reshape(-1, 2))
+    placed, crowded, crossing = place_boxes(
+        (bb.x0, bb.y0, bb.x1, bb.y1), [_box_px(s.text, renderer) for s in specs], anchors,
+        outline_px=to_px(np.asarray(outline_xy, float)), hatched_px=hatched, ground_px=ground,
+        markers_px=markers, marker_px=marker_px, front_px=front)
+    inverse = ax.transData.inverted()
+    for spec, a, (box, end) in zip(specs, anchors, placed):
+        centre = ((box[0] + box[2]) / 2.0, (box[1] + box[3]) / 2.0)
+        spec.text.set_position(tuple(inverse.transform(centre)))
+        if np.hypot(*(end - a)) > 1.0:
+            data = inverse.transform(np.array([a, end]))
+            ax.plot(data[:, 0], data[:, 1], color=spec.colour, lw=0.8, zorder=7, gid=LEADER_GID)
+    return crowded, crossing
 
-    outline_px = to_px(np.asarray(outline_xy, float))
+
+def place_boxes(frame, sizes, anchors, *, outline_px, hatched_px=(), ground_px=(),
+                markers_px=(), marker_px=7.0, front_px=None, front_cost=600.0):
+    """Free places for label boxes in display pixels (no drawing library needed).
+
+    Parameters
+    ----------
+    frame : (x0, y0, x1, y1)
+        The drawing area (px); either direction of y works.
+    sizes : sequence of (width, height)
+        Each box's size (px).
+    anchors : (n, 2) array
+        The corner each box belongs to (px).
+    outline_px : (m, 2) array
+        The closed outline (px, first point not repeated).
+    hatched_px, ground_px : sequences of (k, 2) polygons
+        Hatched areas boxes keep off; leaders may cross ``hatched_px`` but not ``ground_px``.
+    markers_px : (j, 2) array
+        Markers kept clear by ``marker_px``.
+    front_px : (x0, y0, x1, y1), optional
+        The front end: a box over it costs as much as ``front_cost`` px more leader.
+
+    Returns
+    -------
+    placed : list of ((x0, y0, x1, y1), end)
+        Each box and its leader's end on the box (px), in the order of ``sizes``.
+    crowded, crossing : int
+        Boxes that found no free place, and boxes whose leader crosses the body, the ground or
+        another box.
+    """
+    ras = _Raster(frame)
+    outline_px = np.asarray(outline_px, float)
     interior = ras.fill_path(ras.empty(), MplPath(np.vstack([outline_px, outline_px[:1]]), closed=True))
     hard = interior.copy()
     # the outline's line and its Cp band (5 px wide) plus the clearance
     ras.fill_polyline(hard, np.vstack([outline_px, outline_px[:1]]), 6.0 + 2 * CLEARANCE_PX)
     ground = ras.empty()
-    for patch in obstacles:
-        path = patch.get_path().transformed(patch.get_transform())
-        for poly in path.to_polygons():
-            if len(poly) >= 3:
-                ras.fill_path(ground if getattr(patch, "get_gid", lambda: None)() == "ground-band"
-                              else hard, MplPath(poly, closed=True))
+    for polys, mask in ((hatched_px, hard), (ground_px, ground)):
+        for poly in polys:
+            poly = np.asarray(poly, float)
+            # closed=True takes the last vertex as the closing one: repeat the first
+            ras.fill_path(mask, MplPath(np.vstack([poly, poly[:1]]), closed=True))
     hard |= ground
-    markers = to_px(np.asarray(markers_xy, float).reshape(-1, 2)) if len(markers_xy) else np.zeros((0, 2))
-    for m in markers:
+    for m in np.asarray(markers_px, float).reshape(-1, 2):
         ras.fill_box(hard, m[0] - marker_px, m[1] - marker_px, m[0] + marker_px, m[1] + marker_px)
     # leaders may cross hatching but not the body, the ground band or another label
     leader_block = interior | ground
     hard_sat = ras.table(hard)
     front = ras.empty()
-    if front_box is not None:
-        (fx0, fy0), (fx1, fy1) = to_px([front_box[:2], front_box[2:]])
-        ras.fill_box(front, fx0, fy0, fx1, fy1)
+    if front_px is not None:
+        fx0, fy0, fx1, fy1 = front_px
+        ras.fill_box(front, min(fx0, fx1), min(fy0, fy1), max(fx0, fx1), max(fy0, fy1))
     front_sat = ras.table(front)
     labels = ras.empty()      # boxes placed (with their clearance)
     leader_cells = ras.empty()
-    leaders = []          # (2, 2) display segments already drawn
-    sizes = [_box_px(s.text, renderer) for s in specs]
-    anchors = to_px(np.array([s.anchor for s in specs], float).reshape(-1, 2))
+    leaders = []              # (2, 2) segments already drawn
+    sizes = [tuple(map(float, sz)) for sz in sizes]
+    anchors = np.asarray(anchors, float).reshape(-1, 2)
     gap = int(np.ceil(CLEARANCE_PX / CELL_PX))
 
     def candidates(k, labels_sat):
@@ -221,7 +272,7 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
         px = np.clip(ax_, bx0, bx0 + w)
         py = np.clip(ay_, by0, by0 + h)
         leader = np.hypot(px - ax_, py - ay_)
-        score = leader + 600.0 * in_front
+        score = leader + front_cost * in_front
         return blocked, score, bx0, by0, px, py
 
     def leader_hits(k, ends):
@@ -255,56 +306,75 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
     # the most constrained label first: fewest clear places on the empty axes
     first = ras.table(labels)
     counts = {}
-    for k in range(len(specs)):
+    for k in range(len(sizes)):
         res = candidates(k, first)
         counts[k] = -1 if res is None else len(feasible(k, res))
-    crowded = crossing = 0
-    for k in sorted(counts, key=lambda kk: (counts[kk], kk)):
-        labels_sat = ras.table(labels | leader_cells)
-        res = candidates(k, labels_sat)
-        spec = specs[k]
-        w, h = sizes[k]
-        choice = None
-        if res is not None:
-            blocked, score, bx0, by0, px, py = res
-            segs = np.array(leaders).reshape(-1, 2, 2)
-            good = feasible(k, res)
-            if len(good):
-                cost = score[good].astype(float)
-                for seg in segs:
-                    cost += 300.0 * _segments_cross(seg[0], seg[1], np.stack(
-                        [np.broadcast_to(anchors[k], (len(good), 2)),
-                         np.column_stack([px[good], py[good]])], axis=1))
-                choice = (float(cost.min()), int(good[np.argmin(cost)]))
-            else:
-                free_idx = np.flatnonzero(blocked == 0)
-                if len(free_idx):
-                    # a free box whose leader crosses least
-                    crossing += 1
-                    free_idx = free_idx[np.argsort(score[free_idx])][:20000]
-                    hits = leader_hits(k, np.column_stack([px[free_idx], py[free_idx]]))
-                    c = int(free_idx[np.lexsort((score[free_idx], hits))[0]])
+
+    def run(order):
+        """Place the boxes in ``order``; returns (placed, crowded, crossing, failed labels)."""
+        labels[:] = False
+        leader_cells[:] = False
+        leaders.clear()
+        placed = [None] * len(sizes)
+        crowded = crossing = 0
+        failed = []
+        for k in order:
+            labels_sat = ras.table(labels | leader_cells)
+            res = candidates(k, labels_sat)
+            w, h = sizes[k]
+            choice = None
+            if res is not None:
+                blocked, score, bx0, by0, px, py = res
+                segs = np.array(leaders).reshape(-1, 2, 2)
+                good = feasible(k, res)
+                if len(good):
+                    cost = score[good].astype(float)
+                    for seg in segs:
+                        cost += 300.0 * _segments_cross(seg[0], seg[1], np.stack(
+                            [np.broadcast_to(anchors[k], (len(good), 2)),
+                             np.column_stack([px[good], py[good]])], axis=1))
+                    choice = (float(cost.min()), int(good[np.argmin(cost)]))
                 else:
-                    crowded += 1
-                    c = int(np.argmin(blocked * 1e6 + score))
-                choice = (np.inf, c)
-            c = choice[1]
-            box = (bx0[c], by0[c], bx0[c] + w, by0[c] + h)
-            end = np.array([px[c], py[c]])
-        else:
-            crowded += 1
-            box = (anchors[k][0], anchors[k][1], anchors[k][0] + w, anchors[k][1] + h)
-            end = anchors[k]
-        centre = ((box[0] + box[2]) / 2.0, (box[1] + box[3]) / 2.0)
-        spec.text.set_position(tuple(ax.transData.inverted().transform(centre)))
-        ras.fill_box(labels, box[0] - CLEARANCE_PX, box[1] - CLEARANCE_PX,
-                     box[2] + CLEARANCE_PX, box[3] + CLEARANCE_PX)
-        if np.hypot(*(end - anchors[k])) > 1.0:
-            leaders.append([anchors[k], end])
-            # later boxes keep off this leader (but not off the corner's marker end of it)
-            d = float(np.hypot(*(end - anchors[k])))
-            start = anchors[k] + min((marker_px + 2.0) / d, 1.0) * (end - anchors[k])
-            ras.fill_polyline(leader_cells, [start, end], 2.0)
-            data = ax.transData.inverted().transform(np.array([anchors[k], end]))
-            ax.plot(data[:, 0], data[:, 1], color=spec.colour, lw=0.8, zorder=7, gid=LEADER_GID)
-    return crowded, crossing
+                    free_idx = np.flatnonzero(blocked == 0)
+                    if len(free_idx):
+                        # a free box whose leader crosses least
+                        crossing += 1
+                        failed.append(k)
+                        free_idx = free_idx[np.argsort(score[free_idx])][:20000]
+                        hits = leader_hits(k, np.column_stack([px[free_idx], py[free_idx]]))
+                        c = int(free_idx[np.lexsort((score[free_idx], hits))[0]])
+                    else:
+                        crowded += 1
+                        failed.append(k)
+                        c = int(np.argmin(blocked * 1e6 + score))
+                    choice = (np.inf, c)
+                c = choice[1]
+                box = (bx0[c], by0[c], bx0[c] + w, by0[c] + h)
+                end = np.array([px[c], py[c]])
+            else:
+                crowded += 1
+                failed.append(k)
+                box = (anchors[k][0], anchors[k][1], anchors[k][0] + w, anchors[k][1] + h)
+                end = anchors[k]
+            placed[k] = (box, end)
+            ras.fill_box(labels, box[0] - CLEARANCE_PX, box[1] - CLEARANCE_PX,
+                         box[2] + CLEARANCE_PX, box[3] + CLEARANCE_PX)
+            if np.hypot(*(end - anchors[k])) > 1.0:
+                leaders.append([anchors[k], end])
+                # later boxes keep off this leader (but not off the corner's marker end of it)
+                d = float(np.hypot(*(end - anchors[k])))
+                start = anchors[k] + min((marker_px + 2.0) / d, 1.0) * (end - anchors[k])
+                ras.fill_polyline(leader_cells, [start, end], 2.0)
+        return placed, crowded, crossing, failed
+
+    # the most constrained first; labels that found no clean place go first next time
+    order = sorted(counts, key=lambda kk: (counts[kk], kk))
+    best = None
+    for _attempt in range(3):
+        result = run(order)
+        if best is None or result[1] + result[2] < best[1] + best[2]:
+            best = result
+        if not result[3]:
+            break
+        order = result[3] + [k for k in order if k not in result[3]]
+    return best[0], best[1], best[2]

@@ -160,3 +160,27 @@ def test_long_analysis_shows_the_busy_bar_and_cancel_marks_stale(window, qtbot):
     assert w.progress.kind == "analysis" and w.progress.isVisible()
     qtbot.mouseClick(w.progress.cancel_button, Qt.LeftButton)
     assert w.canvas.stale and "analysis cancelled" in w.last_message
+
+
+def test_canvas_labels_clear_of_each_other_the_outline_and_the_ground(window, qtbot):
+    """The canvas places its corner labels as the page does; checked with shapely."""
+    from shapely.geometry import Polygon, box
+
+    from profilebench.gui.canvas import _render_overlay
+
+    w = window
+    qtbot.waitUntil(lambda: w.canvas.up_to_date, timeout=ANALYSIS_TIMEOUT_MS)
+    c = w.canvas
+    scene = c._scene()          # what the overlay worker draws, drawn here
+    _render_overlay(scene)
+    rects = [box(r.left(), r.top(), r.right(), r.bottom()) for r in scene._label_rects]
+    assert len(rects) == len(w.analysis.corners)
+    inv = w.analysis.flow.inviscid
+    body = Polygon([c.view.to_screen(x, y) for x, y in zip(inv.x, inv.y)]).buffer(0)
+    _, sy = c.view.to_screen(0.0, 0.0)
+    strip = box(0, sy, c.width(), sy + 14)          # the hatched ground strip as drawn
+    for i, r in enumerate(rects):
+        assert not r.intersects(body)
+        assert not r.intersects(strip)
+        for r2 in rects[i + 1:]:
+            assert not r.intersects(r2)
