@@ -214,8 +214,8 @@ def _checked_speed_kmh(kmh):
 
     top = SPEED_MAX * 3.6
     if not (math.isfinite(kmh) and 0.0 < kmh <= top):
-        raise InputError(f"--speed {kmh:g} km/h is outside (0, {top:g}] km/h; give a vehicle "
-                         f"speed in km/h in that range (above {top:g} km/h the air's "
+        raise InputError(f"--speed {kmh:g} km/h is outside (0, {top:g}] km/h; give a value "
+                         f"in km/h in that range (above {top:g} km/h the air's "
                          "compressibility matters)")
     return kmh
 
