@@ -185,3 +185,25 @@ def test_cli_image_mode_like_csv_and_json(fake, tmp_path, capsys):
     finally:
         os.umask(old)
     assert {stat.S_IMODE(f.stat().st_mode) for f in files} == {0o644}  # 0666 less umask 022
+
+
+def test_force_rise_from_speed_not_blamed_on_the_area(monkeypatch, tmp_path, capsys):
+    """Cd and CdA fall but the speed rises: F = 1/2 rho V^2 CdA rises with V^2, and the
+    warning names the dynamic pressure, not the frontal area."""
+    base = fake_analysis()
+
+    def analyse(profile, conditions, table=None):
+        cd = 0.30 if conditions.speed < 26 else 0.28     # the variant (100 km/h) has the lower Cd
+        area = 2.0
+        q = 0.5 * 1.225 * conditions.speed ** 2
+        drag = dataclasses.replace(base.drag, cd=cd, cda=cd * area, force=q * cd * area,
+                                   power=q * cd * area * conditions.speed)
+        return dataclasses.replace(base, conditions=conditions, profile=profile, drag=drag)
+
+    monkeypatch.setattr(cli, "_analyse", analyse)
+    a, b = _project_at(tmp_path, "a.json", 90.0), _project_at(tmp_path, "b.json", 100.0)
+    assert cli.main(["compare", a, b]) == cli.EXIT_OK
+    out = capsys.readouterr().out
+    # by hand: q rises by (100/90)^2 = 1.235, CdA falls by 0.28/0.30: F rises by 15 %
+    assert "but the drag force rises by" in out and "dynamic pressure (speed or air) differs" in out
+    assert "CdA rises" not in out
