@@ -5,7 +5,8 @@ Subcommands::
     profilebench analyse FILE [--image OUT.png|.svg|.pdf] [--csv OUT.csv] [--json OUT.json]
                               [--speed KMH] [--no-ground] [--transition free|turbulent|METRES]
                               [--h-separation H] [--panels N] [--altitude M]
-    profilebench compare BASELINE VARIANT [condition options]
+                              [--area M2 | --width M] [--cp-min CP]
+    profilebench compare BASELINE VARIANT [--same-conditions] [condition options]
     profilebench corners FILE [--smallest] [condition options]
     profilebench import OUTLINE.csv PROJECT.json [--simplify MM] [--units mm|m] [conditions]
     profilebench samples
@@ -169,6 +170,11 @@ def _add_condition_options(p):
                         "format in profilebench/assess/tables.py")
     g.add_argument("--altitude", type=float, metavar="M",
                    help="ISO 2533 geopotential altitude in metres")
+    area = g.add_mutually_exclusive_group()
+    area.add_argument("--area", type=float, metavar="M2",
+                      help="frontal area in m^2 (gives CdA, drag force and power)")
+    area.add_argument("--width", type=float, metavar="M",
+                      help="vehicle width in m: frontal area = width x the profile's height h")
 
 
 class _Parser(argparse.ArgumentParser):
@@ -204,12 +210,18 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--image", metavar="OUT", help="review page image (.png, .svg or .pdf)")
     p.add_argument("--csv", metavar="OUT", help="surface data, one row per panel station")
     p.add_argument("--json", metavar="OUT", help="results as JSON")
+    p.add_argument("--cp-min", type=float, metavar="CP", default=None,
+                   help="lowest Cp of the review page's colour scale (default -3, the same on "
+                        "every page so that pages compare side by side)")
     _add_units_option(p)
     _add_condition_options(p)
 
     p = sub.add_parser("compare", help="compare a variant with a baseline (b minus a)")
     p.add_argument("baseline", help="baseline project file (.json) or outline points (.csv)")
     p.add_argument("variant", help="variant project file (.json) or outline points (.csv)")
+    p.add_argument("--same-conditions", action="store_true",
+                   help="analyse the variant at the baseline's conditions (after the options "
+                        "below), so that only the shape differs")
     _add_units_option(p)
     _add_condition_options(p)
 
@@ -284,7 +296,7 @@ def _conditions(project, args):
 
     changes = {}
     if getattr(args, "speed", None) is not None:
-        changes["speed"] = kmh_to_ms(args.speed)
+        changes["speed"] = kmh_to_ms(_checked_speed_kmh(args.speed))
     if getattr(args, "no_ground", False):
         changes["ground"] = False
     if getattr(args, "transition", None) is not None:
@@ -305,8 +317,63 @@ def _conditions(project, args):
         changes["panels"] = args.panels
     if getattr(args, "altitude", None) is not None:
         changes["altitude"] = args.altitude
+    if getattr(args, "area", None) is not None:
+        changes.update(frontal_area=_checked_positive("--area", args.area, "m^2"), width=None)
+    if getattr(args, "width", None) is not None:
+        changes.update(width=_checked_positive("--width", args.width, "m"), frontal_area=None)
     cond = project.conditions
     return cond.replace(**changes) if changes else cond
+
+
+def _checked_speed_kmh(kmh):
+    """The --speed value (km/h), refused in km/h when the conditions would refuse it in m/s."""
+    import math
+
+    from profilebench.assess.conditions import SPEED_MAX
+
+    top = SPEED_MAX * 3.6
+    if not (math.isfinite(kmh) and 0.0 < kmh <= top):
+        raise InputError(f"--speed {kmh:g} km/h is outside (0, {top:g}] km/h; give a value "
+                         f"in km/h in that range (above {top:g} km/h the air's "
+                         "compressibility matters)")
+    return kmh
+
+
+def _checked_positive(option, value, unit):
+    import math
+
+    if not (math.isfinite(value) and value > 0.0):
+        raise InputError(f"{option} {value:g}: give a positive number in {unit}")
+    return value
+
+
+#: condition fields and how ``compare`` names them when they differ
+_CONDITION_WORDS = {
+    "speed": ("speed", lambda v: f"{v * 3.6:.1f} km/h"),
+    "altitude": ("altitude", lambda v: f"{v:g} m"),
+    "temperature_offset": ("temperature offset", lambda v: f"{v:+g} K"),
+    "density": ("density", lambda v: "ISO 2533" if v is None else f"{v:g} kg/m^3"),
+    "kinematic_viscosity": ("viscosity", lambda v: "ISO 2533" if v is None else f"{v:g} m^2/s"),
+    "ground": ("ground", lambda v: "on" if v else "off"),
+    "transition": ("transition", lambda v: v if isinstance(v, str) else f"at s = {v:g} m"),
+    "h_separation": ("H separation", lambda v: f"{v:g}"),
+    "frontal_area": ("frontal area", lambda v: "none" if v is None else f"{v:g} m^2"),
+    "width": ("width", lambda v: "none" if v is None else f"{v:g} m"),
+    "model_scale": ("model scale", lambda v: f"{v:g}"),
+    "tunnel_speed": ("tunnel speed", lambda v: "none" if v is None else f"{v * 3.6:.1f} km/h"),
+    "base_pressure": ("base pressure", lambda v: f"{v:g}"),
+    "panels": ("panels", lambda v: f"{v}"),
+}
+
+
+def conditions_differences(a, b):
+    """'name: a vs b' for each condition in which ``a`` and ``b`` differ."""
+    out = []
+    for field, (word, fmt) in _CONDITION_WORDS.items():
+        va, vb = getattr(a, field), getattr(b, field)
+        if va != vb:
+            out.append(f"{word} {fmt(va)} vs {fmt(vb)}")
+    return out
 
 
 def _user_table(args):
@@ -332,14 +399,22 @@ def _check_success(analysis, what):
 def _print_summary(analysis, out):
     from profilebench.plotting.summary import corner_rows, format_table, summary_rows, CORNER_COLUMNS
 
+    from profilebench.io.export import run_record
+    from profilebench.plotting.summary import (MARGIN_DEFINITION, corner_disagreements,
+                                               corner_notes, run_lines)
+
+    for line in run_lines(run_record(analysis)):
+        print(line, file=out)
+    print("", file=out)
     print(format_table(("quantity", "value", "unit / note"), summary_rows(analysis)), file=out)
     print("", file=out)
     print("Corners", file=out)
     print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
-    for c in analysis.corners:
-        if c.disagreement:
-            print(f"  {c.label or 'node %d' % c.node}: {c.disagreement}", file=out)
-    notes = list(analysis.warnings) + (list(analysis.drag.notes) if analysis.drag else [])
+    for name, text in corner_disagreements(analysis):
+        print(f"  {name}: {text}", file=out)
+    print(f"  ({MARGIN_DEFINITION})", file=out)
+    notes = corner_notes(analysis) + list(analysis.warnings)
+    notes += list(analysis.drag.notes) if analysis.drag else []
     if notes:
         print("", file=out)
         for n in notes:
@@ -362,6 +437,10 @@ def _cmd_analyse(args, out):
         from profilebench.plotting.review import image_format
 
         image_format(args.image)  # bad extension: bad input, before any work
+    if args.cp_min is not None:
+        from profilebench.plotting.profile_view import check_cp_min
+
+        check_cp_min(args.cp_min)
     for opt, ext in (("csv", ".csv"), ("json", ".json")):
         value = getattr(args, opt)
         if value and Path(value).suffix.lower() != ext:
@@ -378,7 +457,19 @@ def _cmd_analyse(args, out):
     if args.image:
         from profilebench.plotting.review import review_figure, save_figure
 
-        fig = review_figure(analysis, baseline=project.baseline)
+        from profilebench.plotting.profile_view import CP_FLOOR
+
+        baseline = project.baseline
+        if baseline is not None:
+            # analysed at the same conditions, so that the page gives its Cd and the deltas
+            base = _analyse(baseline, cond, table=_user_table(args))
+            if base.success:
+                baseline = base
+            else:
+                print(f"note: the baseline was not analysed ({base.message}); the page shows "
+                      "its outline only", file=out)
+        fig = review_figure(analysis, baseline=baseline,
+                            cp_min=CP_FLOOR if args.cp_min is None else args.cp_min)
         save_figure(fig, args.image)
         print(f"\nimage written: {args.image}", file=out)
     if args.csv:
@@ -395,9 +486,12 @@ def _cmd_compare(args, out):
     from profilebench.assess.compare import compare
 
     pa, pb = _load(args.baseline, args), _load(args.variant, args)
-    a = _analyse(pa.profile, _conditions(pa, args), table=_user_table(args))
+    cond_a = _conditions(pa, args)
+    cond_b = cond_a if args.same_conditions else _conditions(pb, args)
+    differ = conditions_differences(cond_a, cond_b)
+    a = _analyse(pa.profile, cond_a, table=_user_table(args))
     _check_success(a, f"baseline {args.baseline}")
-    b = _analyse(pb.profile, _conditions(pb, args), table=_user_table(args))
+    b = _analyse(pb.profile, cond_b, table=_user_table(args))
     _check_success(b, f"variant {args.variant}")
     c = compare(a, b)
     fmt = lambda v, f, scale=1.0: "n/a" if v is None else format(v * scale, f)  # noqa: E731
@@ -423,6 +517,12 @@ def _cmd_compare(args, out):
         print("No corner changed verdict.", file=out)
     for w in c.warnings:
         print(f"WARNING: {w}", file=out)
+    if differ:
+        print(f"WARNING: the conditions differ ({'; '.join(differ)}): the deltas mix the change "
+              "of shape with the change of conditions. Use --same-conditions to analyse the "
+              "variant at the baseline's conditions.", file=out)
+    elif args.same_conditions:
+        print("Both analysed at the baseline's conditions.", file=out)
     _caution(out)
     return EXIT_OK
 

@@ -1,7 +1,8 @@
 """Regenerate the README screenshots of the editor into docs/images/ (offscreen Qt).
 
 Shows the default sample analysed, a corner selected and a baseline pinned (the current profile
-has that corner's radius changed, so the difference is visible). Run:
+has that corner's radius changed, so the difference is visible), and the review page the editor
+exports of it. Run:
 ``python tools/screenshots.py``.
 """
 
@@ -69,6 +70,8 @@ def main() -> int:
     _settle(app, w)
     w.grab().save(str(OUT / "editor_baseline_corner.png"))
     w.canvas.grab().save(str(OUT / "canvas_detail.png"))
+    # the review page as the editor exports it (with the pinned baseline's Cd and deltas)
+    w.export_image(OUT / "review_page.png")
     w.plots.setCurrentIndex(1)
     _settle(app, w, "bl")
     w.plots.grab().save(str(OUT / "boundary_layer_plots.png"))

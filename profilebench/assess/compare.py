@@ -66,10 +66,15 @@ def compare(a, b):
     d_force = db.force - da.force if both_area else None
     d_power = db.power - da.power if both_area else None
     warnings = []
-    if delta < 0 and both_area and (d_cda > 0 or d_force > 0):
+    if delta < 0 and both_area and d_cda > 0:
         warnings.append(
             f"Cd falls by {-delta:.4f} ({pct:+.1f}%) but CdA rises by {d_cda:+.4f} m^2 "
             f"and the drag force by {d_force:+.1f} N: the larger frontal area outweighs the lower Cd")
+    elif delta < 0 and both_area and d_force > 0:
+        # CdA fell too: the force rises with the dynamic pressure (speed or air), not the area
+        warnings.append(
+            f"Cd falls by {-delta:.4f} ({pct:+.1f}%) and CdA by {-d_cda:.4f} m^2, but the drag "
+            f"force rises by {d_force:+.1f} N: the dynamic pressure (speed or air) differs")
     if not both_area:
         warnings.append("no frontal area or width given for both: CdA, force and power not compared")
     if pct != pct:

@@ -31,7 +31,8 @@ from profilebench.editor.view import ViewTransform, fit_view
 from profilebench.errors import ProfileBenchError
 from profilebench.gui.refcount_guard import restore_none_refcount
 from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
-from profilebench.plotting.profile_view import bubbles, corner_label
+from profilebench.plotting.labels import FRONT_FRACTION, place_boxes
+from profilebench.plotting.profile_view import CP_FLOOR, bubbles, check_cp_min, corner_label
 from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
                                          OKABE_ITO, SEPARATED_COLOUR)
 
@@ -39,6 +40,28 @@ __all__ = ["ProfileCanvas", "outline_points"]
 
 _CMAP = colormaps[CP_COLORMAP]
 _CP_BINS = 64          # the Cp band is drawn with this many pen colours
+#: a label over the front end costs this many px of leader on the canvas (less than on the
+#: page: the canvas has no room in front of the nose, and long leaders cross the drawing)
+CANVAS_FRONT_COST = 150.0
+#: the scale bar's length is 1, 2 or 5 x 10^k mm, as near this many pixels as those allow
+SCALE_BAR_PX = 110.0
+
+
+def scale_bar_length(scale_px_per_m: float, target_px: float = SCALE_BAR_PX) -> float:
+    """A round scale-bar length (m): 1, 2 or 5 x 10^k mm, the one nearest ``target_px`` at
+    ``scale_px_per_m`` (in log terms), so the bar is between about 0.6 and 1.6 x target."""
+    if not (scale_px_per_m > 0 and math.isfinite(scale_px_per_m)):
+        return 0.0
+    want_mm = 1000.0 * target_px / scale_px_per_m
+    k = math.floor(math.log10(want_mm))
+    options = [m * 10.0 ** e for e in (k - 1, k, k + 1) for m in (1.0, 2.0, 5.0)]
+    best = min(options, key=lambda mm: abs(math.log(mm / want_mm)))
+    return best / 1000.0
+
+
+def _length_text(metres: float) -> str:
+    mm = metres * 1000.0
+    return f"{mm / 1000.0:g} m" if mm >= 1000.0 else f"{mm:g} mm"
 
 
 def _remember(cache: dict, profile, result):
@@ -144,6 +167,7 @@ class ProfileCanvas(QWidget):
         self.stale = False
         self.grid: float | None = None  # snapping grid (m), None: off
         self.show_cp = True
+        self.cp_min = CP_FLOOR          # the Cp colour scale's lowest value (fixed, user-set)
         self.cp_offset_curve = False
         self.picking = False
         self._outline_cache: dict = {}
@@ -160,6 +184,8 @@ class ProfileCanvas(QWidget):
         self._overlay = None            # (key, under image, over image)
         self.overlay_renders = 0
         self._label_rects: list = []
+        self.scale_bar = (0.0, 0.0)     # (length m, length px) of the last scale bar drawn
+        self.radius_readout = None      # the selected corner's "r ... mm" box (px) last drawn
         # outlines are built in a child process of their own (never behind an analysis, and
         # their Python-heavy building does not share the interpreter lock with the GUI thread)
         # (its child starts now: started after the first analysis, it was still importing during
@@ -237,7 +263,7 @@ class ProfileCanvas(QWidget):
         xmax, ymax = pts.max(axis=0)
         ymin = min(ymin, 0.0)
         # wide margin: room for the corner labels and the legend beside the outline
-        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=max(60, 0.14 * self.width()))
+        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=max(60, 0.2 * self.width()))
         self._fitted = True
         self.update()
 
@@ -434,7 +460,13 @@ class ProfileCanvas(QWidget):
         return n if area2 > 0 else -n   # counter-clockwise: the tangent turned clockwise
 
     def _cp_norm(self, cp):
-        return TwoSlopeNorm(vmin=min(float(cp.min()), -0.1), vcenter=0.0, vmax=1.0)
+        # one fixed scale (as on the review page), so that outlines compare by colour
+        return TwoSlopeNorm(vmin=float(self.cp_min), vcenter=0.0, vmax=1.0)
+
+    def set_cp_min(self, cp_min: float):
+        """Set the Cp colour scale's lowest value (InputError outside the allowed range)."""
+        self.cp_min = check_cp_min(cp_min)
+        self.update()
 
     def _draw_cp(self, qp: QPainter, alpha: float):
         st = self._stations()
@@ -537,7 +569,39 @@ class ProfileCanvas(QWidget):
             if e.kind in EVENT_STYLES:
                 self._draw_marker(qp, e.kind, QPointF(*self.view.to_screen(e.x, e.y)), alpha)
 
+    def _label_obstacles(self):
+        """(outline, hatched polygons, ground polygons, markers) in screen px for the labels."""
+        st = self._stations()
+        if st is None:
+            return None
+        pts = st[0]
+        v = self.view
+        to_px = lambda xy: np.column_stack([v.offset_x + v.scale * xy[:, 0],  # noqa: E731
+                                            v.offset_y - v.scale * xy[:, 1]])
+        outline = to_px(pts)
+        hatched = []
+        mask = getattr(getattr(self.analysis, "flow", None), "separated", None)
+        if mask is not None and len(mask) == len(pts) and np.any(mask):
+            off = pts + self._outward(pts) * (22.0 / v.scale)
+            idx = np.flatnonzero(np.asarray(mask, bool))
+            n = len(pts)
+            for run in np.split(idx, np.flatnonzero(np.diff(idx) > 1) + 1):
+                ends = np.append(run, (run[-1] + 1) % n)
+                hatched.append(to_px(np.vstack([pts[ends], off[ends][::-1]])))
+        ground = []
+        if getattr(self.state.conditions, "ground", False):
+            _, sy = v.to_screen(0, 0)
+            # the hatched strip and its caption below it
+            ground.append(np.array([(0, sy - 2), (self.width(), sy - 2), (self.width(), sy + 30),
+                                    (0, sy + 30)], float))
+        events = tuple(getattr(self.analysis, "events", ()) or ())
+        markers = np.array([v.to_screen(e.x, e.y) for e in events], float).reshape(-1, 2)
+        return outline, hatched, ground, markers
+
     def _draw_corner_labels(self, qp: QPainter, alpha: float):
+        """Corner labels placed as on the review page (profilebench.plotting.labels): outside
+        the outline, off the ground and the separated-flow band, clear of each other and of
+        the front 30 % where there is room, each with a leader line to its corner."""
         corners = getattr(self.analysis, "corners", ()) or ()
         self._label_rects = []
         if not corners:
@@ -546,36 +610,36 @@ class ProfileCanvas(QWidget):
         font.setPointSizeF(max(font.pointSizeF() - 1, 7))
         qp.setFont(font)
         fm = QFontMetricsF(font)
-        placed = []
-        cx_all = np.mean([c.x for c in corners])
-        cy_all = np.mean([c.y for c in corners])
-        for c in corners:
-            text = corner_label(c)
-            sx, sy = self.view.to_screen(c.x, c.y)
-            cx, cy = self.view.to_screen(cx_all, cy_all)
-            d = np.array([sx - cx, sy - cy])
-            d = d / max(np.hypot(*d), 1e-9)
+        texts = [corner_label(c) for c in corners]
+        sizes = []
+        for text in texts:
             lines = text.splitlines() or [text]
-            w = max(fm.horizontalAdvance(t) for t in lines) + 8
-            h = fm.height() * len(lines) + 4
-            x = sx + d[0] * 26 - (w if d[0] < 0 else 0)
-            y = sy + d[1] * 26 - (h if d[1] < 0 else 0)
-            # keep the label on the canvas (drawing position only)
-            x = min(max(x, 2.0), self.width() - w - 2.0)
-            y = min(max(y, 2.0), self.height() - h - 2.0)
-            rect = QRectF(x, y, w, h)
-            for _ in range(6):
-                if not any(rect.intersects(r) for r in placed):
-                    break
-                rect.translate(0, h + 2 if d[1] >= 0 else -(h + 2))
-            placed.append(rect)
+            sizes.append((max(fm.horizontalAdvance(t) for t in lines) + 8,
+                          fm.height() * len(lines) + 4))
+        anchors = np.array([self.view.to_screen(c.x, c.y) for c in corners], float)
+        obstacles = self._label_obstacles()
+        if obstacles is None:
+            return
+        outline, hatched, ground, markers = obstacles
+        xmin, xmax = float(outline[:, 0].min()), float(outline[:, 0].max())
+        front_x = xmin + FRONT_FRACTION * (xmax - xmin)
+        near = outline[outline[:, 0] <= front_x]
+        front = (xmin - 10.0, float(near[:, 1].min()) - 10.0, front_x, float(near[:, 1].max()) + 10.0)
+        # on the canvas a lower corner's label may sit below the thin ground strip, its leader
+        # crossing the strip (the page keeps leaders off its deep ground band)
+        placed, _, _ = place_boxes((0.0, 0.0, float(self.width()), float(self.height())), sizes,
+                                   anchors, outline_px=outline, hatched_px=hatched + ground,
+                                   markers_px=markers, front_px=front,
+                                   front_cost=CANVAS_FRONT_COST)
+        for c, text, (sx, sy), (box, end) in zip(corners, texts, anchors, placed):
+            rect = QRectF(QPointF(box[0], box[1]), QPointF(box[2], box[3]))
             self._label_rects.append(QRectF(rect))
             sep = getattr(c.verdict, "separated", False)
             colour = QColor(OKABE_ITO["vermillion"]) if sep else QColor(OKABE_ITO["bluish_green"])
             if c.node == self.selected:
                 colour = QColor(OKABE_ITO["blue"])
-            qp.setPen(QPen(_qcolor("#606060", 0.6 * alpha), 0.8))
-            qp.drawLine(QPointF(sx, sy), rect.center())
+            qp.setPen(QPen(_qcolor("#606060", 0.7 * alpha), 0.8))
+            qp.drawLine(QPointF(sx, sy), QPointF(float(end[0]), float(end[1])))
             qp.setPen(QPen(colour, 1.6 if c.node == self.selected else 1.0))
             qp.setBrush(QColor(255, 255, 255, int(225 * alpha)))
             qp.drawRoundedRect(rect, 3, 3)
@@ -610,8 +674,17 @@ class ProfileCanvas(QWidget):
             qp.drawPath(path)
             qp.restore()
             r = prof.nodes[self.selected].radius
+            # on a white box, over the corner labels: never hidden under one
+            text = f"r {r * 1000:.0f} mm"
+            fm = QFontMetricsF(qp.font())
+            box = QRectF(hx + 7, hy - 6 - fm.ascent() - 2, fm.horizontalAdvance(text) + 4,
+                         fm.height() + 2)
+            qp.setPen(QPen(QColor(OKABE_ITO["blue"]), 0.8))
+            qp.setBrush(QColor(255, 255, 255, 240))
+            qp.drawRect(box)
             qp.setPen(QColor(OKABE_ITO["blue"]))
-            qp.drawText(QPointF(hx + 9, hy - 6), f"r {r * 1000:.0f} mm")
+            qp.drawText(QPointF(hx + 9, hy - 6), text)
+            self.radius_readout = box
 
     def _draw_readouts(self, qp: QPainter, pts):
         xmin, ymin = pts.min(axis=0)
@@ -620,8 +693,11 @@ class ProfileCanvas(QWidget):
                  f"frontal height {1000 * (ymax - ymin):.0f} mm",
                  f"ground clearance {1000 * ymin:.0f} mm"]
         fm = QFontMetricsF(self.font())
-        w = max(fm.horizontalAdvance(t) for t in lines) + 12
-        h = fm.height() * len(lines) + 8
+        bar_m = scale_bar_length(self.view.scale)
+        bar_px = bar_m * self.view.scale
+        bar_text = _length_text(bar_m)
+        w = max([fm.horizontalAdvance(t) for t in lines] + [bar_px + 10 + fm.horizontalAdvance(bar_text)]) + 12
+        h = fm.height() * (len(lines) + 1) + 12
         rect = QRectF(8, 8, w, h)
         qp.setPen(QColor(180, 180, 180))
         qp.setBrush(QColor(255, 255, 255, 220))
@@ -629,6 +705,15 @@ class ProfileCanvas(QWidget):
         qp.setPen(QColor(20, 20, 20))
         for k, t in enumerate(lines):
             qp.drawText(QPointF(14, 8 + fm.ascent() + 4 + k * fm.height()), t)
+        # the scale bar: a round length at the current zoom, end ticks, its length beside it
+        y = 8 + 4 + len(lines) * fm.height() + fm.height() / 2 + 2
+        qp.setPen(QPen(QColor(20, 20, 20), 2.0))
+        qp.drawLine(QPointF(14, y), QPointF(14 + bar_px, y))
+        qp.setPen(QPen(QColor(20, 20, 20), 1.2))
+        for x in (14, 14 + bar_px):
+            qp.drawLine(QPointF(x, y - 4), QPointF(x, y + 4))
+        qp.drawText(QPointF(14 + bar_px + 8, y + fm.ascent() / 2 - 1), bar_text)
+        self.scale_bar = (bar_m, bar_px)
 
     def _draw_legend(self, qp: QPainter):
         st = self._stations()
@@ -699,7 +784,7 @@ class ProfileCanvas(QWidget):
     # ----------------------------------------------------------------- overlay cache
     def _overlay_key(self):
         v = self.view
-        return (id(self.analysis), self.stale, self.show_cp, self.cp_offset_curve, self.selected,
+        return (id(self.analysis), self.stale, self.show_cp, self.cp_min, self.cp_offset_curve, self.selected,
                 getattr(self.state, "baseline", None) is not None, v.scale, v.offset_x, v.offset_y,
                 self.width(), self.height(), self.devicePixelRatioF())
 
@@ -725,9 +810,9 @@ class ProfileCanvas(QWidget):
             self.overlay_runner.request(key, self.analysis, self._scene())
         if o is None:
             return None, None, None
-        if o[0][6:9] == key[6:9]:
+        if o[0][7:10] == key[7:10]:
             return o[2], o[3], None
-        s0, ox0, oy0 = o[0][6:9]
+        s0, ox0, oy0 = o[0][7:10]
         k = self.view.scale / s0
         return o[2], o[3], (k, self.view.offset_x - k * ox0, self.view.offset_y - k * oy0)
 
@@ -848,6 +933,7 @@ class _OverlayScene:
         self.state = canvas.state
         self.stale = canvas.stale
         self.show_cp = canvas.show_cp
+        self.cp_min = canvas.cp_min
         self.cp_offset_curve = canvas.cp_offset_curve
         self.selected = canvas.selected
         self._size = (canvas.width(), canvas.height())
@@ -880,5 +966,6 @@ class _OverlayScene:
     _draw_marker = ProfileCanvas._draw_marker
     _draw_events = ProfileCanvas._draw_events
     _draw_corner_labels = ProfileCanvas._draw_corner_labels
+    _label_obstacles = ProfileCanvas._label_obstacles
     _draw_legend = ProfileCanvas._draw_legend
     _legend_position = ProfileCanvas._legend_position

@@ -31,6 +31,7 @@ from profilebench.gui.node_panel import NodePanel
 from profilebench.gui.results_panels import CornerTable, PlotPanel, SummaryPanel
 from profilebench.gui.undo import push_edit
 from profilebench.gui.child_process import call
+from profilebench.gui.work_progress import WorkProgress
 from profilebench.gui.worker import AnalysisRunner, ProcessTaskRunner
 
 __all__ = ["MainWindow"]
@@ -45,7 +46,15 @@ MAX_RECENT = 8
 GIL_SWITCH_INTERVAL_S = 0.001
 AUTOSAVE_MS = 60000         # default interval of the recovery copy
 AUTOSAVE_ENV = "PROFILEBENCH_AUTOSAVE_MS"
+LONG_WORK_MS = 600          # work running longer shows the status bar's busy bar and Cancel
 PLOT_INTERVAL_MS = 200      # plots are rendered at most this often, and not during a drag
+def _same_analysis(a, b) -> bool:
+    """Do document states ``a`` and ``b`` have the same analysis? Only the profile and the
+    conditions enter it: pinning a baseline, an underlay or the selection leave it current."""
+    return (a is not None and b is not None and a.profile == b.profile
+            and a.conditions == b.conditions)
+
+
 BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px solid #e0a080;"
 BANNER_INFO = "background: #fff6d5; color: #5a4500; padding: 4px; border: 1px solid #e0d090;"
 
@@ -145,6 +154,8 @@ class MainWindow(QMainWindow):
         self.resizeDocks([self._docks["Flow conditions"]], [300], Qt.Horizontal)
         self.resizeDocks([self._docks["Drag summary"]], [330], Qt.Horizontal)
         self.resizeDocks([self._docks["Corners"]], [250], Qt.Vertical)
+        # the corner table's nine columns get the larger share of the bottom row
+        self.resizeDocks([self._docks["Corners"], self._docks["Plots"]], [900, 600], Qt.Horizontal)
 
         self._plot_timer = QTimer(self)
         self._plot_timer.setSingleShot(True)
@@ -154,8 +165,14 @@ class MainWindow(QMainWindow):
         from profilebench.gui.refcount_guard import install
 
         self._refcount_timer = install(self)
+        self.progress = WorkProgress()
+        self.statusBar().addPermanentWidget(self.progress)
+        self._progress_timer = QTimer(self)
+        self._progress_timer.setSingleShot(True)
+        self._progress_timer.timeout.connect(self._long_analysis)
         self._connect()
         self._build_menus()
+        self._load_cp_scale()
         self.statusBar().showMessage("ready")
         self.resize(1500, 950)
         self.startup_problems = []          # what went wrong at start-up, told once it is shown
@@ -216,6 +233,7 @@ class MainWindow(QMainWindow):
         self.baseline_runner.failed.connect(lambda g, m: self._show_banner(f"baseline analysis failed: {m}", True))
         self.search_runner.finished.connect(self._search_finished)
         self.search_runner.failed.connect(self._search_failed)
+        self.progress.cancelled.connect(self._cancel_work)
         self.undo_stack.cleanChanged.connect(self._clean_changed)
 
     def _action(self, menu, text, slot, shortcut=None, checkable=False):
@@ -263,6 +281,7 @@ class MainWindow(QMainWindow):
         self.cp_action = self._action(v, "Cp colour band", self._toggle_cp, checkable=True)
         self.cp_action.setChecked(True)
         self.offset_action = self._action(v, "Cp offset curve", self._toggle_offset, checkable=True)
+        self._action(v, "Cp colour scale…", self._ask_cp_scale)
         u = bar.addMenu("&Underlay")
         self._action(u, "Load image…", self._ask_underlay)
         self._action(u, "Place by two reference points…", self.start_underlay_picking)
@@ -385,7 +404,7 @@ class MainWindow(QMainWindow):
         try:
             check_writable(path)        # a folder that refuses files: a message, not an OSError
             baseline = self.baseline_analysis or self.document.baseline
-            fig = review_figure(self.analysis, baseline=baseline)
+            fig = review_figure(self.analysis, baseline=baseline, cp_min=self.canvas.cp_min)
             save_figure(fig, path)
         except ProfileBenchError as exc:
             self._show_banner(f"export failed: {exc}", True)
@@ -410,7 +429,11 @@ class MainWindow(QMainWindow):
     # ------------------------------------------------------------------ edits
     def push(self, edit) -> bool:
         """Apply an editor edit as one undo step (nothing recorded if it changes nothing)."""
-        return push_edit(self.undo_stack, self.document, edit)
+        pushed = push_edit(self.undo_stack, self.document, edit)
+        if pushed:
+            # the inspector shows the node where the edit left it (a drag's preview did not update it)
+            self.node_panel.set_node(self.document.profile, self.document.selection.node)
+        return pushed
 
     def _try(self, make_edit) -> bool:
         """Build an edit and push it; a refused edit shows its reason in the banner."""
@@ -469,7 +492,7 @@ class MainWindow(QMainWindow):
         self._shown_state = state
         sel = self.document.selection.node
         self.canvas.set_state(state, sel)
-        self.canvas.set_stale(self.analysis_state is not None and self.analysis_state != state)
+        self.canvas.set_stale(self.analysis_state is not None and not _same_analysis(self.analysis_state, state))
         if prev is None or prev.conditions != state.conditions or force:
             self.conditions_panel.set_conditions(state.conditions)
         if not self.canvas.dragging:
@@ -503,6 +526,61 @@ class MainWindow(QMainWindow):
     def _request_analysis(self, state, searches):
         generation = self.runner.request(state.profile, state.conditions, searches)
         self._requested[generation] = state
+        if not self.canvas.dragging and not self._progress_timer.isActive():
+            self._progress_timer.start(LONG_WORK_MS)
+
+    # ------------------------------------------------------------------ long work: progress, cancel
+    def _long_analysis(self):
+        """An analysis still running after LONG_WORK_MS: the busy bar and Cancel."""
+        if self.runner.busy and not self.canvas.dragging and self.progress.kind != "search":
+            self.progress.start("analysis", "analysing…")
+
+    def _cancel_work(self, kind):
+        if kind == "search":
+            self.search_runner.cancel_pending()     # its result is never shown
+            self.searches.pop(self._search_node, None)
+            self.corner_table.message.setText("search cancelled")
+            if self.analysis is not None:
+                self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+        else:
+            self.runner.cancel_pending()
+            self._requested = {}
+            self.canvas.set_stale(self.analysis is not None)
+            self._show_banner("analysis cancelled: the results shown are for an earlier outline "
+                              "(stale); the next edit analyses again", False)
+        self.statusBar().showMessage(f"{kind} cancelled", 5000)
+
+    # ------------------------------------------------------------------ Cp colour scale
+    def _load_cp_scale(self):
+        value = self.settings.value("cp_scale_min", None)
+        if value is not None:
+            try:
+                self.canvas.set_cp_min(float(value))
+            except (ProfileBenchError, TypeError, ValueError):
+                pass                     # a bad stored value: the default scale
+
+    def set_cp_scale(self, cp_min) -> bool:
+        """Set the lowest Cp of the colour scale (canvas and exported pages), remembered."""
+        try:
+            self.canvas.set_cp_min(cp_min)
+        except ProfileBenchError as exc:
+            self._show_banner(str(exc), True)
+            return False
+        self.settings.setValue("cp_scale_min", self.canvas.cp_min)
+        self.statusBar().showMessage(f"Cp colour scale from {self.canvas.cp_min:g} to +1", 5000)
+        return True
+
+    def _ask_cp_scale(self):
+        text, ok = QInputDialog.getText(
+            self, "Cp colour scale", "Lowest Cp of the colour scale (the same on every page; "
+            "default -3):", text=f"{self.canvas.cp_min:g}")
+        if ok:
+            try:
+                value = parse_number(text, "lowest Cp")
+            except ProfileBenchError as exc:
+                self._show_banner(str(exc), True)
+                return
+            self.set_cp_scale(value)
 
     def _refine_provisional(self, *_):
         """After a drag: a shown analysis of the current outline with provisional corner
@@ -510,7 +588,7 @@ class MainWindow(QMainWindow):
         keep a nearby outline's smallest attached radius)."""
         a = self.analysis
         if (a is not None and a.provisional and not self.canvas.dragging and not self.runner.busy
-                and self.analysis_state == self.document.state):
+                and _same_analysis(self.analysis_state, self.document.state)):
             self._request_analysis(self.document.state, "run")
             self.statusBar().showMessage("searching the smallest attached radius of the corner "
                                          "bubbles for the final outline…")
@@ -535,7 +613,7 @@ class MainWindow(QMainWindow):
         self.lagging_shown += 1
         # a failure shown earlier was for an older outline than this one: _show_analysis hides
         # its banner
-        self._show_analysis(analysis, state, seconds, stale=state != self.document.state)
+        self._show_analysis(analysis, state, seconds, stale=not _same_analysis(state, self.document.state))
         self.statusBar().showMessage(f"Cd {analysis.drag.cd:.4f} for an earlier position "
                                      f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
                                      "analysed")
@@ -553,6 +631,8 @@ class MainWindow(QMainWindow):
 
     def _analysis_finished(self, generation, analysis, seconds):
         self.results_received += 1
+        if not self.runner.busy:
+            self.progress.finish("analysis")
         self._forget_requests(generation)
         state = self._shown_state
         if analysis is None or not getattr(analysis, "success", False):
@@ -595,6 +675,8 @@ class MainWindow(QMainWindow):
 
     def _analysis_failed(self, generation, message):
         self.results_received += 1
+        if not self.runner.busy:
+            self.progress.finish("analysis")
         self._forget_requests(generation)
         self._show_banner(f"Analysis error (logged; last good result kept, marked stale): {message}", True)
         self.canvas.set_stale(self.analysis is not None)
@@ -620,7 +702,7 @@ class MainWindow(QMainWindow):
     def results_current(self) -> bool:
         """True when the shown analysis is for the document's current state."""
         return (not self.runner.busy and self.analysis is not None
-                and self.analysis_state == self.document.state)
+                and _same_analysis(self.analysis_state, self.document.state))
 
     # ------------------------------------------------------------------ corner radius search
     def find_smallest_radius(self, node):
@@ -638,6 +720,7 @@ class MainWindow(QMainWindow):
         self._search_state = self.document.state
         self.search_runner.request(self.document.profile, self.document.conditions, node)
         self.corner_table.message.setText(f"searching the smallest attached radius at node {node}…")
+        self.progress.start("search", f"searching the smallest attached radius at node {node}…")
         if self.analysis is not None:
             self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
 
@@ -651,7 +734,8 @@ class MainWindow(QMainWindow):
         return next((r for r in getattr(a, "radius_searches", ()) if r.node == node), None)
 
     def _search_finished(self, generation, result, seconds):
-        if self._search_state != self.document.state:
+        self.progress.finish("search")
+        if not _same_analysis(self._search_state, self.document.state):
             self.corner_table.message.setText("the profile changed during the search; search again")
             self.searches.pop(self._search_node, None)
         else:
@@ -661,6 +745,7 @@ class MainWindow(QMainWindow):
             self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
 
     def _search_failed(self, generation, message):
+        self.progress.finish("search")
         self.searches.pop(self._search_node, None)
         self.corner_table.message.setText(f"search failed (logged): {message}")
 

@@ -18,7 +18,7 @@ from profilebench.gui.plot_render import render_plot_rgba, warm_up
 from profilebench.gui.worker import ProcessTaskRunner
 
 from profilebench.plotting import summary_rows
-from profilebench.plotting.summary import corner_rows
+from profilebench.plotting.summary import MARGIN_DEFINITION, corner_notes, corner_rows
 
 __all__ = ["CornerTable", "SummaryPanel", "PlotPanel", "CORNER_HEADER", "LIFT_NOTE",
            "render_plot", "set_table_cells"]
@@ -55,8 +55,25 @@ def set_table_cells(table: QTableWidget, rows, style=None) -> int:
         table.setUpdatesEnabled(True)
     return changed
 
-CORNER_HEADER = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "margin", "table verdict",
-                 "smallest attached r (mm)", "ΔCd")
+CORNER_HEADER = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "sep. margin",
+                 "table verdict", "smallest r (mm)", "ΔCd")
+#: header tool tips of the corner table
+CORNER_TIPS = {
+    5: MARGIN_DEFINITION,
+    7: "the smallest radius that keeps the flow attached at these conditions (Find smallest "
+       "attached radius)",
+    8: "the corner's drag correction from the r/t table",
+}
+#: widest the corner-name column starts (px); the full name is in the cell's tool tip
+NAME_COLUMN_PX = 190
+VERDICT_COLUMN_PX = 170
+
+
+def _compact_rows(table: QTableWidget):
+    """Rows as tall as one line of text (a dock at 1500 x 950 shows more of them)."""
+    fm = table.fontMetrics()
+    table.verticalHeader().setDefaultSectionSize(fm.height() + 6)
+    table.verticalHeader().setMinimumSectionSize(fm.height() + 2)
 
 
 class CornerTable(QWidget):
@@ -79,19 +96,27 @@ class CornerTable(QWidget):
         self.table.setEditTriggers(QAbstractItemView.NoEditTriggers)
         self.table.verticalHeader().setVisible(False)
         self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Interactive)
+        self.table.setTextElideMode(Qt.ElideRight)
+        for k, tip in CORNER_TIPS.items():
+            self.table.horizontalHeaderItem(k).setToolTip(tip)
+        _compact_rows(self.table)
         self.table.itemSelectionChanged.connect(self._selection_changed)
         self.search_button = QPushButton("Find smallest attached radius")
         self.search_button.clicked.connect(self._search)
         self.margin = QLineEdit("20")
         self.margin.setMaximumWidth(60)
-        self.margin.setToolTip("margin added to the smallest attached radius, in %")
-        self.apply_button = QPushButton("Set radius to smallest + margin")
+        self.margin.setToolTip("radius allowance: per cent added to the smallest attached radius "
+                               "(not the separation margin of the table)")
+        self.apply_button = QPushButton("Set radius to smallest + allowance")
         self.apply_button.clicked.connect(self._apply)
         self.message = QLabel("")
         self.message.setWordWrap(True)
+        self.notes = QLabel("")       # what every corner shares, said once
+        self.notes.setWordWrap(True)
+        self.notes.setStyleSheet("color: #5a4500;")
         buttons = QHBoxLayout()
         buttons.addWidget(self.search_button)
-        buttons.addWidget(QLabel("margin (%)"))
+        buttons.addWidget(QLabel("radius allowance (%)"))
         buttons.addWidget(self.margin)
         buttons.addWidget(self.apply_button)
         buttons.addStretch(1)
@@ -99,6 +124,7 @@ class CornerTable(QWidget):
         layout.setContentsMargins(2, 2, 2, 2)
         layout.addWidget(self.table)
         layout.addLayout(buttons)
+        layout.addWidget(self.notes)
         layout.addWidget(self.message)
         self._nodes: list[int] = []
         self._updating = False
@@ -135,12 +161,20 @@ class CornerTable(QWidget):
                     if item.data(Qt.UserRole) != sep:
                         item.setData(Qt.UserRole, sep)
                         item.setForeground(Qt.darkRed if sep else self.palette().text())
-                if k == 6 and item.toolTip() != (c.disagreement or ""):
-                    item.setToolTip(c.disagreement or "")
+                tip = {0: item.text(), 4: item.text(), 5: MARGIN_DEFINITION,
+                       6: c.table_verdict + (f"; {c.disagreement}" if c.disagreement else "")}.get(k)
+                if tip is not None and item.toolTip() != tip:
+                    item.setToolTip(tip)
 
             self.last_changed = set_table_cells(self.table, cells_all, style)
             if not same_rows:
                 self.table.resizeColumnsToContents()
+                for k, widest in ((0, NAME_COLUMN_PX), (4, VERDICT_COLUMN_PX)):
+                    if self.table.columnWidth(k) > widest:
+                        self.table.setColumnWidth(k, widest)
+            notes = "; ".join(corner_notes(analysis)) if corners else ""
+            if self.notes.text() != notes:
+                self.notes.setText(notes)
             self.select_node(selected)
         finally:
             self._updating = False
@@ -199,6 +233,11 @@ class SummaryPanel(QWidget):
         self.table.setEditTriggers(QAbstractItemView.NoEditTriggers)
         self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Interactive)
         self.table.horizontalHeader().setStretchLastSection(True)
+        # the note column takes the width that is left and wraps: nothing runs off the side
+        self.table.horizontalHeader().setSectionResizeMode(2, QHeaderView.Stretch)
+        self.table.setHorizontalScrollBarPolicy(Qt.ScrollBarAlwaysOff)
+        self.table.setWordWrap(True)
+        _compact_rows(self.table)
         self.warnings = QLabel("")
         self.warnings.setWordWrap(True)
         self.warnings.setStyleSheet("color: #8a4b00;")
@@ -229,11 +268,15 @@ class SummaryPanel(QWidget):
             if item.data(Qt.UserRole) != bool(stale):
                 item.setData(Qt.UserRole, bool(stale))
                 item.setForeground(grey)
+            if k == 2 and item.toolTip() != item.text():
+                item.setToolTip(item.text())
 
         before = self.table.rowCount()
         set_table_cells(self.table, rows, style)
         if before != len(rows):
-            self.table.resizeColumnsToContents()
+            self.table.resizeColumnToContents(0)
+            self.table.resizeColumnToContents(1)
+            self.table.resizeRowsToContents()
         text = "\n".join(["⚠ " + n for n in notes] + [LIFT_NOTE])
         if self.warnings.text() != text:
             self.warnings.setText(text)

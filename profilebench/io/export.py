@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import csv
 import dataclasses
+import datetime
 import enum
 import json
 import math
@@ -20,7 +21,7 @@ from profilebench.errors import InputError
 from profilebench.io.atomic import atomic_write_text
 
 __all__ = ["SURFACE_COLUMNS", "CAUTION", "write_surface_csv", "write_results_json", "results_to_dict",
-           "surface_table"]
+           "surface_table", "run_record"]
 
 SURFACE_COLUMNS = ("surface", "s", "x", "y", "ue", "cp", "theta", "delta_star", "H", "cf", "regime")
 
@@ -136,6 +137,37 @@ def _plain(value):
     return str(value)
 
 
+def run_record(analysis, created=None) -> dict:
+    """What a run was made with, so that two pages or files can be compared safely.
+
+    Every condition (speed, air, ground, transition, separation threshold, base pressure,
+    panels, area or width, model scale), the air it gives, the r/t table(s) the corners were
+    judged by, the profilebench version and the date (UTC, ISO 8601; ``created`` overrides it).
+    """
+    _check_analysis(analysis, "run_record")
+    cond = analysis.conditions
+    conditions = cond.to_dict() if hasattr(cond, "to_dict") else _plain(cond)
+    air = None
+    if hasattr(cond, "air"):
+        try:
+            a = cond.air
+            air = {"density_kg_m3": _plain(getattr(a, "density", None)),
+                   "kinematic_viscosity_m2_s": _plain(getattr(a, "kinematic_viscosity", None)),
+                   "source": ("given density and viscosity" if getattr(cond, "density", None)
+                              is not None else "ISO 2533 standard atmosphere")}
+        except Exception:  # conditions that give no air still get a record of what was asked
+            air = None
+    tables = sorted({c.table_name for c in analysis.corners if getattr(c, "table_name", "")})
+    when = created or datetime.datetime.now(datetime.timezone.utc)
+    return {
+        "conditions": _plain(conditions),
+        "air": air,
+        "tables": tables,
+        "profilebench_version": profilebench.__version__,
+        "created_utc": when.isoformat(timespec="seconds"),
+    }
+
+
 def results_to_dict(analysis) -> dict:
     """The results as plain JSON types (see :func:`write_results_json`)."""
     _check_analysis(analysis, "write_results_json")
@@ -167,6 +199,7 @@ def results_to_dict(analysis) -> dict:
         "corners": _plain(list(analysis.corners)),
         "events": _plain(list(analysis.events)),
         "conditions": _plain(conditions),
+        "run": run_record(analysis),
         "warnings": list(analysis.warnings),
     }
 

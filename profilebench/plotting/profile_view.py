@@ -5,13 +5,17 @@ Everything draws onto a given matplotlib Axes, so the desktop editor and the rev
 
 from __future__ import annotations
 
+import textwrap
+
 import numpy as np
 from matplotlib.collections import LineCollection
 from matplotlib.colors import TwoSlopeNorm
 from matplotlib.patches import Patch, Polygon, Rectangle
+from matplotlib.patheffects import withStroke
 
 from profilebench.assess.results import Verdict
 from profilebench.errors import InputError
+from profilebench.plotting.labels import FRONT_FRACTION, LABEL_GID, LEADER_GID, LabelSpec, place_labels
 from profilebench.plotting.stations import is_analysis, outline_of
 from profilebench.plotting.style import (
     BASELINE_COLOUR,
@@ -22,10 +26,35 @@ from profilebench.plotting.style import (
     SEPARATED_COLOUR,
 )
 
-__all__ = ["draw_profile", "draw_events", "bubbles", "corner_label", "CP_FLOOR"]
+__all__ = ["draw_profile", "draw_events", "bubbles", "corner_label", "CP_FLOOR", "CP_MIN_RANGE",
+           "check_cp_min"]
 
-#: Lowest Cp of the colour scale on the outline (display only; the data are not changed).
+#: gids of the hatched areas (labels keep off them; tests find them by these)
+GROUND_GID = "ground-band"
+SEPARATED_GID = "separated-flow"
+BASELINE_CHANGE_GID = "baseline-change"
+
+#: Lowest Cp of the colour scale on the outline, the default of every figure (display only;
+#: the data are not changed). Users set their own with ``cp_min`` (CLI ``--cp-min``).
 CP_FLOOR = -3.0
+#: the range a user's cp_min may take
+CP_MIN_RANGE = (-20.0, -0.1)
+BASELINE_GID = "baseline-outline"
+BASELINE_LINE_COLOUR = "#333333"
+
+
+def check_cp_min(cp_min):
+    """Raise InputError unless ``cp_min`` is a number in :data:`CP_MIN_RANGE`."""
+    lo, hi = CP_MIN_RANGE
+    try:
+        v = float(cp_min)
+    except (TypeError, ValueError):
+        raise InputError(f"the Cp colour scale's lowest value {cp_min!r} is not a number; give "
+                         f"one from {lo:g} to {hi:g}, such as {CP_FLOOR:g}") from None
+    if not (lo <= v <= hi):
+        raise InputError(f"the Cp colour scale's lowest value {cp_min!r} is outside "
+                         f"[{lo:g}, {hi:g}]; give one in that range, such as {CP_FLOOR:g}")
+    return v
 
 
 def _closed(x, y):
@@ -83,112 +112,89 @@ def draw_events(ax, events, *, y_of=None, x_of=None, zorder=6):
 
 
 def corner_label(corner) -> str:
-    """Short label of a corner: its name, r/t and the solver's verdict with margin."""
+    """Short label of a corner: its name (wrapped), r/t with the separation margin, and the
+    solver's verdict, on three short lines (labels stay narrow enough to sit beside a nose)."""
     name = corner.label or f"node {corner.node}"
     verdict = getattr(corner.verdict, "value", str(corner.verdict))
-    text = f"{name}\nr/t {corner.r_over_t:.3f}: {verdict}"
+    second = f"r/t {corner.r_over_t:.3f}"
     if corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES) and corner.margin is not None:
-        text += f", {100 * corner.margin:.0f}% margin"
-    return text
+        second += f", {100 * corner.margin:.0f}% sep. margin"
+    return "\n".join(textwrap.wrap(name, 30) + [second, verdict])
 
 
-def _overlap_area(bb, others):
-    total = 0.0
-    for o in others:
-        w = min(bb.x1, o.x1) - max(bb.x0, o.x0)
-        h = min(bb.y1, o.y1) - max(bb.y0, o.y0)
-        if w > 0 and h > 0:
-            total += w * h
-    return total
+#: more corners than this get a smaller label font
+MANY_CORNERS = 12
+#: placements tried, each with more room than the last, before a label may overlap
+PLACEMENT_ATTEMPTS = 8
 
 
-def _outside_area(bb, frame):
-    w = max(0.0, min(bb.x1, frame.x1) - max(bb.x0, frame.x0))
-    h = max(0.0, min(bb.y1, frame.y1) - max(bb.y0, frame.y0))
-    return bb.width * bb.height - w * h
+def _fill_box(ax, xlim, ylim):
+    """Set limits that hold ``xlim`` and ``ylim`` and fill the axes box at equal aspect:
+    the spare width (or height, above the profile) becomes room for labels."""
+    fig = ax.figure
+    pos = ax.get_position()
+    box_w = pos.width * fig.get_figwidth()
+    box_h = pos.height * fig.get_figheight()
+    (x0, x1), (y0, y1) = xlim, ylim
+    want_w = (y1 - y0) * box_w / box_h
+    if want_w > x1 - x0:
+        grow = 0.5 * (want_w - (x1 - x0))
+        x0, x1 = x0 - grow, x1 + grow
+    else:
+        y1 = y0 + (x1 - x0) * box_h / box_w
+    ax.set_xlim(x0, x1)
+    ax.set_ylim(y0, y1)
 
 
-def _label_corners(ax, corners, x, y, scale, avoid=()):
-    """Place one label per corner outside the outline, avoiding other labels and the outline.
+def _label_colour(corner):
+    if corner.verdict.separated:
+        return OKABE_ITO["vermillion"]
+    if corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES):
+        return OKABE_ITO["bluish_green"]
+    return OKABE_ITO["black"]  # in the wake of an upstream separation, or concave
 
-    Candidate positions lie on rays from the corner, pointing away from the outline's centroid
-    and turned by up to +-80 degrees, at growing distances. Each candidate is scored by its
-    overlap (in display pixels^2) with labels already placed, with the outline, and with the
-    area outside the axes; the first candidate with no overlap wins, else the least-overlapping.
-    Without a renderer (a canvas that cannot measure text) the first candidate is used.
+
+def _label_corners(ax, corners, x, y, *, obstacles, markers, ground, scale):
+    """One label per corner, placed by :func:`profilebench.plotting.labels.place_labels`.
+
+    Labels keep outside the outline, off the hatching and markers, away from the front 30 % of
+    the outline where they can, and apart from each other, each with a leader line to its
+    corner. When some label finds no free place the axes get more room above the profile (and
+    at its ends) and the placement is made again (up to PLACEMENT_ATTEMPTS times).
+    Without a renderer (a canvas that cannot measure text) labels stay at their corners.
     """
     if not corners:
         return []
-    cx, cy = float(np.mean(x)), float(np.mean(y))
-    fig = ax.figure
-    renderer = None
-    if hasattr(fig.canvas, "get_renderer"):
-        try:
-            renderer = fig.canvas.get_renderer()
-        except Exception:
-            renderer = None
-    if renderer is not None:
-        ax.apply_aspect()  # the final axes box: text extents measured now stay valid
-        frame = ax.get_window_extent(renderer)
-        # the outline, densified so that short labels cannot slip between its points
-        xc, yc = _closed(x, y)
-        t = np.linspace(0.0, len(xc) - 1.0, 4 * len(xc))
-        dense = np.column_stack([np.interp(t, np.arange(len(xc)), xc),
-                                 np.interp(t, np.arange(len(yc)), yc)])
-        if len(avoid):
-            # event markers count heavily: a label must not hide a marker
-            dense = np.vstack([dense] + [np.asarray(avoid, dtype=float)] * 20)
-        dense = ax.transData.transform(dense)
-    placed, texts = [], []
+    texts = []
+    size = 7 if len(corners) <= MANY_CORNERS else 6  # imported outlines may have dozens
     for c in corners:
-        d = np.array([c.x - cx, c.y - cy])
-        d = d / (np.hypot(*d) or 1.0)
-        if c.verdict.separated:
-            colour = OKABE_ITO["vermillion"]
-        elif c.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES):
-            colour = OKABE_ITO["bluish_green"]
-        else:  # in the wake of an upstream separation, or concave
-            colour = OKABE_ITO["black"]
-        text = ax.annotate(
-            corner_label(c), xy=(c.x, c.y), xytext=(c.x, c.y), textcoords="data",
-            fontsize=7, ha="center", va="center", color=OKABE_ITO["black"],
-            bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.9),
-            arrowprops=dict(arrowstyle="-", color=colour, lw=0.8), zorder=8,
-        )
-        best, best_score = None, np.inf
-        for dist in (0.08, 0.13, 0.19, 0.26):
-            for ang in (0.0, 20.0, -20.0, 40.0, -40.0, 60.0, -60.0, 80.0, -80.0):
-                a = np.radians(ang)
-                dd = (d[0] * np.cos(a) - d[1] * np.sin(a), d[0] * np.sin(a) + d[1] * np.cos(a))
-                pos = (c.x + dist * scale * dd[0], c.y + dist * scale * dd[1])
-                if renderer is None:
-                    best = pos
-                    break
-                text.xyann = pos
-                bb = text.get_window_extent(renderer)
-                m = 7.0  # px: about half a marker, so a label does not cover a marker's edge
-                hits = np.count_nonzero((dense[:, 0] > bb.x0 - m) & (dense[:, 0] < bb.x1 + m)
-                                        & (dense[:, 1] > bb.y0 - m) & (dense[:, 1] < bb.y1 + m))
-                score = (_overlap_area(bb, placed) + 4.0 * _outside_area(bb, frame)
-                         + 50.0 * hits + 1e-3 * dist)
-                if score < best_score:
-                    best, best_score = pos, score
-                if score < 1.0:
-                    break
-            if renderer is None or best_score < 1.0:
-                break
-        text.xyann = best
-        if renderer is not None:
-            # shift a label that still pokes out of the axes back inside (by its overflow)
-            bb = text.get_window_extent(renderer)
-            shift_px = (max(frame.x0 + 1.0 - bb.x0, 0.0) - max(bb.x1 - (frame.x1 - 1.0), 0.0),
-                        max(frame.y0 + 1.0 - bb.y0, 0.0) - max(bb.y1 - (frame.y1 - 1.0), 0.0))
-            if shift_px != (0.0, 0.0):
-                inv = ax.transData.inverted()
-                p0 = ax.transData.transform(best)
-                text.xyann = tuple(inv.transform((p0[0] + shift_px[0], p0[1] + shift_px[1])))
-            placed.append(text.get_window_extent(renderer))
-        texts.append(text)
+        colour = _label_colour(c)
+        texts.append(ax.text(
+            c.x, c.y, corner_label(c), fontsize=size, ha="center", va="center",
+            color=OKABE_ITO["black"], gid=LABEL_GID, zorder=8,
+            bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.95),
+        ))
+    fig = ax.figure
+    if not hasattr(fig.canvas, "get_renderer"):
+        return texts
+    xmin, xmax = float(np.min(x)), float(np.max(x))
+    front_x = xmin + FRONT_FRACTION * (xmax - xmin)
+    in_front = x <= front_x
+    front_box = (xmin - 0.02 * scale, float(np.min(y[in_front])) if not ground else 0.0,
+                 front_x, float(np.max(y[in_front])) + 0.03 * scale)
+    specs = [LabelSpec((c.x, c.y), t, _label_colour(c)) for c, t in zip(corners, texts)]
+    outline_xy = np.column_stack([x, y])
+    for attempt in range(PLACEMENT_ATTEMPTS):
+        crowded, crossing = place_labels(ax, specs, outline_xy=outline_xy, obstacles=obstacles,
+                                         markers_xy=markers, front_box=front_box)
+        # more room always helps a crowded label; a crossing leader gets two tries
+        if crowded == 0 and (crossing == 0 or attempt >= 1) or attempt == PLACEMENT_ATTEMPTS - 1:
+            break
+        for line in [ln for ln in ax.lines if ln.get_gid() == LEADER_GID]:
+            line.remove()
+        x0, x1 = ax.get_xlim()
+        y0, y1 = ax.get_ylim()
+        _fill_box(ax, (x0 - 0.04 * scale, x1 + 0.04 * scale), (y0, y1 + 0.12 * scale))
     return texts
 
 
@@ -220,7 +226,7 @@ def _shade_separated(ax, x, y, mask, depth):
         poly = np.column_stack([np.concatenate([px, ox[::-1]]), np.concatenate([py, oy[::-1]])])
         handle = ax.add_patch(Polygon(poly, closed=True, facecolor=SEPARATED_COLOUR, alpha=0.35,
                                       edgecolor="none", hatch="///", zorder=2,
-                                      label="separated flow"))
+                                      label="separated flow", gid=SEPARATED_GID))
     return handle
 
 
@@ -248,12 +254,12 @@ def _baseline_difference(ax, baseline_xy, current_xy):
         path = MplPath.make_compound_path(*[MplPath(r, closed=True) for r in rings])
         handle = ax.add_patch(PathPatch(path, facecolor="none", edgecolor=BASELINE_COLOUR,
                                         hatch="xx", linewidth=0.0, zorder=1,
-                                        label="change from baseline"))
+                                        label="change from baseline", gid=BASELINE_CHANGE_GID))
     return handle
 
 
 def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, corners=True,
-                 colorbar=True, legend=True, title=None, legend_outside=False):
+                 colorbar=True, legend=True, title=None, cp_min=CP_FLOOR):
     """Draw an annotated profile at true aspect ratio onto ``ax``.
 
     Parameters
@@ -268,17 +274,25 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         Draw the ground (y = 0, hatched strip below). Default: the analysis' conditions, else True.
     cp, events, corners, colorbar, legend : bool
         Switch the layers on or off.
-    legend_outside : bool
-        Put the legend left of the axes (for pages with room there) instead of inside it.
+    cp_min : float
+        The lowest Cp of the colour scale (fixed, not taken from the data, so that figures can
+        be compared; default :data:`CP_FLOOR`). Must be below 0.
 
     Returns
     -------
     dict
         Handles by layer: "outline", "cp" (LineCollection or None), "colorbar", "events"
-        ({kind: handle}), "corner_labels", "legend".
+        ({kind: handle}), "corner_labels", "legend", "legend_handles" (for a legend drawn
+        elsewhere).
+
+    Raises
+    ------
+    InputError
+        For a ``cp_min`` that is not a finite number below 0.
     """
     if ax is None or not hasattr(ax, "plot"):
         raise InputError("draw_profile needs a matplotlib Axes to draw on; got " f"{type(ax).__name__}")
+    check_cp_min(cp_min)
     analysis = obj if is_analysis(obj) else None
     outline = outline_of(obj)
     x, y = outline.x, outline.y
@@ -289,14 +303,17 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         cond = getattr(analysis, "conditions", None)
         ground = bool(getattr(cond, "ground", True))
     out = {"outline": None, "cp": None, "colorbar": None, "events": {}, "corner_labels": [],
-           "legend": None}
+           "legend": None, "legend_handles": []}
     legend_handles = []
 
     if baseline is not None:
         bl = outline_of(baseline)
         bx, by = _closed(bl.x, bl.y)
-        legend_handles.append(ax.plot(bx, by, color=BASELINE_COLOUR, lw=1.5, ls="--", zorder=1,
-                                      label="baseline")[0])
+        # over the Cp band (zorder 3) and the outline, with a white halo so that it shows on
+        # every colour of the band
+        legend_handles.append(ax.plot(bx, by, color=BASELINE_LINE_COLOUR, lw=1.3, ls=(0, (5, 3)),
+                                      zorder=5.5, label="baseline", gid=BASELINE_GID,
+                                      path_effects=[withStroke(linewidth=3.0, foreground="white")])[0])
         try:
             h = _baseline_difference(ax, np.column_stack([bl.x, bl.y]), np.column_stack([x, y]))
             if h is not None:
@@ -314,22 +331,20 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         cpv = np.asarray(inv.cp, dtype=float)
         seg = np.stack([np.column_stack([xc[:-1], yc[:-1]]), np.column_stack([xc[1:], yc[1:]])], axis=1)
         seg_cp = 0.5 * (cpv + np.roll(cpv, -1))
-        # Colour scale from Cp = 1 (stagnation) down to the lowest Cp, but not below CP_FLOOR:
-        # the suction peaks at small corners would otherwise wash out the rest of the band.
-        # Values below the floor show in the floor's colour, flagged by the colourbar's arrow.
-        vmin = max(min(float(cpv.min()), -0.1), CP_FLOOR)
-        norm = TwoSlopeNorm(vmin=vmin, vcenter=0.0, vmax=1.0)
+        # A fixed colour scale from Cp = 1 (stagnation) down to cp_min, the same on every page:
+        # values below it show in the end colour, flagged by the colourbar's arrow.
+        norm = TwoSlopeNorm(vmin=float(cp_min), vcenter=0.0, vmax=1.0)
         lc = LineCollection(seg, cmap=CP_COLORMAP, norm=norm, linewidths=5.0, zorder=3,
                             capstyle="round")
         lc.set_array(seg_cp)
         ax.add_collection(lc)
         out["cp"] = lc
         if colorbar:
-            saturated = float(cpv.min()) < CP_FLOOR
+            saturated = float(cpv.min()) < cp_min
             cb = ax.figure.colorbar(lc, ax=ax, fraction=0.03, pad=0.01,
                                     extend="min" if saturated else "neither")
             cb.set_label("Cp, colour band on the outline"
-                         + (f" (below {CP_FLOOR:g} in the end colour)" if saturated else ""))
+                         + (f" (below {cp_min:g} in the end colour)" if saturated else ""))
             out["colorbar"] = cb
 
     if analysis is not None and flow is not None and getattr(flow, "separated", None) is not None:
@@ -361,7 +376,8 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         strip = 0.04 * scale
         x0, x1 = float(x.min()) - 0.1 * length, float(x.max()) + 0.1 * length
         ax.add_patch(Rectangle((x0, -strip), x1 - x0, strip, facecolor="white",
-                               edgecolor=OKABE_ITO["black"], hatch="////", linewidth=0.0, zorder=1))
+                               edgecolor=OKABE_ITO["black"], hatch="////", linewidth=0.0, zorder=1,
+                               gid=GROUND_GID))
         ax.plot([x0, x1], [0.0, 0.0], color=OKABE_ITO["black"], lw=1.2, zorder=2)
         legend_handles.append(Patch(facecolor="white", edgecolor=OKABE_ITO["black"], hatch="////",
                                     label="ground (y = 0)"))
@@ -369,9 +385,9 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     ax.set_aspect("equal", adjustable="box")
     labelled = analysis is not None and corners and len(analysis.corners) > 0
     pad = 0.28 * scale if labelled else 0.08 * scale
-    ax.set_xlim(float(x.min()) - pad, float(x.max()) + pad)
     ylo = -0.06 * scale if ground else float(y.min()) - 0.6 * pad
-    ax.set_ylim(min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.45 * pad)
+    _fill_box(ax, (float(x.min()) - pad, float(x.max()) + pad),
+              (min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.45 * pad))
     ax.set_xlabel("x, rearward (m)")
     ax.set_ylabel("y, up (m)")
     if title is None:
@@ -379,14 +395,14 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     ax.set_title(title)
 
     if analysis is not None and corners:
-        avoid = [(e.x, e.y) for e in analysis.events] if events else []
-        out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, scale, avoid)
+        markers = [(e.x, e.y) for e in analysis.events] if events else []
+        hatched = [p for p in ax.patches
+                   if p.get_gid() in (GROUND_GID, SEPARATED_GID, BASELINE_CHANGE_GID)]
+        out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, obstacles=hatched,
+                                              markers=markers, ground=ground, scale=scale)
 
+    out["legend_handles"] = legend_handles
     if legend and legend_handles:
-        if legend_outside:
-            out["legend"] = ax.legend(handles=legend_handles, loc="upper right", fontsize=8,
-                                      framealpha=0.9, bbox_to_anchor=(-0.07, 1.0))
-        else:
-            out["legend"] = ax.legend(handles=legend_handles, loc="upper left", fontsize=7,
-                                      framealpha=0.9, ncol=2)
+        out["legend"] = ax.legend(handles=legend_handles, loc="upper left", fontsize=7,
+                                  framealpha=0.9, ncol=2)
     return out

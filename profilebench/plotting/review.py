@@ -5,6 +5,7 @@ The page is a plain :class:`matplotlib.figure.Figure` with an Agg canvas (no pyp
 
 from __future__ import annotations
 
+import textwrap
 from pathlib import Path
 
 from matplotlib.backends.backend_agg import FigureCanvasAgg
@@ -12,12 +13,21 @@ from matplotlib.figure import Figure
 
 from profilebench.errors import InputError
 from profilebench.plotting.charts import draw_cp
-from profilebench.plotting.profile_view import draw_profile
+from profilebench.io.export import run_record
+from profilebench.plotting.profile_view import CP_FLOOR, draw_profile
 from profilebench.plotting.stations import is_analysis
-from profilebench.plotting.summary import CORNER_COLUMNS, corner_rows, summary_rows
+from profilebench.plotting.summary import (
+    CORNER_COLUMNS, MARGIN_DEFINITION, corner_disagreements, corner_notes, corner_rows, run_lines,
+    summary_rows,
+)
 from profilebench.plotting.style import CAUTION
 
-__all__ = ["review_figure", "save_figure", "IMAGE_FORMATS", "image_format"]
+__all__ = ["review_figure", "baseline_rows", "save_figure", "IMAGE_FORMATS", "image_format",
+           "RUN_GID", "NOTES_GID"]
+
+#: gids of the run block's and the notes' texts on the page
+RUN_GID = "run-block"
+NOTES_GID = "page-notes"
 
 IMAGE_FORMATS = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
 PAGE_SIZE = (16.5, 11.7)     # inches, about A3 landscape (1980 x 1404 pixels at PAGE_DPI)
@@ -31,16 +41,12 @@ def new_figure(size=PAGE_SIZE, dpi=PAGE_DPI) -> Figure:
     return fig
 
 
-def _table(ax, header, rows, fontsize=8, col_widths=None):
-    ax.axis("off")
-    if not rows:
-        ax.text(0.0, 0.5, "none", fontsize=fontsize, transform=ax.transAxes)
-        return None
+def _make_table(ax, header, rows, fontsize, col_widths, row_scale=1.25):
     t = ax.table(cellText=[list(r) for r in rows], colLabels=list(header), loc="upper left",
                  cellLoc="left", colLoc="left", colWidths=col_widths)
     t.auto_set_font_size(False)
     t.set_fontsize(fontsize)
-    t.scale(1.0, 1.25)
+    t.scale(1.0, row_scale)
     for (r, _c), cell in t.get_celld().items():
         cell.set_linewidth(0.3)
         if r == 0:
@@ -48,7 +54,57 @@ def _table(ax, header, rows, fontsize=8, col_widths=None):
     return t
 
 
-def review_figure(analysis, baseline=None) -> Figure:
+def _table(ax, header, rows, fontsize=8, col_widths=None, bottom=None):
+    """A table in the axes; when the rows do not fit above ``bottom`` (display px; default the
+    axes' bottom), as many as fit, the last one saying how many were left out (the CLI's
+    tables and the JSON hold them all)."""
+    ax.axis("off")
+    if not rows:
+        ax.text(0.0, 0.5, "none", fontsize=fontsize, transform=ax.transAxes)
+        return None
+    rows = list(rows)
+    renderer = ax.figure.canvas.get_renderer()
+    if bottom is None:
+        bottom = ax.get_window_extent(renderer).y0
+    # closer rows, then a smaller font, before any row is left out
+    for size, row_scale in ((fontsize, 1.25), (fontsize, 1.0), (fontsize - 1, 0.85)):
+        t = _make_table(ax, header, rows, size, col_widths, row_scale)
+        if t.get_window_extent(renderer).y0 >= bottom - 1.0:
+            return t
+        t.remove()
+    fontsize, row_scale = fontsize - 1, 0.85
+    t = _make_table(ax, header, rows, fontsize, col_widths, row_scale)
+    t.get_window_extent(renderer)  # lays the cells out
+    cells = t.get_celld()
+    fit = sum(1 for (r, c), cell in cells.items()
+              if r > 0 and c == 0 and cell.get_window_extent(renderer).y0 >= bottom - 1.0)
+    t.remove()
+    kept = rows[:max(fit - 1, 0)]
+    more = f"+ {len(rows) - len(kept)} more (CLI, JSON)"
+    return _make_table(ax, header, kept + [(more,) + ("",) * (len(header) - 1)], fontsize,
+                       col_widths, row_scale)
+
+
+def baseline_rows(analysis, baseline):
+    """Summary rows of a baseline analysis against ``analysis``: its Cd and the deltas
+    (variant minus baseline, :func:`profilebench.assess.compare.compare`). [] when the baseline
+    is a bare profile (no analysis) or either analysis did not succeed."""
+    if not (is_analysis(baseline) and getattr(baseline, "success", False)
+            and getattr(analysis, "success", False)):
+        return []
+    from profilebench.assess.compare import compare
+
+    c = compare(baseline, analysis)
+    na = "n/a (no frontal area or width)"
+    return [
+        ("Cd baseline", f"{c.cd_before:.4f}", getattr(baseline.profile, "name", "baseline")),
+        ("delta Cd", f"{c.delta_cd:+.4f}", f"{c.delta_cd_percent:+.2f}% of the baseline"),
+        ("delta CdA", na if c.delta_cda is None else f"{c.delta_cda:+.4f}", "m^2"),
+        ("delta force", na if c.delta_force is None else f"{c.delta_force:+.2f}", "N"),
+    ]
+
+
+def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Figure:
     """A one-page design review of an analysis.
 
     Parameters
@@ -56,12 +112,19 @@ def review_figure(analysis, baseline=None) -> Figure:
     analysis : Analysis
         From :func:`profilebench.assess.analysis.analyze`.
     baseline : Profile or Analysis, optional
-        Drawn behind the profile in grey with the difference hatched.
+        Drawn over the Cp band as a dashed outline with the difference hatched; an Analysis
+        also puts its Cd and the delta Cd, CdA and force in the summary.
+    cp_min : float
+        The lowest Cp of the colour scale (default :data:`CP_FLOOR`, the same on every page so
+        that pages can be put side by side).
+    created : datetime, optional
+        The date the run block states (default: now, UTC).
 
     Returns
     -------
     matplotlib.figure.Figure
-        Page with the annotated profile, Cp plot, summary table, corner table and the caution.
+        Page with the run block, the annotated profile, Cp plot, summary table, corner table,
+        notes and the caution.
     """
     if not is_analysis(analysis):
         raise InputError(
@@ -70,17 +133,25 @@ def review_figure(analysis, baseline=None) -> Figure:
         )
     fig = new_figure()
     gs = fig.add_gridspec(3, 2, height_ratios=[1.55, 1.0, 0.75], width_ratios=[1.5, 1.0],
-                          left=0.05, right=0.95, top=0.95, bottom=0.06, hspace=0.28, wspace=0.12)
-    # a strip on the left is kept for the marker legend, however wide the profile is
-    top = gs[0, :].subgridspec(1, 2, width_ratios=[0.11, 0.89], wspace=0.0)
-    ax_prof = fig.add_subplot(top[0, 1])
+                          left=0.05, right=0.95, top=0.905, bottom=0.1, hspace=0.28, wspace=0.12)
+    # a strip on the left holds the marker legend, however wide the profile is
+    top = gs[0, :].subgridspec(1, 2, width_ratios=[0.12, 0.88], wspace=0.02)
+    ax_prof = fig.add_subplot(top[0, 1])   # the first axes of the page
+    ax_leg = fig.add_subplot(top[0, 0])
+    ax_leg.axis("off")
     ax_cp = fig.add_subplot(gs[1, 0])
     ax_sum = fig.add_subplot(gs[1, 1])
     ax_cor = fig.add_subplot(gs[2, :])
     name = getattr(analysis.profile, "name", "profile")
-    fig.suptitle(f"{name}: screening review", fontsize=13, weight="bold")
+    fig.suptitle(f"{name}: screening review", fontsize=13, weight="bold", y=0.985)
+    lines = [part for line in run_lines(run_record(analysis, created=created))
+             for part in textwrap.wrap(line, 250, subsequent_indent="    ")]
+    fig.text(0.05, 0.962, "\n".join(lines), fontsize=8, va="top", gid=RUN_GID)
 
-    draw_profile(ax_prof, analysis, baseline=baseline, title="", legend_outside=True)
+    out = draw_profile(ax_prof, analysis, baseline=baseline, title="", legend=False, cp_min=cp_min)
+    if out["legend_handles"]:
+        ax_leg.legend(handles=out["legend_handles"], loc="upper left", fontsize=8,
+                      framealpha=0.9, borderaxespad=0.0)
     if analysis.success and analysis.flow is not None:
         draw_cp(ax_cp, analysis)
         ax_cp.set_title("Cp along the surface", fontsize=10)
@@ -89,18 +160,26 @@ def review_figure(analysis, baseline=None) -> Figure:
         ax_cp.text(0.02, 0.5, f"No flow result: {analysis.status.value}\n{analysis.message}",
                    fontsize=10, transform=ax_cp.transAxes, va="center", wrap=True)
 
-    _table(ax_sum, ("quantity", "value", "unit / note"), summary_rows(analysis), fontsize=8,
-           col_widths=[0.32, 0.2, 0.48])
+    rows = summary_rows(analysis) + baseline_rows(analysis, baseline)
+    # the summary may run down to the corner table's title
+    room = ax_cor.get_window_extent(fig.canvas.get_renderer()).y1 + 0.025 * fig.bbox.height
+    _table(ax_sum, ("quantity", "value", "unit / note"), rows, fontsize=8,
+           col_widths=[0.32, 0.2, 0.48], bottom=room)
     ax_sum.set_title("Summary", fontsize=10, loc="left")
     _table(ax_cor, CORNER_COLUMNS, corner_rows(analysis), fontsize=8,
-           col_widths=[0.15, 0.06, 0.06, 0.06, 0.18, 0.05, 0.23, 0.07, 0.04])
+           col_widths=[0.27, 0.055, 0.055, 0.055, 0.2, 0.07, 0.12, 0.06, 0.04])
     ax_cor.set_title("Corners", fontsize=10, loc="left")
 
-    notes = [w for w in analysis.warnings]
+    notes = corner_notes(analysis) + [f"{n}: {d}" for n, d in corner_disagreements(analysis)]
+    notes += list(analysis.warnings)
     if analysis.drag is not None:
         notes += list(analysis.drag.notes)
-    if notes:
-        fig.text(0.05, 0.035, "Notes: " + " | ".join(notes)[:300], fontsize=7)
+    notes.append(MARGIN_DEFINITION)
+    lines = textwrap.wrap("Notes: " + " | ".join(notes), 250)
+    if len(lines) > 4:
+        lines = lines[:3] + [textwrap.shorten(" ".join(lines[3:]), 230)
+                             + " (all notes: profilebench analyse FILE)"]
+    fig.text(0.05, 0.072, "\n".join(lines), fontsize=7, va="top", gid=NOTES_GID)
     fig.text(0.5, 0.012, CAUTION, ha="center", fontsize=9, weight="bold", color="#000000")
     return fig
 

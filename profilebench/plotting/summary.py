@@ -8,10 +8,54 @@ from __future__ import annotations
 
 from profilebench.plotting.style import CAUTION
 
-__all__ = ["summary_rows", "corner_rows", "CORNER_COLUMNS", "format_table", "CAUTION"]
+__all__ = ["summary_rows", "corner_rows", "corner_notes", "corner_disagreements", "run_lines", "CORNER_COLUMNS",
+           "MARGIN_DEFINITION", "format_table", "CAUTION"]
 
-CORNER_COLUMNS = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "margin",
+CORNER_COLUMNS = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "sep. margin",
                   "table verdict", "delta Cd", "node")
+
+
+#: what the "margin" column means (shown in the editor's tooltip, the README and every page)
+MARGIN_DEFINITION = (
+    "separation margin: how far the boundary layer stayed from its separation criterion over "
+    "the corner, at its closest (100% far from it, 0% at it or separated). Laminar: "
+    "1 - lambda/(-0.09) (Thwaites' lambda); turbulent: (H_sep - H)/(H_sep - 1.4). It is not a "
+    "margin on the radius."
+)
+
+
+def run_lines(record):
+    """The run block as text lines, from :func:`profilebench.io.export.run_record`'s dict."""
+    c = record["conditions"]
+    air = record.get("air") or {}
+    if c.get("density") is not None:
+        air_text = f"air given: rho {c['density']:.4g} kg/m^3, nu {c['kinematic_viscosity']:.4g} m^2/s"
+    else:
+        air_text = (f"ISO 2533 air at {c['altitude']:g} m, {c['temperature_offset']:+g} K"
+                    + (f" (rho {air['density_kg_m3']:.4g} kg/m^3, nu "
+                       f"{air['kinematic_viscosity_m2_s']:.4g} m^2/s)" if air else ""))
+    tr = c["transition"]
+    tr_text = ("free transition (Michel)" if tr == "free" else "turbulent from the stagnation point"
+               if tr == "turbulent" else f"transition forced at s = {float(tr):g} m")
+    if c.get("frontal_area") is not None:
+        area = f"frontal area {c['frontal_area']:g} m^2"
+    elif c.get("width") is not None:
+        area = f"width {c['width']:g} m"
+    else:
+        area = "no frontal area or width (per unit width)"
+    scale = ""
+    if c.get("model_scale", 1.0) != 1.0 or c.get("tunnel_speed") is not None:
+        ts = c.get("tunnel_speed")
+        scale = f"; model scale 1:{1.0 / c['model_scale']:g}" + (
+            f" at {ts * 3.6:.1f} km/h" if ts is not None else "")
+    line1 = (f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; "
+             f"{'ground on (slip, moving belt)' if c['ground'] else 'free air (no ground)'}; "
+             f"{tr_text}; turbulent separation at H = {c['h_separation']:g}; base pressure "
+             f"Cp_b = {c['base_pressure']:g}; {c['panels']} panels; {area}{scale}")
+    tables = "; ".join(record.get("tables") or []) or "none"
+    line2 = (f"r/t table: {tables}; profilebench {record['profilebench_version']}; "
+             f"made {record['created_utc'].replace('T', ' ').replace('+00:00', ' UTC')}")
+    return [line1, line2]
 
 
 def _g(value, fmt):
@@ -44,9 +88,38 @@ def summary_rows(analysis):
     return rows
 
 
+def _shared(values):
+    """The one value all of ``values`` share (two or more of them), else None."""
+    values = list(values)
+    return values[0] if len(values) >= 2 and len(set(values)) == 1 and values[0] else None
+
+
+def corner_notes(analysis):
+    """Notes that hold for every corner, said once instead of on each row: a table verdict or
+    a solver-table disagreement that all corners share."""
+    notes = []
+    shared = _shared(c.table_verdict for c in analysis.corners)
+    if shared:
+        notes.append(f"table verdict, every corner: {shared}")
+    shared = _shared(c.disagreement for c in analysis.corners)
+    if shared:
+        notes.append(f"every corner: {shared}")
+    return notes
+
+
+def corner_disagreements(analysis):
+    """(corner name, disagreement) for the corners whose disagreement is not said once in
+    :func:`corner_notes`."""
+    if _shared(c.disagreement for c in analysis.corners):
+        return []
+    return [(c.label or f"node {c.node}", c.disagreement) for c in analysis.corners if c.disagreement]
+
+
 def corner_rows(analysis):
-    """One tuple per corner, in the order of :data:`CORNER_COLUMNS`."""
+    """One tuple per corner, in the order of :data:`CORNER_COLUMNS`; a table verdict that every
+    corner shares is left out of the rows (see :func:`corner_notes`)."""
     rows = []
+    said_once = _shared(c.table_verdict for c in analysis.corners) is not None
     for c in analysis.corners:
         verdict = getattr(c.verdict, "value", str(c.verdict))
         # no margin for a concave corner or one already in separated flow from upstream
@@ -55,7 +128,8 @@ def corner_rows(analysis):
         rows.append((
             c.label or f"node {c.node}", f"{c.radius * 1000:.1f}",
             f"{c.thickness * 1000:.1f}",
-            f"{c.r_over_t:.4f}", verdict, margin, c.table_verdict, f"{c.delta_cd:+.4f}",
+            f"{c.r_over_t:.4f}", verdict, margin, "(see note)" if said_once else c.table_verdict,
+            f"{c.delta_cd:+.4f}",
             str(c.node),
         ))
     return rows

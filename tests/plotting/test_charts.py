@@ -1,5 +1,7 @@
 """Cp and boundary-layer charts."""
 
+import dataclasses
+
 import numpy as np
 import pytest
 from matplotlib.backends.backend_agg import FigureCanvasAgg
@@ -65,7 +67,7 @@ def test_boundary_layer_threshold_and_separated_stations_left_out():
     ax_h, ax_cf = fig.add_subplot(211), fig.add_subplot(212)
     draw_boundary_layer(ax_h, ax_cf, a)
     lines = {l.get_label(): l for l in ax_h.get_lines()}
-    thr = lines["turbulent separation threshold, H = 2.4 (turbulent layer only)"]
+    thr = lines["H_sep = 2.4 (turbulent)"]
     assert set(thr.get_ydata()) == {a.conditions.h_separation}
     s_up, h_up = lines["upper surface"].get_data()
     bl = a.flow.upper.bl
@@ -81,3 +83,44 @@ def test_failed_analysis_cannot_draw_cp():
     failed = Analysis(AnalysisStatus.INVISCID_FAILED, "singular panel system", a.profile, a.conditions)
     with pytest.raises(InputError, match="singular panel system"):
         draw_cp(_fig().add_subplot(111), failed)
+
+
+def _bl_figure(a, size=(680, 230)):
+    """The boundary-layer plot as the editor's tab renders it (constrained layout, 90 dpi)."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    fig = Figure(figsize=(size[0] / 90, size[1] / 90), dpi=90, layout="constrained")
+    FigureCanvasAgg(fig)
+    ax_h, ax_cf = fig.subplots(2, 1, sharex=True)
+    draw_boundary_layer(ax_h, ax_cf, a)
+    fig.canvas.draw()
+    return fig, ax_h, ax_cf
+
+
+def test_boundary_layer_legends_off_the_data_and_labels_inside_the_figure():
+    fig, ax_h, ax_cf = _bl_figure(fake_analysis())
+    r = fig.canvas.get_renderer()
+    for ax in (ax_h, ax_cf):
+        leg = ax.get_legend().get_window_extent(r)
+        plot = ax.get_window_extent(r)
+        assert leg.x0 >= plot.x1          # right of the axes: it covers no curve
+        label = ax.yaxis.label.get_window_extent(r)
+        assert label.x0 >= 0 and label.y0 >= 0 and label.y1 <= fig.bbox.height  # not cut off
+
+
+def test_shape_factor_axis_clipped_with_a_note():
+    a = fake_analysis()
+    bl = a.flow.upper.bl
+    H = np.array(bl.H, float)
+    H[len(H) // 3] = 9.0                  # a spike, as a bubble's edge gives
+    spiky = dataclasses.replace(a, flow=dataclasses.replace(
+        a.flow, upper=dataclasses.replace(a.flow.upper, bl=dataclasses.replace(bl, H=H))))
+    fig, ax_h, _ = _bl_figure(spiky)
+    assert ax_h.get_ylim() == (1.0, 4.0)   # laminar separation (Thwaites) at H about 3.5
+    notes = [t.get_text() for t in ax_h.get_legend().get_texts() if "clipped" in t.get_text()]
+    assert notes == ["H above 4 clipped\n(max 9.0)"]
+
+
+def test_shape_factor_axis_without_spike_has_no_note():
+    _, ax_h, _ = _bl_figure(fake_analysis())
+    assert not [t for t in ax_h.get_legend().get_texts() if "clipped" in t.get_text()]

@@ -16,6 +16,7 @@ from profilebench.io.samples import sample_paths  # noqa: E402
 from profilebench.plotting import (  # noqa: E402
     EVENT_STYLES, draw_boundary_layer, draw_cp, draw_profile, review_figure, save_figure,
 )
+from profilebench.plotting.labels import LABEL_GID  # noqa: E402
 from profilebench.plotting.review import PAGE_DPI, PAGE_SIZE  # noqa: E402
 
 SAMPLES = sample_paths()
@@ -89,7 +90,7 @@ def test_corner_labels_of_each_sample_do_not_overlap(path):
     fig.canvas.draw()
     r = fig.canvas.get_renderer()
     ax = fig.axes[0]
-    texts = [t for t in ax.texts if t.get_text().split("\n")[0] in {c.label or f"node {c.node}" for c in a.corners}]
+    texts = [t for t in ax.texts if t.get_gid() == LABEL_GID]
     assert len(texts) == len(a.corners)
     boxes = [t.get_window_extent(r) for t in texts]
     frame = ax.get_window_extent(r)
