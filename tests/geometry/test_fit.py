@@ -76,8 +76,8 @@ def test_millimetres_and_metres_give_the_same_profile(tmp_path, box_fit):
 
 @pytest.mark.parametrize("name", sorted(p.stem for p in sample_paths()))
 def test_every_sample_digitised_fits_to_a_valid_profile_within_the_tolerance(name):
-    # the samples' curved runs (bonnets, screens) come back as polylines of the reduced outline
-    # for now (the fit's notes say so); valid and within the tolerance all the same
+    # the samples' curved runs (bonnets, screens) come back as smooth nodes, their fillets as
+    # radii (the round trip's own tests check how close); valid and within the tolerance
     profile = load_project(next(p for p in sample_paths() if p.stem == name)).profile
     pts = _digitise(profile)
     fit = fit_outline(pts, tolerance=0.005)
