@@ -94,6 +94,8 @@ class FitResult:
 
 
 def _clean(points):
+    """(points, numbers): the finite (N, 2) points without repeats (a repeated neighbour, a
+    closing copy of the first) and each one's number in the given list, counting from 1."""
     pts = np.asarray(points, dtype=float)
     if pts.ndim != 2 or pts.shape[1] != 2:
         raise InputError(f"points must be an (N, 2) array of x, y in metres, got shape {pts.shape}")
@@ -101,12 +103,34 @@ def _clean(points):
         raise InputError("points contain NaN or infinite values; give finite coordinates")
     keep = np.ones(len(pts), dtype=bool)
     keep[1:] = np.any(np.abs(np.diff(pts, axis=0)) > 0.0, axis=1)
+    numbers = np.flatnonzero(keep) + 1
     pts = pts[keep]
     if len(pts) > 1 and np.array_equal(pts[0], pts[-1]):
-        pts = pts[:-1]
+        pts, numbers = pts[:-1], numbers[:-1]
     if len(pts) < 3:
         raise InputError(f"only {len(pts)} distinct point(s); an outline needs at least 3 points")
-    return pts
+    return pts, numbers
+
+
+def _first_crossing(pts, numbers):
+    """A message naming where the closed point list ``pts`` crosses itself (two of its segments
+    by their points' numbers, and the crossing point in mm), or "" when it does not."""
+    import shapely
+
+    n = len(pts)
+    a, b = pts, np.roll(pts, -1, axis=0)
+    segments = shapely.linestrings(np.stack([a, b], axis=1))
+    tree = shapely.STRtree(segments)
+    left, right = tree.query(segments, predicate="intersects")
+    apart = (right > left) & ((right - left) % n != 1) & ((left - right) % n != 1)
+    if not apart.any():
+        return ""
+    i, j = int(left[apart][0]), int(right[apart][0])
+    where = shapely.intersection(segments[i], segments[j])
+    x, y = np.asarray(shapely.get_coordinates(where), dtype=float)[0]
+    return (f"the segment from point {numbers[i]} to point {numbers[(i + 1) % n]} crosses the "
+            f"segment from point {numbers[j]} to point {numbers[(j + 1) % n]} at "
+            f"({x * 1e3:.1f}, {y * 1e3:.1f}) mm (points numbered in the order given, from 1)")
 
 
 def _canonical(pts):
@@ -118,14 +142,9 @@ def _canonical(pts):
 
 
 def _frame(pts, tolerance):
-    import shapely
     from shapely.geometry import LinearRing
 
-    ring = LinearRing(pts)
-    if not ring.is_simple:
-        reason = shapely.is_valid_reason(shapely.Polygon(pts))
-        raise GeometryError(f"the points cross themselves ({reason}); remove the crossing points "
-                            "or reorder them round the outline")
+    ring = LinearRing(pts)            # simple: fit_outline has refused crossing points
     reduced = ring.simplify(float(tolerance), preserve_topology=True)
     frame = np.asarray(reduced.coords, dtype=float)[:-1]
     if len(frame) < 3:
@@ -359,7 +378,12 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
     if isinstance(tolerance, bool) or not isinstance(tolerance, (int, float)) or not (
             math.isfinite(tolerance) and tolerance > 0):
         raise InputError(f"tolerance must be a positive distance in metres, got {tolerance!r}")
-    pts = _canonical(_clean(points))
+    pts, numbers = _clean(points)
+    crossing = _first_crossing(pts, numbers)
+    if crossing:
+        raise GeometryError(f"the points cross themselves: {crossing}; remove the crossing "
+                            "points or reorder them round the outline")
+    pts = _canonical(pts)
     if ground and float(pts[:, 1].min()) <= 0.0:
         k = int(np.argmin(pts[:, 1]))
         raise GeometryError(
