@@ -273,18 +273,16 @@ def _rounding_is_significant(d_sharp, d_fillet):
 
 
 def _deviation(profile, pts):
-    """Two-sided largest distance (m) between the built outline and the point polyline."""
-    import shapely
-
+    """Two-sided largest distance (m) between the built outline and the point polyline: of the
+    points from a dense polyline on the outline, and of that polyline's vertices from the
+    points' polyline (nearest vertex by a k-d tree, then the edges beside it; the same distances
+    as shapely's, checked in the tests, at a fraction of the time)."""
     from profilebench.geometry.outline import build_outline
+    from profilebench.geometry.refine import polyline_distances
 
-    o = build_outline(profile)
-    n = max(2000, 4 * len(pts))
-    samples = o.sample(n)
-    built = shapely.LinearRing(samples)
-    given = shapely.LinearRing(pts)
-    a = float(np.max(shapely.distance(shapely.points(pts), built)))
-    b = float(np.max(shapely.distance(shapely.points(samples), given)))
+    samples = build_outline(profile).sample(max(2000, 4 * len(pts)))
+    a = float(np.max(np.abs(polyline_distances(samples, pts))))
+    b = float(np.max(np.abs(polyline_distances(pts, samples))))
     return max(a, b), samples
 
 

@@ -26,7 +26,7 @@ from scipy.spatial import cKDTree
 from profilebench.errors import GeometryError
 from profilebench.geometry.profile import Node, Profile
 
-__all__ = ["point_distances", "refine_profile"]
+__all__ = ["point_distances", "polyline_distances", "refine_profile"]
 
 # A failed build (a radius that no longer fits, a fillet that turns back) counts every point as
 # this far off (m), so the optimiser steps back from it.
@@ -40,7 +40,7 @@ def _outline_samples(profile, n):
     return o, o.sample(n)
 
 
-def _signed_distances(samples, pts):
+def polyline_distances(samples, pts):
     """Signed distances (m) of ``pts`` to the closed polyline ``samples`` (left positive)."""
     n = len(samples)
     _, i = cKDTree(samples).query(pts)
@@ -63,8 +63,8 @@ def _signed_distances(samples, pts):
 def point_distances(profile, pts, n_samples=None):
     """Signed distances (m) of the points ``pts`` (N, 2) to the profile's built outline."""
     pts = np.asarray(pts, float)
-    n = n_samples or max(2000, 3 * len(pts))
-    return _signed_distances(_outline_samples(profile, n)[1], pts)
+    n = n_samples or max(2000, 2 * len(pts))
+    return polyline_distances(_outline_samples(profile, n)[1], pts)
 
 
 def _point_segments(profile, pts, n):
@@ -144,7 +144,8 @@ def _least_squares_fit(profile, pts, n):
 
     sparsity = _sparsity(profile, pts, n, layout)
     sol = least_squares(resid, x0, bounds=bounds, jac_sparsity=sparsity, method="trf",
-                        x_scale=1.0, max_nfev=15, diff_step=1e-7)
+                        x_scale=1.0, max_nfev=15, diff_step=1e-7,
+                        ftol=1e-5, xtol=1e-7)
     return _unpack(profile, sol.x, layout)
 
 
@@ -157,7 +158,7 @@ def _insert_smooth_node(profile, pts, d, tolerance):
     if abs(d[k]) <= tolerance:
         return None
     o = build_outline(profile)
-    n = max(2000, 3 * len(pts))
+    n = max(2000, 2 * len(pts))
     samples = o.sample(n)
     _, j = cKDTree(samples).query(pts[k])
     s = j * (o.length / n)
@@ -175,7 +176,7 @@ def refine_profile(profile, pts, tolerance, max_added=4):
     nodes stay smooth. The distance is measured on a dense polyline of the outline; the caller
     checks the result (validity, the exact deviation) as it checks any candidate."""
     pts = np.asarray(pts, float)
-    n = max(2000, 3 * len(pts))
+    n = max(2000, 2 * len(pts))
     best, best_dev = profile, math.inf
     current = profile
     for _ in range(max_added + 1):
