@@ -27,7 +27,9 @@ point, metres, noisy to about a millimetre) into a handful of nodes:
 5. When this first candidate is valid but strays from the points (a spline through nodes on
    the points need not follow them between the nodes), every node is moved and every fillet
    sized on the built outline (:func:`profilebench.geometry.refine.refine_profile`: least
-   squares of the points' distances, smooth nodes inserted where it strays most).
+   squares of the points' distances, smooth nodes inserted where it strays most), starting
+   from a quarter of each curved run's smooth nodes, else half, else all of them: a spline
+   needs fewer nodes than the frame's chords, so the profile keeps few.
 
 Every candidate is built and checked: a valid, simple outline (shapely), above the ground when
 asked, within ``tolerance`` of every point (the largest deviation is reported), and with the
@@ -307,6 +309,28 @@ def _check(profile, pts, tolerance, ground):
     return True, dev, ""
 
 
+def _thinned(profile):
+    """``profile`` without every second smooth node of each run of smooth nodes (the first of
+    a run kept), or None when no run has two."""
+    nodes = profile.nodes
+    n = len(nodes)
+    corners = [i for i, nd in enumerate(nodes) if not nd.smooth]
+    if not corners:
+        return None
+    drop, first = set(), corners[0]
+    run = []
+    for q in range(1, n + 1):
+        i = (first + q) % n
+        if nodes[i].smooth:
+            run.append(i)
+            continue
+        drop.update(run[1::2])
+        run = []
+    if not drop:
+        return None
+    return Profile(tuple(nd for i, nd in enumerate(nodes) if i not in drop), name=profile.name)
+
+
 def _shrink_radii_to_fit(nodes, name):
     """``nodes`` (a list, None for a left-out vertex) with every radius too large for its
     neighbouring segments reduced to 90 % of the largest that fits, or to 0 if none fits."""
@@ -572,10 +596,18 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         # the time: its fallbacks below are quicker)
         from profilebench.geometry.refine import refine_profile
 
-        refined, _ = refine_profile(profile_of(candidate), pts, tolerance)
-        r_ok, r_dev, r_why = _check(refined, pts, tolerance, ground)
-        if r_ok:
-            candidate, ok, dev, why = list(refined.nodes), r_ok, r_dev, r_why
+        # first with every other smooth node of each curved run (a spline needs fewer nodes
+        # than the chords the frame has there; the refinement adds nodes where it must)
+        start = profile_of(candidate)
+        half = _thinned(start)
+        for trial in (half and _thinned(half), half, start):
+            if trial is None:
+                continue
+            refined, _ = refine_profile(trial, pts, tolerance)
+            r_ok, r_dev, r_why = _check(refined, pts, tolerance, ground)
+            if r_ok:
+                candidate, ok, dev, why = list(refined.nodes), r_ok, r_dev, r_why
+                break
     # if it does not pass, give up detail step by step, keeping each step that helps: the
     # splines made polylines, the straight runs' kinks restored, the fillets one by one sharp
     steps = [

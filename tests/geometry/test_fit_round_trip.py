@@ -65,15 +65,15 @@ def _round_trip_failures(profile, conditions, seed=0, cd_rel=0.01):
 _KNOWN = {
     "kestrel_courier_van": (
         "underbody rear r 50 mm fitted sharp (EDGE_SEPARATION for TURBULENT_SEPARATION), "
-        "Cd 0.2604 -> 0.2491 (-4.3 %); the other six radii within 6 %, same verdicts"),
+        "Cd 0.2604 -> 0.2491 (-4.4 %); the other six radii within 5 %, same verdicts"),
     "kestrel_hatch": (
-        "underbody rear r 80 -> 137 mm (same verdict); windscreen base r 100 mm turning 24 "
-        "degrees (2.2 mm off a smooth knee) comes back as a spline (CONCAVE_BUBBLE for "
-        "CONCAVE); the bumper nose's curvature peak (r 365 mm) is not matched "
-        "(ATTACHED for BUBBLE_REATTACHES); Cd 0.2430 -> 0.2422 (-0.3 %)"),
+        "the windscreen base (r 100 mm turning 14 degrees, its arc 0.8 mm off its sharp corner) "
+        "comes back inside a smooth run with no corner there (8 corners -> 7), and the bumper "
+        "nose's curvature peak (r 365 mm) is not found as a corner; underbody rear r 80 -> "
+        "141 mm (same verdict); Cd 0.2430 -> 0.2425 (-0.2 %)"),
     "kestrel_shuttle_minibus": (
         "underbody rear r 60 mm fitted sharp (EDGE_SEPARATION for TURBULENT_SEPARATION), "
-        "Cd 0.2603 -> 0.2481 (-4.7 %); the other four radii within 1.3 %, same verdicts"),
+        "Cd 0.2603 -> 0.2473 (-5.0 %); the other four radii within 4 %, same verdicts"),
 }
 
 
