@@ -603,7 +603,9 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         for trial in (half and _thinned(half), half, start):
             if trial is None:
                 continue
-            refined, _ = refine_profile(trial, pts, tolerance)
+            # a thinned start that strays far after its first fit is not worth adding to
+            refined, _ = refine_profile(trial, pts, tolerance,
+                                        give_up_above=None if trial is start else 4 * tolerance)
             r_ok, r_dev, r_why = _check(refined, pts, tolerance, ground)
             if r_ok:
                 candidate, ok, dev, why = list(refined.nodes), r_ok, r_dev, r_why

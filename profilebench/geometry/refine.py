@@ -169,12 +169,14 @@ def _insert_smooth_node(profile, pts, d, tolerance):
     return profile.inserted(before + 1, Node(float(pts[k, 0]), float(pts[k, 1]), smooth=True))
 
 
-def refine_profile(profile, pts, tolerance, max_added=4):
+def refine_profile(profile, pts, tolerance, max_added=4, give_up_above=None):
     """(profile, largest distance (m)): ``profile`` with its nodes and fillet radii fitted to
     the points ``pts`` (N, 2) on the built outline, smooth nodes added (at most ``max_added``)
     where it strays more than ``tolerance`` (m) from them. Corner nodes stay corners, smooth
     nodes stay smooth. The distance is measured on a dense polyline of the outline; the caller
-    checks the result (validity, the exact deviation) as it checks any candidate."""
+    checks the result (validity, the exact deviation) as it checks any candidate. With
+    ``give_up_above`` (m), a first fit that still strays farther than that is returned at once
+    (adding nodes one by one would rarely bring it within the tolerance)."""
     pts = np.asarray(pts, float)
     n = max(2000, 2 * len(pts))
     best, best_dev = profile, math.inf
@@ -186,9 +188,10 @@ def refine_profile(profile, pts, tolerance, max_added=4):
         except GeometryError:
             break
         dev = float(np.max(np.abs(d)))
+        first = best_dev == math.inf
         if dev < best_dev:
             best, best_dev = current, dev
-        if dev <= tolerance:
+        if dev <= tolerance or (first and give_up_above is not None and dev > give_up_above):
             break
         nxt = _insert_smooth_node(current, pts, d, tolerance)
         if nxt is None:
