@@ -13,10 +13,11 @@ point, metres, noisy to about a millimetre) into a handful of nodes:
 3. Each stretch of the frame joined by short edges (shorter than ``CORNER_EDGE_RATIO`` of the
    outline's height or 15 tolerances, or not long and turning the same way at both ends: the
    chords Douglas-Peucker leaves on a large fillet) and turning by more than
-   ``SMOOTH_TURN_DEG`` is a fillet when its points lie within ``tolerance`` of a line-arc-line
-   path: one node where the edges' least-squares lines meet, with the radius that fits the
-   points best (scipy ``least_squares`` for a first guess, ``minimize_scalar`` on the path),
-   below ``FILLET_MAX_RADIUS_RATIO`` of the height. A stretch that is not one fillet is split
+   ``SMOOTH_TURN_DEG`` is a fillet when its points lie within twice ``tolerance`` of a
+   line-arc-line path (the refinement of step 5 brings it within the tolerance, where a side is
+   a curved run rather than a line): one node where the edges' least-squares lines meet, with
+   the radius that fits the points best (scipy ``least_squares`` for a first guess,
+   ``minimize_scalar`` on the path), below ``FILLET_MAX_RADIUS_RATIO`` of the height. A stretch that is not one fillet is split
    at its longest edge and each part tried again. A single vertex turning by more than
    ``SMOOTH_TURN_DEG`` between two long edges is a corner where their lines meet: rounded when
    a fillet fits its points significantly better than a sharp corner (an F test,
@@ -512,7 +513,7 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         fits = False
         if corner is not None and radius > 0:
             radius, worst = _fillet_radius(pts[idx], corner, d_in, d_out, radius)
-            fits = worst <= tolerance and radius < FILLET_MAX_RADIUS_RATIO * height
+            fits = worst <= 2.0 * tolerance and radius < FILLET_MAX_RADIUS_RATIO * height
         if fits:
             nodes.append(Node(float(corner[0]), float(corner[1]), radius=radius))
             kinds.append(("fillet", run, radius))

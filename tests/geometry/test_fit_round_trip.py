@@ -68,12 +68,13 @@ _KNOWN = {
         "Cd 0.2604 -> 0.2491 (-4.4 %); the other six radii within 5 %, same verdicts"),
     "kestrel_hatch": (
         "the windscreen base (r 100 mm turning 14 degrees, its arc 0.8 mm off its sharp corner) "
-        "comes back inside a smooth run with no corner there (8 corners -> 7), and the bumper "
-        "nose's curvature peak (r 365 mm) is not found as a corner; underbody rear r 80 -> "
-        "141 mm (same verdict); Cd 0.2430 -> 0.2425 (-0.2 %)"),
+        "comes back as a curvature peak of a smooth run (r 346 mm, CONCAVE for CONCAVE_BUBBLE), "
+        "and the bumper nose's curvature peak (r 365 mm) is not found as a corner (the nearest "
+        "is the bonnet leading edge's fillet); underbody rear r 80 -> 135 mm (same verdict); "
+        "Cd 0.2430 -> 0.2425 (-0.2 %)"),
     "kestrel_shuttle_minibus": (
         "underbody rear r 60 mm fitted sharp (EDGE_SEPARATION for TURBULENT_SEPARATION), "
-        "Cd 0.2603 -> 0.2473 (-5.0 %); the other four radii within 4 %, same verdicts"),
+        "Cd 0.2603 -> 0.2480 (-4.7 %); the other four radii within 1 %, same verdicts"),
 }
 
 
