@@ -239,5 +239,6 @@ class ImportDialog(QDialog):
 
     def done(self, result) -> None:
         self._timer.stop()
-        self.runner.close(5000)
+        # no wait for a fit still running in the child: its result is dropped when it comes
+        self.runner.close(0)
         super().done(result)

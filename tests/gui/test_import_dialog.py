@@ -98,3 +98,20 @@ def test_the_editor_imports_through_the_dialog_and_cancel_changes_nothing(window
     assert w.import_points_with_dialog(path)
     wait_current(qtbot, w)
     assert len(w.document.profile.nodes) == 4 and w.document.baseline is None
+
+
+def test_cancel_while_a_fit_runs_returns_at_once_and_drops_the_late_result(qtbot, tmp_path):
+    import time
+
+    from profilebench.gui.import_dialog import ImportDialog
+
+    d = ImportDialog(import_points_csv(_box_csv(tmp_path / "box.csv")), "box")
+    qtbot.addWidget(d)
+    d.show()
+    assert d.fitting
+    t0 = time.perf_counter()
+    d.reject()
+    assert time.perf_counter() - t0 < 1.0
+    assert d.result() == QDialog.DialogCode.Rejected
+    qtbot.wait(1500)                    # the fit comes back meanwhile: nothing is shown
+    assert d.preview is None
