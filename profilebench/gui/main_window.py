@@ -372,25 +372,59 @@ class MainWindow(QMainWindow):
         return self.save_to(self.document.path)
 
     def import_points(self, path, simplify_mm: float = 5.0) -> bool:
-        """Replace the profile by a CSV point outline (an undoable edit)."""
-        from profilebench.geometry.fit import fit_outline
+        """Replace the profile by a CSV point outline fitted within ``simplify_mm`` (an
+        undoable edit), with no dialog (scripts and tests; the menu shows the import dialog)."""
+        from profilebench.editor.import_preview import fit_preview
         from profilebench.io import import_points_csv
 
         try:
             pts = import_points_csv(path)
-            fit = fit_outline(pts.points, tolerance=simplify_mm / 1000.0,
-                              ground=self.document.conditions.ground, name=Path(path).stem)
         except ProfileBenchError as exc:
             self._show_banner(f"cannot import {path}: {exc}", True)
             return False
-        prof = fit.profile
+        preview = fit_preview(pts.points, simplify_mm / 1000.0,
+                              ground=self.document.conditions.ground, name=Path(path).stem)
+        return self._load_imported(path, pts, preview)
+
+    def import_points_with_dialog(self, path) -> bool:
+        """Read a CSV point outline and load its fit once the import dialog is accepted."""
+        from profilebench.gui.import_dialog import ImportDialog
+        from profilebench.io import import_points_csv
+
+        try:
+            pts = import_points_csv(path)
+        except ProfileBenchError as exc:
+            self._show_banner(f"cannot import {path}: {exc}", True)
+            return False
+        dialog = ImportDialog(pts, Path(path).stem, ground=self.document.conditions.ground,
+                              parent=self)
+        try:
+            if not self.run_import_dialog(dialog):
+                return False
+            return self._load_imported(path, pts, dialog.preview)
+        finally:
+            dialog.deleteLater()
+
+    @staticmethod
+    def run_import_dialog(dialog) -> bool:
+        """Show the import dialog modally; True when accepted (tests replace this)."""
+        from PySide6.QtWidgets import QDialog
+
+        return dialog.exec() == QDialog.Accepted
+
+    def _load_imported(self, path, pts, preview) -> bool:
+        if preview is None or not preview.ok:
+            reason = preview.error if preview is not None else "no fit"
+            self._show_banner(f"cannot import {path}: {reason}", True)
+            return False
+        prof = preview.profile
         self.select_node(None)      # the old selection was a node of the old outline
         self.push(commands.import_profile(self.document.state, prof, f"Import {Path(path).name}"))
         self.canvas.fit()
         self.statusBar().showMessage(
-            f"imported {len(prof)} nodes, {fit.corners} corners, within "
-            f"{fit.max_deviation * 1e3:.1f} mm of the points ({pts.units}, {pts.units_reason})"
-            + (f"; {fit.notes[0]}" if fit.notes else ""), 12000)
+            f"imported {len(prof)} nodes, {preview.corners} corners, within "
+            f"{preview.max_deviation * 1e3:.1f} mm of the points ({pts.units}, {pts.units_reason})"
+            + (f"; {preview.notes[0]}" if preview.notes else ""), 12000)
         return True
 
     def export_image(self, path) -> bool:
@@ -893,7 +927,7 @@ class MainWindow(QMainWindow):
     def _ask_import_csv(self):
         path, _ = QFileDialog.getOpenFileName(self, "Import point outline", "", "Point files (*.csv *.txt)")
         if path:
-            self.import_points(path)
+            self.import_points_with_dialog(path)
 
     def _ask_export_image(self):
         path, _ = QFileDialog.getSaveFileName(self, "Export annotated view", "", "Images (*.png *.svg *.pdf)")

@@ -97,3 +97,39 @@ def test_outline_files_that_are_not_outlines_are_refused_with_a_message(tmp_path
     else:
         assert code == EXIT_BAD_INPUT
         assert expect in err
+
+
+# the bad outlines the issue lists: each refused by `import` and by `analyse` with exit 2 and a
+# message saying what is wrong, and `import` writes nothing
+_BAD_OUTLINES = {
+    "too few points": (["x_mm,y_mm", "0,300", "4000,300"], [], ["at least 3"]),
+    "a header without x and y": (["a,b,c", "0,300,1", "0,1500,1", "4000,1500,1", "4000,300,1"],
+                                 [], ["header", "'x'", "'y'"]),
+    "mixed units in the header": (["x_mm,y_m", "0,0.3", "0,1.5", "4000,1.5", "4000,0.3"], [],
+                                  ["both mm and m"]),
+    "units contradicting the header": (["x_mm,y_mm", "0,300", "0,1500", "4000,1500",
+                                        "4000,300"], ["--units", "m"], ["units='m'", "'mm'"]),
+    # the crossing named by its segments' points and where (the square's diagonals cross at
+    # (2000, 900) mm)
+    "a self-crossing point list": (["x_mm,y_mm", "0,300", "4000,1500", "4000,300", "0,1500"], [],
+                                   ["cross", "point 1 to point 2", "point 3 to point 4",
+                                    "(2000.0, 900.0) mm"]),
+    "an outline below the ground": (["x_mm,y_mm", "0,-10", "0,1500", "4000,1500", "4000,-10"],
+                                    [], ["ground", "(0.0, -10.0) mm"]),
+}
+
+
+@pytest.mark.parametrize("command", ["import", "analyse"])
+@pytest.mark.parametrize("case", sorted(_BAD_OUTLINES))
+def test_each_bad_outline_gets_a_clear_message_and_exit_2(tmp_path, capsys, command, case):
+    rows, options, expect = _BAD_OUTLINES[case]
+    path = tmp_path / "bad.csv"
+    path.write_text("\n".join(rows) + "\n")
+    target = tmp_path / "bad.json"
+    args = [command, str(path)] + ([str(target)] if command == "import" else ["--panels", "120"])
+    assert main(args + options) == EXIT_BAD_INPUT
+    err = capsys.readouterr().err
+    for words in expect:
+        assert words in err, err
+    assert "Traceback" not in err
+    assert not target.exists()

@@ -9,9 +9,11 @@ from profilebench.geometry.shapes import ellipse_points
 
 
 def _star(n, seed):
-    """A simple (star-shaped about its centre) polygon with n uneven points."""
+    """A simple polygon (star-shaped about its centre) with n uneven points."""
     rng = np.random.default_rng(seed)
-    t = np.sort(rng.uniform(0, 2 * np.pi, n))
+    # evenly spaced angles with a jitter under half a step: the centre stays inside, so the
+    # polygon is simple
+    t = (np.arange(n) + rng.uniform(-0.4, 0.4, n)) * (2 * np.pi / n)
     r = rng.uniform(0.5, 1.5, n)
     return np.column_stack([r * np.cos(t) + 3.0, r * np.sin(t) + 2.0])
 
