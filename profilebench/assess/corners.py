@@ -16,7 +16,7 @@ import math
 
 import numpy as np
 
-from profilebench.assess.results import CornerResult, RadiusSearch, SearchStatus, Verdict
+from profilebench.assess.results import CornerResult, Verdict
 from profilebench.errors import GeometryError, RadiusTooLargeError
 from profilebench.flow.boundary_layer import SEPARATION_KINDS, EventKind
 from profilebench.geometry.polyline import arc_length, edges, signed_area

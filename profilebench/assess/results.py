@@ -11,7 +11,6 @@ from dataclasses import dataclass, field
 
 from typing import TYPE_CHECKING
 
-import numpy as np
 
 from profilebench.enums import TextEnum
 

@@ -9,7 +9,7 @@ All positions given to these functions are screen pixels unless named ``world``.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 
 import numpy as np
 

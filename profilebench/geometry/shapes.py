@@ -11,7 +11,7 @@ import math
 
 import numpy as np
 
-from profilebench.errors import GeometryError, InputError
+from profilebench.errors import InputError
 from profilebench.geometry.outline import build_outline
 from profilebench.geometry.profile import Node, Profile
 

@@ -8,15 +8,13 @@ outline, sampled densely).
 
 from __future__ import annotations
 
-import math
 import re
 
 import numpy as np
 import shapely
 from scipy.spatial import cKDTree
 
-from profilebench.errors import (GeometryError, GroundContactError, RadiusTooLargeError,
-                                 SelfIntersectionError)
+from profilebench.errors import (GeometryError, GroundContactError, SelfIntersectionError)
 from profilebench.geometry.outline import build_outline, canonical_outline, node_description
 from profilebench.geometry.polyline import signed_area
 

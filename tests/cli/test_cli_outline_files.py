@@ -1,7 +1,6 @@
 """The command line with CSV outlines (analyse, corners, compare, import) and corners --smallest
 on outlines with smooth runs. In-process through main([...])."""
 
-import json
 
 import pytest
 

@@ -4,7 +4,6 @@ import math
 
 import numpy as np
 import pytest
-import shapely
 from shapely.geometry import LineString, Point
 
 from profilebench.assess.conditions import Conditions

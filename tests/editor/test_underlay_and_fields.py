@@ -1,6 +1,5 @@
 """Underlay placement by two reference points, and parsing of typed entries (no Qt)."""
 
-import math
 
 import numpy as np
 import pytest

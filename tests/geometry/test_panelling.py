@@ -1,5 +1,4 @@
 """Panelling: point count, sharp nodes on points, arc refinement, clustering, bad counts."""
-import math
 
 import numpy as np
 import pytest

@@ -1,13 +1,12 @@
 """The editor window driven like a user: real mouse events, typed entries, files (headless)."""
 
-import math
 
 import numpy as np
 import pytest
 from PySide6.QtCore import QPoint, Qt
 
 from profilebench.editor.document import CAUTION
-from profilebench.io import default_sample_path, load_project, sample_paths
+from profilebench.io import default_sample_path, load_project
 
 from gui_helpers import ANALYSIS_TIMEOUT_MS, wait_current
 

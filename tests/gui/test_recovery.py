@@ -1,6 +1,5 @@
 """Nothing lost: recovery copies survive a SIGKILL and are offered back; failed saves keep the work."""
 
-import json
 import os
 import signal
 import subprocess

@@ -5,7 +5,6 @@ copy does not hide a good one, and an underlay that is a pipe is refused instead
 
 from __future__ import annotations
 
-import json
 import os
 import subprocess
 import sys

@@ -20,7 +20,7 @@ from hypothesis import event as _hypothesis_event
 from hypothesis.control import currently_in_test_context
 from hypothesis import strategies as st
 
-from profilebench import Conditions, Node, Profile, analyze, load_project
+from profilebench import Conditions, Profile, analyze, load_project
 from profilebench.assess.results import AnalysisStatus
 from profilebench.errors import ProfileBenchError
 from profilebench.geometry import rounded_box

@@ -7,7 +7,6 @@ import copy
 import hashlib
 import json
 import math
-import os
 import time
 import tracemalloc
 from pathlib import Path

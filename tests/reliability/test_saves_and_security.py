@@ -6,7 +6,6 @@ from __future__ import annotations
 import json
 import os
 import pickle
-import sys
 import textwrap
 from pathlib import Path
 
