@@ -443,8 +443,7 @@ def speed_sweep(profile, conditions=None, speeds=(20.0, 40.0), *, corner=None, t
     specs = [PointSpec(profile, conditions.replace(speed=float(v)), thickness, table, watched)
              for v in values]
     results, stats = _run(specs, run_options)
-    return _table("speed", values, specs, results, stats,
-                  watched, "" if watched is not None else "")
+    return _table("speed", values, specs, results, stats, watched, "")
 
 
 @dataclass(frozen=True)

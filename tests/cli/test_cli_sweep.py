@@ -56,9 +56,9 @@ def test_radius_to_max_and_corner_by_node_number(capsys):
 
 
 def test_position_sweep_reports_a_failed_point_and_exits_1(tmp_path, capsys):
-    out_csv = tmp_path / "p.csv"
+    out_csv, out_png = tmp_path / "p.csv", tmp_path / "p.png"
     code, out, err = _run(capsys, "--position", "rear lower edge:-3:0:3", "--corner",
-                          "front upper edge", "--csv", str(out_csv))
+                          "front upper edge", "--csv", str(out_csv), "--image", str(out_png))
     assert code == cli.EXIT_FAILED
     assert "sweep points did not succeed" in err
     with open(out_csv, newline="") as fh:
@@ -66,6 +66,7 @@ def test_position_sweep_reports_a_failed_point_and_exits_1(tmp_path, capsys):
     assert rows[0]["status"] == "success" and rows[-1]["status"] != "success"
     assert rows[-1]["cd"] == "" and rows[-1]["message"]
     assert "nan" not in out.lower() and "nan" not in out_csv.read_text().lower()
+    assert out_png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"   # written despite the failure
 
 
 def test_speed_sweep_and_grid(capsys):
