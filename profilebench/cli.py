@@ -9,6 +9,9 @@ Subcommands::
     profilebench compare BASELINE VARIANT [--same-conditions] [condition options]
     profilebench corners FILE [--smallest] [condition options]
     profilebench import OUTLINE.csv PROJECT.json [--simplify MM] [--units mm|m] [conditions]
+    profilebench sweep PROJECT (--radius FIRST:LAST:N --corner LABEL [--speeds FIRST:LAST:N]
+                                | --position NODE:DX:DY:N | --speeds FIRST:LAST:N)
+                               [--corner LABEL] [--csv OUT.csv] [--image OUT.png] [--workers N]
     profilebench samples
     profilebench bench [--only NAME ...] [--skip NAME ...]
 
@@ -241,6 +244,8 @@ def build_parser() -> argparse.ArgumentParser:
     p.add_argument("--name", help="the profile's name (default: the file's name)")
     _add_units_option(p)
     _add_condition_options(p)
+
+    _add_sweep_parser(sub)
 
     sub.add_parser("samples", help="list the sample project files")
 
@@ -646,9 +651,203 @@ def _cmd_import(args, out):
     return EXIT_OK
 
 
+# --- sweep -------------------------------------------------------------------------------------
+
+SWEEP_HELP = """\
+Sweep one parameter (or radius and speed on a grid) and analyse each point.
+
+  --radius FIRST:LAST:N     N radii of the --corner from FIRST to LAST, in metres; LAST may be
+                            'max', the largest radius that fits (0:max:15 sweeps from sharp)
+  --position NODE:DX:DY:N   N positions of NODE (a label, place name or node number) moved
+                            evenly from where it is by up to (DX, DY) metres (x rearward, y up)
+  --speeds FIRST:LAST:N     N speeds from FIRST to LAST km/h; with --radius, a radius x speed grid
+
+--corner names the corner by its label, its place name or its node number: the swept corner of
+--radius, and the corner watched (verdict bands, smallest attached radius at each point) with
+--position or --speeds. The knee is the smallest swept radius from which Cd stays within 2% of
+its attached value (the median Cd of the points where the corner is attached). Exit codes: 0
+every point succeeded, 1 some point failed (the table and files show which and why), 2 bad input.
+"""
+
+
+def _add_sweep_parser(sub):
+    p = sub.add_parser("sweep", help="sweep a corner's radius, a node's position or the speed: "
+                                     "table, CSV, chart with the knee",
+                       description=SWEEP_HELP, formatter_class=argparse.RawDescriptionHelpFormatter)
+    p.add_argument("file", help="project file (.json) or outline points (.csv)")
+    p.add_argument("--corner", metavar="LABEL", help="the corner swept (--radius) or watched")
+    p.add_argument("--radius", metavar="FIRST:LAST:N", help="radii in metres, LAST may be 'max'")
+    p.add_argument("--position", metavar="NODE:DX:DY:N", help="a node moved by up to DX, DY metres")
+    p.add_argument("--speeds", metavar="FIRST:LAST:N", help="speeds in km/h")
+    p.add_argument("--workers", type=int, metavar="N",
+                   help="processes to run the points on (default: one per core; 1: this one)")
+    p.add_argument("--csv", metavar="OUT", help="one row per point (.csv)")
+    p.add_argument("--image", metavar="OUT", help="chart of Cd and CdA (.png, .svg or .pdf)")
+    _add_units_option(p)
+    _add_condition_options(p)
+
+
+def _range_numbers(option, text, fields, last_may_be_max=False):
+    """``text`` split at ':' into ``fields`` parts: floats, the last a count of points."""
+    parts = text.split(":")
+    if len(parts) != fields:
+        raise InputError(f"{option} {_short_number(text)!r}: give {fields} values separated by ':' "
+                         f"(see profilebench sweep --help)")
+    values = []
+    for k, part in enumerate(parts):
+        part = part.strip()
+        if k == fields - 1:
+            if not part.isdigit() or not 2 <= int(part) <= 1000:
+                raise InputError(f"{option}: the number of points {_short_number(part)!r} must be a "
+                                 "whole number from 2 to 1000")
+            values.append(int(part))
+        elif last_may_be_max and k == fields - 2 and part.lower() == "max":
+            values.append(None)
+        else:
+            try:
+                value = float(part)
+            except ValueError:
+                value = math.nan
+            if not math.isfinite(value):
+                raise InputError(f"{option}: {_short_number(part)!r} is not a number")
+            values.append(value)
+    return values
+
+
+def _sweep_table(args, project, cond, workers, progress):
+    import numpy as np
+
+    from profilebench.assess.conditions import kmh_to_ms
+    from profilebench import studies
+
+    profile, table = project.profile, _user_table(args)
+    options = dict(thickness=None, table=table, workers=workers, progress=progress)
+    speeds = None
+    if args.speeds:
+        first, last, n = _range_numbers("--speeds", args.speeds, 3)
+        speeds = np.linspace(kmh_to_ms(first), kmh_to_ms(last), n)
+    if args.radius:
+        if args.position:
+            raise InputError("give --radius or --position, not both (a grid is radius x speed)")
+        if not args.corner:
+            raise InputError("--radius needs --corner LABEL: the corner whose radius is swept")
+        first, last, n = _range_numbers("--radius", args.radius, 3, last_may_be_max=True)
+        node = studies.corner_node(profile, args.corner)
+        if profile.nodes[node].smooth:
+            raise InputError(f"--corner {args.corner!r} is a smooth node (a spline passes "
+                             "through it), not a corner; make it a corner first")
+        radii = studies.radius_range(profile, node, first, last, n)
+        if speeds is not None:
+            return studies.radius_speed_grid(profile, cond, node, radii=radii, speeds=speeds,
+                                             **options)
+        return studies.radius_sweep(profile, cond, node, radii=radii, **options)
+    if args.position:
+        if speeds is not None:
+            raise InputError("give --position or --speeds, not both (a grid is radius x speed)")
+        name, rest = (args.position.rsplit(":", 3)[0], ":".join(args.position.rsplit(":", 3)[1:]))
+        dx, dy, n = _range_numbers("--position", rest, 3)
+        node = studies.corner_node(profile, name)
+        return studies.position_sweep(profile, cond, node=node, direction=(dx, dy), points=n,
+                                      corner=args.corner, **options)
+    if speeds is not None:
+        return studies.speed_sweep(profile, cond, speeds, corner=args.corner, **options)
+    raise InputError("give what to sweep: --radius FIRST:LAST:N (with --corner), "
+                     "--position NODE:DX:DY:N or --speeds FIRST:LAST:N")
+
+
+def _sweep_cell(arr, i, fmt, scale=1.0):
+    return "n/a" if arr.mask[i] else format(float(arr.data[i]) * scale, fmt)
+
+
+def _print_sweep(table, out):
+    from profilebench.plotting.summary import format_table
+    from profilebench.plotting.sweep_chart import axis_scale
+
+    scale, label = axis_scale(table.parameter)
+    verdicts = table.corner_verdicts() if table.corner is not None else (None,) * len(table)
+    j = table.corner_nodes.index(table.corner) if table.corner in table.corner_nodes else None
+    rows = []
+    for i in range(len(table)):
+        v = verdicts[i]
+        rows.append((f"{table.values[i] * scale:.1f}", _sweep_cell(table.cd, i, ".4f"),
+                     _sweep_cell(table.cda, i, ".4f"), _sweep_cell(table.force, i, ".1f"),
+                     _sweep_cell(table.power, i, ".2f", 1e-3), "" if v is None else v.value,
+                     "" if j is None or table.margins.mask[i, j] else f"{table.margins.data[i, j]:.2f}",
+                     table.status[i].value))
+    print(format_table((label, "Cd", "CdA (m^2)", "force (N)", "power (kW)", "corner verdict",
+                        "margin", "status"), rows), file=out)
+    if table.knee is not None:
+        print(f"knee: {table.knee.message}", file=out)
+    if table.corner is not None:
+        found = table.smallest_attached.compressed()
+        if table.parameter == "radius":
+            r = table.smallest_attached_radius
+            print(f"smallest attached radius of {table.corner_label}: "
+                  + ("not found (" + (table.search_status[0].value if table.search_status[0]
+                                      else "not searched") + ")" if r is None
+                     else f"{r * 1e3:.1f} mm"), file=out)
+        elif len(found):
+            print(f"smallest attached radius of {table.corner_label}: "
+                  f"{found.min() * 1e3:.1f} to {found.max() * 1e3:.1f} mm over the points", file=out)
+    for i, status, message in table.failed:
+        print(f"point {i + 1} ({table.values[i] * scale:.1f}): {status.value}: {message}", file=out)
+
+
+def _cmd_sweep(args, out):
+    from profilebench.studies import GridTable
+    from profilebench.studies.export import write_sweep_csv
+
+    if args.image:
+        from profilebench.plotting.review import image_format
+
+        image_format(args.image)
+    if args.csv and Path(args.csv).suffix.lower() != ".csv":
+        raise InputError(f"--csv {args.csv!r}: the file name must end in .csv")
+    if args.workers is not None and args.workers < 1:
+        raise InputError(f"--workers {args.workers}: give at least 1")
+    _check_outputs([("--image", args.image), ("--csv", args.csv)],
+                   [args.file, getattr(args, "table", None)])
+    project = _load(args.file, args)
+    cond = _conditions(project, args)
+    err = sys.stderr
+    progress = None
+    if err.isatty():
+        def progress(done, total, i, result):
+            err.write(f"\r  point {done}/{total}")
+            err.write("\n" if done == total else "")
+            err.flush()
+    result = _sweep_table(args, project, cond, args.workers, progress)
+    tables = result.rows if isinstance(result, GridTable) else (result,)
+    print(f"{project.profile.name} ({args.file})", file=out)
+    for t in tables:
+        print("", file=out)
+        if isinstance(result, GridTable):
+            print(f"speed {t.conditions[0].speed * 3.6:.1f} km/h", file=out)
+        _print_sweep(t, out)
+    stats = result.stats
+    total = sum(len(t) for t in tables)
+    print(f"\n{total} points: {stats.computed} analysed, {stats.from_cache} from the cache, "
+          f"{stats.seconds:.2f} s on {stats.workers} worker(s)", file=out)
+    if args.csv:
+        write_sweep_csv(result, args.csv)
+        print(f"table written: {args.csv}", file=out)
+    if args.image:
+        from profilebench.plotting.review import save_figure
+        from profilebench.plotting.sweep_chart import grid_figure, sweep_figure
+
+        fig = grid_figure(result) if isinstance(result, GridTable) else sweep_figure(result)
+        save_figure(fig, args.image)
+        print(f"image written: {args.image}", file=out)
+    _caution(out)
+    failed = sum(len(t.failed) for t in tables)
+    if failed:
+        raise _Failed(f"{failed} of {total} sweep points did not succeed (listed above)")
+    return EXIT_OK
+
+
 COMMANDS = {"analyse": _cmd_analyse, "analyze": _cmd_analyse, "compare": _cmd_compare,
             "corners": _cmd_corners, "import": _cmd_import, "samples": _cmd_samples,
-            "bench": _cmd_bench}
+            "bench": _cmd_bench, "sweep": _cmd_sweep}
 
 
 def main(argv=None) -> int:

@@ -16,6 +16,7 @@ LOWER = {
     "assess": {"geometry", "flow"},
     "io": {"geometry", "flow", "assess"},
     "plotting": {"geometry", "flow", "assess", "io"},
+    "studies": {"geometry", "flow", "assess", "io"},
     "editor": {"geometry", "flow", "assess", "io", "plotting"},
 }
 
