@@ -105,7 +105,7 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
             first = analyze(_moved(project.profile, k + 1), cond)
             colds.append(time.perf_counter() - t0)
             searches = len(first.radius_searches)
-            prof = _moved(project.profile, k + 1)   # the same outline, a new Profile (no cache)
+            prof = _moved(project.profile, k + 1)  # the same outline, a new Profile (no cache)
             t0 = time.perf_counter()
             res = analyze(prof, cond)
             totals.append(time.perf_counter() - t0)
@@ -117,14 +117,22 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
         # timings["assess"] is measured from the start of the assessment including the search
         assess = [a - r for a, r in zip(split["assess"], split["radius_search"])]
         t_total = _median(totals)
-        rows.append(dict(
-            sample=path.stem, total_ms=1e3 * t_total, cold_ms=1e3 * _median(colds),
-            searches=searches,
-            geometry_ms=1e3 * _median(split["geometry"]), flow_ms=1e3 * _median(split["flow"]),
-            radius_search_ms=1e3 * _median(split["radius_search"]),
-            assess_ms=1e3 * _median(assess), dense_solve_ms=1e3 * _median(denses),
-            ratio=_median(ratios), status=status, repeats=repeats,
-        ))
+        rows.append(
+            dict(
+                sample=path.stem,
+                total_ms=1e3 * t_total,
+                cold_ms=1e3 * _median(colds),
+                searches=searches,
+                geometry_ms=1e3 * _median(split["geometry"]),
+                flow_ms=1e3 * _median(split["flow"]),
+                radius_search_ms=1e3 * _median(split["radius_search"]),
+                assess_ms=1e3 * _median(assess),
+                dense_solve_ms=1e3 * _median(denses),
+                ratio=_median(ratios),
+                status=status,
+                repeats=repeats,
+            )
+        )
     body = next(p for p in sample_paths() if p.stem == "kestrel_test_body")
     project = load_project(body)
     cond = project.conditions.replace(panels=panels)
@@ -136,19 +144,31 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
         smallest_attached_radius(prof, cond, node)
         times.append(time.perf_counter() - t0)
     t_search = _median(times)
-    rows.append(dict(sample=f"radius search (test body, node {node})", total_ms=1e3 * t_search,
-                     cold_ms=float("nan"), searches=1,
-                     geometry_ms=float("nan"), flow_ms=float("nan"),
-                     radius_search_ms=float("nan"), assess_ms=float("nan"),
-                     dense_solve_ms=1e3 * t_dense, ratio=t_search / t_dense, status="",
-                     repeats=search_repeats))
+    rows.append(
+        dict(
+            sample=f"radius search (test body, node {node})",
+            total_ms=1e3 * t_search,
+            cold_ms=float("nan"),
+            searches=1,
+            geometry_ms=float("nan"),
+            flow_ms=float("nan"),
+            radius_search_ms=float("nan"),
+            assess_ms=float("nan"),
+            dense_solve_ms=1e3 * t_dense,
+            ratio=t_search / t_dense,
+            status="",
+            repeats=search_repeats,
+        )
+    )
     return rows
 
 
 def format_rows(rows) -> str:
     """The rows as a plain-text table."""
-    head = (f"{'sample':<36} {'total ms':>9} {'geom':>7} {'flow':>7} {'search':>7} {'assess':>7}"
-            f" {'np.solve':>9} {'ratio':>7} {'cold ms':>8} {'runs':>5}  status")
+    head = (
+        f"{'sample':<36} {'total ms':>9} {'geom':>7} {'flow':>7} {'search':>7} {'assess':>7}"
+        f" {'np.solve':>9} {'ratio':>7} {'cold ms':>8} {'runs':>5}  status"
+    )
     lines = [head]
     for r in rows:
         lines.append(

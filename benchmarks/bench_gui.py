@@ -61,7 +61,7 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
 
     c = w.canvas
     prof = w.document.profile
-    node = max(range(len(prof)), key=lambda i: prof.nodes[i].y)   # a roof node
+    node = max(range(len(prof)), key=lambda i: prof.nodes[i].y)  # a roof node
 
     gaps = []
     last = [time.perf_counter()]
@@ -117,7 +117,9 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
     drag_gap = 1000 * max(gaps)
     sent_at = dict(sent)
     shown = sorted(t for g, t in lagging.items() if t <= t_release)
-    lag_ages = [1000 * (t - sent_at[g]) for g, t in lagging.items() if g in sent_at and t <= t_release]
+    lag_ages = [
+        1000 * (t - sent_at[g]) for g, t in lagging.items() if g in sent_at and t <= t_release
+    ]
     edges = [sent[0][1]] + shown + [t_release]
     no_update_ms = 1000 * max(b - a for a, b in zip(edges[:-1], edges[1:]))
     analysis_ms = [1000 * (arrivals[g] - t) for g, t in sent if g in arrivals]
@@ -146,25 +148,44 @@ def run(moves: int = 60, panels: int = 300, move_interval_ms: float = 16.0):
     w.close()
 
     def row(metric, value, unit="ms", target=None):
-        return {"metric": metric, "value": value, "unit": unit, "target": target,
-                "ok": None if target is None else value <= target}
+        return {
+            "metric": metric,
+            "value": value,
+            "unit": unit,
+            "target": target,
+            "ok": None if target is None else value <= target,
+        }
 
     rows = [
         row("panels in the solve", n_panels, ""),
         row("one analysis (background), last", solve_ms),
-        row("drag: mouse move -> canvas repaint, median", statistics.median(paint_ms), target=TARGET_MS),
+        row(
+            "drag: mouse move -> canvas repaint, median",
+            statistics.median(paint_ms),
+            target=TARGET_MS,
+        ),
         row("drag: mouse move -> canvas repaint, max", max(paint_ms)),
         row("drag: moves whose built outline was drawn", len(built_ms), f"of {moves}"),
-        row("drag: mouse move -> built outline drawn, median",
-            statistics.median(built_ms) if built_ms else float("nan")),
+        row(
+            "drag: mouse move -> built outline drawn, median",
+            statistics.median(built_ms) if built_ms else float("nan"),
+        ),
         row("drag: moves that got their own analysis", len(analysis_ms), f"of {moves}"),
-        row("drag: mouse move -> its analysis, median", statistics.median(analysis_ms) if analysis_ms else float("nan")),
+        row(
+            "drag: mouse move -> its analysis, median",
+            statistics.median(analysis_ms) if analysis_ms else float("nan"),
+        ),
         row("drag: superseded analyses shown (marked stale)", len(shown), f"during {moves} moves"),
-        row("drag: age of a shown superseded analysis, median",
-            statistics.median(lag_ages) if lag_ages else float("nan")),
+        row(
+            "drag: age of a shown superseded analysis, median",
+            statistics.median(lag_ages) if lag_ages else float("nan"),
+        ),
         row("drag: longest stretch with no new analysis shown", no_update_ms),
         row("drag: longest GUI-thread gap (5 ms heartbeat)", drag_gap, target=TARGET_MS),
-        row("move and wait: mouse move -> its analysis, median", statistics.median(each_ms) if each_ms else float("nan")),
+        row(
+            "move and wait: mouse move -> its analysis, median",
+            statistics.median(each_ms) if each_ms else float("nan"),
+        ),
         row("move and wait: longest GUI-thread gap", wait_gap, target=TARGET_MS),
     ]
     return rows

@@ -44,36 +44,62 @@ def _num(value, fmt=".3f"):
 
 def _rows_inviscid(mod):
     for r in mod.run():
-        yield ("inviscid solve", f"{r['panels']} panels, ground {'on' if r['ground'] else 'off'}",
-               _num(r["solve_inviscid_ms"]), "ms", f"{r['ratio']:.2f}x dense",
-               f"numpy.linalg.solve {r['dense_solve_ms']:.3f} ms; {r['repeats']} runs")
+        yield (
+            "inviscid solve",
+            f"{r['panels']} panels, ground {'on' if r['ground'] else 'off'}",
+            _num(r["solve_inviscid_ms"]),
+            "ms",
+            f"{r['ratio']:.2f}x dense",
+            f"numpy.linalg.solve {r['dense_solve_ms']:.3f} ms; {r['repeats']} runs",
+        )
 
 
 def _rows_boundary_layer(mod):
     for transition in ("free", "turbulent"):
         for r in mod.run(transition=transition):
-            yield ("boundary-layer march", f"{r['body']}, {transition}, {r['stations']} stations",
-                   _num(r["median_ms"]), "ms", "", f"success={r['success']}")
+            yield (
+                "boundary-layer march",
+                f"{r['body']}, {transition}, {r['stations']} stations",
+                _num(r["median_ms"]),
+                "ms",
+                "",
+                f"success={r['success']}",
+            )
 
 
 def _rows_analyze(mod):
     for r in mod.run():
-        note = (f"geometry {_num(r['geometry_ms'], '.1f')}, flow {_num(r['flow_ms'], '.1f')}, "
-                f"search {_num(r['radius_search_ms'], '.1f')}, assess {_num(r['assess_ms'], '.1f')} "
-                f"ms; with {r['searches']} radius search(es) run {_num(r['cold_ms'], '.1f')} ms; "
-                f"{r['status']}" if not str(r["sample"]).startswith("radius search")
-                else f"{r['repeats']} runs")
+        note = (
+            f"geometry {_num(r['geometry_ms'], '.1f')}, flow {_num(r['flow_ms'], '.1f')}, "
+            f"search {_num(r['radius_search_ms'], '.1f')}, assess {_num(r['assess_ms'], '.1f')} "
+            f"ms; with {r['searches']} radius search(es) run {_num(r['cold_ms'], '.1f')} ms; "
+            f"{r['status']}"
+            if not str(r["sample"]).startswith("radius search")
+            else f"{r['repeats']} runs"
+        )
         what = "radius search" if str(r["sample"]).startswith("radius search") else "analyze"
-        yield (what, str(r["sample"]), _num(r["total_ms"], ".1f"), "ms",
-               f"{r['ratio']:.1f}x dense", note)
+        yield (
+            what,
+            str(r["sample"]),
+            _num(r["total_ms"], ".1f"),
+            "ms",
+            f"{r['ratio']:.1f}x dense",
+            note,
+        )
 
 
 def _rows_gui(mod):
     for r in mod.run():
         target = "" if r.get("target") is None else f"target <= {r['target']:g}"
         ok = "" if r.get("ok") is None else ("ok" if r["ok"] else "OVER TARGET")
-        yield ("GUI drag", r["metric"], _num(r["value"], ".1f"), r.get("unit", ""), "",
-               " ".join(x for x in (target, ok) if x))
+        yield (
+            "GUI drag",
+            r["metric"],
+            _num(r["value"], ".1f"),
+            r.get("unit", ""),
+            "",
+            " ".join(x for x in (target, ok) if x),
+        )
 
 
 def _rows_generic(mod):
@@ -81,8 +107,12 @@ def _rows_generic(mod):
         yield (mod.__name__, ", ".join(f"{k}={v}" for k, v in r.items()), "", "", "", "")
 
 
-ADAPTERS = {"bench_inviscid": _rows_inviscid, "bench_boundary_layer": _rows_boundary_layer,
-            "bench_analyze": _rows_analyze, "bench_gui": _rows_gui}
+ADAPTERS = {
+    "bench_inviscid": _rows_inviscid,
+    "bench_boundary_layer": _rows_boundary_layer,
+    "bench_analyze": _rows_analyze,
+    "bench_gui": _rows_gui,
+}
 
 
 def collect(names=SCRIPTS, out=sys.stderr):
@@ -115,8 +145,10 @@ def format_table(rows) -> str:
     widths = [max(len(str(r[i])) for r in table) for i in range(len(COLUMNS))]
     lines = []
     for k, r in enumerate(table):
-        cells = [str(c).ljust(w) if i in (0, 1, 3, 5) else str(c).rjust(w)
-                 for i, (c, w) in enumerate(zip(r, widths))]
+        cells = [
+            str(c).ljust(w) if i in (0, 1, 3, 5) else str(c).rjust(w)
+            for i, (c, w) in enumerate(zip(r, widths))
+        ]
         lines.append("  ".join(cells).rstrip())
         if k == 0:
             lines.append("  ".join("-" * w for w in widths))
@@ -125,10 +157,21 @@ def format_table(rows) -> str:
 
 def build_parser():
     p = argparse.ArgumentParser(prog="run_all.py", description=__doc__.splitlines()[0])
-    p.add_argument("--only", nargs="+", choices=SCRIPTS, metavar="NAME",
-                   help=f"run only these benchmarks ({', '.join(SCRIPTS)})")
-    p.add_argument("--skip", nargs="+", choices=SCRIPTS, default=(), metavar="NAME",
-                   help="leave these benchmarks out")
+    p.add_argument(
+        "--only",
+        nargs="+",
+        choices=SCRIPTS,
+        metavar="NAME",
+        help=f"run only these benchmarks ({', '.join(SCRIPTS)})",
+    )
+    p.add_argument(
+        "--skip",
+        nargs="+",
+        choices=SCRIPTS,
+        default=(),
+        metavar="NAME",
+        help="leave these benchmarks out",
+    )
     return p
 
 
@@ -137,8 +180,10 @@ def main(argv=None) -> int:
     args = build_parser().parse_args(argv)
     names = [n for n in (args.only or SCRIPTS) if n not in args.skip]
     rows, notes = collect(names)
-    print("Medians of repeated runs on this machine (ratios against a dense numpy solve of the "
-          "same size where given)")
+    print(
+        "Medians of repeated runs on this machine (ratios against a dense numpy solve of the "
+        "same size where given)"
+    )
     print(format_table(rows))
     for n in notes:
         print(f"note: {n}")

@@ -43,7 +43,7 @@ __all__ = ["main", "build_parser", "EXIT_OK", "EXIT_FAILED", "EXIT_BAD_INPUT", "
 EXIT_OK = 0
 EXIT_FAILED = 1
 EXIT_BAD_INPUT = 2
-EXIT_INTERRUPTED = 130      # 128 + SIGINT, as shells report a Ctrl-C
+EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report a Ctrl-C
 #: longest number echoed in a message (characters); longer ones are cut with "..."
 SHOWN_NUMBER_CHARS = 24
 
@@ -61,8 +61,9 @@ _UNPRINTABLE = re.compile("[\x00-\x08\x0b-\x1f\x7f-\x9f\ud800-\udfff]")
 
 def terminal_text(text: str) -> str:
     """``text`` safe to print: control characters and lone surrogates as escapes (``\\x1b``)."""
-    return _UNPRINTABLE.sub(lambda m: m.group().encode("unicode_escape", "backslashreplace")
-                            .decode("ascii"), text)
+    return _UNPRINTABLE.sub(
+        lambda m: m.group().encode("unicode_escape", "backslashreplace").decode("ascii"), text
+    )
 
 
 class _TerminalStream:
@@ -81,7 +82,9 @@ class _TerminalStream:
             self.stream.write(text)
         except UnicodeEncodeError:
             enc = getattr(self.stream, "encoding", None) or "ascii"
-            self._guarded(lambda: self.stream.write(text.encode(enc, "backslashreplace").decode(enc)))
+            self._guarded(
+                lambda: self.stream.write(text.encode(enc, "backslashreplace").decode(enc))
+            )
         except BrokenPipeError:
             self.broken = True
         return len(text)
@@ -111,7 +114,7 @@ class _TerminalStream:
 
 
 def _short_number(text: str) -> str:
-    return text if len(text) <= SHOWN_NUMBER_CHARS else text[:SHOWN_NUMBER_CHARS - 3] + "..."
+    return text if len(text) <= SHOWN_NUMBER_CHARS else text[: SHOWN_NUMBER_CHARS - 3] + "..."
 
 
 def _check_numbers(args):
@@ -122,8 +125,9 @@ def _check_numbers(args):
             raise InputError(f"{option} {value!r}: give a finite number")
         if isinstance(value, int) and not isinstance(value, bool) and abs(value) >= 10**18:
             digits = len(str(abs(value))) if abs(value) < 10**4000 else "thousands of"
-            raise InputError(f"{option}: a whole number of {digits} digits is too large; give "
-                             "a plain number")
+            raise InputError(
+                f"{option}: a whole number of {digits} digits is too large; give a plain number"
+            )
 
 
 def _check_outputs(outputs, inputs):
@@ -141,43 +145,70 @@ def _check_outputs(outputs, inputs):
             if given is None:
                 continue
             try:
-                same = (Path(given).resolve() == target.resolve()
-                        or (os.path.exists(given) and os.path.samefile(given, target)))
-            except (OSError, ValueError):   # an input that cannot exist: refused when read
+                same = Path(given).resolve() == target.resolve() or (
+                    os.path.exists(given) and os.path.samefile(given, target)
+                )
+            except (OSError, ValueError):  # an input that cannot exist: refused when read
                 same = False
             if same:
-                raise InputError(f"{what} {value!r} is the input file {given!r}: writing it would "
-                                 "destroy that input; give another file name (nothing was written)")
+                raise InputError(
+                    f"{what} {value!r} is the input file {given!r}: writing it would "
+                    "destroy that input; give another file name (nothing was written)"
+                )
 
 
 # --- argument parsing --------------------------------------------------------------------------
 
+
 def _add_units_option(p):
-    p.add_argument("--units", choices=("auto", "mm", "m"), default="auto",
-                   help="unit of a CSV outline's numbers (default: from its header, else mm when "
-                        "the extents exceed 50)")
+    p.add_argument(
+        "--units",
+        choices=("auto", "mm", "m"),
+        default="auto",
+        help="unit of a CSV outline's numbers (default: from its header, else mm when "
+        "the extents exceed 50)",
+    )
 
 
 def _add_condition_options(p):
     g = p.add_argument_group("conditions (override the project file's)")
     g.add_argument("--speed", type=float, metavar="KMH", help="vehicle speed in km/h")
     g.add_argument("--no-ground", action="store_true", help="free air: no ground plane at y = 0")
-    g.add_argument("--transition", metavar="MODE",
-                   help="'free' (a transition criterion), 'turbulent' (from the stagnation point) "
-                        "or an arc length in metres from the stagnation point")
-    g.add_argument("--h-separation", type=float, metavar="H",
-                   help="turbulent separation threshold on the shape factor H (1.8 to 2.8)")
+    g.add_argument(
+        "--transition",
+        metavar="MODE",
+        help="'free' (a transition criterion), 'turbulent' (from the stagnation point) "
+        "or an arc length in metres from the stagnation point",
+    )
+    g.add_argument(
+        "--h-separation",
+        type=float,
+        metavar="H",
+        help="turbulent separation threshold on the shape factor H (1.8 to 2.8)",
+    )
     g.add_argument("--panels", type=int, metavar="N", help="number of panels on the outline")
-    g.add_argument("--table", metavar="CSV",
-                   help="an r/t table of your own (in-house data) instead of the built-in ones; "
-                        "format in profilebench/assess/tables.py")
-    g.add_argument("--altitude", type=float, metavar="M",
-                   help="ISO 2533 geopotential altitude in metres")
+    g.add_argument(
+        "--table",
+        metavar="CSV",
+        help="an r/t table of your own (in-house data) instead of the built-in ones; "
+        "format in profilebench/assess/tables.py",
+    )
+    g.add_argument(
+        "--altitude", type=float, metavar="M", help="ISO 2533 geopotential altitude in metres"
+    )
     area = g.add_mutually_exclusive_group()
-    area.add_argument("--area", type=float, metavar="M2",
-                      help="frontal area in m^2 (gives CdA, drag force and power)")
-    area.add_argument("--width", type=float, metavar="M",
-                      help="vehicle width in m: frontal area = width x the profile's height h")
+    area.add_argument(
+        "--area",
+        type=float,
+        metavar="M2",
+        help="frontal area in m^2 (gives CdA, drag force and power)",
+    )
+    area.add_argument(
+        "--width",
+        type=float,
+        metavar="M",
+        help="vehicle width in m: frontal area = width x the profile's height h",
+    )
 
 
 class _Parser(argparse.ArgumentParser):
@@ -185,13 +216,18 @@ class _Parser(argparse.ArgumentParser):
 
     def error(self, message):
         self.print_usage(sys.stderr)
-        self.exit(EXIT_BAD_INPUT, f"{self.prog}: error: "
-                                  f"{terminal_text(_shorten_numbers(_shorten_quoted(message)))}\n")
+        self.exit(
+            EXIT_BAD_INPUT,
+            f"{self.prog}: error: {terminal_text(_shorten_numbers(_shorten_quoted(message)))}\n",
+        )
 
 
 def _shorten_quoted(message: str) -> str:
-    return re.sub(r"'([^']{%d,})'" % (SHOWN_NUMBER_CHARS + 1),
-                  lambda m: repr(_short_number(m.group(1))), message)
+    return re.sub(
+        r"'([^']{%d,})'" % (SHOWN_NUMBER_CHARS + 1),
+        lambda m: repr(_short_number(m.group(1))),
+        message,
+    )
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -199,48 +235,67 @@ def build_parser() -> argparse.ArgumentParser:
     parser = _Parser(
         prog="profilebench",
         description="Screening aerodynamics of 2D vehicle side profiles. Without a subcommand the "
-                    "desktop editor starts; 'profilebench PROJECT.json' opens that file in it.",
+        "desktop editor starts; 'profilebench PROJECT.json' opens that file in it.",
         epilog="Exit codes: 0 success, 1 an analysis did not succeed, 2 bad input. "
-               "Lengths are printed in mm, speeds in km/h, power in kW.",
+        "Lengths are printed in mm, speeds in km/h, power in kW.",
     )
-    parser.add_argument("--version", action="version", version=f"profilebench {profilebench.__version__}")
+    parser.add_argument(
+        "--version", action="version", version=f"profilebench {profilebench.__version__}"
+    )
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
 
-    p = sub.add_parser("analyse", aliases=["analyze"],
-                       help="analyse a project file or a CSV outline: summary table, optional "
-                            "image, CSV, JSON")
+    p = sub.add_parser(
+        "analyse",
+        aliases=["analyze"],
+        help="analyse a project file or a CSV outline: summary table, optional image, CSV, JSON",
+    )
     p.add_argument("file", help="project file (.json) or outline points (.csv)")
     p.add_argument("--image", metavar="OUT", help="review page image (.png, .svg or .pdf)")
     p.add_argument("--csv", metavar="OUT", help="surface data, one row per panel station")
     p.add_argument("--json", metavar="OUT", help="results as JSON")
-    p.add_argument("--cp-min", type=float, metavar="CP", default=None,
-                   help="lowest Cp of the review page's colour scale (default -3, the same on "
-                        "every page so that pages compare side by side)")
+    p.add_argument(
+        "--cp-min",
+        type=float,
+        metavar="CP",
+        default=None,
+        help="lowest Cp of the review page's colour scale (default -3, the same on "
+        "every page so that pages compare side by side)",
+    )
     _add_units_option(p)
     _add_condition_options(p)
 
     p = sub.add_parser("compare", help="compare a variant with a baseline (b minus a)")
     p.add_argument("baseline", help="baseline project file (.json) or outline points (.csv)")
     p.add_argument("variant", help="variant project file (.json) or outline points (.csv)")
-    p.add_argument("--same-conditions", action="store_true",
-                   help="analyse the variant at the baseline's conditions (after the options "
-                        "below), so that only the shape differs")
+    p.add_argument(
+        "--same-conditions",
+        action="store_true",
+        help="analyse the variant at the baseline's conditions (after the options "
+        "below), so that only the shape differs",
+    )
     _add_units_option(p)
     _add_condition_options(p)
 
     p = sub.add_parser("corners", help="list the corners with r, t, r/t and verdicts")
     p.add_argument("file", help="project file (.json) or outline points (.csv)")
-    p.add_argument("--smallest", action="store_true",
-                   help="search the smallest radius that keeps the flow attached, per convex corner")
+    p.add_argument(
+        "--smallest",
+        action="store_true",
+        help="search the smallest radius that keeps the flow attached, per convex corner",
+    )
     _add_units_option(p)
     _add_condition_options(p)
 
     p = sub.add_parser("import", help="write a project file from a CSV outline (x, y points)")
     p.add_argument("outline", help="outline points (.csv): x, y columns in mm or m")
     p.add_argument("project", help="the project file to write (.json); an existing file is kept")
-    p.add_argument("--simplify", type=float, metavar="MM",
-                   help="the fit's tolerance: the fitted outline stays this close (mm) to the "
-                        "points (default 5)")
+    p.add_argument(
+        "--simplify",
+        type=float,
+        metavar="MM",
+        help="the fit's tolerance: the fitted outline stays this close (mm) to the "
+        "points (default 5)",
+    )
     p.add_argument("--name", help="the profile's name (default: the file's name)")
     _add_units_option(p)
     _add_condition_options(p)
@@ -249,22 +304,39 @@ def build_parser() -> argparse.ArgumentParser:
 
     sub.add_parser("samples", help="list the sample project files")
 
-    p = sub.add_parser("bench", help="run the benchmark scripts and print a table of medians and "
-                                     "ratios (needs a source checkout with benchmarks/)")
-    p.add_argument("--only", nargs="+", metavar="NAME",
-                   help="run only these benchmarks: " + ", ".join(BENCH_SCRIPTS))
-    p.add_argument("--skip", nargs="+", default=[], metavar="NAME",
-                   help="leave these benchmarks out (e.g. bench_gui)")
+    p = sub.add_parser(
+        "bench",
+        help="run the benchmark scripts and print a table of medians and "
+        "ratios (needs a source checkout with benchmarks/)",
+    )
+    p.add_argument(
+        "--only",
+        nargs="+",
+        metavar="NAME",
+        help="run only these benchmarks: " + ", ".join(BENCH_SCRIPTS),
+    )
+    p.add_argument(
+        "--skip",
+        nargs="+",
+        default=[],
+        metavar="NAME",
+        help="leave these benchmarks out (e.g. bench_gui)",
+    )
     return parser
 
 
 # --- helpers -----------------------------------------------------------------------------------
 
+
 def _load(path, args=None):
     """A project file, or a CSV outline as a project with the default conditions."""
     if Path(str(path)).suffix.lower() == ".csv":
-        return _import_csv(path, getattr(args, "units", "auto"), getattr(args, "simplify", None),
-                           getattr(args, "name", None))
+        return _import_csv(
+            path,
+            getattr(args, "units", "auto"),
+            getattr(args, "simplify", None),
+            getattr(args, "name", None),
+        )
     from profilebench.io.project import load_project
 
     return load_project(path)
@@ -286,12 +358,15 @@ def _import_csv(path, units="auto", simplify_mm=None, name=None, ground=True, re
     tol_mm = FIT_TOLERANCE_MM if simplify_mm is None else simplify_mm
     if not tol_mm > 0:
         raise InputError(f"--simplify {simplify_mm!r}: give a positive distance in mm")
-    fit = fit_outline(got.points, tolerance=tol_mm / 1000.0, ground=ground,
-                      name=name or Path(str(path)).stem)
+    fit = fit_outline(
+        got.points, tolerance=tol_mm / 1000.0, ground=ground, name=name or Path(str(path)).stem
+    )
     if report is not None:
-        report.append(f"fitted within {fit.max_deviation * 1e3:.1f} mm of the points "
-                      f"(tolerance {tol_mm:g} mm): {len(fit.profile.nodes)} nodes, "
-                      f"{fit.corners} corners")
+        report.append(
+            f"fitted within {fit.max_deviation * 1e3:.1f} mm of the points "
+            f"(tolerance {tol_mm:g} mm): {len(fit.profile.nodes)} nodes, "
+            f"{fit.corners} corners"
+        )
         report.extend(f"note: {n}" for n in fit.notes)
     return Project(profile=fit.profile, conditions=Conditions())
 
@@ -338,9 +413,11 @@ def _checked_speed_kmh(kmh):
 
     top = SPEED_MAX * 3.6
     if not (math.isfinite(kmh) and 0.0 < kmh <= top):
-        raise InputError(f"--speed {kmh:g} km/h is outside (0, {top:g}] km/h; give a value "
-                         f"in km/h in that range (above {top:g} km/h the air's "
-                         "compressibility matters)")
+        raise InputError(
+            f"--speed {kmh:g} km/h is outside (0, {top:g}] km/h; give a value "
+            f"in km/h in that range (above {top:g} km/h the air's "
+            "compressibility matters)"
+        )
     return kmh
 
 
@@ -402,11 +479,20 @@ def _check_success(analysis, what):
 
 
 def _print_summary(analysis, out):
-    from profilebench.plotting.summary import corner_rows, format_table, summary_rows, CORNER_COLUMNS
+    from profilebench.plotting.summary import (
+        corner_rows,
+        format_table,
+        summary_rows,
+        CORNER_COLUMNS,
+    )
 
     from profilebench.io.export import run_record
-    from profilebench.plotting.summary import (MARGIN_DEFINITION, corner_disagreements,
-                                               corner_notes, run_lines)
+    from profilebench.plotting.summary import (
+        MARGIN_DEFINITION,
+        corner_disagreements,
+        corner_notes,
+        run_lines,
+    )
 
     for line in run_lines(run_record(analysis)):
         print(line, file=out)
@@ -435,6 +521,7 @@ def _caution(out):
 
 # --- subcommands -------------------------------------------------------------------------------
 
+
 def _cmd_analyse(args, out):
     from profilebench.io.export import write_results_json, write_surface_csv
 
@@ -450,8 +537,10 @@ def _cmd_analyse(args, out):
         value = getattr(args, opt)
         if value and Path(value).suffix.lower() != ext:
             raise InputError(f"--{opt} {value!r}: the file name must end in {ext}")
-    _check_outputs([("--image", args.image), ("--csv", args.csv), ("--json", args.json)],
-                   [args.file, getattr(args, "table", None)])
+    _check_outputs(
+        [("--image", args.image), ("--csv", args.csv), ("--json", args.json)],
+        [args.file, getattr(args, "table", None)],
+    )
     project = _load(args.file, args)
     cond = _conditions(project, args)
     analysis = _analyse(project.profile, cond, table=_user_table(args))
@@ -471,10 +560,14 @@ def _cmd_analyse(args, out):
             if base.success:
                 baseline = base
             else:
-                print(f"note: the baseline was not analysed ({base.message}); the page shows "
-                      "its outline only", file=out)
-        fig = review_figure(analysis, baseline=baseline,
-                            cp_min=CP_FLOOR if args.cp_min is None else args.cp_min)
+                print(
+                    f"note: the baseline was not analysed ({base.message}); the page shows "
+                    "its outline only",
+                    file=out,
+                )
+        fig = review_figure(
+            analysis, baseline=baseline, cp_min=CP_FLOOR if args.cp_min is None else args.cp_min
+        )
         save_figure(fig, args.image)
         print(f"\nimage written: {args.image}", file=out)
     if args.csv:
@@ -516,16 +609,24 @@ def _cmd_compare(args, out):
     print("", file=out)
     if changed:
         print("Corners that changed verdict", file=out)
-        print(format_table(("corner", "before", "after"),
-                           [(ch.label, ch.verdict_before, ch.verdict_after) for ch in changed]), file=out)
+        print(
+            format_table(
+                ("corner", "before", "after"),
+                [(ch.label, ch.verdict_before, ch.verdict_after) for ch in changed],
+            ),
+            file=out,
+        )
     else:
         print("No corner changed verdict.", file=out)
     for w in c.warnings:
         print(f"WARNING: {w}", file=out)
     if differ:
-        print(f"WARNING: the conditions differ ({'; '.join(differ)}): the deltas mix the change "
-              "of shape with the change of conditions. Use --same-conditions to analyse the "
-              "variant at the baseline's conditions.", file=out)
+        print(
+            f"WARNING: the conditions differ ({'; '.join(differ)}): the deltas mix the change "
+            "of shape with the change of conditions. Use --same-conditions to analyse the "
+            "variant at the baseline's conditions.",
+            file=out,
+        )
     elif args.same_conditions:
         print("Both analysed at the baseline's conditions.", file=out)
     _caution(out)
@@ -550,24 +651,52 @@ def _cmd_corners(args, out):
             name = corner.label or f"node {corner.node}"
             if project.profile.nodes[corner.node].smooth:
                 # a curvature peak of a smooth run: no node radius to vary
-                rows.append((name, f"{corner.radius * 1000:.1f}", "smooth", "n/a", "n/a", "0",
-                             "a curvature peak of a smooth run: make its node a corner to search "
-                             "its radius"))
+                rows.append(
+                    (
+                        name,
+                        f"{corner.radius * 1000:.1f}",
+                        "smooth",
+                        "n/a",
+                        "n/a",
+                        "0",
+                        "a curvature peak of a smooth run: make its node a corner to search "
+                        "its radius",
+                    )
+                )
                 continue
             # the analysis above searched the corners its drag corrections needed: those come
             # from the cache, the others are searched now
             r = cached_radius_search(project.profile, cond, corner.node)
-            rows.append((
-                corner.label or f"node {corner.node}", f"{corner.radius * 1000:.1f}",
-                r.status.value, "n/a" if r.radius is None else f"{r.radius * 1000:.1f}",
-                f"{r.largest_fitting * 1000:.1f}", str(r.solves), r.message,
-            ))
+            rows.append(
+                (
+                    corner.label or f"node {corner.node}",
+                    f"{corner.radius * 1000:.1f}",
+                    r.status.value,
+                    "n/a" if r.radius is None else f"{r.radius * 1000:.1f}",
+                    f"{r.largest_fitting * 1000:.1f}",
+                    str(r.solves),
+                    r.message,
+                )
+            )
             if not r.success:
                 failed.append(f"{corner.label or 'node %d' % corner.node}: {r.message}")
         print("", file=out)
         print("Smallest radius keeping the flow attached (convex corners)", file=out)
-        print(format_table(("corner", "r now (mm)", "search", "smallest r (mm)",
-                            "largest fitting (mm)", "solves", "message"), rows), file=out)
+        print(
+            format_table(
+                (
+                    "corner",
+                    "r now (mm)",
+                    "search",
+                    "smallest r (mm)",
+                    "largest fitting (mm)",
+                    "solves",
+                    "message",
+                ),
+                rows,
+            ),
+            file=out,
+        )
         if failed:
             _caution(out)
             raise _Failed("radius search failed for " + "; ".join(failed))
@@ -595,16 +724,21 @@ def _cmd_bench(args, out):
     for opt in ("only", "skip"):
         for name in getattr(args, opt) or []:
             if name not in BENCH_SCRIPTS:
-                raise InputError(f"--{opt} {name!r} is not a benchmark; choose from "
-                                 f"{', '.join(BENCH_SCRIPTS)}")
+                raise InputError(
+                    f"--{opt} {name!r} is not a benchmark; choose from {', '.join(BENCH_SCRIPTS)}"
+                )
     path = _benchmarks_folder() / "run_all.py"
     if not path.is_file():
-        raise InputError(f"the benchmark scripts are not installed (no {str(path)!r}); run "
-                         "'profilebench bench' from a source checkout of profilebench")
+        raise InputError(
+            f"the benchmark scripts are not installed (no {str(path)!r}); run "
+            "'profilebench bench' from a source checkout of profilebench"
+        )
     spec = importlib.util.spec_from_file_location("_profilebench_run_all", path)
     module = importlib.util.module_from_spec(spec)
     spec.loader.exec_module(module)
-    argv = (["--only", *args.only] if args.only else []) + (["--skip", *args.skip] if args.skip else [])
+    argv = (["--only", *args.only] if args.only else []) + (
+        ["--skip", *args.skip] if args.skip else []
+    )
     return int(module.main(argv) or 0)
 
 
@@ -631,11 +765,13 @@ def _cmd_import(args, out):
         raise InputError(f"{args.project!r}: the project file's name must end in .json")
     if target.exists():
         raise InputError(f"{args.project!r} exists; give a new file name (nothing was written)")
-    _check_outputs([("the project file", args.project)],
-                   [args.outline, getattr(args, "table", None)])
+    _check_outputs(
+        [("the project file", args.project)], [args.outline, getattr(args, "table", None)]
+    )
     report = []
-    project = _import_csv(args.outline, args.units, args.simplify, args.name,
-                          ground=not args.no_ground, report=report)
+    project = _import_csv(
+        args.outline, args.units, args.simplify, args.name, ground=not args.no_ground, report=report
+    )
     cond = _conditions(project, args)
     problems = explain(project.profile, ground=cond.ground)
     if problems:
@@ -671,16 +807,24 @@ every point succeeded, 1 some point failed (the table and files show which and w
 
 
 def _add_sweep_parser(sub):
-    p = sub.add_parser("sweep", help="sweep a corner's radius, a node's position or the speed: "
-                                     "table, CSV, chart with the knee",
-                       description=SWEEP_HELP, formatter_class=argparse.RawDescriptionHelpFormatter)
+    p = sub.add_parser(
+        "sweep",
+        help="sweep a corner's radius, a node's position or the speed: "
+        "table, CSV, chart with the knee",
+        description=SWEEP_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
     p.add_argument("file", help="project file (.json) or outline points (.csv)")
     p.add_argument("--corner", metavar="LABEL", help="the corner swept (--radius) or watched")
     p.add_argument("--radius", metavar="FIRST:LAST:N", help="radii in metres, LAST may be 'max'")
     p.add_argument("--position", metavar="NODE:DX:DY:N", help="a node moved by up to DX, DY metres")
     p.add_argument("--speeds", metavar="FIRST:LAST:N", help="speeds in km/h")
-    p.add_argument("--workers", type=int, metavar="N",
-                   help="processes to run the points on (default: one per core; 1: this one)")
+    p.add_argument(
+        "--workers",
+        type=int,
+        metavar="N",
+        help="processes to run the points on (default: one per core; 1: this one)",
+    )
     p.add_argument("--csv", metavar="OUT", help="one row per point (.csv)")
     p.add_argument("--image", metavar="OUT", help="chart of Cd and CdA (.png, .svg or .pdf)")
     _add_units_option(p)
@@ -691,15 +835,19 @@ def _range_numbers(option, text, fields, last_may_be_max=False):
     """``text`` split at ':' into ``fields`` parts: floats, the last a count of points."""
     parts = text.split(":")
     if len(parts) != fields:
-        raise InputError(f"{option} {_short_number(text)!r}: give {fields} values separated by ':' "
-                         f"(see profilebench sweep --help)")
+        raise InputError(
+            f"{option} {_short_number(text)!r}: give {fields} values separated by ':' "
+            f"(see profilebench sweep --help)"
+        )
     values = []
     for k, part in enumerate(parts):
         part = part.strip()
         if k == fields - 1:
             if not part.isdigit() or not 2 <= int(part) <= 1000:
-                raise InputError(f"{option}: the number of points {_short_number(part)!r} must be a "
-                                 "whole number from 2 to 1000")
+                raise InputError(
+                    f"{option}: the number of points {_short_number(part)!r} must be a "
+                    "whole number from 2 to 1000"
+                )
             values.append(int(part))
         elif last_may_be_max and k == fields - 2 and part.lower() == "max":
             values.append(None)
@@ -734,12 +882,15 @@ def _sweep_table(args, project, cond, workers, progress):
         first, last, n = _range_numbers("--radius", args.radius, 3, last_may_be_max=True)
         node = studies.corner_node(profile, args.corner)
         if profile.nodes[node].smooth:
-            raise InputError(f"--corner {args.corner!r} is a smooth node (a spline passes "
-                             "through it), not a corner; make it a corner first")
+            raise InputError(
+                f"--corner {args.corner!r} is a smooth node (a spline passes "
+                "through it), not a corner; make it a corner first"
+            )
         radii = studies.radius_range(profile, node, first, last, n)
         if speeds is not None:
-            return studies.radius_speed_grid(profile, cond, node, radii=radii, speeds=speeds,
-                                             **options)
+            return studies.radius_speed_grid(
+                profile, cond, node, radii=radii, speeds=speeds, **options
+            )
         return studies.radius_sweep(profile, cond, node, radii=radii, **options)
     if args.position:
         if speeds is not None:
@@ -747,12 +898,15 @@ def _sweep_table(args, project, cond, workers, progress):
         name, rest = (args.position.rsplit(":", 3)[0], ":".join(args.position.rsplit(":", 3)[1:]))
         dx, dy, n = _range_numbers("--position", rest, 3)
         node = studies.corner_node(profile, name)
-        return studies.position_sweep(profile, cond, node=node, direction=(dx, dy), points=n,
-                                      corner=args.corner, **options)
+        return studies.position_sweep(
+            profile, cond, node=node, direction=(dx, dy), points=n, corner=args.corner, **options
+        )
     if speeds is not None:
         return studies.speed_sweep(profile, cond, speeds, corner=args.corner, **options)
-    raise InputError("give what to sweep: --radius FIRST:LAST:N (with --corner), "
-                     "--position NODE:DX:DY:N or --speeds FIRST:LAST:N")
+    raise InputError(
+        "give what to sweep: --radius FIRST:LAST:N (with --corner), "
+        "--position NODE:DX:DY:N or --speeds FIRST:LAST:N"
+    )
 
 
 def _sweep_cell(arr, i, fmt, scale=1.0):
@@ -769,26 +923,57 @@ def _print_sweep(table, out):
     rows = []
     for i in range(len(table)):
         v = verdicts[i]
-        rows.append((f"{table.values[i] * scale:.1f}", _sweep_cell(table.cd, i, ".4f"),
-                     _sweep_cell(table.cda, i, ".4f"), _sweep_cell(table.force, i, ".1f"),
-                     _sweep_cell(table.power, i, ".2f", 1e-3), "" if v is None else v.value,
-                     "" if j is None or table.margins.mask[i, j] else f"{table.margins.data[i, j]:.2f}",
-                     table.status[i].value))
-    print(format_table((label, "Cd", "CdA (m^2)", "force (N)", "power (kW)", "corner verdict",
-                        "margin", "status"), rows), file=out)
+        rows.append(
+            (
+                f"{table.values[i] * scale:.1f}",
+                _sweep_cell(table.cd, i, ".4f"),
+                _sweep_cell(table.cda, i, ".4f"),
+                _sweep_cell(table.force, i, ".1f"),
+                _sweep_cell(table.power, i, ".2f", 1e-3),
+                "" if v is None else v.value,
+                "" if j is None or table.margins.mask[i, j] else f"{table.margins.data[i, j]:.2f}",
+                table.status[i].value,
+            )
+        )
+    print(
+        format_table(
+            (
+                label,
+                "Cd",
+                "CdA (m^2)",
+                "force (N)",
+                "power (kW)",
+                "corner verdict",
+                "margin",
+                "status",
+            ),
+            rows,
+        ),
+        file=out,
+    )
     if table.knee is not None:
         print(f"knee: {table.knee.message}", file=out)
     if table.corner is not None:
         found = table.smallest_attached.compressed()
         if table.parameter == "radius":
             r = table.smallest_attached_radius
-            print(f"smallest attached radius of {table.corner_label}: "
-                  + ("not found (" + (table.search_status[0].value if table.search_status[0]
-                                      else "not searched") + ")" if r is None
-                     else f"{r * 1e3:.1f} mm"), file=out)
+            print(
+                f"smallest attached radius of {table.corner_label}: "
+                + (
+                    "not found ("
+                    + (table.search_status[0].value if table.search_status[0] else "not searched")
+                    + ")"
+                    if r is None
+                    else f"{r * 1e3:.1f} mm"
+                ),
+                file=out,
+            )
         elif len(found):
-            print(f"smallest attached radius of {table.corner_label}: "
-                  f"{found.min() * 1e3:.1f} to {found.max() * 1e3:.1f} mm over the points", file=out)
+            print(
+                f"smallest attached radius of {table.corner_label}: "
+                f"{found.min() * 1e3:.1f} to {found.max() * 1e3:.1f} mm over the points",
+                file=out,
+            )
     for i, status, message in table.failed:
         print(f"point {i + 1} ({table.values[i] * scale:.1f}): {status.value}: {message}", file=out)
 
@@ -805,17 +990,20 @@ def _cmd_sweep(args, out):
         raise InputError(f"--csv {args.csv!r}: the file name must end in .csv")
     if args.workers is not None and args.workers < 1:
         raise InputError(f"--workers {args.workers}: give at least 1")
-    _check_outputs([("--image", args.image), ("--csv", args.csv)],
-                   [args.file, getattr(args, "table", None)])
+    _check_outputs(
+        [("--image", args.image), ("--csv", args.csv)], [args.file, getattr(args, "table", None)]
+    )
     project = _load(args.file, args)
     cond = _conditions(project, args)
     err = sys.stderr
     progress = None
     if err.isatty():
+
         def progress(done, total, i, result):
             err.write(f"\r  point {done}/{total}")
             err.write("\n" if done == total else "")
             err.flush()
+
     result = _sweep_table(args, project, cond, args.workers, progress)
     tables = result.rows if isinstance(result, GridTable) else (result,)
     print(f"{project.profile.name} ({args.file})", file=out)
@@ -826,8 +1014,11 @@ def _cmd_sweep(args, out):
         _print_sweep(t, out)
     stats = result.stats
     total = sum(len(t) for t in tables)
-    print(f"\n{total} points: {stats.computed} analysed, {stats.from_cache} from the cache, "
-          f"{stats.seconds:.2f} s on {stats.workers} worker(s)", file=out)
+    print(
+        f"\n{total} points: {stats.computed} analysed, {stats.from_cache} from the cache, "
+        f"{stats.seconds:.2f} s on {stats.workers} worker(s)",
+        file=out,
+    )
     if args.csv:
         write_sweep_csv(result, args.csv)
         print(f"table written: {args.csv}", file=out)
@@ -845,9 +1036,16 @@ def _cmd_sweep(args, out):
     return EXIT_OK
 
 
-COMMANDS = {"analyse": _cmd_analyse, "analyze": _cmd_analyse, "compare": _cmd_compare,
-            "corners": _cmd_corners, "import": _cmd_import, "samples": _cmd_samples,
-            "bench": _cmd_bench, "sweep": _cmd_sweep}
+COMMANDS = {
+    "analyse": _cmd_analyse,
+    "analyze": _cmd_analyse,
+    "compare": _cmd_compare,
+    "corners": _cmd_corners,
+    "import": _cmd_import,
+    "samples": _cmd_samples,
+    "bench": _cmd_bench,
+    "sweep": _cmd_sweep,
+}
 
 
 def main(argv=None) -> int:
@@ -873,8 +1071,10 @@ def main(argv=None) -> int:
         print(f"profilebench: {exc}", file=err)
         return EXIT_FAILED
     except KeyboardInterrupt:
-        print("\nprofilebench: interrupted (Ctrl-C); files being written were left as they were",
-              file=err)
+        print(
+            "\nprofilebench: interrupted (Ctrl-C); files being written were left as they were",
+            file=err,
+        )
         return EXIT_INTERRUPTED
     finally:
         out.flush()
@@ -883,4 +1083,6 @@ def main(argv=None) -> int:
 
 def _shorten_numbers(message: str) -> str:
     """Very long digit runs in a message (a number echoed from the input) cut short."""
-    return re.sub(r"\d{%d,}" % (SHOWN_NUMBER_CHARS + 1), lambda m: _short_number(m.group()), message)
+    return re.sub(
+        r"\d{%d,}" % (SHOWN_NUMBER_CHARS + 1), lambda m: _short_number(m.group()), message
+    )

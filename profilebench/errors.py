@@ -88,4 +88,4 @@ def excerpt(text: str, chars: int = 60) -> str:
     """A piece of the user's input for a message: its repr, cut to ``chars`` characters, so a
     long line or a number of thousands of digits is not echoed in full."""
     shown = repr(text)
-    return shown if len(shown) <= chars else shown[:chars - 4] + "...'"
+    return shown if len(shown) <= chars else shown[: chars - 4] + "...'"

@@ -39,17 +39,19 @@ def check_input_file(path, kind: str, choose: str, limit: int) -> Path:
                 f"{shown!r} is a link to {os.readlink(p)!r}, which does not exist; {choose}"
             ) from None
         raise ProjectFileError(f"no {kind} at {shown!r}; check the path") from None
-    except OSError as exc:   # a loop of links, a name too long, a folder that cannot be entered
+    except OSError as exc:  # a loop of links, a name too long, a folder that cannot be entered
         raise ProjectFileError(f"cannot open {shown!r}: {exc.strerror or exc}; {choose}") from None
     if stat.S_ISDIR(st.st_mode):
         raise ProjectFileError(f"{shown!r} is a folder, not a {kind}; {choose}")
     if not stat.S_ISREG(st.st_mode):
-        raise ProjectFileError(f"{shown!r} is not a regular file; {choose} (a device or a pipe "
-                               "is not read)")
+        raise ProjectFileError(
+            f"{shown!r} is not a regular file; {choose} (a device or a pipe is not read)"
+        )
     if st.st_size > limit:
         raise ProjectFileError(
             f"{shown!r} is {megabytes(st.st_size)}, over the {megabytes(limit)} limit for a "
-            f"{kind}; it is probably not one: {choose}")
+            f"{kind}; it is probably not one: {choose}"
+        )
     return p
 
 
@@ -71,8 +73,11 @@ def read_input_bytes(path, kind: str, choose: str, limit: int) -> bytes:
                 raise ProjectFileError(f"{shown!r} is not a regular file; {choose}")
             raw = fh.read(limit + 1)
     except OSError as exc:
-        raise ProjectFileError(f"cannot read {shown!r}: {exc.strerror or exc}; check permissions") from exc
+        raise ProjectFileError(
+            f"cannot read {shown!r}: {exc.strerror or exc}; check permissions"
+        ) from exc
     if raw is None or len(raw) > limit:
-        raise ProjectFileError(f"{shown!r} is over the {megabytes(limit)} limit for a {kind}; "
-                               f"{choose}")
+        raise ProjectFileError(
+            f"{shown!r} is over the {megabytes(limit)} limit for a {kind}; {choose}"
+        )
     return raw

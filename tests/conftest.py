@@ -2,6 +2,7 @@
 
 GUI tests run headless: Qt's offscreen platform is set before anything imports Qt.
 """
+
 import os
 
 os.environ.setdefault("QT_QPA_PLATFORM", "offscreen")
@@ -9,4 +10,3 @@ os.environ.setdefault("MPLBACKEND", "Agg")
 # as profilebench/__init__.py does: one BLAS thread for the small panel systems
 for _var in ("OPENBLAS_NUM_THREADS", "MKL_NUM_THREADS", "OMP_NUM_THREADS"):
     os.environ.setdefault(_var, "1")
-

@@ -1,6 +1,5 @@
 """Variants of the sample projects that tests need (importable: tests/ is on the path)."""
 
-
 # The courier-van sample with its bonnet leading edge (node 7) sharpened from 120 mm to 30 mm:
 # the solver then finds a corner bubble there (separation, reattachment on the bonnet) whose drag
 # correction needs the smallest-attached-radius search (about 43 mm at 200 panels). Tests of

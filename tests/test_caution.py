@@ -1,5 +1,6 @@
 """The required caution (a rule of the product: vehicle aerodynamics bears on safety) says what
 it must and is shown where it must be: README, the editor's document, the exported report."""
+
 from pathlib import Path
 
 import pytest
@@ -9,8 +10,13 @@ from profilebench.io.export import CAUTION as EXPORT_CAUTION
 
 README = Path(__file__).resolve().parents[1] / "README.md"
 # what the caution must say (the product owner's rule, in its own words)
-MUST_SAY = ("screening estimate", "wind-tunnel", "validated cfd", "local vehicle codes",
-            "licensed engineering practice")
+MUST_SAY = (
+    "screening estimate",
+    "wind-tunnel",
+    "validated cfd",
+    "local vehicle codes",
+    "licensed engineering practice",
+)
 
 
 @pytest.mark.parametrize("text", [EDITOR_CAUTION, EXPORT_CAUTION], ids=["editor", "export"])

@@ -3,6 +3,7 @@
 Read from the source with Python's own parser (ast), counting imports at module level and inside
 functions alike (a function-level import is still a dependency).
 """
+
 import ast
 from pathlib import Path
 
@@ -55,8 +56,9 @@ def test_no_import_circle_between_modules():
     graph = _graph()
     edges = {m: {_resolve(d, graph) for d in deps} - {m} for m, deps in graph.items()}
     # package __init__ files that only re-export are left out of the circle search
-    edges = {m: {d for d in ds if d != "profilebench"} for m, ds in edges.items()
-             if m != "profilebench"}
+    edges = {
+        m: {d for d in ds if d != "profilebench"} for m, ds in edges.items() if m != "profilebench"
+    }
     state, stack, circles = {}, [], []
 
     def visit(m):
@@ -64,7 +66,7 @@ def test_no_import_circle_between_modules():
         stack.append(m)
         for d in sorted(edges.get(m, ())):
             if state.get(d) == 1:
-                circles.append(stack[stack.index(d):] + [d])
+                circles.append(stack[stack.index(d) :] + [d])
             elif d not in state:
                 visit(d)
         stack.pop()

@@ -17,34 +17,50 @@ def _reordered(profile, start, reverse):
         idx = idx[::-1]
     idx = idx[start:] + idx[:start]
     te = profile.trailing_edge
-    return Profile(tuple(profile.nodes[i] for i in idx), name=profile.name,
-                   trailing_edge=None if te is None else idx.index(te))
+    return Profile(
+        tuple(profile.nodes[i] for i in idx),
+        name=profile.name,
+        trailing_edge=None if te is None else idx.index(te),
+    )
 
 
 def main():
     n0 = Conditions().panels
     counts = (n0, 2 * n0, 4 * n0)
-    print("| sample | " + " | ".join(f"Cd at {n}" for n in counts)
-          + " | largest change | verdicts at 1x = 2x = 4x | Cd spread over start nodes and directions |")
+    print(
+        "| sample | "
+        + " | ".join(f"Cd at {n}" for n in counts)
+        + " | largest change | verdicts at 1x = 2x = 4x | Cd spread over start nodes and directions |"
+    )
     print("|---|" + "---|" * (len(counts) + 3))
     for path in sample_paths():
         project = load_project(path)
         runs = [analyze(project.profile, project.conditions.replace(panels=n)) for n in counts]
         cds = [a.drag.cd for a in runs]
-        verdicts = [[(c.label or f"node {c.node}", c.verdict.value) for c in a.corners] for a in runs]
+        verdicts = [
+            [(c.label or f"node {c.node}", c.verdict.value) for c in a.corners] for a in runs
+        ]
         same = verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
         change = max(abs(c - cds[0]) for c in cds[1:]) / cds[0] * 100.0
-        others = [analyze(_reordered(project.profile, k, rev), project.conditions).drag.cd
-                  for rev in (False, True) for k in range(len(project.profile.nodes))]
+        others = [
+            analyze(_reordered(project.profile, k, rev), project.conditions).drag.cd
+            for rev in (False, True)
+            for k in range(len(project.profile.nodes))
+        ]
         spread = (max(others) - min(others)) / min(others) * 100.0
-        print(f"| {path.stem} | " + " | ".join(f"{c:.4f}" for c in cds)
-              + f" | {change:.1f} % | {'yes' if same else 'NO'} | {spread:.2f} % |")
+        print(
+            f"| {path.stem} | "
+            + " | ".join(f"{c:.4f}" for c in cds)
+            + f" | {change:.1f} % | {'yes' if same else 'NO'} | {spread:.2f} % |"
+        )
     print()
     for path in sample_paths():
         project = load_project(path)
         a = analyze(project.profile, project.conditions)
-        print(f"- **{path.stem}** ({n0} panels): " + "; ".join(
-            f"{c.label or 'node %d' % c.node}: {c.verdict.value}" for c in a.corners))
+        print(
+            f"- **{path.stem}** ({n0} panels): "
+            + "; ".join(f"{c.label or 'node %d' % c.node}: {c.verdict.value}" for c in a.corners)
+        )
 
 
 if __name__ == "__main__":

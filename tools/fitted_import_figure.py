@@ -27,18 +27,32 @@ def main(out=Path(__file__).resolve().parent.parent / "docs" / "images" / "fitte
     line = build_outline(fit.profile).sample(3000)
     fig, ax = plt.subplots(figsize=(9, 4.6), dpi=110)
     ax.plot(pts[:, 0], pts[:, 1], ".", ms=1.5, color="#888888", label=f"{n} digitised points")
-    ax.plot(np.append(line[:, 0], line[0, 0]), np.append(line[:, 1], line[0, 1]), "-",
-            color="#0072B2", lw=1.5, label="fitted outline")
+    ax.plot(
+        np.append(line[:, 0], line[0, 0]),
+        np.append(line[:, 1], line[0, 1]),
+        "-",
+        color="#0072B2",
+        lw=1.5,
+        label="fitted outline",
+    )
     for nd in fit.profile.nodes:
         ax.plot(nd.x, nd.y, "s", color="#D55E00", ms=6)
-        ax.annotate(f"r = {nd.radius * 1e3:.0f} mm", (nd.x, nd.y), textcoords="offset points",
-                    xytext=(6, 6), fontsize=8)
+        ax.annotate(
+            f"r = {nd.radius * 1e3:.0f} mm",
+            (nd.x, nd.y),
+            textcoords="offset points",
+            xytext=(6, 6),
+            fontsize=8,
+        )
     ax.axhline(0.0, color="k", lw=0.8)
     ax.set_aspect("equal")
     ax.set_xlabel("x (m)")
     ax.set_ylabel("y (m)")
-    ax.set_title(f"{len(fit.profile.nodes)} nodes, within {fit.max_deviation * 1e3:.1f} mm of the "
-                 f"points (tolerance {fit.tolerance * 1e3:.0f} mm)", fontsize=10)
+    ax.set_title(
+        f"{len(fit.profile.nodes)} nodes, within {fit.max_deviation * 1e3:.1f} mm of the "
+        f"points (tolerance {fit.tolerance * 1e3:.0f} mm)",
+        fontsize=10,
+    )
     ax.legend(loc="center", fontsize=8)
     fig.tight_layout()
     fig.savefig(out)

@@ -29,20 +29,37 @@ def _row(name, profile, published, conditions_for):
             cells += [a.status.value, ""]
             continue
         d = a.drag
-        cells += [f"{d.cd:.3f} ({100 * (d.cd - published) / published:+.0f} %)",
-                  f"{d.cd - d.cd_corners:.3f}"]
+        cells += [
+            f"{d.cd:.3f} ({100 * (d.cd - published) / published:+.0f} %)",
+            f"{d.cd - d.cd_corners:.3f}",
+        ]
     print(f"| {name} | {published:.2f} | " + " | ".join(cells) + " |")
 
 
 def main():
-    print("| case | published Cd | model, Cp_b -0.25 | solver only | model, Cp_b -1.4 | solver only |")
+    print(
+        "| case | published Cd | model, Cp_b -0.25 | solver only | model, Cp_b -1.4 | solver only |"
+    )
     print("|---|---|---|---|---|---|")
     for rd, pub in SQUARES:
-        _row(f"square, R/D = {rd:g}, Re 1e5", rounded_box(1.0, 1.0, rd, clearance=1.0), pub,
-             lambda cpb: Conditions(speed=1e5 * NU / 1.0, ground=False, density=1.225,
-                                    kinematic_viscosity=NU, base_pressure=cpb))
-    _row("flat plate normal to the stream (2 % thick)", rounded_box(0.02, 1.0, 0.0, clearance=1.0),
-         2.0, lambda cpb: Conditions(speed=30.0, ground=False, base_pressure=cpb))
+        _row(
+            f"square, R/D = {rd:g}, Re 1e5",
+            rounded_box(1.0, 1.0, rd, clearance=1.0),
+            pub,
+            lambda cpb: Conditions(
+                speed=1e5 * NU / 1.0,
+                ground=False,
+                density=1.225,
+                kinematic_viscosity=NU,
+                base_pressure=cpb,
+            ),
+        )
+    _row(
+        "flat plate normal to the stream (2 % thick)",
+        rounded_box(0.02, 1.0, 0.0, clearance=1.0),
+        2.0,
+        lambda cpb: Conditions(speed=30.0, ground=False, base_pressure=cpb),
+    )
 
 
 if __name__ == "__main__":

@@ -60,8 +60,10 @@ def main() -> int:
     w.pin_baseline()
     # the front-most rounded node corner (the bonnet leading edge on the sample) turns sharply,
     # so a larger radius there shows clearly against the baseline
-    corner = min((c for c in w.analysis.corners if c.radius > 0 and not c.label.startswith("curvature")),
-                 key=lambda c: c.x + 0.5 * abs(c.y - w.analysis.measures.height))
+    corner = min(
+        (c for c in w.analysis.corners if c.radius > 0 and not c.label.startswith("curvature")),
+        key=lambda c: c.x + 0.5 * abs(c.y - w.analysis.measures.height),
+    )
     w.set_radius(corner.node, corner.radius * 2.5)
     _wait(app, lambda: w.results_current)
     _wait(app, lambda: w.baseline_analysis is not None)

@@ -17,8 +17,13 @@ import time
 import numpy as np
 
 from profilebench.assess.conditions import Conditions
-from profilebench.assess.corners import (SEPARATION_KINDS, all_spans, assess_corners,
-                                         corner_regions, corners_needing_floor)
+from profilebench.assess.corners import (
+    SEPARATION_KINDS,
+    all_spans,
+    assess_corners,
+    corner_regions,
+    corners_needing_floor,
+)
 from profilebench.assess.drag import estimate_drag
 from profilebench.assess.radius_search import cached_radius_search, nearby_radius_search
 from profilebench.assess.results import Analysis, AnalysisStatus, FlowEvent, FlowEventKind
@@ -60,20 +65,26 @@ def _plausibility(drag):
     covers a face that looks upstream, the layer having left the body at its front).
     """
     numbers = [drag.cd, drag.cl, drag.cd_friction, drag.cd_pressure, drag.cd_base]
-    parts = (f"friction {drag.cd_friction:.4g}, pressure {drag.cd_pressure:.4g}, base "
-             f"{drag.cd_base:.4g}, corners {drag.cd_corners:.4g}")
+    parts = (
+        f"friction {drag.cd_friction:.4g}, pressure {drag.cd_pressure:.4g}, base "
+        f"{drag.cd_base:.4g}, corners {drag.cd_corners:.4g}"
+    )
     if not _finite(numbers):
         return "the drag estimate is not finite"
     if drag.cd < 0.0:
         return f"Cd = {drag.cd:.4g} is negative ({parts})"
     if drag.cd > CD_MAX:
-        return (f"Cd = {drag.cd:.4g} exceeds {CD_MAX:g}, more than any two-dimensional section "
-                f"is known to have ({parts})")
+        return (
+            f"Cd = {drag.cd:.4g} exceeds {CD_MAX:g}, more than any two-dimensional section "
+            f"is known to have ({parts})"
+        )
     if drag.cd_friction < 0.0:
         return f"the skin friction sums to {drag.cd_friction:.4g}, against the flow ({parts})"
     if drag.cd_base < 0.0:
-        return (f"the base drag is {drag.cd_base:.4g}: the separated part of the outline faces "
-                f"upstream ({parts})")
+        return (
+            f"the base drag is {drag.cd_base:.4g}: the separated part of the outline faces "
+            f"upstream ({parts})"
+        )
     return None
 
 
@@ -87,22 +98,31 @@ def _panelling_failure(profile, conditions, exc):
     # as the panelling counts them: the sections start at the outline's start and at each edge
     need = int(np.unique(np.concatenate([[0.0], [e.s for e in outline.sharp_edges]])).size)
     if need <= PANELS_RANGE[1]:
-        advice = (f"give at least {need} panels (about {min(2 * need, PANELS_RANGE[1])} for "
-                  "usable results)")
+        advice = (
+            f"give at least {need} panels (about {min(2 * need, PANELS_RANGE[1])} for "
+            "usable results)"
+        )
     else:
-        advice = (f"the outline has {sharp} sharp nodes, more than the {PANELS_RANGE[1]} panels "
-                  "allowed: make the nodes of smooth stretches smooth (or simplify the outline) "
-                  "so that fewer sharp nodes remain")
-    return Analysis(AnalysisStatus.PANELLING_FAILED,
-                    f"{conditions.panels} panels cannot resolve this outline ({exc}); {advice}",
-                    profile, conditions)
+        advice = (
+            f"the outline has {sharp} sharp nodes, more than the {PANELS_RANGE[1]} panels "
+            "allowed: make the nodes of smooth stretches smooth (or simplify the outline) "
+            "so that fewer sharp nodes remain"
+        )
+    return Analysis(
+        AnalysisStatus.PANELLING_FAILED,
+        f"{conditions.panels} panels cannot resolve this outline ({exc}); {advice}",
+        profile,
+        conditions,
+    )
 
 
 def _check_args(profile, conditions):
     if not isinstance(profile, Profile):
         raise InputError(f"profile must be a profilebench Profile, got {type(profile).__name__}")
     if not isinstance(conditions, Conditions):
-        raise InputError(f"conditions must be a profilebench Conditions, got {type(conditions).__name__}")
+        raise InputError(
+            f"conditions must be a profilebench Conditions, got {type(conditions).__name__}"
+        )
 
 
 def _events(flow):
@@ -119,14 +139,26 @@ def _events(flow):
             y = float(np.interp(e.s, s_arr, sf.y))
             kind, detail = FlowEventKind(e.kind), str(getattr(e, "detail", ""))
             if kind in SEPARATION_KINDS and any(abs(float(e.s) - r) <= 1e-9 for r in restarts):
-                detail = (f"{kind.replace('_', ' ')}: {detail}; the layer reattaches behind it "
-                          "(the march restarts turbulent)")
+                detail = (
+                    f"{kind.replace('_', ' ')}: {detail}; the layer reattaches behind it "
+                    "(the march restarts turbulent)"
+                )
                 kind = FlowEventKind.BUBBLE_SEPARATION
-            events.append(FlowEvent(kind=kind, surface=sfl.name, s=float(e.s), x=x, y=y,
-                                    detail=detail))
+            events.append(
+                FlowEvent(kind=kind, surface=sfl.name, s=float(e.s), x=x, y=y, detail=detail)
+            )
     st = flow.upper.surface.stagnation
-    events.insert(0, FlowEvent(kind=FlowEventKind.STAGNATION, surface="", s=0.0, x=float(st[0]), y=float(st[1]),
-                               detail="front stagnation point"))
+    events.insert(
+        0,
+        FlowEvent(
+            kind=FlowEventKind.STAGNATION,
+            surface="",
+            s=0.0,
+            x=float(st[0]),
+            y=float(st[1]),
+            detail="front stagnation point",
+        ),
+    )
     return tuple(events)
 
 
@@ -186,7 +218,8 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
             f"the section Reynolds number on its larger extent ({extent:.3g} m) is {re_l:.3g} at "
             f"{conditions.speed:.3g} m/s, below {RE_MIN:.0e}, where the boundary-layer methods "
             f"hold (Michel's transition criterion was fitted above it); give a speed of at least "
-            f"{v_min:.3g} m/s (or a larger outline)")
+            f"{v_min:.3g} m/s (or a larger outline)"
+        )
     try:
         panelling = panelize(profile, conditions.panels)
     except InputError as exc:
@@ -199,14 +232,23 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
     except ProfileBenchError as exc:
         # the solver refused what it built itself (a surface too short to march, say): not the
         # user's input, so a failed analysis with what to try
-        return Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED,
-                        f"the flow solution failed on this outline at {conditions.panels} panels "
-                        f"({exc}); try another panel count (say {conditions.panels + 50}) or "
-                        "larger radii at the tightest corners", profile, conditions, m, panelling)
+        return Analysis(
+            AnalysisStatus.BOUNDARY_LAYER_FAILED,
+            f"the flow solution failed on this outline at {conditions.panels} panels "
+            f"({exc}); try another panel count (say {conditions.panels + 50}) or "
+            "larger radii at the tightest corners",
+            profile,
+            conditions,
+            m,
+            panelling,
+        )
     timings["flow"] = time.perf_counter() - t1
     if not flow.success:
-        status = (AnalysisStatus.INVISCID_FAILED if flow.status.name == "INVISCID_FAILED"
-                  else AnalysisStatus.BOUNDARY_LAYER_FAILED)
+        status = (
+            AnalysisStatus.INVISCID_FAILED
+            if flow.status.name == "INVISCID_FAILED"
+            else AnalysisStatus.BOUNDARY_LAYER_FAILED
+        )
         return Analysis(status, flow.message, profile, conditions, m, panelling, flow)
 
     t2 = time.perf_counter()
@@ -218,7 +260,8 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
         if flagged:
             warnings.append(
                 f"no built-in r/t table covers Re = {re_t:.3g} (on t = {t_ref * 1e3:.0f} mm); "
-                f"'{table.name}' is used outside its Reynolds range")
+                f"'{table.name}' is used outside its Reynolds range"
+            )
     searches_done = []
     attached_ratios = {}
     spans = all_spans(panelling, height)
@@ -227,8 +270,9 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
     for node in corners_needing_floor(panelling, flow, spans, regions=regions):
         near = None
         if searches == "nearby":
-            near = nearby_radius_search(profile, conditions, node, thickness=thickness,
-                                        within=NEARBY_SHIFT_RATIO * height)
+            near = nearby_radius_search(
+                profile, conditions, node, thickness=thickness, within=NEARBY_SHIFT_RATIO * height
+            )
         if near is None:
             search = cached_radius_search(profile, conditions, node, thickness=thickness)
         else:
@@ -238,35 +282,68 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
                 warnings.append(
                     f"corner {node}: smallest attached radius taken from a nearby outline (nodes "
                     f"up to {shift * 1e3:.1f} mm away), not searched for this one; its drag "
-                    "correction is provisional until the outline is analysed again with the search")
+                    "correction is provisional until the outline is analysed again with the search"
+                )
         searches_done.append(search)
         if search.radius is not None:
             attached_ratios[node] = search.radius / t_ref
         elif search.status.name == "NONE_FITS":
             attached_ratios[node] = search.largest_fitting / t_ref
         else:
-            warnings.append(f"corner {node}: {search.message}; its drag correction uses the "
-                            "table's own floor")
+            warnings.append(
+                f"corner {node}: {search.message}; its drag correction uses the table's own floor"
+            )
     timings["radius_search"] = time.perf_counter() - t2
-    corners = assess_corners(profile, panelling, flow, t_ref, table=table, table_flagged=flagged,
-                             attached_ratios=attached_ratios, spans=spans, regions=regions)
-    drag = estimate_drag(flow, conditions, height,
-                         corner_penalties=[c.delta_cd for c in corners],
-                         edge_points=edge_points(panelling))
+    corners = assess_corners(
+        profile,
+        panelling,
+        flow,
+        t_ref,
+        table=table,
+        table_flagged=flagged,
+        attached_ratios=attached_ratios,
+        spans=spans,
+        regions=regions,
+    )
+    drag = estimate_drag(
+        flow,
+        conditions,
+        height,
+        corner_penalties=[c.delta_cd for c in corners],
+        edge_points=edge_points(panelling),
+    )
     timings["assess"] = time.perf_counter() - t2
     timings["total"] = time.perf_counter() - t0
     events = _events(flow)
     reason = _plausibility(drag)
     if reason is not None:
-        return Analysis(AnalysisStatus.IMPLAUSIBLE,
-                        f"{reason}; the analysis is not a result. This is a failure of the "
-                        f"solver on this outline, not of your input: try another panel count "
-                        f"(say {min(conditions.panels * 2, 2000)}), rounder corners, or a "
-                        "different trailing-edge setting", profile, conditions, m, panelling, flow)
+        return Analysis(
+            AnalysisStatus.IMPLAUSIBLE,
+            f"{reason}; the analysis is not a result. This is a failure of the "
+            f"solver on this outline, not of your input: try another panel count "
+            f"(say {min(conditions.panels * 2, 2000)}), rounder corners, or a "
+            "different trailing-edge setting",
+            profile,
+            conditions,
+            m,
+            panelling,
+            flow,
+        )
     return Analysis(
-        status=AnalysisStatus.SUCCESS, message="analysis complete", profile=profile,
-        conditions=conditions, measures=m, panelling=panelling, flow=flow, corners=corners,
-        drag=drag, events=events, reynolds=conditions.reynolds(m.length),
-        model_reynolds=conditions.model_reynolds(m.length), warnings=tuple(warnings),
-        radius_searches=tuple(searches_done), provisional=tuple(provisional), timings=timings,
+        status=AnalysisStatus.SUCCESS,
+        message="analysis complete",
+        profile=profile,
+        conditions=conditions,
+        measures=m,
+        panelling=panelling,
+        flow=flow,
+        corners=corners,
+        drag=drag,
+        events=events,
+        reynolds=conditions.reynolds(m.length),
+        model_reynolds=conditions.model_reynolds(m.length),
+        warnings=tuple(warnings),
+        radius_searches=tuple(searches_done),
+        provisional=tuple(provisional),
+        timings=timings,
     )

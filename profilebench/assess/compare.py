@@ -57,7 +57,9 @@ def compare(a, b):
     for name, an in (("baseline", a), ("variant", b)):
         if an is None or not getattr(an, "success", False):
             msg = getattr(an, "message", "no analysis")
-            raise InputError(f"the {name} analysis did not succeed ({msg}); fix it before comparing")
+            raise InputError(
+                f"the {name} analysis did not succeed ({msg}); fix it before comparing"
+            )
     da, db = a.drag, b.drag
     delta = db.cd - da.cd
     pct = 100.0 * delta / da.cd if da.cd != 0 else float("nan")
@@ -69,14 +71,18 @@ def compare(a, b):
     if delta < 0 and both_area and d_cda > 0:
         warnings.append(
             f"Cd falls by {-delta:.4f} ({pct:+.1f}%) but CdA rises by {d_cda:+.4f} m^2 "
-            f"and the drag force by {d_force:+.1f} N: the larger frontal area outweighs the lower Cd")
+            f"and the drag force by {d_force:+.1f} N: the larger frontal area outweighs the lower Cd"
+        )
     elif delta < 0 and both_area and d_force > 0:
         # CdA fell too: the force rises with the dynamic pressure (speed or air), not the area
         warnings.append(
             f"Cd falls by {-delta:.4f} ({pct:+.1f}%) and CdA by {-d_cda:.4f} m^2, but the drag "
-            f"force rises by {d_force:+.1f} N: the dynamic pressure (speed or air) differs")
+            f"force rises by {d_force:+.1f} N: the dynamic pressure (speed or air) differs"
+        )
     if not both_area:
-        warnings.append("no frontal area or width given for both: CdA, force and power not compared")
+        warnings.append(
+            "no frontal area or width given for both: CdA, force and power not compared"
+        )
     if pct != pct:
         warnings.append("the baseline Cd is zero: no percentage change")
         pct = 0.0
@@ -91,4 +97,6 @@ def compare(a, b):
         rb = cb.radius if cb else None
         if va != vb or ra != rb:
             changes.append(CornerChange(key, ra, rb, va, vb))
-    return Comparison(da.cd, db.cd, delta, pct, d_cda, d_force, d_power, tuple(changes), tuple(warnings))
+    return Comparison(
+        da.cd, db.cd, delta, pct, d_cda, d_force, d_power, tuple(changes), tuple(warnings)
+    )

@@ -20,6 +20,7 @@ from profilebench.flow.atmosphere import (
     Air,
     standard_atmosphere,
 )
+
 # turbulent separation usually taken at H 1.8..2.8 (Cebeci & Bradshaw, Momentum Transfer in
 # Boundary Layers, 1977): the range the boundary-layer march itself accepts
 from profilebench.flow.boundary_layer import H_SEPARATION_RANGE
@@ -53,9 +54,11 @@ def _number(name: str, value) -> float:
         )
     try:
         value = float(value)
-    except OverflowError:   # a whole number beyond any float
-        raise ConditionsError(f"{name} is a whole number of {len(str(abs(value)))} digits, too "
-                              "large; give a plain number") from None
+    except OverflowError:  # a whole number beyond any float
+        raise ConditionsError(
+            f"{name} is a whole number of {len(str(abs(value)))} digits, too "
+            "large; give a plain number"
+        ) from None
     if not math.isfinite(value):
         raise ConditionsError(f"{name} is {value!r}; give a finite number")
     return value
@@ -161,9 +164,7 @@ class Conditions:
         positive_or_none("kinematic_viscosity", "m^2/s")
 
         if not isinstance(self.ground, bool):
-            raise ConditionsError(
-                f"ground must be True or False, got {self.ground!r}; give a bool"
-            )
+            raise ConditionsError(f"ground must be True or False, got {self.ground!r}; give a bool")
 
         tr = self.transition
         if isinstance(tr, str):

@@ -21,8 +21,13 @@ from profilebench.errors import GeometryError, RadiusTooLargeError
 from profilebench.flow.boundary_layer import SEPARATION_KINDS, EventKind
 from profilebench.geometry.polyline import arc_length, edges, signed_area
 
-__all__ = ["assess_corners", "corner_regions", "curvature_peaks", "all_spans",
-           "largest_fitting_radius"]
+__all__ = [
+    "assess_corners",
+    "corner_regions",
+    "curvature_peaks",
+    "all_spans",
+    "largest_fitting_radius",
+]
 
 
 # a sharp node turning the outline by more than this fixes separation ("more than a few degrees": a
@@ -52,8 +57,8 @@ def curvature_peaks(panelling, height):
     seg = edges(pts)
     lengths = np.hypot(seg[:, 0], seg[:, 1])
     heading = np.arctan2(seg[:, 1], seg[:, 0])
-    turn = np.angle(np.exp(1j * (heading - np.roll(heading, 1))))     # at point j: panel j-1 -> j
-    convex_sign = 1.0 if signed_area(pts) > 0 else -1.0   # counter-clockwise: left turns are convex
+    turn = np.angle(np.exp(1j * (heading - np.roll(heading, 1))))  # at point j: panel j-1 -> j
+    convex_sign = 1.0 if signed_area(pts) > 0 else -1.0  # counter-clockwise: left turns are convex
     kappa = turn / (0.5 * (lengths + np.roll(lengths, 1)))
     taken = np.zeros(n, dtype=bool)
     for span in panelling.corners:
@@ -81,11 +86,19 @@ def curvature_peaks(panelling, height):
             continue
         node = int(np.argmin([np.hypot(*(pts[j] - pts[p])) for p in panelling.node_point]))
         s_arr = np.asarray(panelling.s)
-        peaks.append(CornerSpan(
-            node=node, radius=float(1.0 / k_abs[j]), turning_angle_deg=turned,
-            convex=bool(np.sign(kappa[j]) == convex_sign), s_start=float(s_arr[lo % n]),
-            s_end=float(s_arr[hi % n]), point_start=int(lo % n), point_end=int(hi % n), centre=None,
-        ))
+        peaks.append(
+            CornerSpan(
+                node=node,
+                radius=float(1.0 / k_abs[j]),
+                turning_angle_deg=turned,
+                convex=bool(np.sign(kappa[j]) == convex_sign),
+                s_start=float(s_arr[lo % n]),
+                s_end=float(s_arr[hi % n]),
+                point_start=int(lo % n),
+                point_end=int(hi % n),
+                centre=None,
+            )
+        )
         taken[idx] = True
     return tuple(peaks)
 
@@ -122,7 +135,9 @@ def _arc_positions(panelling, flow, spans):
             sm = sfl.surface_s(mid)
             if sm is None:
                 continue
-            ends = [x for x in (sfl.surface_s(a % perim), sfl.surface_s(b % perim), sm) if x is not None]
+            ends = [
+                x for x in (sfl.surface_s(a % perim), sfl.surface_s(b % perim), sm) if x is not None
+            ]
             best = (k, min(ends), max(ends))
             break
         placed.append(best)
@@ -153,8 +168,14 @@ def corner_regions(panelling, flow, spans=None):
             continue
         start = lo
         if not spans[i].convex:
-            upstream_end = max([hi2 for j, (k2, _lo2, hi2) in enumerate(placed)
-                                if j != i and k2 == k and hi2 <= lo + 1e-9], default=0.0)
+            upstream_end = max(
+                [
+                    hi2
+                    for j, (k2, _lo2, hi2) in enumerate(placed)
+                    if j != i and k2 == k and hi2 <= lo + 1e-9
+                ],
+                default=0.0,
+            )
             start = max(lo - approach, upstream_end, 0.0)
         starts.append(start)
     regions = []
@@ -202,14 +223,18 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=())
     radius to enlarge); at a convex corner it is the corner's separation.
     """
     events = list(bl.events)
-    tol = 1e-6   # m: positions closer than this are the same place
+    tol = 1e-6  # m: positions closer than this are the same place
     final = bl.separation
     final_s = _event_s(final, edges) if final is not None else math.inf
     restart_s = [r.s for r in restarts]
     upstream_cut = max([s for s in restart_s if s < region_lo - tol], default=-math.inf)
     s_arr = np.asarray(bl.s)
     if final_s < region_lo - tol:
-        return Verdict.IN_WAKE, 0.0, f"the layer already separated upstream at s = {final_s * 1e3:.0f} mm"
+        return (
+            Verdict.IN_WAKE,
+            0.0,
+            f"the layer already separated upstream at s = {final_s * 1e3:.0f} mm",
+        )
 
     def inside(x):
         return region_lo - tol <= x < region_hi - (tol if bounded else -tol) and x > upstream_cut
@@ -224,7 +249,14 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=())
         if e.kind not in SEPARATION_KINDS:
             continue
         if e.kind is EventKind.LAMINAR_SEPARATION:
-            nxt = next((f for f in in_region[k + 1:] if f.kind in SEPARATION_KINDS + (EventKind.REATTACHMENT,)), None)
+            nxt = next(
+                (
+                    f
+                    for f in in_region[k + 1 :]
+                    if f.kind in SEPARATION_KINDS + (EventKind.REATTACHMENT,)
+                ),
+                None,
+            )
             if nxt is not None and nxt.kind is EventKind.REATTACHMENT:
                 bubble = (e, nxt)
                 continue
@@ -245,13 +277,23 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=())
             detail += f", after a laminar bubble at s = {float(bubble[0].s) * 1e3:.0f} mm"
         return verdict, 0.0, detail
     if not convex and concave_bubble is not None:
-        return Verdict.CONCAVE_BUBBLE, 0.0, (
-            f"concave corner; the layer separates in the adverse gradient ahead of it at "
-            f"s = {float(concave_bubble.s) * 1e3:.0f} mm and reattaches (a bubble in the corner)")
+        return (
+            Verdict.CONCAVE_BUBBLE,
+            0.0,
+            (
+                f"concave corner; the layer separates in the adverse gradient ahead of it at "
+                f"s = {float(concave_bubble.s) * 1e3:.0f} mm and reattaches (a bubble in the corner)"
+            ),
+        )
     if bubble is not None:
-        return Verdict.BUBBLE_REATTACHES, margin, (
-            f"laminar separation at s = {float(bubble[0].s) * 1e3:.0f} mm, reattaches turbulent "
-            f"at s = {float(bubble[1].s) * 1e3:.0f} mm; {margin * 100:.0f}% margin")
+        return (
+            Verdict.BUBBLE_REATTACHES,
+            margin,
+            (
+                f"laminar separation at s = {float(bubble[0].s) * 1e3:.0f} mm, reattaches turbulent "
+                f"at s = {float(bubble[1].s) * 1e3:.0f} mm; {margin * 100:.0f}% margin"
+            ),
+        )
     if not convex:
         return Verdict.CONCAVE, margin, f"concave corner, attached, {margin * 100:.0f}% margin"
     return Verdict.ATTACHED, margin, f"attached, {margin * 100:.0f}% margin"
@@ -265,13 +307,23 @@ def _table_view(table, r_over_t, solver_verdict, flagged):
     text = ""
     above = verdict.startswith("at or above")
     if solver_verdict.separated and above:
-        text = (f"the solver finds separation, but r/t = {r_over_t:.3f} is at or above the "
-                f"table's critical ratio {critical:.3f}")
-    elif solver_verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES) and not above and critical is not None:
-        text = (f"the solver finds the flow attached, but r/t = {r_over_t:.3f} is below the "
-                f"table's critical ratio {critical:.3f}")
+        text = (
+            f"the solver finds separation, but r/t = {r_over_t:.3f} is at or above the "
+            f"table's critical ratio {critical:.3f}"
+        )
+    elif (
+        solver_verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES)
+        and not above
+        and critical is not None
+    ):
+        text = (
+            f"the solver finds the flow attached, but r/t = {r_over_t:.3f} is below the "
+            f"table's critical ratio {critical:.3f}"
+        )
     if flagged:
-        text = (text + "; " if text else "") + "the table's Reynolds range does not hold these conditions"
+        text = (
+            text + "; " if text else ""
+        ) + "the table's Reynolds range does not hold these conditions"
     return table.name, critical, verdict, text
 
 
@@ -300,8 +352,18 @@ def corners_needing_floor(panelling, flow, spans=None, regions=None):
     return out
 
 
-def assess_corners(profile, panelling, flow, thickness, table=None, table_flagged=False,
-                   table_share=0.5, attached_ratios=None, spans=None, regions=None):
+def assess_corners(
+    profile,
+    panelling,
+    flow,
+    thickness,
+    table=None,
+    table_flagged=False,
+    table_share=0.5,
+    attached_ratios=None,
+    spans=None,
+    regions=None,
+):
     """Corner results for every non-smooth node of ``profile`` and every curvature peak in
     ``spans`` (default: the node corners only; see :func:`all_spans`).
 
@@ -318,8 +380,9 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
     attached_ratios = {} if attached_ratios is None else dict(attached_ratios)
     from profilebench.geometry.places import place_names, place_of
 
-    places = (place_names(profile)
-              if any(not nd.smooth and not nd.label for nd in profile.nodes) else {})
+    places = (
+        place_names(profile) if any(not nd.smooth and not nd.label for nd in profile.nodes) else {}
+    )
     pts_all = np.asarray(panelling.points, dtype=float)
     x0, x1 = float(pts_all[:, 0].min()), float(pts_all[:, 0].max())
     y0, y1 = float(pts_all[:, 1].min()), float(pts_all[:, 1].max())
@@ -332,14 +395,19 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
         label = node.label or places.get(span.node) or f"node {span.node}"
         if is_peak:
             px, py = pts_all[span.point_start]
-            where = place_of((px - x0) / max(x1 - x0, 1e-12), (py - y0) / max(y1 - y0, 1e-12),
-                             bool(span.convex))
+            where = place_of(
+                (px - x0) / max(x1 - x0, 1e-12), (py - y0) / max(y1 - y0, 1e-12), bool(span.convex)
+            )
             label = f"curvature peak at the {where}" + (f" ({node.label})" if node.label else "")
         r_over_t = float(span.radius) / thickness
         if k < 0:
             # on neither surface: behind both final separation points, in the wake
-            verdict, margin, detail, surface = (Verdict.IN_WAKE, 0.0,
-                                                "in the separated wake behind the body", "")
+            verdict, margin, detail, surface = (
+                Verdict.IN_WAKE,
+                0.0,
+                "in the separated wake behind the body",
+                "",
+            )
             bl_restarts = ()
         else:
             sfl = flow.surfaces[k]
@@ -351,27 +419,49 @@ def assess_corners(profile, panelling, flow, thickness, table=None, table_flagge
         if table is not None and bubble and span.convex:
             floor = None if is_peak else attached_ratios.get(span.node)
             if floor is None:
-                floor = table.critical_ratio if table.critical_ratio is not None else table.ratios[-1]
+                floor = (
+                    table.critical_ratio if table.critical_ratio is not None else table.ratios[-1]
+                )
             # the table holds its last value beyond its data: a floor past the end is the end
             floor = min(floor, table.ratios[-1])
             delta_cd = float(table_share * table.penalty(r_over_t, attached_ratio=floor))
             if delta_cd:
-                detail += (f"; drag correction {delta_cd:+.4f} for this separation (the layer "
-                           f"reattaches behind it; attached from r/t {floor:.3f})")
-        name, critical, tverdict, disagreement = _table_view(table, r_over_t, verdict, table_flagged)
-        out.append(CornerResult(
-            node=span.node, label=label,
-            x=float(panelling.points[span.point_start][0]) if is_peak else node.x,
-            y=float(panelling.points[span.point_start][1]) if is_peak else node.y,
-            radius=float(span.radius), turning_angle_deg=float(span.turning_angle_deg),
-            convex=bool(span.convex), thickness=float(thickness),
-            thickness_definition=("frontal height h of the profile" if not is_peak else
-                                  "frontal height h; r = smallest curvature radius of the peak"),
-            r_over_t=r_over_t, surface=surface, s_start=float(lo), s_end=float(hi),
-            verdict=verdict, margin=float(margin), detail=detail,
-            table_name=name, table_critical_ratio=critical, table_verdict=tverdict,
-            disagreement=disagreement, delta_cd=delta_cd,
-        ))
+                detail += (
+                    f"; drag correction {delta_cd:+.4f} for this separation (the layer "
+                    f"reattaches behind it; attached from r/t {floor:.3f})"
+                )
+        name, critical, tverdict, disagreement = _table_view(
+            table, r_over_t, verdict, table_flagged
+        )
+        out.append(
+            CornerResult(
+                node=span.node,
+                label=label,
+                x=float(panelling.points[span.point_start][0]) if is_peak else node.x,
+                y=float(panelling.points[span.point_start][1]) if is_peak else node.y,
+                radius=float(span.radius),
+                turning_angle_deg=float(span.turning_angle_deg),
+                convex=bool(span.convex),
+                thickness=float(thickness),
+                thickness_definition=(
+                    "frontal height h of the profile"
+                    if not is_peak
+                    else "frontal height h; r = smallest curvature radius of the peak"
+                ),
+                r_over_t=r_over_t,
+                surface=surface,
+                s_start=float(lo),
+                s_end=float(hi),
+                verdict=verdict,
+                margin=float(margin),
+                detail=detail,
+                table_name=name,
+                table_critical_ratio=critical,
+                table_verdict=tverdict,
+                disagreement=disagreement,
+                delta_cd=delta_cd,
+            )
+        )
     return tuple(out)
 
 

@@ -58,8 +58,8 @@ def capped_cp(inviscid, edge_points, height):
     delta = SHARP_EDGE_CAP_RATIO * height
     for k in edge_points:
         e = float(point_sigma[int(k)])
-        ahead = np.mod(e - mid, perim)       # distance before the edge (panels ending at it)
-        behind = np.mod(mid - e, perim)      # distance after it
+        ahead = np.mod(e - mid, perim)  # distance before the edge (panels ending at it)
+        behind = np.mod(mid - e, perim)  # distance after it
         for dist, sign in ((ahead, -1.0), (behind, 1.0)):
             near = dist < delta
             if not near.any():
@@ -94,8 +94,11 @@ def estimate_drag(flow, conditions, height, corner_penalties=(), notes=(), edge_
     ue = np.asarray(inv.ue, dtype=float)
     wake = np.asarray(flow.separated, dtype=bool)
     # attached share of each panel: 1 or 0, except on the panel where the layer leaves the surface
-    share = (np.asarray(flow.attached, dtype=float) if flow.attached is not None
-             else (~wake).astype(float))
+    share = (
+        np.asarray(flow.attached, dtype=float)
+        if flow.attached is not None
+        else (~wake).astype(float)
+    )
     cp_base = float(conditions.base_pressure)
 
     # friction on attached stations, along the local flow direction (sign of ue along points)
@@ -104,7 +107,7 @@ def estimate_drag(flow, conditions, height, corner_penalties=(), notes=(), edge_
         on = flow.station_surface == k
         cf[on] = np.asarray(sfl.bl.cf, dtype=float)[flow.station_bl[on]]
     flow_dir_x = np.sign(ue) * tangent[:, 0]
-    cd_f = float(np.sum(share * cf * ue ** 2 * flow_dir_x * lengths)) / height
+    cd_f = float(np.sum(share * cf * ue**2 * flow_dir_x * lengths)) / height
 
     cd_p = float(-np.sum(share * cp * normal[:, 0] * lengths)) / height
     cd_b = float(-cp_base * np.sum((1.0 - share) * normal[:, 0] * lengths)) / height
@@ -114,14 +117,24 @@ def estimate_drag(flow, conditions, height, corner_penalties=(), notes=(), edge_
     cd = cd_f + cd_p + cd_b + cd_c
 
     area = conditions.reference_area(height)
-    if area is not None and np.isfinite(cd) and cd >= 0.0:   # else the analysis fails it
+    if area is not None and np.isfinite(cd) and cd >= 0.0:  # else the analysis fails it
         cda_value = float(_cda(cd, area))
         force = float(drag_force(cd, area, conditions.rho, conditions.speed))
         power = float(drag_power(force, conditions.speed))
     else:
         cda_value = force = power = None
     return DragBreakdown(
-        cd_friction=cd_f, cd_pressure=cd_p, cd_base=cd_b, cd_corners=cd_c, cd=cd, cl=cl,
-        reference_height=float(height), reference_area=area, cda=cda_value, force=force,
-        power=power, base_pressure=cp_base, notes=tuple(notes),
+        cd_friction=cd_f,
+        cd_pressure=cd_p,
+        cd_base=cd_b,
+        cd_corners=cd_c,
+        cd=cd,
+        cl=cl,
+        reference_height=float(height),
+        reference_area=area,
+        cda=cda_value,
+        force=force,
+        power=power,
+        base_pressure=cp_base,
+        notes=tuple(notes),
     )

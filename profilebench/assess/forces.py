@@ -46,8 +46,10 @@ def cda(cd, area):
     area : float or array
         Reference (frontal) area, m^2 (> 0).
     """
-    return _out(_checked("cd", cd, positive=False, unit="(dimensionless)")
-                * _checked("area", area, positive=True, unit="m^2"))
+    return _out(
+        _checked("cd", cd, positive=False, unit="(dimensionless)")
+        * _checked("area", area, positive=True, unit="m^2")
+    )
 
 
 def drag_force(cd, area, density, speed):

@@ -14,15 +14,25 @@ import math
 import threading
 from collections import OrderedDict
 
-from profilebench.assess.corners import (all_spans, corner_regions, largest_fitting_radius,
-                                         surface_verdict)
+from profilebench.assess.corners import (
+    all_spans,
+    corner_regions,
+    largest_fitting_radius,
+    surface_verdict,
+)
 from profilebench.assess.results import RadiusSearch, SearchStatus, Verdict
 from profilebench.assess.solve import solve_flow
 from profilebench.errors import GeometryError, ProfileBenchError
 from profilebench.geometry import measure, panelize, validate
 
-__all__ = ["corner_verdict", "smallest_attached_radius", "SearchCache", "SEARCH_CACHE",
-           "cached_radius_search", "nearby_radius_search"]
+__all__ = [
+    "corner_verdict",
+    "smallest_attached_radius",
+    "SearchCache",
+    "SEARCH_CACHE",
+    "cached_radius_search",
+    "nearby_radius_search",
+]
 
 
 def corner_verdict(profile, conditions, node, thickness=None):
@@ -80,11 +90,27 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
 
     try:
         if attached(0.0):
-            return RadiusSearch(node, SearchStatus.ALWAYS_ATTACHED, 0.0, r_max, (0.0, 0.0), 0.0, solves,
-                                "attached even as a sharp edge")
+            return RadiusSearch(
+                node,
+                SearchStatus.ALWAYS_ATTACHED,
+                0.0,
+                r_max,
+                (0.0, 0.0),
+                0.0,
+                solves,
+                "attached even as a sharp edge",
+            )
         if not attached(r_max):
-            return RadiusSearch(node, SearchStatus.NONE_FITS, None, r_max, (r_max, r_max), 0.0, solves,
-                                f"separated even at the largest radius that fits, {r_max * 1e3:.0f} mm")
+            return RadiusSearch(
+                node,
+                SearchStatus.NONE_FITS,
+                None,
+                r_max,
+                (r_max, r_max),
+                0.0,
+                solves,
+                f"separated even at the largest radius that fits, {r_max * 1e3:.0f} mm",
+            )
         lo, hi = 0.0, r_max
         while hi - lo > max(1e-3, 0.01 * hi):
             mid = 0.5 * (lo + hi)
@@ -93,17 +119,28 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
             else:
                 lo = mid
     except _SearchFailed as exc:
-        return RadiusSearch(node, SearchStatus.FAILED, None, r_max, (0.0, r_max), 0.0, solves, str(exc))
+        return RadiusSearch(
+            node, SearchStatus.FAILED, None, r_max, (0.0, r_max), 0.0, solves, str(exc)
+        )
     tol = max(1e-3, 0.01 * hi)
-    return RadiusSearch(node, SearchStatus.FOUND, hi, r_max, (lo, hi), tol, solves,
-                        f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)")
+    return RadiusSearch(
+        node,
+        SearchStatus.FOUND,
+        hi,
+        r_max,
+        (lo, hi),
+        tol,
+        solves,
+        f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)",
+    )
 
 
 def _key_nodes(profile, node):
     """The nodes as the cache keys them: (x, y, radius, smooth), the searched corner's own radius
     left out (the search does not depend on it)."""
-    return tuple((n.x, n.y, 0.0 if i == node else n.radius, n.smooth)
-                 for i, n in enumerate(profile.nodes))
+    return tuple(
+        (n.x, n.y, 0.0 if i == node else n.radius, n.smooth) for i, n in enumerate(profile.nodes)
+    )
 
 
 class SearchCache:
@@ -157,8 +194,13 @@ class SearchCache:
             items = list(self._items.items())
         best, best_shift = None, None
         for (key_nodes, te, cond, k_node, k_thick), result in items:
-            if (k_node != node or te != profile.trailing_edge or cond != conditions
-                    or k_thick != thickness or len(key_nodes) != len(here)):
+            if (
+                k_node != node
+                or te != profile.trailing_edge
+                or cond != conditions
+                or k_thick != thickness
+                or len(key_nodes) != len(here)
+            ):
                 continue
             if any(a[2:] != b[2:] for a, b in zip(key_nodes, here)):
                 continue

@@ -14,7 +14,7 @@ from typing import TYPE_CHECKING
 
 from profilebench.enums import TextEnum
 
-if TYPE_CHECKING:   # for the annotations only (no import at run time: no circle)
+if TYPE_CHECKING:  # for the annotations only (no import at run time: no circle)
     from profilebench.assess.conditions import Conditions
     from profilebench.flow.profile_flow import ProfileFlow
     from profilebench.geometry.measures import Measures
@@ -38,11 +38,11 @@ class AnalysisStatus(enum.Enum):
     """Outcome of :func:`profilebench.analyze`."""
 
     SUCCESS = "success"
-    INVALID_GEOMETRY = "invalid geometry"      # the outline failed a validity check
+    INVALID_GEOMETRY = "invalid geometry"  # the outline failed a validity check
     INVISCID_FAILED = "inviscid solve failed"  # singular panel system
     BOUNDARY_LAYER_FAILED = "boundary-layer march failed"
-    PANELLING_FAILED = "panelling failed"      # the panel count cannot resolve the outline
-    IMPLAUSIBLE = "implausible result"         # the numbers fail a physical check (see analysis)
+    PANELLING_FAILED = "panelling failed"  # the panel count cannot resolve the outline
+    IMPLAUSIBLE = "implausible result"  # the numbers fail a physical check (see analysis)
 
 
 class Verdict(enum.Enum):
@@ -55,12 +55,16 @@ class Verdict(enum.Enum):
     EDGE_SEPARATION = "sharp-edge separation"
     IN_WAKE = "in separated flow upstream"
     CONCAVE = "concave corner"
-    CONCAVE_BUBBLE = "concave corner, bubble reattaches"   # separates ahead of it, reattaches
+    CONCAVE_BUBBLE = "concave corner, bubble reattaches"  # separates ahead of it, reattaches
 
     @property
     def separated(self) -> bool:
         """True when the flow leaves the surface at this corner."""
-        return self in (Verdict.LAMINAR_SEPARATION, Verdict.TURBULENT_SEPARATION, Verdict.EDGE_SEPARATION)
+        return self in (
+            Verdict.LAMINAR_SEPARATION,
+            Verdict.TURBULENT_SEPARATION,
+            Verdict.EDGE_SEPARATION,
+        )
 
 
 @dataclass(frozen=True)
@@ -83,16 +87,16 @@ class CornerResult:
     thickness: float
     thickness_definition: str
     r_over_t: float
-    surface: str                 # "upper", "lower" or "" (e.g. at a stagnation point)
-    s_start: float               # arc length on that surface where the corner's region starts
-    s_end: float                 # ... and where it ends (the next convex corner or the surface end)
+    surface: str  # "upper", "lower" or "" (e.g. at a stagnation point)
+    s_start: float  # arc length on that surface where the corner's region starts
+    s_end: float  # ... and where it ends (the next convex corner or the surface end)
     verdict: Verdict
     margin: float
     detail: str
     table_name: str
     table_critical_ratio: float | None
-    table_verdict: str           # "below critical", "at or above critical", or "no table"
-    disagreement: str            # "" when solver and table agree, else a sentence saying how
+    table_verdict: str  # "below critical", "at or above critical", or "no table"
+    disagreement: str  # "" when solver and table agree, else a sentence saying how
     delta_cd: float
 
 
@@ -109,8 +113,8 @@ class RadiusSearch:
 
     node: int
     status: SearchStatus
-    radius: float | None         # smallest attached radius, None unless FOUND/ALWAYS_ATTACHED
-    largest_fitting: float       # the largest radius that fits between the corner's neighbours
+    radius: float | None  # smallest attached radius, None unless FOUND/ALWAYS_ATTACHED
+    largest_fitting: float  # the largest radius that fits between the corner's neighbours
     bracket: tuple[float, float]  # (separated, attached) radii that bound the answer
     tolerance: float
     solves: int
@@ -118,7 +122,11 @@ class RadiusSearch:
 
     @property
     def success(self) -> bool:
-        return self.status in (SearchStatus.FOUND, SearchStatus.ALWAYS_ATTACHED, SearchStatus.NONE_FITS)
+        return self.status in (
+            SearchStatus.FOUND,
+            SearchStatus.ALWAYS_ATTACHED,
+            SearchStatus.NONE_FITS,
+        )
 
 
 @dataclass(frozen=True)
@@ -156,7 +164,7 @@ class FlowEventKind(TextEnum):
     REATTACHMENT = "reattachment"
     TURBULENT_SEPARATION = "turbulent_separation"
     EDGE_SEPARATION = "edge_separation"
-    BUBBLE_SEPARATION = "bubble_separation"   # a separation behind which the layer reattaches
+    BUBBLE_SEPARATION = "bubble_separation"  # a separation behind which the layer reattaches
 
 
 @dataclass(frozen=True)
@@ -164,8 +172,8 @@ class FlowEvent:
     """A boundary-layer event placed on the profile: kind, surface, arc length and position (m)."""
 
     kind: FlowEventKind
-    surface: str                 # "upper", "lower" (a SurfaceName), or "" at the stagnation point
-    s: float                     # arc length on that surface from the stagnation point
+    surface: str  # "upper", "lower" (a SurfaceName), or "" at the stagnation point
+    s: float  # arc length on that surface from the stagnation point
     x: float
     y: float
     detail: str = ""
@@ -188,7 +196,7 @@ class Analysis:
     corners: tuple[CornerResult, ...] = ()
     drag: DragBreakdown | None = None
     events: tuple[FlowEvent, ...] = ()
-    reynolds: float | None = None        # full scale, on the profile length
+    reynolds: float | None = None  # full scale, on the profile length
     model_reynolds: float | None = None  # the scale test's, on the model length
     warnings: tuple[str, ...] = ()
     radius_searches: tuple[RadiusSearch, ...] = ()  # searches run to place corner corrections

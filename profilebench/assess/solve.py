@@ -12,8 +12,17 @@ import numpy as np
 from profilebench.assess.corners import EDGE_TURN_DEG
 from profilebench.flow.profile_flow import solve_profile_flow
 
-__all__ = ["solve_flow", "edge_points", "closed_points", "REATTACH_RATIO", "WAKE_RATIO",
-           "FIT_RATIO", "CLOSED_FULL_REAR", "CLOSED_STRIDE", "CLOSED_ARC_POINTS"]
+__all__ = [
+    "solve_flow",
+    "edge_points",
+    "closed_points",
+    "REATTACH_RATIO",
+    "WAKE_RATIO",
+    "FIT_RATIO",
+    "CLOSED_FULL_REAR",
+    "CLOSED_STRIDE",
+    "CLOSED_ARC_POINTS",
+]
 
 # A corner's separated shear layer is taken to reattach when at least this many frontal heights of
 # surface follow it (rectangular prisms' shear layers reattach on the side faces beyond a
@@ -78,13 +87,12 @@ def closed_points(panelling, height):
     n = len(pts)
     # every CLOSED_STRIDE-th point in the canonical order, the same points however the outline
     # is given
-    canonical = (np.arange(n) if panelling.canonical is None
-                 else np.asarray(panelling.canonical))
+    canonical = np.arange(n) if panelling.canonical is None else np.asarray(panelling.canonical)
     keep = canonical % CLOSED_STRIDE == 0
     keep |= pts[:, 0] >= float(pts[:, 0].max()) - CLOSED_FULL_REAR * height
     for span in panelling.corners:
         i0, i1 = int(span.point_start), int(span.point_end)
-        arc = np.arange(i0, (i1 if i1 >= i0 else i1 + n) + 1) % n    # may run through point 0
+        arc = np.arange(i0, (i1 if i1 >= i0 else i1 + n) + 1) % n  # may run through point 0
         if arc.size > CLOSED_ARC_POINTS:
             # a well-panelled arc keeps every second point (its ends always)
             arc = np.concatenate([arc[::2], arc[-1:]])
@@ -100,13 +108,21 @@ def solve_flow(profile, conditions, panelling, height):
     """
     pts = panelling.points
     return solve_profile_flow(
-        pts, speed=conditions.speed, nu=conditions.nu, ground=conditions.ground,
-        kutta_node=(None if profile.trailing_edge is None
-                    else int(panelling.node_point[profile.trailing_edge])),
-        transition=conditions.transition, h_separation=conditions.h_separation,
+        pts,
+        speed=conditions.speed,
+        nu=conditions.nu,
+        ground=conditions.ground,
+        kutta_node=(
+            None
+            if profile.trailing_edge is None
+            else int(panelling.node_point[profile.trailing_edge])
+        ),
+        transition=conditions.transition,
+        h_separation=conditions.h_separation,
         edge_points=edge_points(panelling),
         reattach_length=REATTACH_RATIO * height,
-        wake_length=WAKE_RATIO * height, base_pressure=conditions.base_pressure,
+        wake_length=WAKE_RATIO * height,
+        base_pressure=conditions.base_pressure,
         closed_points=closed_points(panelling, height),
         fit_length=FIT_RATIO * height,
     )

@@ -152,8 +152,12 @@ class RtTable:
             raise TableError(f"{where}: r/t must be strictly increasing")
         for key in ("reynolds_min", "reynolds_max"):
             v = getattr(self, key)
-            if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v) \
-                    or v <= 0:
+            if (
+                isinstance(v, bool)
+                or not isinstance(v, (int, float))
+                or not math.isfinite(v)
+                or v <= 0
+            ):
                 raise TableError(f"{where}: {key} = {v!r} must be a finite number > 0")
         if self.reynolds_min >= self.reynolds_max:
             raise TableError(
@@ -188,7 +192,7 @@ class RtTable:
             return self.header_critical_ratio
         y = np.asarray(self.values)
         for i in range(len(y) - 1):
-            if np.all(y[i] - y[i + 1:] <= FLAT_TOLERANCE * y[i]):
+            if np.all(y[i] - y[i + 1 :] <= FLAT_TOLERANCE * y[i]):
                 return self.ratios[i]
         return None
 
@@ -293,7 +297,7 @@ class RtTable:
         return float(out) if out.ndim == 0 else out
 
     def verdict(self, r_over_t: float) -> RtVerdict:
-        """"below critical" or "at or above critical" against :attr:`critical_ratio`.
+        """ "below critical" or "at or above critical" against :attr:`critical_ratio`.
 
         RtVerdict.UNDETERMINED when the table shows no critical ratio.
         """
@@ -351,8 +355,9 @@ def load_table(path) -> RtTable:
     except ProjectFileError as exc:
         raise TableError(str(exc)) from None
     except UnicodeDecodeError as exc:
-        raise TableError(f"{p}: cannot be read as UTF-8 text ({exc}); save it as a text CSV") \
-            from None
+        raise TableError(
+            f"{p}: cannot be read as UTF-8 text ({exc}); save it as a text CSV"
+        ) from None
 
     def err(line_no, what, fix):
         return TableError(f"{fname}, line {line_no}: {what}; {fix}")
@@ -369,21 +374,30 @@ def load_table(path) -> RtTable:
             continue
         if line.startswith("#"):
             if columns_line is not None:
-                raise err(n, "a '#' header line after the column row",
-                          "put every '# key: value' line before the 'r_over_t,cd' row")
+                raise err(
+                    n,
+                    "a '#' header line after the column row",
+                    "put every '# key: value' line before the 'r_over_t,cd' row",
+                )
             body = line[1:].strip()
             if not body:
                 continue
             if ":" not in body:
-                raise err(n, f"header line {excerpt(body)} is not 'key: value'",
-                          f"write it as '# key: value' with a key among {', '.join(allowed)}")
+                raise err(
+                    n,
+                    f"header line {excerpt(body)} is not 'key: value'",
+                    f"write it as '# key: value' with a key among {', '.join(allowed)}",
+                )
             key, value = (s.strip() for s in body.split(":", 1))
             key = key.lower()
             if key not in allowed:
                 raise err(n, f"unknown header key {key!r}", f"use one of {', '.join(allowed)}")
             if key in header:
-                raise err(n, f"header key {key!r} given twice (first on line {header[key][1]})",
-                          "keep one")
+                raise err(
+                    n,
+                    f"header key {key!r} given twice (first on line {header[key][1]})",
+                    "keep one",
+                )
             if not value:
                 raise err(n, f"header key {key!r} has no value", "give its value after the colon")
             header[key] = (value, n)
@@ -391,8 +405,11 @@ def load_table(path) -> RtTable:
         if columns_line is None:
             cells = [c.strip().lower() for c in line.split(",")]
             if tuple(cells) != COLUMNS:
-                raise err(n, f"column row {excerpt(line)} is not 'r_over_t,cd'",
-                          "put the row 'r_over_t,cd' after the header lines")
+                raise err(
+                    n,
+                    f"column row {excerpt(line)} is not 'r_over_t,cd'",
+                    "put the row 'r_over_t,cd' after the header lines",
+                )
             columns_line = n
             continue
         cells = [c.strip() for c in line.split(",")]
@@ -403,25 +420,37 @@ def load_table(path) -> RtTable:
             try:
                 v = float(cell)
             except ValueError:
-                raise err(n, f"{col} cell {excerpt(cell)} is not a number",
-                          "write a plain decimal number such as 0.17") from None
+                raise err(
+                    n,
+                    f"{col} cell {excerpt(cell)} is not a number",
+                    "write a plain decimal number such as 0.17",
+                ) from None
             if not math.isfinite(v):
                 raise err(n, f"{col} cell {excerpt(cell)} is not finite", "give a finite number")
             if v < 0:
                 raise err(n, f"{col} = {v:g} is negative", "give a value >= 0")
             nums.append(v)
         if rows and nums[0] <= rows[-1][0]:
-            raise err(n, f"r_over_t {nums[0]:g} does not exceed {rows[-1][0]:g} on line "
-                         f"{rows[-1][2]}", "list r/t strictly increasing, one row per ratio")
+            raise err(
+                n,
+                f"r_over_t {nums[0]:g} does not exceed {rows[-1][0]:g} on line {rows[-1][2]}",
+                "list r/t strictly increasing, one row per ratio",
+            )
         rows.append((nums[0], nums[1], n))
 
     missing = [k for k in REQUIRED_KEYS if k not in header]
     if missing:
-        raise err(1, f"missing header key(s) {', '.join(missing)}",
-                  "add a '# key: value' line for each before the column row")
+        raise err(
+            1,
+            f"missing header key(s) {', '.join(missing)}",
+            "add a '# key: value' line for each before the column row",
+        )
     if columns_line is None:
-        raise err(last_line or 1, "no column row 'r_over_t,cd'",
-                  "add the row 'r_over_t,cd' after the header and the data rows after it")
+        raise err(
+            last_line or 1,
+            "no column row 'r_over_t,cd'",
+            "add the row 'r_over_t,cd' after the header and the data rows after it",
+        )
     if len(rows) < 2:
         raise err(last_line, f"only {len(rows)} data row(s)", "give at least 2 rows r_over_t,cd")
 
@@ -430,29 +459,38 @@ def load_table(path) -> RtTable:
         try:
             v = float(value)
         except ValueError:
-            raise err(n, f"{key} {excerpt(value)} is not a number", "give a plain number such as 1e5") \
-                from None
+            raise err(
+                n, f"{key} {excerpt(value)} is not a number", "give a plain number such as 1e5"
+            ) from None
         if not math.isfinite(v) or v <= 0:
             raise err(n, f"{key} = {excerpt(value)} must be a finite number > 0", "correct it")
         return v
 
     re_min, re_max = number("reynolds_min"), number("reynolds_max")
     if re_min >= re_max:
-        raise err(header["reynolds_max"][1],
-                  f"reynolds_min {re_min:g} is not below reynolds_max {re_max:g}",
-                  "give the Reynolds range with reynolds_min < reynolds_max")
+        raise err(
+            header["reynolds_max"][1],
+            f"reynolds_min {re_min:g} is not below reynolds_max {re_max:g}",
+            "give the Reynolds range with reynolds_min < reynolds_max",
+        )
     crit = None
     if "critical_ratio" in header:
         value, n = header["critical_ratio"]
         try:
             crit = float(value)
         except ValueError:
-            raise err(n, f"critical_ratio {excerpt(value)} is not a number",
-                      "give a plain number or leave the key out") from None
+            raise err(
+                n,
+                f"critical_ratio {excerpt(value)} is not a number",
+                "give a plain number or leave the key out",
+            ) from None
         if not (rows[0][0] <= crit <= rows[-1][0]):
-            raise err(n, f"critical_ratio {crit:g} lies outside the tabulated r/t "
-                         f"{rows[0][0]:g}..{rows[-1][0]:g}",
-                      "give a ratio within the data or leave the key out")
+            raise err(
+                n,
+                f"critical_ratio {crit:g} lies outside the tabulated r/t "
+                f"{rows[0][0]:g}..{rows[-1][0]:g}",
+                "give a ratio within the data or leave the key out",
+            )
     return RtTable(
         name=header["name"][0],
         source=header["source"][0],
@@ -498,9 +536,13 @@ def select_table(reynolds: float, tables=None) -> TableSelection:
     inside = [t for t in cands if t.contains(re)]
     if inside:
         best = min(inside, key=lambda t: math.log10(t.reynolds_max / t.reynolds_min))
-        return TableSelection(best, re, True,
-                              f"Re {re:.3g} lies in table '{best.name}' "
-                              f"({best.reynolds_min:.3g}..{best.reynolds_max:.3g})")
+        return TableSelection(
+            best,
+            re,
+            True,
+            f"Re {re:.3g} lies in table '{best.name}' "
+            f"({best.reynolds_min:.3g}..{best.reynolds_max:.3g})",
+        )
 
     def distance(t):
         lr = math.log10(re)
@@ -508,7 +550,9 @@ def select_table(reynolds: float, tables=None) -> TableSelection:
 
     best = min(cands, key=distance)
     return TableSelection(
-        best, re, False,
+        best,
+        re,
+        False,
         f"Re {re:.3g} lies outside every table's range; the nearest, '{best.name}' "
         f"({best.reynolds_min:.3g}..{best.reynolds_max:.3g}), is used: read its values with care",
     )

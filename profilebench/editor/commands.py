@@ -67,7 +67,9 @@ def move_node(state: DocumentState, i: int, x: float, y: float) -> Edit:
     return Edit(f"Move {_node_label(state, i)}", state, replace(state, profile=profile))
 
 
-def insert_node(state: DocumentState, before: int, x: float, y: float, smooth: bool | None = None) -> Edit:
+def insert_node(
+    state: DocumentState, before: int, x: float, y: float, smooth: bool | None = None
+) -> Edit:
     """Insert a sharp node at (x, y) (m) before index ``before``.
 
     With ``smooth=None`` the new node is smooth when either neighbour is, so a click on a spline

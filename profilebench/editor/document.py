@@ -25,10 +25,10 @@ CAUTION = profilebench.CAUTION  # one text for the whole product
 class DocumentState:
     """One state of the document: the profile, the flow conditions and the pinned baseline."""
 
-    profile: object              # profilebench.geometry.profile.Profile
-    conditions: object           # profilebench.assess.conditions.Conditions
-    baseline: object = None      # a Profile pinned for comparison, or None
-    underlay: object = None      # profilebench.editor.underlay.Underlay, or None
+    profile: object  # profilebench.geometry.profile.Profile
+    conditions: object  # profilebench.assess.conditions.Conditions
+    baseline: object = None  # a Profile pinned for comparison, or None
+    underlay: object = None  # profilebench.editor.underlay.Underlay, or None
 
 
 class Document:
@@ -116,5 +116,9 @@ class Document:
     @property
     def title(self) -> str:
         """A window title: the file name (or the profile name) with a star when unsaved."""
-        name = self.path.name if self.path is not None else (getattr(self.profile, "name", "") or "untitled")
+        name = (
+            self.path.name
+            if self.path is not None
+            else (getattr(self.profile, "name", "") or "untitled")
+        )
         return f"{name}{' *' if self.dirty else ''}"

@@ -14,8 +14,14 @@ from profilebench.errors import InputError, excerpt
 __all__ = ["parse_number", "parse_length_mm", "parse_speed_kmh", "parse_optional", "format_mm"]
 
 
-def parse_number(text: str, name: str, unit: str = "", minimum: float | None = None,
-                 maximum: float | None = None, exclusive_minimum: bool = False) -> float:
+def parse_number(
+    text: str,
+    name: str,
+    unit: str = "",
+    minimum: float | None = None,
+    maximum: float | None = None,
+    exclusive_minimum: bool = False,
+) -> float:
     """The number typed in ``text``; a comma as decimal separator is accepted."""
     raw = (text or "").strip().replace(",", ".")
     u = f" {unit}" if unit else ""
@@ -24,9 +30,13 @@ def parse_number(text: str, name: str, unit: str = "", minimum: float | None = N
     try:
         value = float(raw)
     except ValueError:
-        raise InputError(f"{name}: {excerpt(text.strip())} is not a number; type a number{u}, e.g. 100") from None
+        raise InputError(
+            f"{name}: {excerpt(text.strip())} is not a number; type a number{u}, e.g. 100"
+        ) from None
     if not math.isfinite(value):
-        raise InputError(f"{name}: {excerpt(text.strip())} is not a finite number; type a number{u}")
+        raise InputError(
+            f"{name}: {excerpt(text.strip())} is not a finite number; type a number{u}"
+        )
     if minimum is not None and (value <= minimum if exclusive_minimum else value < minimum):
         op = ">" if exclusive_minimum else ">="
         raise InputError(f"{name} = {value:g}{u} is too small; it must be {op} {minimum:g}{u}")
@@ -35,7 +45,9 @@ def parse_number(text: str, name: str, unit: str = "", minimum: float | None = N
     return value
 
 
-def parse_length_mm(text: str, name: str, minimum_mm: float | None = 0.0, exclusive: bool = False) -> float:
+def parse_length_mm(
+    text: str, name: str, minimum_mm: float | None = 0.0, exclusive: bool = False
+) -> float:
     """A length typed in millimetres, returned in metres."""
     return parse_number(text, name, "mm", minimum_mm, None, exclusive) / 1000.0
 

@@ -43,9 +43,11 @@ class ImportPreview:
         """One line for the dialog: the nodes, and the largest deviation against the tolerance."""
         if not self.ok:
             return f"Cannot load this outline: {self.error}"
-        return (f"{len(self.profile.nodes)} nodes ({self.corners} corners, {self.smooth} smooth); "
-                f"largest deviation {self.max_deviation * 1e3:.1f} mm "
-                f"(tolerance {self.tolerance * 1e3:.1f} mm)")
+        return (
+            f"{len(self.profile.nodes)} nodes ({self.corners} corners, {self.smooth} smooth); "
+            f"largest deviation {self.max_deviation * 1e3:.1f} mm "
+            f"(tolerance {self.tolerance * 1e3:.1f} mm)"
+        )
 
 
 def fit_preview(points, tolerance, ground=True, name="imported", samples=800) -> ImportPreview:
@@ -64,6 +66,12 @@ def fit_preview(points, tolerance, ground=True, name="imported", samples=800) ->
     except ProfileBenchError as exc:
         return ImportPreview(tolerance=float(tolerance), error=str(exc))
     smooth = sum(1 for nd in fit.profile.nodes if nd.smooth)
-    return ImportPreview(tolerance=float(tolerance), profile=fit.profile, outline=outline,
-                         max_deviation=float(fit.max_deviation), corners=int(fit.corners),
-                         smooth=smooth, notes=tuple(fit.notes))
+    return ImportPreview(
+        tolerance=float(tolerance),
+        profile=fit.profile,
+        outline=outline,
+        max_deviation=float(fit.max_deviation),
+        corners=int(fit.corners),
+        smooth=smooth,
+        notes=tuple(fit.notes),
+    )

@@ -32,8 +32,8 @@ __all__ = [
     "RadiusDrag",
 ]
 
-HANDLE_PX = 8.0          # pick tolerance of a node handle, px (common practice, no source)
-SEGMENT_PX = 6.0         # pick tolerance of a segment, px
+HANDLE_PX = 8.0  # pick tolerance of a node handle, px (common practice, no source)
+SEGMENT_PX = 6.0  # pick tolerance of a segment, px
 RADIUS_HANDLE_MIN_PX = 18.0  # a sharp corner's radius handle sits this far in from the node
 
 
@@ -48,10 +48,14 @@ def snap(value: float, grid: float | None) -> float:
 
 def _screen_points(profile, view: ViewTransform) -> np.ndarray:
     xy = np.asarray(profile.xy, dtype=float).reshape(-1, 2)
-    return np.column_stack((view.offset_x + view.scale * xy[:, 0], view.offset_y - view.scale * xy[:, 1]))
+    return np.column_stack(
+        (view.offset_x + view.scale * xy[:, 0], view.offset_y - view.scale * xy[:, 1])
+    )
 
 
-def hit_node(profile, view: ViewTransform, sx: float, sy: float, tolerance: float = HANDLE_PX) -> int | None:
+def hit_node(
+    profile, view: ViewTransform, sx: float, sy: float, tolerance: float = HANDLE_PX
+) -> int | None:
     """Index of the node whose handle is nearest (sx, sy) within ``tolerance`` px, else None."""
     pts = _screen_points(profile, view)
     if len(pts) == 0:
@@ -67,12 +71,14 @@ class SegmentHit:
 
     index: int
     insert_at: int
-    t: float              # 0..1 along the chord
+    t: float  # 0..1 along the chord
     world: tuple[float, float]
     distance_px: float
 
 
-def hit_segment(profile, view: ViewTransform, sx: float, sy: float, tolerance: float = SEGMENT_PX) -> SegmentHit | None:
+def hit_segment(
+    profile, view: ViewTransform, sx: float, sy: float, tolerance: float = SEGMENT_PX
+) -> SegmentHit | None:
     """The chord between consecutive nodes nearest (sx, sy) within ``tolerance`` px, else None.
 
     The foot of the perpendicular is clipped to the chord (standard point-to-segment distance).
@@ -120,10 +126,10 @@ def corner_geometry(profile, i: int) -> CornerGeometry:
         raise GeometryError(f"node {i} sits on a neighbouring node; move one of them apart")
     u, v = u / lu, v / lv
     cos_angle = float(np.clip(np.dot(u, v), -1.0, 1.0))
-    angle = math.acos(cos_angle)          # angle between the two segments at the node
+    angle = math.acos(cos_angle)  # angle between the two segments at the node
     bis = u + v
     nb = np.hypot(*bis)
-    if nb < 1e-12:                        # straight through: any normal; no corner
+    if nb < 1e-12:  # straight through: any normal; no corner
         bis = np.array([-u[1], u[0]])
         nb = 1.0
     bis = bis / nb
@@ -152,8 +158,9 @@ def radius_handle_position(profile, i: int, view: ViewTransform) -> tuple[float,
     return (sx + d_px * bx, sy - d_px * by)
 
 
-def hit_radius_handle(profile, i: int | None, view: ViewTransform, sx: float, sy: float,
-                      tolerance: float = HANDLE_PX) -> bool:
+def hit_radius_handle(
+    profile, i: int | None, view: ViewTransform, sx: float, sy: float, tolerance: float = HANDLE_PX
+) -> bool:
     """True when (sx, sy) is on the radius handle of the selected corner node ``i``."""
     if i is None or profile.nodes[i].smooth:
         return False
@@ -167,14 +174,21 @@ def hit_radius_handle(profile, i: int | None, view: ViewTransform, sx: float, sy
 class NodeDrag:
     """Dragging one node: every move gives a new profile; release gives one edit."""
 
-    def __init__(self, state: DocumentState, node: int, view: ViewTransform, sx: float, sy: float,
-                 grid: float | None = None):
+    def __init__(
+        self,
+        state: DocumentState,
+        node: int,
+        view: ViewTransform,
+        sx: float,
+        sy: float,
+        grid: float | None = None,
+    ):
         self.start = state
         self.node = node
         self.grid = grid
         wx, wy = view.to_world(sx, sy)
         nx, ny = state.profile.xy[node]
-        self._grab = (nx - wx, ny - wy)   # keep the offset between cursor and node centre
+        self._grab = (nx - wx, ny - wy)  # keep the offset between cursor and node centre
         self.profile = state.profile
         self.moves = 0
 
@@ -210,7 +224,7 @@ class RadiusDrag:
         s = math.sin(self.geometry.half_angle)
         if d <= 0 or s >= 1 - 1e-9:
             return 0.0
-        r = d * s / (1.0 - s)    # inverse of d = r / sin(a) - r
+        r = d * s / (1.0 - s)  # inverse of d = r / sin(a) - r
         return max(snap(r, self.grid), 0.0)
 
     def move(self, view: ViewTransform, sx: float, sy: float):
@@ -219,4 +233,6 @@ class RadiusDrag:
 
     def finish(self) -> Edit:
         r = self.profile.nodes[self.node].radius
-        return replace_profile(self.start, self.profile, f"Set radius of node {self.node} to {r * 1000:.4g} mm")
+        return replace_profile(
+            self.start, self.profile, f"Set radius of node {self.node} to {r * 1000:.4g} mm"
+        )

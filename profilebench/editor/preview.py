@@ -64,10 +64,10 @@ def preview_outline(profile, arc_points: int = 9) -> np.ndarray:
     up = prev / np.where(lp > 0, lp, 1.0)[:, None]
     un = nxt / np.where(ln > 0, ln, 1.0)[:, None]
     cos_a = np.clip(np.sum(up * un, axis=1), -1.0, 1.0)
-    alpha = np.arccos(cos_a)                 # interior angle between the two segments
+    alpha = np.arccos(cos_a)  # interior angle between the two segments
     half = 0.5 * alpha
     with np.errstate(divide="ignore", invalid="ignore"):
-        setback = r / np.tan(half)           # = r tan(theta/2) with theta = pi - alpha
+        setback = r / np.tan(half)  # = r tan(theta/2) with theta = pi - alpha
     ok &= (half > 1e-3) & (half < 0.5 * np.pi - 1e-3)
     ok &= np.isfinite(setback) & (setback <= 0.5 * lp) & (setback <= 0.5 * ln)
     out = []
@@ -83,7 +83,7 @@ def preview_outline(profile, arc_points: int = 9) -> np.ndarray:
         centre = p[i] + bis * (r[i] / np.sin(half[i]))
         a0 = np.arctan2(*(a - centre)[::-1])
         a1 = np.arctan2(*(b - centre)[::-1])
-        sweep = (a1 - a0 + np.pi) % (2 * np.pi) - np.pi   # the short way round
+        sweep = (a1 - a0 + np.pi) % (2 * np.pi) - np.pi  # the short way round
         ang = a0 + sweep * t
         out.append(centre + r[i] * np.column_stack([np.cos(ang), np.sin(ang)]))
     return np.vstack(out)

@@ -21,8 +21,14 @@ from pathlib import Path
 
 from profilebench.errors import ProjectFileError
 
-__all__ = ["RecoveryCopy", "recovery_file", "write_recovery", "remove_recovery", "left_behind",
-           "set_aside"]
+__all__ = [
+    "RecoveryCopy",
+    "recovery_file",
+    "write_recovery",
+    "remove_recovery",
+    "left_behind",
+    "set_aside",
+]
 
 PREFIX = "recovery-"
 DAMAGED_PREFIX = "damaged-"
@@ -58,10 +64,12 @@ def write_recovery(folder, document) -> Path:
     folder = Path(folder)
     try:
         folder.mkdir(parents=True, exist_ok=True)
-    except (OSError, ValueError) as exc:       # ValueError: a NUL in the configured folder
+    except (OSError, ValueError) as exc:  # ValueError: a NUL in the configured folder
         reason = getattr(exc, "strerror", None) or str(exc)
-        raise ProjectFileError(f"cannot create the recovery folder {folder}: {reason}; "
-                               "choose another recovery folder in the settings") from exc
+        raise ProjectFileError(
+            f"cannot create the recovery folder {folder}: {reason}; "
+            "choose another recovery folder in the settings"
+        ) from exc
     path = recovery_file(folder)
     # the underlay is not kept in the recovery copy (its path is relative to the project file)
     save_project(Project(document.profile, document.conditions, baseline=document.baseline), path)
@@ -78,7 +86,7 @@ def remove_recovery(folder, pid: int | None = None) -> bool:
     for p in (path, _origin_file(path)):
         try:
             p.unlink()
-        except (FileNotFoundError, ValueError):   # gone, or a folder name no file can have
+        except (FileNotFoundError, ValueError):  # gone, or a folder name no file can have
             pass
     return found
 
@@ -88,7 +96,7 @@ def _alive(pid: int) -> bool:
         return True
     try:
         os.kill(pid, 0)
-    except (ProcessLookupError, OverflowError):   # gone, or no process can have that number
+    except (ProcessLookupError, OverflowError):  # gone, or no process can have that number
         return False
     except PermissionError:
         return True
@@ -126,12 +134,12 @@ def left_behind(folder) -> list[RecoveryCopy]:
     found = []
     for path in paths:
         try:
-            pid = int(path.stem[len(PREFIX):])
+            pid = int(path.stem[len(PREFIX) :])
         except ValueError:
             continue
         try:
             st = path.stat()
-        except OSError:            # a dangling link, or removed meanwhile
+        except OSError:  # a dangling link, or removed meanwhile
             continue
         if not stat.S_ISREG(st.st_mode) or not 0 < pid < 2**31 or _alive(pid):  # a C int
             continue
@@ -147,8 +155,10 @@ def set_aside(folder, copy: RecoveryCopy) -> Path:
     try:
         os.replace(copy.path, target)
     except OSError as exc:
-        raise ProjectFileError(f"cannot set the damaged recovery copy {copy.path} aside: "
-                               f"{exc.strerror or exc}; delete it by hand") from exc
+        raise ProjectFileError(
+            f"cannot set the damaged recovery copy {copy.path} aside: "
+            f"{exc.strerror or exc}; delete it by hand"
+        ) from exc
     try:
         os.replace(_origin_file(copy.path), target.with_suffix(".origin"))
     except OSError:

@@ -31,7 +31,9 @@ def similarity_matrix(points_px, points_m) -> np.ndarray:
     if abs(zb - za) < 1e-9:
         raise InputError("the two image reference points are the same pixel; pick two points apart")
     if abs(wb - wa) < 1e-12:
-        raise InputError("the two profile reference points are the same; give two different positions")
+        raise InputError(
+            "the two profile reference points are the same; give two different positions"
+        )
     k = (wb - wa) / (zb - za)
     c = wa - k * za
     # w = k (u - i v) + c  ->  x = kr u + ki v + cr,  y = ki u - kr v + ci
@@ -51,18 +53,27 @@ class Underlay:
 
     def __post_init__(self):
         if self.width_px <= 0 or self.height_px <= 0:
-            raise InputError(f"the image {self.path} is empty ({self.width_px} x {self.height_px} px); pick another image")
+            raise InputError(
+                f"the image {self.path} is empty ({self.width_px} x {self.height_px} px); pick another image"
+            )
         op = self.opacity
         if isinstance(op, bool) or not isinstance(op, (int, float)) or not 0.0 <= op <= 1.0:
             raise InputError(f"underlay opacity {op!r} must be between 0 (hidden) and 1 (full)")
-        similarity_matrix(self.points_px, self.points_m)   # refuses coincident points
+        similarity_matrix(self.points_px, self.points_m)  # refuses coincident points
 
     @classmethod
-    def initial(cls, path, width_px: int, height_px: int, length: float = 4.5, opacity: float = 0.35) -> "Underlay":
+    def initial(
+        cls, path, width_px: int, height_px: int, length: float = 4.5, opacity: float = 0.35
+    ) -> "Underlay":
         """The image with its bottom edge on the ground (y = 0) from x = 0 to x = ``length`` (m)."""
-        return cls(Path(path), int(width_px), int(height_px),
-                   ((0.0, float(height_px)), (float(width_px), float(height_px))),
-                   ((0.0, 0.0), (float(length), 0.0)), opacity)
+        return cls(
+            Path(path),
+            int(width_px),
+            int(height_px),
+            ((0.0, float(height_px)), (float(width_px), float(height_px))),
+            ((0.0, 0.0), (float(length), 0.0)),
+            opacity,
+        )
 
     @property
     def matrix(self) -> np.ndarray:

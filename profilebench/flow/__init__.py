@@ -28,8 +28,22 @@ from profilebench.flow.profile_flow import (  # both surfaces of a profile
 )
 
 __all__ = [
-    "InviscidSolution", "InviscidStatus", "solve_inviscid", "solve_inviscid_bodies",
-    "SplitStatus", "Surface", "SurfaceEnd", "SurfaceSplit", "split_surfaces",
-    "BoundaryLayerResult", "Event", "MarchStatus", "Regime", "march_boundary_layer",
-    "FlowStatus", "ProfileFlow", "SurfaceFlow", "solve_profile_flow",
+    "InviscidSolution",
+    "InviscidStatus",
+    "solve_inviscid",
+    "solve_inviscid_bodies",
+    "SplitStatus",
+    "Surface",
+    "SurfaceEnd",
+    "SurfaceSplit",
+    "split_surfaces",
+    "BoundaryLayerResult",
+    "Event",
+    "MarchStatus",
+    "Regime",
+    "march_boundary_layer",
+    "FlowStatus",
+    "ProfileFlow",
+    "SurfaceFlow",
+    "solve_profile_flow",
 ]

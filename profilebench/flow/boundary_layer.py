@@ -101,8 +101,11 @@ class EventKind(TextEnum):
 #: Event kinds, in the trade's terms.
 EVENT_KINDS = tuple(EventKind)
 #: The event kinds at which the layer leaves the surface.
-SEPARATION_KINDS = (EventKind.LAMINAR_SEPARATION, EventKind.TURBULENT_SEPARATION,
-                    EventKind.EDGE_SEPARATION)
+SEPARATION_KINDS = (
+    EventKind.LAMINAR_SEPARATION,
+    EventKind.TURBULENT_SEPARATION,
+    EventKind.EDGE_SEPARATION,
+)
 _FIT_HALF_WIDTH = 3
 
 
@@ -454,8 +457,13 @@ class _March:
             if self.stopped[i]:
                 candidates.append((float(s[i]), 1, _LaminarEnd.STOPPED))
             else:
-                candidates.append((_crossing(s, LAMBDA_SEPARATION - self.lam, i), 1,
-                                   _LaminarEnd.LAMINAR_SEPARATION))
+                candidates.append(
+                    (
+                        _crossing(s, LAMBDA_SEPARATION - self.lam, i),
+                        1,
+                        _LaminarEnd.LAMINAR_SEPARATION,
+                    )
+                )
         if transition == "turbulent":
             candidates.append((float(s[0]), 2, _LaminarEnd.TURBULENT))
         else:
@@ -503,7 +511,8 @@ class _March:
             self.margin[k] = 0.0
         else:
             self.margin[k] = np.clip(
-                (self.h_sep - m.H) / (self.h_sep - FLAT_PLATE_TURBULENT_H), 0.0, 1.0)
+                (self.h_sep - m.H) / (self.h_sep - FLAT_PLATE_TURBULENT_H), 0.0, 1.0
+            )
         self.regime[k] = regime
 
     def event(self, kind, x, detail):
@@ -513,15 +522,25 @@ class _March:
 
     def fail(self, what, m):
         self.status = MarchStatus.NUMERICAL_FAILURE
-        self.failure_msg = (f"{what} failed at s = {m.s_stop:.6g} m (non-finite state); values "
-                            "held from there")
+        self.failure_msg = (
+            f"{what} failed at s = {m.s_stop:.6g} m (non-finite state); values held from there"
+        )
         self.fill_separated(m.s_stop, m.theta_stop, m.h_stop)
 
     # ---- phase 3: the turbulent layer ----
     def turbulent(self, x0, th0, h0):
         """Attached turbulent march from x0 (Head), its stations filled; returns the march."""
-        m = march_head(self.s, self.u_fit, self.d_fit, x0, th0, h0, self.nu_v,
-                       h_above=self.h_sep, s_limit=self.s_edge)
+        m = march_head(
+            self.s,
+            self.u_fit,
+            self.d_fit,
+            x0,
+            th0,
+            h0,
+            self.nu_v,
+            h_above=self.h_sep,
+            s_limit=self.s_edge,
+        )
         self.fill_march(m, Regime.TURBULENT)
         return m
 
@@ -530,12 +549,19 @@ class _March:
         if m.stop is HeadStop.END:
             return
         if m.stop is HeadStop.H_ABOVE:
-            self.event(EventKind.TURBULENT_SEPARATION, m.s_stop,
-                       f"turbulent separation: H reached {self.h_sep:g} (Head)")
+            self.event(
+                EventKind.TURBULENT_SEPARATION,
+                m.s_stop,
+                f"turbulent separation: H reached {self.h_sep:g} (Head)",
+            )
         elif m.stop is HeadStop.LIMIT:
-            self.event(EventKind.EDGE_SEPARATION, m.s_stop, "attached turbulent layer reaches a sharp edge")
+            self.event(
+                EventKind.EDGE_SEPARATION, m.s_stop, "attached turbulent layer reaches a sharp edge"
+            )
         elif m.stop is HeadStop.STOPPED:
-            self.event(EventKind.TURBULENT_SEPARATION, m.s_stop, "edge speed falls to zero: the flow stops")
+            self.event(
+                EventKind.TURBULENT_SEPARATION, m.s_stop, "edge speed falls to zero: the flow stops"
+            )
         else:
             self.fail("turbulent march", m)
             return
@@ -555,15 +581,19 @@ class _March:
                 self.re_theta[0] = self.re_t_l[0]
                 self.margin[0] = 1.0
                 self.regime[0] = Regime.TURBULENT
-            self.event(EventKind.TRANSITION, s[0],
-                       f"turbulent from the start: theta from Thwaites, H = {TURBULENT_START_H:g}")
+            self.event(
+                EventKind.TRANSITION,
+                s[0],
+                f"turbulent from the start: theta from Thwaites, H = {TURBULENT_START_H:g}",
+            )
         else:
             self.fill_laminar(x_end)
             x0, th0 = x_end, th_x
             if kind is _LaminarEnd.FREE:
                 rx = float(np.interp(x_end, s, ue)) * x_end / self.nu_v
-                detail = (f"free transition, Michel's criterion (Cebeci-Smith form) at "
-                          f"Re_x = {rx:.3g}")
+                detail = (
+                    f"free transition, Michel's criterion (Cebeci-Smith form) at Re_x = {rx:.3g}"
+                )
             else:
                 detail = "forced transition at the given arc length"
             self.event(EventKind.TRANSITION, x_end, detail)
@@ -576,24 +606,43 @@ class _March:
     def bubble(self, x_end, th_x):
         """Laminar separation: a turbulent bubble that reattaches, bursts or meets an edge."""
         self.fill_laminar(x_end)
-        ls = self.event(EventKind.LAMINAR_SEPARATION, x_end,
-                        f"laminar separation (Thwaites, lambda = {LAMBDA_SEPARATION:g}): bubble")
+        ls = self.event(
+            EventKind.LAMINAR_SEPARATION,
+            x_end,
+            f"laminar separation (Thwaites, lambda = {LAMBDA_SEPARATION:g}): bubble",
+        )
         h_re = self.h_sep - BUBBLE_REATTACH_HYSTERESIS
         l_max = x_end + BUBBLE_MAX_LENGTH_THETA * th_x
         limit = l_max if self.s_edge is None else min(l_max, self.s_edge)
-        mb = march_head(self.s, self.u_fit, self.d_fit, x_end, th_x, BUBBLE_RESTART_H, self.nu_v,
-                        h_above=BUBBLE_BURST_H, h_below=h_re, s_limit=limit)
+        mb = march_head(
+            self.s,
+            self.u_fit,
+            self.d_fit,
+            x_end,
+            th_x,
+            BUBBLE_RESTART_H,
+            self.nu_v,
+            h_above=BUBBLE_BURST_H,
+            h_below=h_re,
+            s_limit=limit,
+        )
         self.fill_march(mb, Regime.SEPARATED, cf_zero=True)
         if mb.stop is HeadStop.H_BELOW:
-            self.event(EventKind.REATTACHMENT, mb.s_stop,
-                       f"bubble from s = {ls.s:.4g} m reattaches turbulent (H fell to {h_re:g}), "
-                       f"length {mb.s_stop - ls.s:.3g} m")
+            self.event(
+                EventKind.REATTACHMENT,
+                mb.s_stop,
+                f"bubble from s = {ls.s:.4g} m reattaches turbulent (H fell to {h_re:g}), "
+                f"length {mb.s_stop - ls.s:.3g} m",
+            )
             self.close_turbulent(self.turbulent(mb.s_stop, mb.theta_stop, mb.h_stop))
         elif mb.stop is HeadStop.END:
-            pass   # the surface ends inside the bubble: separated from laminar separation on
+            pass  # the surface ends inside the bubble: separated from laminar separation on
         elif mb.stop is HeadStop.LIMIT and self.s_edge is not None and mb.s_stop >= self.s_edge:
-            self.event(EventKind.EDGE_SEPARATION, mb.s_stop,
-                       f"bubble from s = {ls.s:.4g} m still open at a sharp edge: layer leaves there")
+            self.event(
+                EventKind.EDGE_SEPARATION,
+                mb.s_stop,
+                f"bubble from s = {ls.s:.4g} m still open at a sharp edge: layer leaves there",
+            )
             self.fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
         elif mb.stop in (HeadStop.H_ABOVE, HeadStop.LIMIT, HeadStop.STOPPED):
             why = {
@@ -601,8 +650,11 @@ class _March:
                 HeadStop.LIMIT: f"no reattachment within {BUBBLE_MAX_LENGTH_THETA:g} theta",
                 HeadStop.STOPPED: "edge speed falls to zero",
             }[mb.stop]
-            self.event(EventKind.TURBULENT_SEPARATION, mb.s_stop,
-                       f"bubble from s = {ls.s:.4g} m burst ({why}): the layer separates")
+            self.event(
+                EventKind.TURBULENT_SEPARATION,
+                mb.s_stop,
+                f"bubble from s = {ls.s:.4g} m burst ({why}): the layer separates",
+            )
             self.fill_separated(mb.s_stop, mb.theta_stop, mb.h_stop)
         else:
             self.fail("bubble march", mb)
@@ -617,16 +669,20 @@ class _March:
         h_x = float(np.interp(x_end, self.s, self.h_l))
         if kind is _LaminarEnd.EDGE:
             self.fill_laminar(x_end)
-            self.event(EventKind.EDGE_SEPARATION, x_end, "attached laminar layer reaches a sharp edge")
+            self.event(
+                EventKind.EDGE_SEPARATION, x_end, "attached laminar layer reaches a sharp edge"
+            )
             self.fill_separated(x_end, th_x, h_x)
         elif kind is _LaminarEnd.STOPPED:
             self.fill_laminar(x_end)
             k = _first_index_at_or_after(self.s, x_end)
-            self.event(EventKind.LAMINAR_SEPARATION, x_end, "edge speed falls to zero: the flow stops")
+            self.event(
+                EventKind.LAMINAR_SEPARATION, x_end, "edge speed falls to zero: the flow stops"
+            )
             self.fill_separated(x_end, float(self.theta_l[k - 1]), float(self.h_l[k - 1]))
         elif kind is _LaminarEnd.LAMINAR_SEPARATION:
             self.bubble(x_end, th_x)
-        else:   # turbulent from the start, free or forced transition
+        else:  # turbulent from the start, free or forced transition
             self.transition(kind, x_end, th_x)
 
     # ---- phase 4: the result ----
@@ -646,21 +702,35 @@ class _March:
         else:
             message = self.failure_msg
         arrays = dict(
-            s=self.s, ue=self.ue, theta=self.theta, delta_star=self.H * self.theta, H=self.H,
-            cf=self.cf, cf_free_stream=self.cf * self.ue**2, re_theta=self.re_theta,
-            regime=self.regime, margin=self.margin,
+            s=self.s,
+            ue=self.ue,
+            theta=self.theta,
+            delta_star=self.H * self.theta,
+            H=self.H,
+            cf=self.cf,
+            cf_free_stream=self.cf * self.ue**2,
+            re_theta=self.re_theta,
+            regime=self.regime,
+            margin=self.margin,
         )
         for arr in arrays.values():
             arr.setflags(write=False)
         return BoundaryLayerResult(
-            **arrays, events=self.events, separation=separation, status=self.status,
-            success=self.status is MarchStatus.COMPLETED, message=message, nu=self.nu,
-            speed=self.speed, h_separation=self.h_sep,
+            **arrays,
+            events=self.events,
+            separation=separation,
+            status=self.status,
+            success=self.status is MarchStatus.COMPLETED,
+            message=message,
+            nu=self.nu,
+            speed=self.speed,
+            h_separation=self.h_sep,
         )
 
 
-def march_boundary_layer(s, ue, nu=1.46e-5, speed=30.0, transition="free", h_separation=2.4,
-                         edges=(), fit_length=0.0) -> BoundaryLayerResult:
+def march_boundary_layer(
+    s, ue, nu=1.46e-5, speed=30.0, transition="free", h_separation=2.4, edges=(), fit_length=0.0
+) -> BoundaryLayerResult:
     """March the boundary layer along one surface from the stagnation point.
 
     Parameters

@@ -103,19 +103,22 @@ def head_entrainment(h1):
 
 def ludwieg_tillmann_cf(h, re_theta):
     """Ludwieg-Tillmann skin friction Cf = 0.246 10^(-0.678 H) Re_theta^-0.268 (local, on Ue)."""
-    return (_LT_CF * 10.0 ** (_LT_H_EXPONENT * np.asarray(h, dtype=float))
-            * np.asarray(re_theta, dtype=float) ** _LT_RE_EXPONENT)
+    return (
+        _LT_CF
+        * 10.0 ** (_LT_H_EXPONENT * np.asarray(h, dtype=float))
+        * np.asarray(re_theta, dtype=float) ** _LT_RE_EXPONENT
+    )
 
 
 class HeadStop(TextEnum):
     """Why a turbulent march stopped."""
 
-    END = "end"              # the surface end reached
-    H_ABOVE = "h_above"      # H rose to the upper limit (separation, or a bubble bursting)
-    H_BELOW = "h_below"      # H fell to the lower limit (a bubble reattaching)
-    LIMIT = "limit"          # the given arc length reached (a sharp edge, the longest bubble)
-    STOPPED = "stopped"      # the edge speed fell to zero
-    FAILURE = "failure"      # a non-finite state
+    END = "end"  # the surface end reached
+    H_ABOVE = "h_above"  # H rose to the upper limit (separation, or a bubble bursting)
+    H_BELOW = "h_below"  # H fell to the lower limit (a bubble reattaching)
+    LIMIT = "limit"  # the given arc length reached (a sharp edge, the longest bubble)
+    STOPPED = "stopped"  # the edge speed fell to zero
+    FAILURE = "failure"  # a non-finite state
 
 
 @dataclass(frozen=True)
@@ -136,8 +139,20 @@ class HeadMarch:
     h_stop: float
 
 
-def _rates(theta, big, u, du, nu_v, _pow=math.pow, _h1_min=_H1_MIN, _cf=_CF_HALF,
-           _lt_h=_LT_H_EXPONENT, _lt_re=_LT_RE_EXPONENT, _f=_ENTRAIN, _f_exp=_ENTRAIN_EXPONENT):
+def _rates(
+    theta,
+    big,
+    u,
+    du,
+    nu_v,
+    _pow=math.pow,
+    _h1_min=_H1_MIN,
+    _cf=_CF_HALF,
+    _lt_h=_LT_H_EXPONENT,
+    _lt_re=_LT_RE_EXPONENT,
+    _f=_ENTRAIN,
+    _f_exp=_ENTRAIN_EXPONENT,
+):
     """d theta/ds and d(theta H1)/ds at a state: Head's two equations (one Runge-Kutta stage).
 
     Pure floats for speed: this is the hot path of the march (the constants are bound as
@@ -149,12 +164,15 @@ def _rates(theta, big, u, du, nu_v, _pow=math.pow, _h1_min=_H1_MIN, _cf=_CF_HALF
     d = h1 - 3.3
     hh = 1.1 + 0.86 * _pow(d, -0.777) if h1 >= 5.3 else 0.6778 + 1.1538 * _pow(d, -0.326)
     g = du / u
-    return (_cf * _pow(10.0, _lt_h * hh) * _pow(u * theta / nu_v, _lt_re) - (hh + 2.0) * theta * g,
-            _f * _pow(h1 - 3.0, _f_exp) - big * g)
+    return (
+        _cf * _pow(10.0, _lt_h * hh) * _pow(u * theta / nu_v, _lt_re) - (hh + 2.0) * theta * g,
+        _f * _pow(h1 - 3.0, _f_exp) - big * g,
+    )
 
 
-def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above,
-               h_below=None, s_limit=None):
+def march_head(
+    s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above, h_below=None, s_limit=None
+):
     """March Head's method from ``s_start`` along the stations.
 
     Parameters
@@ -240,7 +258,7 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
         inv_h = 1.0 / hseg
         target = min(sb, s_end)
         x_known = None  # position whose u, du are already known (end of the last sub-step)
-        u1 = du1 = 0.0   # the edge speed there (set by the first sub-step)
+        u1 = du1 = 0.0  # the edge speed there (set by the first sub-step)
         while x < target:
             if x == x_known:
                 u0, du0 = u1, du1
@@ -258,7 +276,9 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
             if dd < 1e-9:
                 dd = 1e-9
             # dH/dH1 of the inverse branches, times dH1/ds
-            slope = -0.777 * 0.86 * pw(dd, -1.777) if h1 >= 5.3 else -0.326 * 1.1538 * pw(dd, -1.326)
+            slope = (
+                -0.777 * 0.86 * pw(dd, -1.777) if h1 >= 5.3 else -0.326 * 1.1538 * pw(dd, -1.326)
+            )
             dh1 = (k1b - h1 * k1a) / theta
             rate_h = abs(slope * dh1)
             rate_t = abs(k1a) / theta
@@ -289,8 +309,12 @@ def march_head(s, ue, due, s_start, theta_start, h_start, nu_over_speed, h_above
                     sixth = step / 6.0
                     th_new = theta + sixth * (k1a + 2.0 * k2a + 2.0 * k3a + k4a)
                     big_new = big + sixth * (k1b + 2.0 * k2b + 2.0 * k3b + k4b)
-                    stages_ok = (math.isfinite(th_new) and math.isfinite(big_new) and th_new > 0.0
-                                 and big_new > 0.0)
+                    stages_ok = (
+                        math.isfinite(th_new)
+                        and math.isfinite(big_new)
+                        and th_new > 0.0
+                        and big_new > 0.0
+                    )
                 except (ValueError, ZeroDivisionError, OverflowError):
                     stages_ok = False
                 if stages_ok:

@@ -384,7 +384,15 @@ def _assemble(pts_list, ground: bool):
             src_t[r0:r1] = dx
         src_n[r0:r1] *= sg
     geom = dict(
-        a=a, length=length, tx=tx, ty=ty, nx=nx, ny=ny, mx=mx, my=my, clockwise=clockwise,
+        a=a,
+        length=length,
+        tx=tx,
+        ty=ty,
+        nx=nx,
+        ny=ny,
+        mx=mx,
+        my=my,
+        clockwise=clockwise,
         offsets=offsets,
     )
     return geom, src_n, src_t, vor_n, vor_t
@@ -398,21 +406,31 @@ def _lu_solve(mat: np.ndarray, rhs: np.ndarray):
     anorm = float(np.abs(mat).sum(axis=0).max())
     lu, piv, info = lapack.dgetrf(mat, overwrite_a=True)
     if info > 0:
-        return None, InviscidStatus.SINGULAR, (
-            f"the panel equations are singular (zero pivot {info}); check for coincident or "
-            "overlapping panels"
+        return (
+            None,
+            InviscidStatus.SINGULAR,
+            (
+                f"the panel equations are singular (zero pivot {info}); check for coincident or "
+                "overlapping panels"
+            ),
         )
     rcond, info = lapack.dgecon(lu, anorm, norm="1")
     if not rcond > _RCOND_MIN:
-        return None, InviscidStatus.SINGULAR, (
-            f"the panel equations are singular to working precision (reciprocal condition number "
-            f"{rcond:.2e}); check for coincident, overlapping or very uneven panels"
+        return (
+            None,
+            InviscidStatus.SINGULAR,
+            (
+                f"the panel equations are singular to working precision (reciprocal condition number "
+                f"{rcond:.2e}); check for coincident, overlapping or very uneven panels"
+            ),
         )
     x, info = lapack.dgetrs(lu, piv, rhs)
     if not np.isfinite(x).all():
         return None, InviscidStatus.NOT_FINITE, "the panel solution is not finite"
-    return x, InviscidStatus.SOLVED, (
-        f"solved {mat.shape[0]} panel equations (reciprocal condition number {rcond:.2e})"
+    return (
+        x,
+        InviscidStatus.SOLVED,
+        (f"solved {mat.shape[0]} panel equations (reciprocal condition number {rcond:.2e})"),
     )
 
 
@@ -445,10 +463,14 @@ def influence_coefficients(points, ground: bool = False) -> InfluenceCoefficient
     _check_simple(pts, "points")
     geom, src_n, src_t, vor_n, vor_t = _assemble([pts], bool(ground))
     return InfluenceCoefficients(
-        src_n=src_n, src_t=src_t, vor_n=vor_n[:, 0].copy(), vor_t=vor_t[:, 0].copy(),
+        src_n=src_n,
+        src_t=src_t,
+        vor_n=vor_n[:, 0].copy(),
+        vor_t=vor_t[:, 0].copy(),
         tangent=np.column_stack([geom["tx"], geom["ty"]]),
         normal=np.column_stack([geom["nx"], geom["ny"]]),
-        clockwise=bool(geom["clockwise"][0]))
+        clockwise=bool(geom["clockwise"][0]),
+    )
 
 
 # --------------------------------------------------------------------------------------------

@@ -34,11 +34,25 @@ from profilebench.flow.boundary_layer import BoundaryLayerResult, EventKind, mar
 from profilebench.errors import InputError, ProfileBenchError
 from profilebench.flow.panel import InviscidSolution, InviscidStatus, solve_inviscid
 from profilebench.flow.stagnation import Surface, split_surfaces
-from profilebench.geometry.polyline import (arc_length, edge_lengths, edges, is_clockwise,
-                                            midpoints, outward_normals)
+from profilebench.geometry.polyline import (
+    arc_length,
+    edge_lengths,
+    edges,
+    is_clockwise,
+    midpoints,
+    outward_normals,
+)
 
-__all__ = ["FlowStatus", "SurfaceName", "SURFACE_NAMES", "SurfaceFlow", "ProfileFlow", "solve_profile_flow", "march_surface",
-           "BubbleRestart"]
+__all__ = [
+    "FlowStatus",
+    "SurfaceName",
+    "SURFACE_NAMES",
+    "SurfaceFlow",
+    "ProfileFlow",
+    "solve_profile_flow",
+    "march_surface",
+    "BubbleRestart",
+]
 
 
 class SurfaceName(TextEnum):
@@ -73,8 +87,8 @@ class SurfaceFlow:
     surface: Surface
     bl: BoundaryLayerResult
     restarts: tuple[BubbleRestart, ...]
-    edges: tuple[float, ...]     # surface arc lengths of the sharp edges passed to the march
-    perimeter: float             # outline length (m)
+    edges: tuple[float, ...]  # surface arc lengths of the sharp edges passed to the march
+    perimeter: float  # outline length (m)
 
     @property
     def direction(self) -> int:
@@ -89,7 +103,7 @@ class SurfaceFlow:
     def surface_s(self, sigma):
         """Surface arc length of an outline arc length, or None if it is not on this surface."""
         s = float(np.mod(self.direction * (sigma - self.surface.s_start), self.perimeter))
-        if s > self.perimeter - 1e-6:   # a hair before the start (rounding)
+        if s > self.perimeter - 1e-6:  # a hair before the start (rounding)
             s = 0.0
         return min(s, float(self.surface.s_end)) if s <= float(self.surface.s_end) + 1e-6 else None
 
@@ -103,13 +117,13 @@ class ProfileFlow:
     inviscid: object
     upper: SurfaceFlow | None = None
     lower: SurfaceFlow | None = None
-    separated: np.ndarray | None = None   # bool over the inviscid stations
+    separated: np.ndarray | None = None  # bool over the inviscid stations
     station_surface: np.ndarray | None = None  # 0 upper, 1 lower, per inviscid station
-    station_bl: np.ndarray | None = None        # index into that surface's bl arrays
-    closed: "ProfileFlow | None" = None         # the closed-body solution (wake model only; on
-                                                # the coarser points when closed_points was used)
-    wake_points: np.ndarray | None = None       # outline of body + wake body (wake model only)
-    attached: np.ndarray | None = None          # attached share (0 to 1) of each inviscid panel
+    station_bl: np.ndarray | None = None  # index into that surface's bl arrays
+    closed: "ProfileFlow | None" = None  # the closed-body solution (wake model only; on
+    # the coarser points when closed_points was used)
+    wake_points: np.ndarray | None = None  # outline of body + wake body (wake model only)
+    attached: np.ndarray | None = None  # attached share (0 to 1) of each inviscid panel
 
     @property
     def success(self) -> bool:
@@ -147,15 +161,20 @@ def _merge(first, second, s_offset, i_offset):
     # the restarted march starts turbulent: its own "transition" at its first station is not a
     # transition of the real layer, so it is dropped
     shifted = tuple(
-        dataclasses.replace(e, s=e.s + s_offset, index=e.index + i_offset) for e in second.events
+        dataclasses.replace(e, s=e.s + s_offset, index=e.index + i_offset)
+        for e in second.events
         if not (e.kind is EventKind.TRANSITION and e.index <= 1)
     )
     kept = tuple(e for e in first.events if e.index <= i_offset)
     fields["events"] = list(kept + shifted)
     fields["separation"] = (
-        dataclasses.replace(second.separation, s=second.separation.s + s_offset,
-                            index=second.separation.index + i_offset)
-        if second.separation is not None else None
+        dataclasses.replace(
+            second.separation,
+            s=second.separation.s + s_offset,
+            index=second.separation.index + i_offset,
+        )
+        if second.separation is not None
+        else None
     )
     for name in ("status", "message"):
         if name in fields:
@@ -163,8 +182,20 @@ def _merge(first, second, s_offset, i_offset):
     return type(first)(**fields)
 
 
-def march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_length,
-                  restart_hints=(), hint_tolerance=0.0, beyond=0.0, fit_length=0.0):
+def march_surface(
+    s,
+    ue,
+    nu,
+    speed,
+    transition,
+    h_separation,
+    edges,
+    reattach_length,
+    restart_hints=(),
+    hint_tolerance=0.0,
+    beyond=0.0,
+    fit_length=0.0,
+):
     """March one surface, restarting turbulent after corner bubbles (see module docstring).
 
     ``s``, ``ue``, ``nu``, ``speed``, ``transition``, ``h_separation``, ``edges``,
@@ -179,10 +210,18 @@ def march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_le
     (m) of the closed body's surface behind this surface's end, counted in the surface left
     behind a separation (the wake-model march; see the module docstring).
     """
-    bl = march_boundary_layer(s, ue, nu=nu, speed=speed, transition=transition,
-                              h_separation=h_separation, edges=edges, fit_length=fit_length)
+    bl = march_boundary_layer(
+        s,
+        ue,
+        nu=nu,
+        speed=speed,
+        transition=transition,
+        h_separation=h_separation,
+        edges=edges,
+        fit_length=fit_length,
+    )
     restarts = []
-    while (reattach_length is not None and bl.success and bl.separation is not None):
+    while reattach_length is not None and bl.success and bl.separation is not None:
         sep = bl.separation
         i0 = int(sep.index) + 1
         hinted = any(abs(float(sep.s) - h) <= hint_tolerance for h in restart_hints)
@@ -192,9 +231,16 @@ def march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_le
         # a fresh turbulent start needs a small positive first station
         rest_s = rest_s + max(1e-4, 1e-3 * (s[-1] - s[0]))
         rest_edges = tuple(e - s[i0] + rest_s[0] for e in edges if e > s[i0])
-        tail = march_boundary_layer(rest_s, ue[i0:], nu=nu, speed=speed, transition="turbulent",
-                                    h_separation=h_separation, edges=rest_edges,
-                                    fit_length=fit_length)
+        tail = march_boundary_layer(
+            rest_s,
+            ue[i0:],
+            nu=nu,
+            speed=speed,
+            transition="turbulent",
+            h_separation=h_separation,
+            edges=rest_edges,
+            fit_length=fit_length,
+        )
         if not tail.success:
             break
         restarts.append(BubbleRestart(s=float(sep.s), kind=EventKind(sep.kind)))
@@ -202,9 +248,22 @@ def march_surface(s, ue, nu, speed, transition, h_separation, edges, reattach_le
     return bl, tuple(restarts)
 
 
-def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition, h_separation,
-             reattach_length, fallback_separation=None, restart_hints=None, beyond=(0.0, 0.0),
-             fit_length=0.0):
+def _marched(
+    res,
+    surfaces,
+    names,
+    perimeter,
+    edge_sigma,
+    nu,
+    speed,
+    transition,
+    h_separation,
+    reattach_length,
+    fallback_separation=None,
+    restart_hints=None,
+    beyond=(0.0, 0.0),
+    fit_length=0.0,
+):
     """March the given surfaces (in original-outline terms) and assemble a ProfileFlow."""
     n = len(res.s)
     flows = []
@@ -219,20 +278,46 @@ def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition,
         ue = np.asarray(sf.ue, dtype=float)
         hints = () if restart_hints is None else restart_hints[k]
         tol = 0.0 if reattach_length is None else 0.1 * reattach_length
-        bl, restarts = march_surface(s, ue, nu, speed, transition, h_separation, edges,
-                                      reattach_length, hints, tol, beyond[k], fit_length)
+        bl, restarts = march_surface(
+            s,
+            ue,
+            nu,
+            speed,
+            transition,
+            h_separation,
+            edges,
+            reattach_length,
+            hints,
+            tol,
+            beyond[k],
+            fit_length,
+        )
         if not bl.success:
-            return ProfileFlow(FlowStatus.BOUNDARY_LAYER_FAILED, f"{name} surface: {bl.message}", res)
-        if bl.separation is None and fallback_separation is not None and fallback_separation[k] is not None:
+            return ProfileFlow(
+                FlowStatus.BOUNDARY_LAYER_FAILED, f"{name} surface: {bl.message}", res
+            )
+        if (
+            bl.separation is None
+            and fallback_separation is not None
+            and fallback_separation[k] is not None
+        ):
             # the wake starts here: the layer leaves the surface at its end, as the closed-body
             # march found
             first = fallback_separation[k]
             ev = dataclasses.replace(first, s=float(s[-1]), index=len(s) - 1)
             bl = dataclasses.replace(bl, separation=ev, events=list(bl.events) + [ev])
-        flows.append(SurfaceFlow(name=SurfaceName(name), surface=sf, bl=bl, restarts=restarts, edges=edges,
-                                 perimeter=perimeter))
+        flows.append(
+            SurfaceFlow(
+                name=SurfaceName(name),
+                surface=sf,
+                bl=bl,
+                restarts=restarts,
+                edges=edges,
+                perimeter=perimeter,
+            )
+        )
         idx = np.asarray(sf.index, dtype=int)
-        offset = len(bl.s) - len(idx)   # station 0 is the stagnation point itself
+        offset = len(bl.s) - len(idx)  # station 0 is the stagnation point itself
         station_surface[idx] = k
         station_bl[idx] = np.arange(len(idx)) + offset
         if bl.separation is not None:
@@ -241,11 +326,22 @@ def _marched(res, surfaces, names, perimeter, edge_sigma, nu, speed, transition,
             # the panel the layer leaves on counts attached up to the separation point only, so
             # that the forces move continuously with the separation point, not panel by panel
             half = 0.5 * panel_length[idx]
-            attached[idx] = np.clip((float(bl.separation.s) - (s_st - half)) / (2.0 * half), 0.0, 1.0)
+            attached[idx] = np.clip(
+                (float(bl.separation.s) - (s_st - half)) / (2.0 * half), 0.0, 1.0
+            )
     separated[station_surface < 0] = True  # stations beyond both surfaces' ends lie in the wake
     attached[station_surface < 0] = 0.0
-    return ProfileFlow(FlowStatus.SUCCESS, "converged", res, flows[0], flows[1], separated,
-                       station_surface, station_bl, attached=attached)
+    return ProfileFlow(
+        FlowStatus.SUCCESS,
+        "converged",
+        res,
+        flows[0],
+        flows[1],
+        separated,
+        station_surface,
+        station_bl,
+        attached=attached,
+    )
 
 
 def _geometric(start, stop, first, growth=1.2, max_step=None):
@@ -265,7 +361,9 @@ def _geometric(start, stop, first, growth=1.2, max_step=None):
     steps.extend(total + rest * np.arange(1, k + 1) / k)
     steps = np.array(steps)
     # stretch so the last step is not a sliver
-    if len(steps) > 1 and steps[-1] - steps[-2] < 0.5 * (steps[-2] - (steps[-3] if len(steps) > 2 else 0.0)):
+    if len(steps) > 1 and steps[-1] - steps[-2] < 0.5 * (
+        steps[-2] - (steps[-3] if len(steps) > 2 else 0.0)
+    ):
         steps = np.delete(steps, -2)
     return start + steps
 
@@ -314,7 +412,11 @@ def _wake_outline(pts, j_l, j_u, d, wake_length):
     n_close = max(6, int(math.ceil(abs(yu - yl) / max_step)))
     ys = yu + (yl - yu) * np.arange(1, n_close) / n_close
     close = np.column_stack([np.full(n_close - 1, x_end), ys])
-    lower = np.column_stack([xs_l[::-1], np.full(len(xs_l), yl)])[:-1] if len(xs_l) > 1 else np.empty((0, 2))
+    lower = (
+        np.column_stack([xs_l[::-1], np.full(len(xs_l), yl)])[:-1]
+        if len(xs_l) > 1
+        else np.empty((0, 2))
+    )
     lower = np.vstack([[x_end, yl], lower[1:]]) if len(lower) else np.array([[x_end, yl]])
     return np.vstack([body, upper, close, lower]), m
 
@@ -331,8 +433,12 @@ def _surface_in_original(new_sf, orig_of_new, m, d, sigma_l, perimeter, s_juncti
         return None
     s = np.asarray(new_sf.s)[: keep + 1]
     return dataclasses.replace(
-        new_sf, s=s, ue=np.asarray(new_sf.ue)[: keep + 1], x=np.asarray(new_sf.x)[: keep + 1],
-        y=np.asarray(new_sf.y)[: keep + 1], index=orig_of_new[idx[:keep]],
+        new_sf,
+        s=s,
+        ue=np.asarray(new_sf.ue)[: keep + 1],
+        x=np.asarray(new_sf.x)[: keep + 1],
+        y=np.asarray(new_sf.y)[: keep + 1],
+        index=orig_of_new[idx[:keep]],
         s_start=float(np.mod(sigma_l + d * new_sf.s_start, perimeter)),
         direction=int(d * new_sf.direction),
         s_end=float(abs(s_junction - new_sf.s_start)),
@@ -351,18 +457,29 @@ def _outline_solution(pts, ground, ue, cp, status, message):
     length = np.hypot(seg[:, 0], seg[:, 1])
     mid = midpoints(pts)
     arrays = dict(
-        x=mid[:, 0], y=mid[:, 1],
-        s=np.cumsum(length) - 0.5 * length, ue=np.asarray(ue, dtype=float),
-        cp=np.asarray(cp, dtype=float), points=pts.copy(), panel_length=length,
+        x=mid[:, 0],
+        y=mid[:, 1],
+        s=np.cumsum(length) - 0.5 * length,
+        ue=np.asarray(ue, dtype=float),
+        cp=np.asarray(cp, dtype=float),
+        points=pts.copy(),
+        panel_length=length,
         tangent=np.column_stack([seg[:, 0] / length, seg[:, 1] / length]),
         normal=outward_normals(pts),
     )
     for arr in arrays.values():
         arr.setflags(write=False)
-    return InviscidSolution(**arrays, circulation=0.0, perimeter=float(length.sum()),
-                            clockwise=is_clockwise(pts), ground=bool(ground), kutta_node=None,
-                            status=status, success=status is InviscidStatus.SOLVED,
-                            message=message)
+    return InviscidSolution(
+        **arrays,
+        circulation=0.0,
+        perimeter=float(length.sum()),
+        clockwise=is_clockwise(pts),
+        ground=bool(ground),
+        kutta_node=None,
+        status=status,
+        success=status is InviscidStatus.SOLVED,
+        message=message,
+    )
 
 
 def _point_at_sigma(pts, point_sigma, perimeter, sigma):
@@ -399,9 +516,23 @@ def _separation_xy(sfl, s_at):
     return float(np.interp(s_at, s, sf.x)), float(np.interp(s_at, s, sf.y))
 
 
-def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed, transition,
-               h_separation, reattach_length, wake_length, base_pressure, coarse=False,
-               fit_length=0.0):
+def _with_wake(
+    first,
+    pts,
+    ground,
+    perimeter,
+    point_sigma,
+    edge_sigma,
+    nu,
+    speed,
+    transition,
+    h_separation,
+    reattach_length,
+    wake_length,
+    base_pressure,
+    coarse=False,
+    fit_length=0.0,
+):
     """Re-solve the attached flow with a wake displacement body behind the separation points.
 
     ``coarse``: ``first`` was solved on a coarser panelling of the same outline (a subset of
@@ -438,21 +569,25 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     d = int(first.upper.direction)
     # a corner bubble is judged on the closed body's surface length (the wake-model surface plus
     # the closed surface behind its final separation; see the module docstring)
-    beyond = tuple(float(f.surface.s_end) - (float(sep.s) if sep is not None else float(f.surface.s_end))
-                   for f, sep in zip((first.upper, first.lower), seps))
+    beyond = tuple(
+        float(f.surface.s_end) - (float(sep.s) if sep is not None else float(f.surface.s_end))
+        for f, sep in zip((first.upper, first.lower), seps)
+    )
     if j_u == j_l or np.mod((j_u - j_l) * d, n) < 4:
         return first, "wake model skipped: too little attached surface"
     # the wake starts at the separation points themselves: the nearest panel point is moved
     # there (along the outline), so that the wake moves with the separation point and not by a
     # whole panel when the nearest point changes
     if coarse:
-        sig_full = [_outline_sigma_of(pts, point_sigma, perimeter, j, p)
-                    for j, p in ((j_u, xy[0]), (j_l, xy[1]))]
+        sig_full = [
+            _outline_sigma_of(pts, point_sigma, perimeter, j, p)
+            for j, p in ((j_u, xy[0]), (j_l, xy[1]))
+        ]
     else:
         sig_full = sig
     moved = np.array(pts, dtype=float)
     for j, sg, sep in ((j_u, sig_full[0], seps[0]), (j_l, sig_full[1], seps[1])):
-        if sep is not None and sep.kind is not EventKind.EDGE_SEPARATION:   # an edge stays put
+        if sep is not None and sep.kind is not EventKind.EDGE_SEPARATION:  # an edge stays put
             moved[j] = _point_at_sigma(pts, point_sigma, perimeter, sg)
     new_pts, m = _wake_outline(moved, j_l, j_u, d, wake_length)
     if ground and float(new_pts[:, 1].min()) <= 0.0:
@@ -486,23 +621,47 @@ def _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed
     sigma_ju = float(edge_lengths(new_pts)[: m - 1].sum())  # the wake outline starts at j_l
     for new_sf in (split.upper, split.lower):
         s_junction = sigma_ju if new_sf.direction > 0 else 0.0
-        sf = _surface_in_original(new_sf, orig_of_new, m, d, float(point_sigma[j_l]), perimeter,
-                                  s_junction)
+        sf = _surface_in_original(
+            new_sf, orig_of_new, m, d, float(point_sigma[j_l]), perimeter, s_junction
+        )
         if sf is None:
             return first, "wake model skipped: a surface is too short"
         surfaces.append(sf)
-    flow = _marched(inviscid, surfaces, SURFACE_NAMES, perimeter, edge_sigma, nu, speed,
-                    transition, h_separation, reattach_length, fallback_separation=seps,
-                    restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
-                    beyond=beyond, fit_length=fit_length)
+    flow = _marched(
+        inviscid,
+        surfaces,
+        SURFACE_NAMES,
+        perimeter,
+        edge_sigma,
+        nu,
+        speed,
+        transition,
+        h_separation,
+        reattach_length,
+        fallback_separation=seps,
+        restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
+        beyond=beyond,
+        fit_length=fit_length,
+    )
     if not flow.success:
         return first, f"wake model skipped: {flow.message}"
     return dataclasses.replace(flow, closed=first, wake_points=new_pts), ""
 
 
-def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed, transition,
-                             h_separation, reattach_length, wake_length, base_pressure,
-                             fit_length=0.0):
+def _coarse_closed_with_wake(
+    pts,
+    ground,
+    closed_points,
+    edge_points,
+    nu,
+    speed,
+    transition,
+    h_separation,
+    reattach_length,
+    wake_length,
+    base_pressure,
+    fit_length=0.0,
+):
     """The wake model with its closed-body pass on the subset ``closed_points`` of ``pts``.
 
     Returns the wake-model ProfileFlow on ``pts``, or None when the coarse pass fails or the
@@ -510,15 +669,18 @@ def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed,
     """
     n = len(pts)
     given = np.asarray(closed_points).ravel()
-    if given.size and (not np.issubdtype(given.dtype, np.integer) or given.min() < 0
-                       or given.max() >= n):
+    if given.size and (
+        not np.issubdtype(given.dtype, np.integer) or given.min() < 0 or given.max() >= n
+    ):
         raise InputError(
             f"closed_points must be indices 0 to {n - 1} into the {n} points; got "
-            f"{given.dtype} values from {given.min()} to {given.max()}: give integer point indices")
-    sub = np.unique(np.concatenate([given.astype(int),
-                                    np.asarray(list(edge_points), dtype=int).ravel()]))
+            f"{given.dtype} values from {given.min()} to {given.max()}: give integer point indices"
+        )
+    sub = np.unique(
+        np.concatenate([given.astype(int), np.asarray(list(edge_points), dtype=int).ravel()])
+    )
     if sub.size < 8 or sub.size >= n:
-        return None   # nothing to gain (or too few points): the full closed-body pass
+        return None  # nothing to gain (or too few points): the full closed-body pass
     pts_c = pts[sub]
     try:
         res_c = solve_inviscid(pts_c, ground=ground)
@@ -532,21 +694,59 @@ def _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed,
     perim_c, sigma_c = arc_length(pts_c)
     pos = {int(j): k for k, j in enumerate(sub)}
     edge_sigma_c = [float(sigma_c[pos[int(k)]]) for k in edge_points]
-    first = _marched(res_c, (split.upper, split.lower), SURFACE_NAMES, perim_c, edge_sigma_c,
-                     nu, speed, transition, h_separation, reattach_length, fit_length=fit_length)
+    first = _marched(
+        res_c,
+        (split.upper, split.lower),
+        SURFACE_NAMES,
+        perim_c,
+        edge_sigma_c,
+        nu,
+        speed,
+        transition,
+        h_separation,
+        reattach_length,
+        fit_length=fit_length,
+    )
     if not first.success:
         return None
     perimeter, point_sigma = arc_length(pts)
     edge_sigma = [float(point_sigma[int(k)]) for k in edge_points]
-    flow, note = _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed,
-                            transition, h_separation, reattach_length, wake_length, base_pressure,
-                            coarse=True, fit_length=fit_length)
+    flow, note = _with_wake(
+        first,
+        pts,
+        ground,
+        perimeter,
+        point_sigma,
+        edge_sigma,
+        nu,
+        speed,
+        transition,
+        h_separation,
+        reattach_length,
+        wake_length,
+        base_pressure,
+        coarse=True,
+        fit_length=fit_length,
+    )
     return None if note else flow
 
 
-def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transition="free",
-                       h_separation=2.4, edge_points=(), reattach_length=None, inviscid=None,
-                       wake_length=None, base_pressure=-0.25, closed_points=None, fit_length=0.0):
+def solve_profile_flow(
+    points,
+    speed,
+    nu,
+    ground=False,
+    kutta_node=None,
+    transition="free",
+    h_separation=2.4,
+    edge_points=(),
+    reattach_length=None,
+    inviscid=None,
+    wake_length=None,
+    base_pressure=-0.25,
+    closed_points=None,
+    fit_length=0.0,
+):
     """Inviscid flow and both boundary layers of a closed outline.
 
     Parameters
@@ -590,13 +790,33 @@ def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transit
         :func:`~profilebench.flow.boundary_layer.march_boundary_layer`).
     """
     pts = np.asarray(points, dtype=float)
-    if closed_points is not None and inviscid is None and kutta_node is None and wake_length is not None:
-        flow = _coarse_closed_with_wake(pts, ground, closed_points, edge_points, nu, speed,
-                                        transition, h_separation, reattach_length, wake_length,
-                                        base_pressure, fit_length)
+    if (
+        closed_points is not None
+        and inviscid is None
+        and kutta_node is None
+        and wake_length is not None
+    ):
+        flow = _coarse_closed_with_wake(
+            pts,
+            ground,
+            closed_points,
+            edge_points,
+            nu,
+            speed,
+            transition,
+            h_separation,
+            reattach_length,
+            wake_length,
+            base_pressure,
+            fit_length,
+        )
         if flow is not None:
             return flow
-    res = inviscid if inviscid is not None else solve_inviscid(pts, ground=ground, kutta_node=kutta_node)
+    res = (
+        inviscid
+        if inviscid is not None
+        else solve_inviscid(pts, ground=ground, kutta_node=kutta_node)
+    )
     if not res.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, res.message, res)
     perimeter, point_sigma = arc_length(pts)
@@ -604,13 +824,37 @@ def solve_profile_flow(points, speed, nu, ground=False, kutta_node=None, transit
     split = split_surfaces(res)
     if not split.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, split.message, res)
-    first = _marched(res, (split.upper, split.lower), SURFACE_NAMES, perimeter, edge_sigma,
-                     nu, speed, transition, h_separation, reattach_length, fit_length=fit_length)
+    first = _marched(
+        res,
+        (split.upper, split.lower),
+        SURFACE_NAMES,
+        perimeter,
+        edge_sigma,
+        nu,
+        speed,
+        transition,
+        h_separation,
+        reattach_length,
+        fit_length=fit_length,
+    )
     if not first.success or wake_length is None or kutta_node is not None:
         return first
-    flow, note = _with_wake(first, pts, ground, perimeter, point_sigma, edge_sigma, nu, speed,
-                            transition, h_separation, reattach_length, wake_length, base_pressure,
-                            fit_length=fit_length)
+    flow, note = _with_wake(
+        first,
+        pts,
+        ground,
+        perimeter,
+        point_sigma,
+        edge_sigma,
+        nu,
+        speed,
+        transition,
+        h_separation,
+        reattach_length,
+        wake_length,
+        base_pressure,
+        fit_length=fit_length,
+    )
     if note:
         return dataclasses.replace(flow, message=flow.message + "; " + note)
     return flow

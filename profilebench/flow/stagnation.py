@@ -100,7 +100,9 @@ class Surface:
     @property
     def mean_y(self) -> float:
         """Arc-length weighted mean height of the surface, m."""
-        return float(np.trapezoid(self.y, self.s) / self.s[-1]) if self.s[-1] > 0 else float(self.y[0])
+        return (
+            float(np.trapezoid(self.y, self.s) / self.s[-1]) if self.s[-1] > 0 else float(self.y[0])
+        )
 
 
 @dataclass(frozen=True, eq=False)
@@ -248,9 +250,7 @@ def split_surfaces(res: InviscidSolution) -> SurfaceSplit:
         upper, lower = backward, forward
     msg = f"front stagnation point at x = {stag[0]:.6g} m, y = {stag[1]:.6g} m"
     if dividing.size > 1:
-        msg += (
-            f"; {dividing.size} dividing points found, the most upstream (smallest x) was taken"
-        )
+        msg += f"; {dividing.size} dividing points found, the most upstream (smallest x) was taken"
     return SurfaceSplit(
         upper=upper,
         lower=lower,

@@ -131,9 +131,11 @@ def _first_crossing(pts, numbers):
     i, j = int(left[apart][0]), int(right[apart][0])
     where = shapely.intersection(segments[i], segments[j])
     x, y = np.asarray(shapely.get_coordinates(where), dtype=float)[0]
-    return (f"the segment from point {numbers[i]} to point {numbers[(i + 1) % n]} crosses the "
-            f"segment from point {numbers[j]} to point {numbers[(j + 1) % n]} at "
-            f"({x * 1e3:.1f}, {y * 1e3:.1f}) mm (points numbered in the order given, from 1)")
+    return (
+        f"the segment from point {numbers[i]} to point {numbers[(i + 1) % n]} crosses the "
+        f"segment from point {numbers[j]} to point {numbers[(j + 1) % n]} at "
+        f"({x * 1e3:.1f}, {y * 1e3:.1f}) mm (points numbered in the order given, from 1)"
+    )
 
 
 def _canonical(pts):
@@ -147,7 +149,7 @@ def _canonical(pts):
 def _frame(pts, tolerance):
     from shapely.geometry import LinearRing
 
-    ring = LinearRing(pts)            # simple: fit_outline has refused crossing points
+    ring = LinearRing(pts)  # simple: fit_outline has refused crossing points
     reduced = ring.simplify(float(tolerance), preserve_topology=True)
     frame = np.asarray(reduced.coords, dtype=float)[:-1]
     if len(frame) < 3:
@@ -222,22 +224,21 @@ def _fillet_path_distances(points, corner, d_in, d_out, r):
     ``d_out``; None when the lines do not turn."""
     u_in = np.asarray(d_in, float) / math.hypot(*d_in)
     u_out = np.asarray(d_out, float) / math.hypot(*d_out)
-    theta = math.acos(max(-1.0, min(1.0, float(u_in @ u_out))))      # turning angle
+    theta = math.acos(max(-1.0, min(1.0, float(u_in @ u_out))))  # turning angle
     if theta < 1e-6:
         return None
     bis = u_out - u_in
-    bis = bis / math.hypot(*bis)                                     # toward the arc's centre
+    bis = bis / math.hypot(*bis)  # toward the arc's centre
     tlen = r * math.tan(0.5 * theta)
-    t_in, t_out = corner - tlen * u_in, corner + tlen * u_out        # tangent points
+    t_in, t_out = corner - tlen * u_in, corner + tlen * u_out  # tangent points
     centre = corner + bis * r / math.cos(0.5 * theta)
-    rel_in = (points - t_in) @ u_in                                  # > 0 past the first tangent
-    rel_out = (points - t_out) @ u_out                               # < 0 before the second
+    rel_in = (points - t_in) @ u_in  # > 0 past the first tangent
+    rel_out = (points - t_out) @ u_out  # < 0 before the second
     on_arc = (rel_in > 0) & (rel_out < 0)
     d_arc = np.abs(np.hypot(*(points - centre).T) - r)
     n_in = np.array([-u_in[1], u_in[0]])
     n_out = np.array([-u_out[1], u_out[0]])
-    d_line = np.where(rel_in <= 0, np.abs((points - t_in) @ n_in),
-                      np.abs((points - t_out) @ n_out))
+    d_line = np.where(rel_in <= 0, np.abs((points - t_in) @ n_in), np.abs((points - t_out) @ n_out))
     return np.where(on_arc, d_arc, d_line)
 
 
@@ -255,8 +256,12 @@ def _fillet_radius(points, corner, d_in, d_out, guess):
         return _fillet_path_distances(points, corner, d_in, d_out, r)
 
     hi = max(3.0 * guess, 1e-3)
-    res = minimize_scalar(lambda r: float(np.sum(dist(r) ** 2)), bounds=(0.0, hi),
-                          method="bounded", options={"xatol": 1e-5 * hi})
+    res = minimize_scalar(
+        lambda r: float(np.sum(dist(r) ** 2)),
+        bounds=(0.0, hi),
+        method="bounded",
+        options={"xatol": 1e-5 * hi},
+    )
     r = float(res.x)
     return r, float(np.max(dist(r)))
 
@@ -295,7 +300,7 @@ def _check(profile, pts, tolerance, ground):
 
     try:
         problems = explain(profile, ground=ground)
-    except Exception as exc:   # a build error is a reason to reject the candidate
+    except Exception as exc:  # a build error is a reason to reject the candidate
         return False, math.inf, str(exc)
     if problems:
         return False, math.inf, problems[0]
@@ -398,24 +403,30 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         Points that cross themselves, or an outline whose frame is itself invalid (below the
         ground, say): the message says where.
     """
-    if isinstance(tolerance, bool) or not isinstance(tolerance, (int, float)) or not (
-            math.isfinite(tolerance) and tolerance > 0):
+    if (
+        isinstance(tolerance, bool)
+        or not isinstance(tolerance, (int, float))
+        or not (math.isfinite(tolerance) and tolerance > 0)
+    ):
         raise InputError(f"tolerance must be a positive distance in metres, got {tolerance!r}")
     pts, numbers = _clean(points)
     crossing = _first_crossing(pts, numbers)
     if crossing:
-        raise GeometryError(f"the points cross themselves: {crossing}; remove the crossing "
-                            "points or reorder them round the outline")
+        raise GeometryError(
+            f"the points cross themselves: {crossing}; remove the crossing "
+            "points or reorder them round the outline"
+        )
     pts = _canonical(pts)
     if ground and float(pts[:, 1].min()) <= 0.0:
         k = int(np.argmin(pts[:, 1]))
         raise GeometryError(
             f"the point at ({pts[k, 0] * 1e3:.1f}, {pts[k, 1] * 1e3:.1f}) mm lies on or below the "
-            "ground (y = 0); raise the outline or fit it with the ground off")
+            "ground (y = 0); raise the outline or fit it with the ground off"
+        )
     frame, dp_frame = _frame(pts, tolerance)
     m = len(frame)
     height = float(np.ptp(pts[:, 1]))
-    edge = np.hypot(*(np.roll(frame, -1, axis=0) - frame).T)       # edge k: vertex k -> k+1
+    edge = np.hypot(*(np.roll(frame, -1, axis=0) - frame).T)  # edge k: vertex k -> k+1
     turn = _turn(frame)
     # an edge belongs to a corner's stretch when it is short, or when it is not long and its
     # ends turn the same way, one by more than SMOOTH_TURN_DEG and the other by more than a
@@ -424,14 +435,16 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
     kink = np.abs(turn) > math.radians(STRAIGHT_TURN_DEG)
     nxt_big, nxt_kink = np.roll(big, -1), np.roll(kink, -1)
     short = (edge < max(CORNER_EDGE_RATIO * height, 15.0 * tolerance)) | (
-        ((big & nxt_kink) | (kink & nxt_big)) & (turn * np.roll(turn, -1) > 0)
-        & (edge < 2.0 * CORNER_EDGE_RATIO * height))
+        ((big & nxt_kink) | (kink & nxt_big))
+        & (turn * np.roll(turn, -1) > 0)
+        & (edge < 2.0 * CORNER_EDGE_RATIO * height)
+    )
     notes = []
 
     # corner stretches: maximal runs of vertices joined by short edges, between long edges
     groups, seen = [], np.zeros(m, dtype=bool)
     if not short.all():
-        start = int(np.flatnonzero(~short)[0]) + 1          # a vertex after a long edge
+        start = int(np.flatnonzero(~short)[0]) + 1  # a vertex after a long edge
         k = start
         for _ in range(m):
             v = k % m
@@ -456,7 +469,7 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         i0, i1 = index[k], index[(k + 1) % m]
         idx = np.arange(i0, (i1 if i1 >= i0 else i1 + len(pts)) + 1) % len(pts)
         cut = len(idx) // 5
-        sel = pts[idx[cut:len(idx) - cut]] if len(idx) - 2 * cut >= 2 else pts[idx]
+        sel = pts[idx[cut : len(idx) - cut]] if len(idx) - 2 * cut >= 2 else pts[idx]
         c = sel.mean(axis=0)
         _, _, vt = np.linalg.svd(sel - c, full_matrices=False)
         d = vt[0]
@@ -481,8 +494,9 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
                     if len(near) >= 4:
                         r, worst = _fillet_radius(near, meet, d0, d1, guess)
                         if worst <= tolerance and _rounding_is_significant(
-                                _fillet_path_distances(near, meet, d0, d1, 0.0),
-                                _fillet_path_distances(near, meet, d0, d1, r)):
+                            _fillet_path_distances(near, meet, d0, d1, 0.0),
+                            _fillet_path_distances(near, meet, d0, d1, r),
+                        ):
                             nodes.append(Node(*map(float, at), radius=r))
                             kinds.append(("fillet", [v], r))
                             return
@@ -522,9 +536,9 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         # a corner): split it at its longest inner edge and try each part; single vertices
         # stand on their own, sharp where they turn much, smooth where they turn little
         cut = max(range(len(run) - 1), key=lambda q: edge[run[q]])
-        short[run[cut]] = False               # the edge between the parts is a run of its own
-        place(run[:cut + 1])
-        place(run[cut + 1:])
+        short[run[cut]] = False  # the edge between the parts is a run of its own
+        place(run[: cut + 1])
+        place(run[cut + 1 :])
 
     for run in groups:
         place(run)
@@ -546,8 +560,12 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
             i += 1
             continue
         j = i
-        while (j + 1 < len(kinds) and kinds[j + 1][0] == "sharp"
-               and kinds[j + 1][1][0] == (kinds[j][1][0] + 1) % m and short[kinds[j][1][0]]):
+        while (
+            j + 1 < len(kinds)
+            and kinds[j + 1][0] == "sharp"
+            and kinds[j + 1][1][0] == (kinds[j][1][0] + 1) % m
+            and short[kinds[j][1][0]]
+        ):
             j += 1
         sharp_runs.append((i, j))
         i = j + 1
@@ -579,7 +597,7 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         trial[i] = Node(float(corner[0]), float(corner[1]), radius=radius)
         for q in range(i + 1, j + 1):
             trial[q] = None
-        for q in (i - 1, j + 1):                 # the fillet takes its neighbours' places
+        for q in (i - 1, j + 1):  # the fillet takes its neighbours' places
             qq = q % len(trial)
             if kinds[qq][0] in ("smooth", "straight"):
                 trial[qq] = None
@@ -605,8 +623,9 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
             if trial is None:
                 continue
             # a thinned start that strays far after its first fit is not worth adding to
-            refined, _ = refine_profile(trial, pts, tolerance,
-                                        give_up_above=None if trial is start else 4 * tolerance)
+            refined, _ = refine_profile(
+                trial, pts, tolerance, give_up_above=None if trial is start else 4 * tolerance
+            )
             r_ok, r_dev, r_why = _check(refined, pts, tolerance, ground)
             if r_ok:
                 candidate, ok, dev, why = list(refined.nodes), r_ok, r_dev, r_why
@@ -614,11 +633,17 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
     # if it does not pass, give up detail step by step, keeping each step that helps: the
     # splines made polylines, the straight runs' kinks restored, the fillets one by one sharp
     steps = [
-        ("the smooth nodes were made sharp",
-         lambda c: [None if nd is None else Node(nd.x, nd.y, nd.radius, False) for nd in c]),
-        ("the straight runs keep every vertex of the reduced outline",
-         lambda c: [Node(*map(float, frame[kinds[i][1][0]])) if nd is None else nd
-                    for i, nd in enumerate(c)]),
+        (
+            "the smooth nodes were made sharp",
+            lambda c: [None if nd is None else Node(nd.x, nd.y, nd.radius, False) for nd in c],
+        ),
+        (
+            "the straight runs keep every vertex of the reduced outline",
+            lambda c: [
+                Node(*map(float, frame[kinds[i][1][0]])) if nd is None else nd
+                for i, nd in enumerate(c)
+            ],
+        ),
     ]
     for label, change in steps:
         if ok:
@@ -637,24 +662,39 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         trial[i] = Node(candidate[i].x, candidate[i].y)
         t_ok, t_dev, t_why = _check(profile_of(trial), pts, tolerance, ground)
         if t_ok or t_dev < dev:
-            notes.append(f"the fillet near ({candidate[i].x * 1e3:.0f}, "
-                         f"{candidate[i].y * 1e3:.0f}) mm was made sharp ({why})")
+            notes.append(
+                f"the fillet near ({candidate[i].x * 1e3:.0f}, "
+                f"{candidate[i].y * 1e3:.0f}) mm was made sharp ({why})"
+            )
             candidate, ok, dev, why = trial, t_ok, t_dev, t_why
     if not ok:
         frame_profile = profile_of([Node(*map(float, p)) for p in dp_frame])
         f_ok, f_dev, f_why = _check(frame_profile, pts, tolerance, ground)
         if not f_ok:
-            raise GeometryError(f"no valid profile fits these points within "
-                                f"{tolerance * 1e3:.1f} mm: {f_why}")
-        notes.append(f"no fit with fillets and splines passed ({why}); the reduced polygon of "
-                     f"{len(dp_frame)} sharp vertices is returned")
+            raise GeometryError(
+                f"no valid profile fits these points within {tolerance * 1e3:.1f} mm: {f_why}"
+            )
+        notes.append(
+            f"no fit with fillets and splines passed ({why}); the reduced polygon of "
+            f"{len(dp_frame)} sharp vertices is returned"
+        )
         candidate, dev = list(frame_profile.nodes), f_dev
     profile, dev = _sharpen_small_fillets(profile_of(candidate), pts, tolerance, ground, dev)
     from profilebench.geometry.places import place_names
 
-    names = place_names(profile)     # corners named by where they sit (editable labels)
-    profile = Profile(tuple(Node(nd.x, nd.y, nd.radius, nd.smooth, names.get(i, ""))
-                            for i, nd in enumerate(profile.nodes)), name=name)
+    names = place_names(profile)  # corners named by where they sit (editable labels)
+    profile = Profile(
+        tuple(
+            Node(nd.x, nd.y, nd.radius, nd.smooth, names.get(i, ""))
+            for i, nd in enumerate(profile.nodes)
+        ),
+        name=name,
+    )
     corners = sum(1 for nd in profile.nodes if not nd.smooth)
-    return FitResult(profile=profile, max_deviation=float(dev), tolerance=float(tolerance),
-                     corners=corners, notes=tuple(notes))
+    return FitResult(
+        profile=profile,
+        max_deviation=float(dev),
+        tolerance=float(tolerance),
+        corners=corners,
+        notes=tuple(notes),
+    )

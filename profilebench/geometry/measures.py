@@ -40,7 +40,7 @@ def measure(profile) -> Measures:
     Gauss-Legendre quadrature on each line, arc and spline interval; the perimeter likewise; the
     extents from piece ends, arc extreme points and the roots of the spline derivatives.
     """
-    o = canonical_outline(profile)   # the same curve whichever way the nodes are given
+    o = canonical_outline(profile)  # the same curve whichever way the nodes are given
     p, d, w = o.boundary_quadrature()
     x, y = p[:, 0], p[:, 1]
     dx, dy = d[:, 0], d[:, 1]

@@ -74,8 +74,9 @@ def _not_a_knot_coefficients(t, y, dt, dy):
     if n == 3:
         # the parabola through the three points
         a2 = (slope[1] - slope[0]) / (dt[0] + dt[1])
-        s = np.stack([slope[0] - a2 * dt[0], slope[0] + a2 * dt[0],
-                      slope[0] + a2 * (dt[0] + 2.0 * dt[1])])
+        s = np.stack(
+            [slope[0] - a2 * dt[0], slope[0] + a2 * dt[0], slope[0] + a2 * (dt[0] + 2.0 * dt[1])]
+        )
     else:
         dxr = dt[:, None]
         A = np.zeros((3, n))
@@ -180,8 +181,13 @@ class _Spline:
         h = t - x[i]
         out = []
         for a3, a2, a1, a0 in self._c[i]:
-            out.append((((a3 * h + a2) * h + a1) * h + a0, (3 * a3 * h + 2 * a2) * h + a1,
-                        6 * a3 * h + 2 * a2))
+            out.append(
+                (
+                    ((a3 * h + a2) * h + a1) * h + a0,
+                    (3 * a3 * h + 2 * a2) * h + a1,
+                    6 * a3 * h + 2 * a2,
+                )
+            )
         (px, dx, ddx), (py, dy, ddy) = out
         return (px, py), (dx, dy), (ddx, ddy)
 
@@ -386,7 +392,8 @@ class Outline:
             km = k[m]
             a = tab["a0"][km] + tab["sense"][km] * sig[m] / tab["radius"][km]
             out[m] = tab["centre"][km] + tab["radius"][km, None] * np.stack(
-                [np.cos(a), np.sin(a)], axis=-1)
+                [np.cos(a), np.sin(a)], axis=-1
+            )
         for j in tab["splines"]:
             m = k == j
             if m.any():
@@ -399,9 +406,17 @@ class Outline:
         tab = memo.get("pieces")
         if tab is None:
             npc = len(self.pieces)
-            tab = dict(kind=np.full(npc, 2), length=np.array([p.length for p in self.pieces]),
-                       p0=np.zeros((npc, 2)), u=np.zeros((npc, 2)), centre=np.zeros((npc, 2)),
-                       radius=np.ones(npc), a0=np.zeros(npc), sense=np.ones(npc), splines=[])
+            tab = dict(
+                kind=np.full(npc, 2),
+                length=np.array([p.length for p in self.pieces]),
+                p0=np.zeros((npc, 2)),
+                u=np.zeros((npc, 2)),
+                centre=np.zeros((npc, 2)),
+                radius=np.ones(npc),
+                a0=np.zeros(npc),
+                sense=np.ones(npc),
+                splines=[],
+            )
             for j, p in enumerate(self.pieces):
                 if p.kind == "line":
                     tab["kind"][j] = 0
@@ -442,7 +457,7 @@ class Outline:
         if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or n < 3:
             raise InputError(f"sample count {n!r} must be an integer >= 3")
         got = self._samples.get(int(n))
-        if got is None:   # remembered: the validity check and the panelling both sample
+        if got is None:  # remembered: the validity check and the panelling both sample
             got = self.points_at(np.linspace(0.0, self.length, int(n), endpoint=False))
             got.setflags(write=False)
             self._samples[int(n)] = got
@@ -473,7 +488,8 @@ class Outline:
         got = memo.get("extreme_points")
         if got is None:
             got = memo["extreme_points"] = np.concatenate(
-                [p.extreme_points() for p in self.pieces], axis=0)
+                [p.extreme_points() for p in self.pieces], axis=0
+            )
         return got.copy()
 
     def _memo(self) -> dict:
@@ -569,7 +585,7 @@ def _fillet(cin, cout, r, theta):
         (px, py), (dx, dy), (ddx, ddy) = curve.pdd(t)
         sp = math.hypot(dx, dy)
         tx, ty = dx / sp, dy / sp
-        k = (ddx * tx + ddy * ty)
+        k = ddx * tx + ddy * ty
         dtx, dty = (ddx - k * tx) / sp, (ddy - k * ty) / sp
         return (px - sr * ty, py + sr * tx), (dx - sr * dty, dy + sr * dtx)
 
@@ -591,8 +607,10 @@ def _fillet(cin, cout, r, theta):
         if tt is None or not (math.isfinite(tt[0]) and math.isfinite(tt[1])):
             return None
         t1, t2 = (float(v) for v in tt)
-        if not (-1e-12 * scale <= t1 <= cin.T * (1 + 1e-12)
-                and -1e-12 * scale <= t2 <= cout.T * (1 + 1e-12)):
+        if not (
+            -1e-12 * scale <= t1 <= cin.T * (1 + 1e-12)
+            and -1e-12 * scale <= t2 <= cout.T * (1 + 1e-12)
+        ):
             return None
         fx, fy = fun2(t1, t2)[:2]
         if max(abs(fx), abs(fy)) > 1e-9 * max(scale, r):
@@ -676,8 +694,11 @@ def canonical_profile(profile):
         out = (profile, order, rev)
     else:
         te = profile.trailing_edge
-        canon = type(profile)(tuple(profile.nodes[i] for i in order), name=profile.name,
-                              trailing_edge=None if te is None else order.index(te))
+        canon = type(profile)(
+            tuple(profile.nodes[i] for i in order),
+            name=profile.name,
+            trailing_edge=None if te is None else order.index(te),
+        )
         out = (canon, order, rev)
     profile._cache["canonical"] = out
     return out
@@ -786,10 +807,15 @@ def _build(profile) -> Outline:
             p = pieces[j]
             t0 = min(max(t0, p.ta), p.tb)
             if p.tb - t0 > 1e-12 * p.curve.T and t0 - p.ta > 1e-12 * p.curve.T:
-                pieces[j:j + 1] = [_SplinePiece(p.curve, p.ta, t0), _SplinePiece(p.curve, t0, p.tb)]
+                pieces[j : j + 1] = [
+                    _SplinePiece(p.curve, p.ta, t0),
+                    _SplinePiece(p.curve, t0, p.tb),
+                ]
                 rotate_by = j + 1
                 arc_of = {c: (v + 1 if v > j else v) for c, v in arc_of.items()}
-                sharp_of = {c: ((v[0] + 1 if v[0] > j else v[0]), v[1]) for c, v in sharp_of.items()}
+                sharp_of = {
+                    c: ((v[0] + 1 if v[0] > j else v[0]), v[1]) for c, v in sharp_of.items()
+                }
                 smooth_piece = {kk: (v + 1 if v > j else v) for kk, v in smooth_piece.items()}
                 smooth_piece[kseg] = j  # first half; node 0 is at its end
             elif t0 - p.ta <= 1e-12 * p.curve.T:
@@ -818,9 +844,17 @@ def _build(profile) -> Outline:
         if c in arc_of:
             q = newpos[arc_of[c]]
             p = pieces[q]
-            arcs.append(CornerArc(c, nodes[c].radius, float(s0[q]), float(s0[q] + p.length),
-                                  (float(p.centre[0]), float(p.centre[1])), p.sweep,
-                                  bool(p.sweep * orient > 0)))
+            arcs.append(
+                CornerArc(
+                    c,
+                    nodes[c].radius,
+                    float(s0[q]),
+                    float(s0[q] + p.length),
+                    (float(p.centre[0]), float(p.centre[1])),
+                    p.sweep,
+                    bool(p.sweep * orient > 0),
+                )
+            )
             node_s[c] = float(s0[q] + 0.5 * p.length)
         else:
             q = newpos[sharp_of[c][0] % npieces]
@@ -828,8 +862,11 @@ def _build(profile) -> Outline:
             sharps.append(SharpEdge(c, s_c, float(theta), convex))
             node_s[c] = s_c
     for i, (kseg, t) in smooth_params.items():
-        cand = [qq for qq in range(npieces) if pieces[qq].kind == "spline"
-                and pieces[qq].curve is segs[kseg]]
+        cand = [
+            qq
+            for qq in range(npieces)
+            if pieces[qq].kind == "spline" and pieces[qq].curve is segs[kseg]
+        ]
         inside = [qq for qq in cand if pieces[qq].ta <= t <= pieces[qq].tb]
         if inside:
             q = inside[-1] if i == 0 else inside[0]
@@ -876,8 +913,10 @@ def _raise_radius_error(profile, corners, segs, info, bad):
 
         def slack(r):
             if r <= 0:
-                return min(cin.T - (prev_out if not same_prev else 0.0),
-                           (next_in if not same_prev else cout.T) - 0.0)
+                return min(
+                    cin.T - (prev_out if not same_prev else 0.0),
+                    (next_in if not same_prev else cout.T) - 0.0,
+                )
             f = _fillet(cin, cout, r, theta)
             if f is None:
                 return -1.0
@@ -902,18 +941,27 @@ def _raise_radius_error(profile, corners, segs, info, bad):
     k, c, largest = pick
     r_req = nodes[c].radius
     if largest > 0:
-        hint = (f"the largest radius that fits there is {math.floor(largest * 1e4 + 1e-6) / 10:.1f} mm "
-                "(the neighbouring corners keeping their radii): reduce the radius, reduce the "
-                "neighbours' radii, or move the neighbouring nodes further away")
+        hint = (
+            f"the largest radius that fits there is {math.floor(largest * 1e4 + 1e-6) / 10:.1f} mm "
+            "(the neighbouring corners keeping their radii): reduce the radius, reduce the "
+            "neighbours' radii, or move the neighbouring nodes further away"
+        )
     else:
-        hint = ("no radius fits there while the neighbouring corners keep their radii: reduce "
-                "the neighbours' radii or move the neighbouring nodes further away")
+        hint = (
+            "no radius fits there while the neighbouring corners keep their radii: reduce "
+            "the neighbours' radii or move the neighbouring nodes further away"
+        )
     others = [f[1] for f in found if f[1] != c]
     if others:
-        hint += ("; the radius at " + ", ".join(f"node {o}" for o in others)
-                 + " does not fit either with this one")
+        hint += (
+            "; the radius at "
+            + ", ".join(f"node {o}" for o in others)
+            + " does not fit either with this one"
+        )
     raise RadiusTooLargeError(
         f"corner radius {r_req * 1e3:.1f} mm at {node_description(profile, c)} is too large for "
         f"its neighbouring segments; {hint}",
-        node=c, radius=r_req, largest=largest,
+        node=c,
+        radius=r_req,
+        largest=largest,
     )

@@ -41,7 +41,7 @@ _EDGE_FULL_ANGLE = math.radians(30.0)  # an edge turning this much or more is fu
 # by at most 1.6 % (measured on the four samples; calibrated choices of this project, no source).
 _ARC_CLUSTER = 6.0
 _STEEP = 3.0
-_STEEP_SAMPLES = 2000   # as profilebench.geometry.validity samples the outline
+_STEEP_SAMPLES = 2000  # as profilebench.geometry.validity samples the outline
 _GRID = 2048
 _REFERENCE_PANELS = 250  # the usual count; at or below it an arc gets c = _PANELS_PER_RADIAN
 
@@ -89,7 +89,7 @@ class Panelling:
     corners: tuple[CornerSpan, ...]
     n_panels: int
     length: float
-    canonical: np.ndarray | None = None   # (N,) each point's index in the canonical order
+    canonical: np.ndarray | None = None  # (N,) each point's index in the canonical order
 
 
 def _check_count(n_panels):
@@ -149,7 +149,7 @@ def _panelize(profile, n: int) -> Panelling:
     pc = _panelize_nodes(canon, n)
     npts = len(pc.points)
     S = pc.length
-    user_of_canon_node = order                    # canonical node k is profile node order[k]
+    user_of_canon_node = order  # canonical node k is profile node order[k]
     canon_of_user_node = {u: k for k, u in enumerate(order)}
     # the profile's own point 0 is where its outline starts: at node 0, or at the start (in the
     # profile's direction) of node 0's fillet
@@ -160,11 +160,11 @@ def _panelize(profile, n: int) -> Panelling:
         s0 = float(pc.s[p0])
     else:
         p0 = int(span0.point_end if rev else span0.point_start)
-        s0 = float(span0.s_end if rev else span0.s_start)   # the fillet's tangent point
+        s0 = float(span0.s_end if rev else span0.s_start)  # the fillet's tangent point
     k = np.arange(npts)
-    src = (p0 - k) % npts if rev else (p0 + k) % npts     # user point k is canonical point src[k]
+    src = (p0 - k) % npts if rev else (p0 + k) % npts  # user point k is canonical point src[k]
     pos = np.empty(npts, dtype=int)
-    pos[src] = k                                            # canonical point j is user point pos[j]
+    pos[src] = k  # canonical point j is user point pos[j]
     pts = np.array(pc.points[src])
     s = np.mod((s0 - pc.s[src]) if rev else (pc.s[src] - s0), S)
     s[s > S * (1.0 - 1e-9)] = 0.0
@@ -180,8 +180,19 @@ def _panelize(profile, n: int) -> Panelling:
         a_s, b_s = s_user(sp.s_start), s_user(sp.s_end)
         if rev:
             a_pt, b_pt, a_s, b_s = b_pt, a_pt, b_s, a_s
-        spans.append(CornerSpan(user_of_canon_node[sp.node], sp.radius, sp.turning_angle_deg,
-                                sp.convex, a_s, b_s, a_pt, b_pt, sp.centre))
+        spans.append(
+            CornerSpan(
+                user_of_canon_node[sp.node],
+                sp.radius,
+                sp.turning_angle_deg,
+                sp.convex,
+                a_s,
+                b_s,
+                a_pt,
+                b_pt,
+                sp.centre,
+            )
+        )
     spans.sort(key=lambda sp: sp.node)
     pts.setflags(write=False)
     s.setflags(write=False)
@@ -191,8 +202,9 @@ def _panelize(profile, n: int) -> Panelling:
 def _with_canonical(pan, canonical):
     canonical = np.asarray(canonical, dtype=int)
     canonical.setflags(write=False)
-    return Panelling(pan.points, pan.s, pan.node_point, pan.corners, pan.n_panels, pan.length,
-                     canonical)
+    return Panelling(
+        pan.points, pan.s, pan.node_point, pan.corners, pan.n_panels, pan.length, canonical
+    )
 
 
 def _panelize_nodes(profile, n: int) -> Panelling:
@@ -253,9 +265,9 @@ def _panelize_nodes(profile, n: int) -> Panelling:
     rem = share - counts
     for j in np.argsort(-rem)[: n - counts.sum()]:
         counts[j] += 1
-    targets = np.concatenate([
-        wb[j] + share[j] * np.arange(counts[j]) / counts[j] for j in range(bounds.size)
-    ])
+    targets = np.concatenate(
+        [wb[j] + share[j] * np.arange(counts[j]) / counts[j] for j in range(bounds.size)]
+    )
     s = np.interp(targets, W, grid)
     first = np.concatenate([[0], np.cumsum(counts)[:-1]])
     s[first] = bounds  # exactly on the section starts
@@ -275,13 +287,25 @@ def _panelize_nodes(profile, n: int) -> Panelling:
         d = np.minimum(d, S - d)
         return int(np.argmin(d))
 
-    node_point = tuple(edge_point[i] if i in edge_point else nearest(o.node_s[i])
-                       for i in range(len(nodes)))
+    node_point = tuple(
+        edge_point[i] if i in edge_point else nearest(o.node_s[i]) for i in range(len(nodes))
+    )
     spans = []
     for e in edges:
         k = edge_point[e.node]
-        spans.append(CornerSpan(e.node, nodes[e.node].radius, math.degrees(abs(e.turning_angle)), e.convex,
-                                e.s, e.s, k, k, None))
+        spans.append(
+            CornerSpan(
+                e.node,
+                nodes[e.node].radius,
+                math.degrees(abs(e.turning_angle)),
+                e.convex,
+                e.s,
+                e.s,
+                k,
+                k,
+                None,
+            )
+        )
     tol = 1e-9 * S
     for a in o.arcs:
         inside = np.flatnonzero((s >= a.s_start - tol) & (s <= a.s_end + tol))
@@ -291,8 +315,19 @@ def _panelize_nodes(profile, n: int) -> Panelling:
             p0 = p1 = nearest(0.5 * (a.s_start + a.s_end))
         if a.s_end >= S - tol:
             p1 = 0
-        spans.append(CornerSpan(a.node, a.radius, math.degrees(abs(a.turning_angle)), a.convex,
-                                a.s_start, a.s_end, p0, p1, a.centre))
+        spans.append(
+            CornerSpan(
+                a.node,
+                a.radius,
+                math.degrees(abs(a.turning_angle)),
+                a.convex,
+                a.s_start,
+                a.s_end,
+                p0,
+                p1,
+                a.centre,
+            )
+        )
     spans.sort(key=lambda sp: sp.node)
     pts.setflags(write=False)
     s.setflags(write=False)

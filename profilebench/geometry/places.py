@@ -70,15 +70,17 @@ def place_names(profile) -> dict[int, str]:
             continue
         # a fillet's node lies off the outline (where its two sides meet): use the arc's middle
         at = o.points_at(np.array([o.node_s[i]]))[0]
-        named[i] = place_of((float(at[0]) - x0) / length, (float(at[1]) - y0) / height,
-                            bool(convex[i]))
+        named[i] = place_of(
+            (float(at[0]) - x0) / length, (float(at[1]) - y0) / height, bool(convex[i])
+        )
     counts = {}
     for name in named.values():
         counts[name] = counts.get(name, 0) + 1
     for name, k in counts.items():
         if k > 1:
-            same = sorted((i for i, nm in named.items() if nm == name),
-                          key=lambda i: profile.nodes[i].x)
+            same = sorted(
+                (i for i, nm in named.items() if nm == name), key=lambda i: profile.nodes[i].x
+            )
             for j, i in enumerate(same, start=1):
                 named[i] = f"{name} {j}"
     return named

@@ -8,8 +8,15 @@ from __future__ import annotations
 
 import numpy as np
 
-__all__ = ["edges", "edge_lengths", "arc_length", "signed_area", "is_clockwise",
-           "outward_normals", "midpoints"]
+__all__ = [
+    "edges",
+    "edge_lengths",
+    "arc_length",
+    "signed_area",
+    "is_clockwise",
+    "outward_normals",
+    "midpoints",
+]
 
 
 def edges(points):
@@ -33,8 +40,9 @@ def arc_length(points):
 def signed_area(points) -> float:
     """Signed area (shoelace formula), m^2: positive when the points run counter-clockwise."""
     pts = np.asarray(points, dtype=float)
-    return 0.5 * float(np.sum(pts[:, 0] * np.roll(pts[:, 1], -1)
-                              - np.roll(pts[:, 0], -1) * pts[:, 1]))
+    return 0.5 * float(
+        np.sum(pts[:, 0] * np.roll(pts[:, 1], -1) - np.roll(pts[:, 0], -1) * pts[:, 1])
+    )
 
 
 def is_clockwise(points) -> bool:
@@ -46,7 +54,7 @@ def outward_normals(points):
     """Unit outward normal of each edge (pointing out of the enclosed area), either orientation."""
     seg = edges(points)
     length = np.hypot(seg[:, 0], seg[:, 1])
-    sgn = 1.0 if is_clockwise(points) else -1.0   # outward = sgn * the left normal
+    sgn = 1.0 if is_clockwise(points) else -1.0  # outward = sgn * the left normal
     return np.column_stack([-seg[:, 1] / length * sgn, seg[:, 0] / length * sgn])
 
 

@@ -46,10 +46,8 @@ class Node:
                     f"node {name} must be a number in metres, got {value!r}; give a plain float"
                 )
             if isinstance(value, float) and not math.isfinite(value):
-                raise GeometryError(
-                    f"node {name} is {value!r}; give a finite number in metres"
-                )
-            if abs(value) > MAX_COORDINATE:     # an int of any size compares without overflow
+                raise GeometryError(f"node {name} is {value!r}; give a finite number in metres")
+            if abs(value) > MAX_COORDINATE:  # an int of any size compares without overflow
                 shown = f"{value:.4g} m" if abs(value) < 1e300 else "a number beyond any float"
                 raise GeometryError(
                     f"node {name} = {shown} is beyond the limit of {MAX_COORDINATE:g} m; give "
@@ -124,8 +122,7 @@ class Profile:
             if len(p) != 2:
                 raise GeometryError(f"point {i} has {len(p)} coordinates; give (x, y) pairs")
         nodes = tuple(
-            Node(float(p[0]), float(p[1]), float(r), bool(s))
-            for p, r, s in zip(pts, radii, smooth)
+            Node(float(p[0]), float(p[1]), float(r), bool(s)) for p, r, s in zip(pts, radii, smooth)
         )
         return cls(nodes, name=name, trailing_edge=trailing_edge)
 
@@ -146,7 +143,11 @@ class Profile:
 
     # --- editing: each returns a new Profile ---------------------------------------------
     def _check_index(self, i: int) -> int:
-        if isinstance(i, bool) or not isinstance(i, int) or not -len(self.nodes) <= i < len(self.nodes):
+        if (
+            isinstance(i, bool)
+            or not isinstance(i, int)
+            or not -len(self.nodes) <= i < len(self.nodes)
+        ):
             raise GeometryError(f"node index {i!r} is out of range (0 to {len(self.nodes) - 1})")
         return i % len(self.nodes)
 
@@ -168,12 +169,22 @@ class Profile:
     def with_radius(self, i: int, radius: float) -> "Profile":
         """The profile with node ``i``'s corner radius set (m); a smooth node becomes a corner."""
         i = self._check_index(i)
-        return self.replace_node(i, replace(self.nodes[i], radius=radius, smooth=False if radius > 0 else self.nodes[i].smooth))
+        return self.replace_node(
+            i,
+            replace(
+                self.nodes[i], radius=radius, smooth=False if radius > 0 else self.nodes[i].smooth
+            ),
+        )
 
     def with_smooth(self, i: int, smooth: bool) -> "Profile":
         """The profile with node ``i`` made smooth (spline through it, radius 0) or a corner."""
         i = self._check_index(i)
-        return self.replace_node(i, replace(self.nodes[i], smooth=bool(smooth), radius=0.0 if smooth else self.nodes[i].radius))
+        return self.replace_node(
+            i,
+            replace(
+                self.nodes[i], smooth=bool(smooth), radius=0.0 if smooth else self.nodes[i].radius
+            ),
+        )
 
     def inserted(self, i: int, node: Node) -> "Profile":
         """The profile with ``node`` inserted before index ``i`` (``i == len`` appends)."""
@@ -204,7 +215,10 @@ class Profile:
         if not (isinstance(factor, (int, float)) and math.isfinite(factor) and factor > 0):
             raise GeometryError(f"scale factor {factor!r} must be a positive finite number")
         return self._with_nodes(
-            [replace(n, x=n.x * factor, y=n.y * factor, radius=n.radius * factor) for n in self.nodes]
+            [
+                replace(n, x=n.x * factor, y=n.y * factor, radius=n.radius * factor)
+                for n in self.nodes
+            ]
         )
 
     def renamed(self, name: str) -> "Profile":

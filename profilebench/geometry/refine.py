@@ -143,9 +143,18 @@ def _least_squares_fit(profile, pts, n):
             return np.full(len(pts), _FAIL_DISTANCE)
 
     sparsity = _sparsity(profile, pts, n, layout)
-    sol = least_squares(resid, x0, bounds=bounds, jac_sparsity=sparsity, method="trf",
-                        x_scale=1.0, max_nfev=15, diff_step=1e-7,
-                        ftol=1e-5, xtol=1e-7)
+    sol = least_squares(
+        resid,
+        x0,
+        bounds=bounds,
+        jac_sparsity=sparsity,
+        method="trf",
+        x_scale=1.0,
+        max_nfev=15,
+        diff_step=1e-7,
+        ftol=1e-5,
+        xtol=1e-7,
+    )
     return _unpack(profile, sol.x, layout)
 
 

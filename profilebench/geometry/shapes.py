@@ -19,8 +19,12 @@ __all__ = ["circle", "ellipse", "circle_points", "ellipse_points", "rounded_box"
 
 
 def _positive(name, value):
-    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value) \
-            or value <= 0:
+    if (
+        isinstance(value, bool)
+        or not isinstance(value, (int, float))
+        or not math.isfinite(value)
+        or value <= 0
+    ):
         raise InputError(f"{name} must be a positive finite number in metres, got {value!r}")
     return float(value)
 
@@ -72,8 +76,9 @@ def circle(radius: float, centre=(0.0, 0.0), n_nodes: int = 16, name="circle") -
     return ellipse(r, r, centre, n_nodes, name=name)
 
 
-def rounded_box(length: float, height: float, radius=0.0, clearance: float = 0.0,
-                x0: float = 0.0, name="box") -> Profile:
+def rounded_box(
+    length: float, height: float, radius=0.0, clearance: float = 0.0, x0: float = 0.0, name="box"
+) -> Profile:
     """A rectangle with rounded corners: nose at ``x0``, x rearward, bottom at y = ``clearance``.
 
     ``radius`` is one radius for all corners or a tuple (front_top, rear_top, rear_bottom,
@@ -91,18 +96,22 @@ def rounded_box(length: float, height: float, radius=0.0, clearance: float = 0.0
         if len(radii) != 4:
             raise InputError(
                 f"radius must be one number or four (front_top, rear_top, rear_bottom, "
-                f"front_bottom) in metres, got {radius!r}")
+                f"front_bottom) in metres, got {radius!r}"
+            )
     for v, nm in ((clearance, "clearance"), (x0, "x0")):
         if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(v):
             raise InputError(f"{nm} must be a finite number in metres, got {v!r}")
     ft, rt, rb, fb = radii
     c = float(clearance)
-    prof = Profile((
-        Node(x0, c, fb, label="front bottom"),
-        Node(x0 + L, c, rb, label="rear bottom"),
-        Node(x0 + L, c + H, rt, label="rear top"),
-        Node(x0, c + H, ft, label="front top"),
-    ), name=name)
+    prof = Profile(
+        (
+            Node(x0, c, fb, label="front bottom"),
+            Node(x0 + L, c, rb, label="rear bottom"),
+            Node(x0 + L, c + H, rt, label="rear top"),
+            Node(x0, c + H, ft, label="front top"),
+        ),
+        name=name,
+    )
     build_outline(prof)
     return prof
 
@@ -110,7 +119,9 @@ def rounded_box(length: float, height: float, radius=0.0, clearance: float = 0.0
 def _naca4_digits(code):
     code = str(code).strip()
     if len(code) != 4 or not code.isdigit():
-        raise InputError(f"NACA 4-digit code {code!r} must be four digits, such as '2412' or '0012'")
+        raise InputError(
+            f"NACA 4-digit code {code!r} must be four digits, such as '2412' or '0012'"
+        )
     m = int(code[0]) / 100.0
     p = int(code[1]) / 10.0
     t = int(code[2:]) / 100.0
@@ -119,7 +130,8 @@ def _naca4_digits(code):
     if (m > 0) != (p > 0):
         raise InputError(
             f"NACA code {code!r}: a cambered section needs both the camber (first digit) and its "
-            "position (second digit) non-zero, a symmetric one both zero")
+            "position (second digit) non-zero, a symmetric one both zero"
+        )
     return m, p, t
 
 
@@ -137,7 +149,9 @@ def naca4_surface(code, x):
     yt = 5 * t * (0.2969 * np.sqrt(x) - 0.1260 * x - 0.3516 * x**2 + 0.2843 * x**3 - 0.1036 * x**4)
     if m > 0:
         fore = x < p
-        yc = np.where(fore, m / p**2 * (2 * p * x - x**2), m / (1 - p) ** 2 * (1 - 2 * p + 2 * p * x - x**2))
+        yc = np.where(
+            fore, m / p**2 * (2 * p * x - x**2), m / (1 - p) ** 2 * (1 - 2 * p + 2 * p * x - x**2)
+        )
         dyc = np.where(fore, 2 * m / p**2 * (p - x), 2 * m / (1 - p) ** 2 * (p - x))
     else:
         yc = np.zeros_like(x)

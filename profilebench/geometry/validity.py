@@ -14,7 +14,7 @@ import numpy as np
 import shapely
 from scipy.spatial import cKDTree
 
-from profilebench.errors import (GeometryError, GroundContactError, SelfIntersectionError)
+from profilebench.errors import GeometryError, GroundContactError, SelfIntersectionError
 from profilebench.geometry.outline import build_outline, canonical_outline, node_description
 from profilebench.geometry.polyline import signed_area
 
@@ -52,8 +52,11 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
     nodes = profile.nodes
     n = len(nodes)
     if n < 3:
-        out.append(GeometryError(
-            f"the profile has {n} node(s); a closed outline needs at least 3 nodes: add nodes"))
+        out.append(
+            GeometryError(
+                f"the profile has {n} node(s); a closed outline needs at least 3 nodes: add nodes"
+            )
+        )
         return out
     xy = np.array(profile.xy, float)
     size = float(np.max(np.ptp(xy, axis=0)))
@@ -61,10 +64,13 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
     pairs = sorted(cKDTree(xy).query_pairs(tol))
     for i, j in pairs:
         d = float(np.hypot(*(xy[i] - xy[j])))
-        out.append(GeometryError(
-            f"{node_description(profile, i)} and {node_description(profile, j)} coincide or "
-            f"nearly so ({d * 1e3:.3g} mm apart, less than {tol * 1e3:.3g} mm); delete one of "
-            "them or move it"))
+        out.append(
+            GeometryError(
+                f"{node_description(profile, i)} and {node_description(profile, j)} coincide or "
+                f"nearly so ({d * 1e3:.3g} mm apart, less than {tol * 1e3:.3g} mm); delete one of "
+                "them or move it"
+            )
+        )
     if pairs:
         return out
     # a radius this small cannot be panelled (its arc would be shorter than the rounding error of
@@ -72,33 +78,42 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
     smallest = MIN_RADIUS_RATIO * max(size, 1e-3)
     for i, nd in enumerate(nodes):
         if 0.0 < nd.radius < smallest:
-            out.append(GeometryError(
-                f"the corner radius {nd.radius:.3g} m at {node_description(profile, i)} is too "
-                f"small to build (below {smallest * 1e3:.2g} mm); set the radius to 0 for a sharp "
-                "edge or give at least that"))
+            out.append(
+                GeometryError(
+                    f"the corner radius {nd.radius:.3g} m at {node_description(profile, i)} is too "
+                    f"small to build (below {smallest * 1e3:.2g} mm); set the radius to 0 for a sharp "
+                    "edge or give at least that"
+                )
+            )
     if out:
         return out
     area = signed_area(xy)
     spread = np.linalg.svd(xy - xy.mean(axis=0), compute_uv=False)
     if spread[-1] <= 1e-9 * max(size, 1e-3):
-        out.append(GeometryError(
-            f"the nodes enclose no area (they are collinear or fold back on themselves, area "
-            f"{abs(area) * 1e6:.3g} mm^2); move nodes off the line so they enclose the profile"))
+        out.append(
+            GeometryError(
+                f"the nodes enclose no area (they are collinear or fold back on themselves, area "
+                f"{abs(area) * 1e6:.3g} mm^2); move nodes off the line so they enclose the profile"
+            )
+        )
         return out
     poly = shapely.Polygon(xy)
     if not shapely.is_valid(poly):
         out.append(_intersection_error("polygon through the nodes", shapely.is_valid_reason(poly)))
     elif abs(area) <= 1e-9 * max(size, 1e-3) ** 2:
-        out.append(GeometryError(
-            f"the nodes enclose almost no area ({abs(area) * 1e6:.3g} mm^2); move nodes apart so "
-            "they enclose the profile"))
+        out.append(
+            GeometryError(
+                f"the nodes enclose almost no area ({abs(area) * 1e6:.3g} mm^2); move nodes apart so "
+                "they enclose the profile"
+            )
+        )
         return out
     try:
         # the canonical order's outline is the same curve, and the one the panelling uses
         outline = canonical_outline(profile)
     except GeometryError:
         try:
-            outline = build_outline(profile)   # its error names the profile's own nodes
+            outline = build_outline(profile)  # its error names the profile's own nodes
         except GeometryError as exc:
             out.append(exc)
             outline = None
@@ -108,29 +123,43 @@ def problems(profile, ground: bool = False) -> list[GeometryError]:
             # include every node on the outline so sharp edges are not cut by the sampling
             ring = shapely.Polygon(pts)
             if not shapely.is_valid(ring):
-                out.append(_intersection_error("built outline (with its fillets and splines)",
-                                               shapely.is_valid_reason(ring)))
+                out.append(
+                    _intersection_error(
+                        "built outline (with its fillets and splines)",
+                        shapely.is_valid_reason(ring),
+                    )
+                )
         if ground:
             ext = outline.extreme_points()
             k = int(np.argmin(ext[:, 1]))
             low = ext[k]
             if low[1] <= 0.0:
-                out.append(GroundContactError(
-                    f"with the ground on, the profile must lie above y = 0, but its lowest point "
-                    f"at ({_mm(low[0])}, {_mm(low[1])}) mm touches or lies below the "
-                    f"ground; raise the profile "
-                    + (f"by more than {-low[1] * 1e3:.1f} mm" if low[1] < -5e-5 else "clear of y = 0")
-                    + " (or turn the "
-                    "ground off)"))
+                out.append(
+                    GroundContactError(
+                        f"with the ground on, the profile must lie above y = 0, but its lowest point "
+                        f"at ({_mm(low[0])}, {_mm(low[1])}) mm touches or lies below the "
+                        f"ground; raise the profile "
+                        + (
+                            f"by more than {-low[1] * 1e3:.1f} mm"
+                            if low[1] < -5e-5
+                            else "clear of y = 0"
+                        )
+                        + " (or turn the "
+                        "ground off)"
+                    )
+                )
     te = profile.trailing_edge
     if te is not None:
         nd = nodes[te]
         if nd.smooth or nd.radius > 0:
             kind = "smooth" if nd.smooth else f"rounded (radius {nd.radius * 1e3:.1f} mm)"
-            out.append(GeometryError(
-                f"the trailing edge {node_description(profile, te)} is {kind}; a Kutta condition "
-                "needs a sharp edge: set its radius to 0 and make it a corner, or clear "
-                "trailing_edge"))
+            out.append(
+                GeometryError(
+                    f"the trailing edge {node_description(profile, te)} is {kind}; a Kutta condition "
+                    "needs a sharp edge: set its radius to 0 and make it a corner, or clear "
+                    "trailing_edge"
+                )
+            )
     return out
 
 

@@ -19,12 +19,30 @@ import numpy as np
 from matplotlib import colormaps
 from matplotlib.colors import TwoSlopeNorm
 from PySide6.QtCore import QLineF, QPointF, QRectF, Qt, QThreadPool, Signal
-from PySide6.QtGui import (QBrush, QColor, QFont, QFontMetricsF, QImage, QLinearGradient, QPainter,
-                           QPainterPath, QPen, QPixmap, QPolygonF, QTransform)
+from PySide6.QtGui import (
+    QBrush,
+    QColor,
+    QFont,
+    QFontMetricsF,
+    QImage,
+    QLinearGradient,
+    QPainter,
+    QPainterPath,
+    QPen,
+    QPixmap,
+    QPolygonF,
+    QTransform,
+)
 from PySide6.QtWidgets import QSizePolicy, QWidget
 
-from profilebench.editor.interaction import (NodeDrag, RadiusDrag, hit_node, hit_radius_handle,
-                                             hit_segment, radius_handle_position)
+from profilebench.editor.interaction import (
+    NodeDrag,
+    RadiusDrag,
+    hit_node,
+    hit_radius_handle,
+    hit_segment,
+    radius_handle_position,
+)
 from profilebench.editor.preview import build_outline_points, preview_outline
 from profilebench.editor.preview import warm_up as _warm_up_outline
 from profilebench.editor.view import ViewTransform, fit_view
@@ -33,13 +51,19 @@ from profilebench.gui.refcount_guard import restore_none_refcount
 from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
 from profilebench.plotting.labels import FRONT_FRACTION, place_boxes
 from profilebench.plotting.profile_view import CP_FLOOR, bubbles, check_cp_min, corner_label
-from profilebench.plotting.style import (BASELINE_COLOUR, BUBBLE_STYLE, CP_COLORMAP, EVENT_STYLES,
-                                         OKABE_ITO, SEPARATED_COLOUR)
+from profilebench.plotting.style import (
+    BASELINE_COLOUR,
+    BUBBLE_STYLE,
+    CP_COLORMAP,
+    EVENT_STYLES,
+    OKABE_ITO,
+    SEPARATED_COLOUR,
+)
 
 __all__ = ["ProfileCanvas", "outline_points"]
 
 _CMAP = colormaps[CP_COLORMAP]
-_CP_BINS = 64          # the Cp band is drawn with this many pen colours
+_CP_BINS = 64  # the Cp band is drawn with this many pen colours
 #: a label over the front end costs this many px of leader on the canvas (less than on the
 #: page: the canvas has no room in front of the nose, and long leaders cross the drawing)
 CANVAS_FRONT_COST = 150.0
@@ -54,7 +78,7 @@ def scale_bar_length(scale_px_per_m: float, target_px: float = SCALE_BAR_PX) -> 
         return 0.0
     want_mm = 1000.0 * target_px / scale_px_per_m
     k = math.floor(math.log10(want_mm))
-    options = [m * 10.0 ** e for e in (k - 1, k, k + 1) for m in (1.0, 2.0, 5.0)]
+    options = [m * 10.0**e for e in (k - 1, k, k + 1) for m in (1.0, 2.0, 5.0)]
     best = min(options, key=lambda mm: abs(math.log(mm / want_mm)))
     return best / 1000.0
 
@@ -90,8 +114,9 @@ def outline_points(profile, cache: dict):
 
 
 def _new_layer(width: int, height: int, dpr: float) -> QImage:
-    img = QImage(max(1, round(width * dpr)), max(1, round(height * dpr)),
-                 QImage.Format_ARGB32_Premultiplied)
+    img = QImage(
+        max(1, round(width * dpr)), max(1, round(height * dpr)), QImage.Format_ARGB32_Premultiplied
+    )
     img.setDevicePixelRatio(dpr)
     img.fill(Qt.transparent)
     return img
@@ -149,7 +174,7 @@ class ProfileCanvas(QWidget):
 
     preview = Signal(object)
     edit_finished = Signal(object)
-    node_selected = Signal(int)       # -1: nothing selected
+    node_selected = Signal(int)  # -1: nothing selected
     insert_requested = Signal(int, float, float)
     picked = Signal(float, float)
     painted = Signal(float)
@@ -161,13 +186,13 @@ class ProfileCanvas(QWidget):
         self.setMouseTracking(False)
         self.setFocusPolicy(Qt.StrongFocus)
         self.view = ViewTransform()
-        self.state = None              # DocumentState
+        self.state = None  # DocumentState
         self.selected: int | None = None
-        self.analysis = None           # the last good analysis (may be stale)
+        self.analysis = None  # the last good analysis (may be stale)
         self.stale = False
         self.grid: float | None = None  # snapping grid (m), None: off
         self.show_cp = True
-        self.cp_min = CP_FLOOR          # the Cp colour scale's lowest value (fixed, user-set)
+        self.cp_min = CP_FLOOR  # the Cp colour scale's lowest value (fixed, user-set)
         self.cp_offset_curve = False
         self.picking = False
         self._outline_cache: dict = {}
@@ -175,28 +200,29 @@ class ProfileCanvas(QWidget):
         self._pan_from = None
         self._underlay_pixmap = None
         self._underlay_path = None
-        self._difference = None        # cached (baseline, profile, polygons)
+        self._difference = None  # cached (baseline, profile, polygons)
         self._fitted = False
         self.last_paint_profile = None
         self.last_paint_time = 0.0
-        self.last_paint_built = False   # the last repaint drew the built outline (not the preview)
+        self.last_paint_built = False  # the last repaint drew the built outline (not the preview)
         self.outline_message = ""
-        self._overlay = None            # (key, under image, over image)
+        self._overlay = None  # (key, under image, over image)
         self.overlay_renders = 0
         self._label_rects: list = []
-        self.scale_bar = (0.0, 0.0)     # (length m, length px) of the last scale bar drawn
-        self.radius_readout = None      # the selected corner's "r ... mm" box (px) last drawn
+        self.scale_bar = (0.0, 0.0)  # (length m, length px) of the last scale bar drawn
+        self.radius_readout = None  # the selected corner's "r ... mm" box (px) last drawn
         # outlines are built in a child process of their own (never behind an analysis, and
         # their Python-heavy building does not share the interpreter lock with the GUI thread)
         # (its child starts now: started after the first analysis, it was still importing during
         # a drag begun soon after and few built outlines arrived in time; measured with
         # benchmarks/bench_gui.py)
-        self.outline_runner = ProcessTaskRunner(build_outline_points, self, warm_up=_warm_up_outline,
-                                                child="outline")
+        self.outline_runner = ProcessTaskRunner(
+            build_outline_points, self, warm_up=_warm_up_outline, child="outline"
+        )
         self.outline_runner.finished.connect(self._outline_built)
         self._outline_requested = None
-        self._outline_requests: dict = {}   # generation -> profile (only the newest arrives)
-        self._outline_pool = QThreadPool(self)      # the overlay drawing's thread
+        self._outline_requests: dict = {}  # generation -> profile (only the newest arrives)
+        self._outline_pool = QThreadPool(self)  # the overlay drawing's thread
         self._outline_pool.setMaxThreadCount(1)
         self._overlay_requested = None
         self.overlay_runner = TaskRunner(_overlay_job, self, pool=self._outline_pool)
@@ -263,7 +289,12 @@ class ProfileCanvas(QWidget):
         xmax, ymax = pts.max(axis=0)
         ymin = min(ymin, 0.0)
         # wide margin: room for the corner labels and the legend beside the outline
-        self.view = fit_view((xmin, ymin, xmax, ymax), self.width(), self.height(), margin=max(60, 0.2 * self.width()))
+        self.view = fit_view(
+            (xmin, ymin, xmax, ymax),
+            self.width(),
+            self.height(),
+            margin=max(60, 0.2 * self.width()),
+        )
         self._fitted = True
         self.update()
 
@@ -288,7 +319,8 @@ class ProfileCanvas(QWidget):
         p = event.position()
         sx, sy = p.x(), p.y()
         if event.button() == Qt.MiddleButton or (
-                event.button() == Qt.LeftButton and event.modifiers() & Qt.ShiftModifier):
+            event.button() == Qt.LeftButton and event.modifiers() & Qt.ShiftModifier
+        ):
             self._pan_from = (sx, sy)
             return
         if event.button() != Qt.LeftButton:
@@ -297,8 +329,11 @@ class ProfileCanvas(QWidget):
             self.picked.emit(*self.view.to_world(sx, sy))
             return
         prof = self.state.profile
-        if self.selected is not None and self.selected < len(prof) and hit_radius_handle(
-                prof, self.selected, self.view, sx, sy):
+        if (
+            self.selected is not None
+            and self.selected < len(prof)
+            and hit_radius_handle(prof, self.selected, self.view, sx, sy)
+        ):
             self._drag = RadiusDrag(self.state, self.selected, self.grid)
             return
         i = hit_node(prof, self.view, sx, sy)
@@ -323,7 +358,7 @@ class ProfileCanvas(QWidget):
             try:
                 profile = self._drag.move(self.view, p.x(), p.y())
             except ProfileBenchError:
-                return                     # e.g. a degenerate corner mid-drag: keep the last
+                return  # e.g. a degenerate corner mid-drag: keep the last
             self.preview.emit(profile)
             return
         if self._pan_from is not None:
@@ -343,7 +378,7 @@ class ProfileCanvas(QWidget):
     def wheelEvent(self, event):
         steps = event.angleDelta().y() / 120.0
         if steps:
-            self.zoom(1.15 ** steps, event.position())
+            self.zoom(1.15**steps, event.position())
 
     @property
     def dragging(self) -> bool:
@@ -356,8 +391,8 @@ class ProfileCanvas(QWidget):
         sy = v.offset_y - v.scale * pts[:, 1]
         points = [QPointF(a, b) for a, b in zip(sx.tolist(), sy.tolist())]
         if close and points:
-            points.append(QPointF(points[0]))   # a Python list: QPolygonF.append leaks a
-        return QPolygonF(points)                # reference to None in PySide 6.12
+            points.append(QPointF(points[0]))  # a Python list: QPolygonF.append leaks a
+        return QPolygonF(points)  # reference to None in PySide 6.12
 
     def _set_underlay_pixmap(self, underlay):
         if underlay is None:
@@ -422,7 +457,9 @@ class ProfileCanvas(QWidget):
 
                 diff = Polygon(bpts).buffer(0).symmetric_difference(Polygon(current_pts).buffer(0))
                 geoms = getattr(diff, "geoms", [diff])
-                polys = [np.asarray(g.exterior.coords) for g in geoms if not g.is_empty and g.area > 0]
+                polys = [
+                    np.asarray(g.exterior.coords) for g in geoms if not g.is_empty and g.area > 0
+                ]
             except Exception:  # a self-crossing outline mid-drag: outlines still show
                 polys = []
             self._difference = (key, polys)
@@ -448,7 +485,9 @@ class ProfileCanvas(QWidget):
         inv = getattr(flow, "inviscid", None)
         if inv is None:
             return None
-        return np.column_stack([np.asarray(inv.x, float), np.asarray(inv.y, float)]), np.asarray(inv.cp, float)
+        return np.column_stack([np.asarray(inv.x, float), np.asarray(inv.y, float)]), np.asarray(
+            inv.cp, float
+        )
 
     def _outward(self, pts):
         """Unit outward normals at ``pts`` (world), from central differences."""
@@ -457,7 +496,7 @@ class ProfileCanvas(QWidget):
         x, y = pts[:, 0], pts[:, 1]
         area2 = float(np.dot(x, np.roll(y, -1)) - np.dot(np.roll(x, -1), y))
         n = np.column_stack([t[:, 1], -t[:, 0]])
-        return n if area2 > 0 else -n   # counter-clockwise: the tangent turned clockwise
+        return n if area2 > 0 else -n  # counter-clockwise: the tangent turned clockwise
 
     def _cp_norm(self, cp):
         # one fixed scale (as on the review page), so that outlines compare by colour
@@ -484,8 +523,10 @@ class ProfileCanvas(QWidget):
         for b in np.unique(bins).tolist():
             r, g, bl, _ = _CMAP((b + 0.5) / _CP_BINS)
             qp.setPen(QPen(QColor.fromRgbF(r, g, bl, alpha), 7, Qt.SolidLine, Qt.RoundCap))
-            lines = [QLineF(sx[i], sy[i], sx[(i + 1) % n], sy[(i + 1) % n])
-                     for i in np.flatnonzero(bins == b).tolist()]
+            lines = [
+                QLineF(sx[i], sy[i], sx[(i + 1) % n], sy[(i + 1) % n])
+                for i in np.flatnonzero(bins == b).tolist()
+            ]
             qp.drawLines(lines)
         if self.cp_offset_curve:
             # offset curve: -Cp outward (suction drawn outside the body), 40 px per unit Cp
@@ -521,11 +562,29 @@ class ProfileCanvas(QWidget):
         if marker == "o":
             path.addEllipse(QPointF(0, 0), h, h)
         elif marker == "^":
-            path.addPolygon(QPolygonF([QPointF(0, -h), QPointF(h, h * 0.8), QPointF(-h, h * 0.8), QPointF(0, -h)]))
+            path.addPolygon(
+                QPolygonF(
+                    [QPointF(0, -h), QPointF(h, h * 0.8), QPointF(-h, h * 0.8), QPointF(0, -h)]
+                )
+            )
         elif marker == "v":
-            path.addPolygon(QPolygonF([QPointF(0, h), QPointF(h, -h * 0.8), QPointF(-h, -h * 0.8), QPointF(0, h)]))
+            path.addPolygon(
+                QPolygonF(
+                    [QPointF(0, h), QPointF(h, -h * 0.8), QPointF(-h, -h * 0.8), QPointF(0, h)]
+                )
+            )
         elif marker == "D":
-            path.addPolygon(QPolygonF([QPointF(0, -h), QPointF(h * 0.75, 0), QPointF(0, h), QPointF(-h * 0.75, 0), QPointF(0, -h)]))
+            path.addPolygon(
+                QPolygonF(
+                    [
+                        QPointF(0, -h),
+                        QPointF(h * 0.75, 0),
+                        QPointF(0, h),
+                        QPointF(-h * 0.75, 0),
+                        QPointF(0, -h),
+                    ]
+                )
+            )
         elif marker == "s":
             path.addRect(QRectF(-h * 0.85, -h * 0.85, 1.7 * h, 1.7 * h))
         elif marker == "P":
@@ -564,7 +623,10 @@ class ProfileCanvas(QWidget):
         for sep, rea in bubbles(events):
             pen = QPen(_qcolor(BUBBLE_STYLE["color"], 0.85 * alpha), 6, Qt.SolidLine, Qt.RoundCap)
             qp.setPen(pen)
-            qp.drawLine(QPointF(*self.view.to_screen(sep.x, sep.y)), QPointF(*self.view.to_screen(rea.x, rea.y)))
+            qp.drawLine(
+                QPointF(*self.view.to_screen(sep.x, sep.y)),
+                QPointF(*self.view.to_screen(rea.x, rea.y)),
+            )
         for e in events:
             if e.kind in EVENT_STYLES:
                 self._draw_marker(qp, e.kind, QPointF(*self.view.to_screen(e.x, e.y)), alpha)
@@ -576,8 +638,12 @@ class ProfileCanvas(QWidget):
             return None
         pts = st[0]
         v = self.view
-        to_px = lambda xy: np.column_stack([v.offset_x + v.scale * xy[:, 0],  # noqa: E731
-                                            v.offset_y - v.scale * xy[:, 1]])
+        to_px = lambda xy: np.column_stack(
+            [
+                v.offset_x + v.scale * xy[:, 0],  # noqa: E731
+                v.offset_y - v.scale * xy[:, 1],
+            ]
+        )
         outline = to_px(pts)
         hatched = []
         mask = getattr(getattr(self.analysis, "flow", None), "separated", None)
@@ -592,8 +658,12 @@ class ProfileCanvas(QWidget):
         if getattr(self.state.conditions, "ground", False):
             _, sy = v.to_screen(0, 0)
             # the hatched strip and its caption below it
-            ground.append(np.array([(0, sy - 2), (self.width(), sy - 2), (self.width(), sy + 30),
-                                    (0, sy + 30)], float))
+            ground.append(
+                np.array(
+                    [(0, sy - 2), (self.width(), sy - 2), (self.width(), sy + 30), (0, sy + 30)],
+                    float,
+                )
+            )
         events = tuple(getattr(self.analysis, "events", ()) or ())
         markers = np.array([v.to_screen(e.x, e.y) for e in events], float).reshape(-1, 2)
         return outline, hatched, ground, markers
@@ -614,8 +684,9 @@ class ProfileCanvas(QWidget):
         sizes = []
         for text in texts:
             lines = text.splitlines() or [text]
-            sizes.append((max(fm.horizontalAdvance(t) for t in lines) + 8,
-                          fm.height() * len(lines) + 4))
+            sizes.append(
+                (max(fm.horizontalAdvance(t) for t in lines) + 8, fm.height() * len(lines) + 4)
+            )
         anchors = np.array([self.view.to_screen(c.x, c.y) for c in corners], float)
         obstacles = self._label_obstacles()
         if obstacles is None:
@@ -624,13 +695,24 @@ class ProfileCanvas(QWidget):
         xmin, xmax = float(outline[:, 0].min()), float(outline[:, 0].max())
         front_x = xmin + FRONT_FRACTION * (xmax - xmin)
         near = outline[outline[:, 0] <= front_x]
-        front = (xmin - 10.0, float(near[:, 1].min()) - 10.0, front_x, float(near[:, 1].max()) + 10.0)
+        front = (
+            xmin - 10.0,
+            float(near[:, 1].min()) - 10.0,
+            front_x,
+            float(near[:, 1].max()) + 10.0,
+        )
         # on the canvas a lower corner's label may sit below the thin ground strip, its leader
         # crossing the strip (the page keeps leaders off its deep ground band)
-        placed, _, _ = place_boxes((0.0, 0.0, float(self.width()), float(self.height())), sizes,
-                                   anchors, outline_px=outline, hatched_px=hatched + ground,
-                                   markers_px=markers, front_px=front,
-                                   front_cost=CANVAS_FRONT_COST)
+        placed, _, _ = place_boxes(
+            (0.0, 0.0, float(self.width()), float(self.height())),
+            sizes,
+            anchors,
+            outline_px=outline,
+            hatched_px=hatched + ground,
+            markers_px=markers,
+            front_px=front,
+            front_cost=CANVAS_FRONT_COST,
+        )
         for c, text, (sx, sy), (box, end) in zip(corners, texts, anchors, placed):
             rect = QRectF(QPointF(box[0], box[1]), QPointF(box[2], box[3]))
             self._label_rects.append(QRectF(rect))
@@ -658,7 +740,11 @@ class ProfileCanvas(QWidget):
                 qp.drawEllipse(QPointF(sx, sy), size / 2, size / 2)
             else:
                 qp.drawRect(QRectF(sx - size / 2, sy - size / 2, size, size))
-        if self.selected is not None and self.selected < len(prof) and not prof.nodes[self.selected].smooth:
+        if (
+            self.selected is not None
+            and self.selected < len(prof)
+            and not prof.nodes[self.selected].smooth
+        ):
             try:
                 hx, hy = radius_handle_position(prof, self.selected, self.view)
             except ProfileBenchError:
@@ -677,8 +763,9 @@ class ProfileCanvas(QWidget):
             # on a white box, over the corner labels: never hidden under one
             text = f"r {r * 1000:.0f} mm"
             fm = QFontMetricsF(qp.font())
-            box = QRectF(hx + 7, hy - 6 - fm.ascent() - 2, fm.horizontalAdvance(text) + 4,
-                         fm.height() + 2)
+            box = QRectF(
+                hx + 7, hy - 6 - fm.ascent() - 2, fm.horizontalAdvance(text) + 4, fm.height() + 2
+            )
             qp.setPen(QPen(QColor(OKABE_ITO["blue"]), 0.8))
             qp.setBrush(QColor(255, 255, 255, 240))
             qp.drawRect(box)
@@ -689,14 +776,22 @@ class ProfileCanvas(QWidget):
     def _draw_readouts(self, qp: QPainter, pts):
         xmin, ymin = pts.min(axis=0)
         xmax, ymax = pts.max(axis=0)
-        lines = [f"length {1000 * (xmax - xmin):.0f} mm",
-                 f"frontal height {1000 * (ymax - ymin):.0f} mm",
-                 f"ground clearance {1000 * ymin:.0f} mm"]
+        lines = [
+            f"length {1000 * (xmax - xmin):.0f} mm",
+            f"frontal height {1000 * (ymax - ymin):.0f} mm",
+            f"ground clearance {1000 * ymin:.0f} mm",
+        ]
         fm = QFontMetricsF(self.font())
         bar_m = scale_bar_length(self.view.scale)
         bar_px = bar_m * self.view.scale
         bar_text = _length_text(bar_m)
-        w = max([fm.horizontalAdvance(t) for t in lines] + [bar_px + 10 + fm.horizontalAdvance(bar_text)]) + 12
+        w = (
+            max(
+                [fm.horizontalAdvance(t) for t in lines]
+                + [bar_px + 10 + fm.horizontalAdvance(bar_text)]
+            )
+            + 12
+        )
         h = fm.height() * (len(lines) + 1) + 12
         rect = QRectF(8, 8, w, h)
         qp.setPen(QColor(180, 180, 180))
@@ -724,15 +819,23 @@ class ProfileCanvas(QWidget):
         if bubbles(events):
             kinds.append("bubble")
         if getattr(getattr(self.analysis, "flow", None), "separated", None) is not None and np.any(
-                self.analysis.flow.separated):
+            self.analysis.flow.separated
+        ):
             kinds.append("separated")
         if getattr(self.state, "baseline", None) is not None:
             kinds += ["baseline", "difference"]
         labels = {k: EVENT_STYLES[k].label for k in EVENT_STYLES}
-        labels.update(bubble="laminar bubble", separated="separated flow",
-                      baseline="baseline outline", difference="change from baseline")
+        labels.update(
+            bubble="laminar bubble",
+            separated="separated flow",
+            baseline="baseline outline",
+            difference="change from baseline",
+        )
         rows = [(k, labels[k]) for k in kinds]
-        width = max([fm.horizontalAdvance(t) for _, t in rows] + [fm.horizontalAdvance("Cp  -2.0")]) + 44
+        width = (
+            max([fm.horizontalAdvance(t) for _, t in rows] + [fm.horizontalAdvance("Cp  -2.0")])
+            + 44
+        )
         bar_h = 120 if (st is not None and self.show_cp) else 0
         height = len(rows) * (fm.height() + 3) + bar_h + 16
         x0, y0 = self._legend_position(width, height)
@@ -748,7 +851,7 @@ class ProfileCanvas(QWidget):
             for f in np.linspace(0, 1, 9):
                 r, g, b, _ = _CMAP(norm(top + (bottom - top) * f))
                 grad.setColorAt(f, QColor.fromRgbF(r, g, b))
-            head = fm.height() + fm.ascent() / 2 + 2     # room for the title above the top tick
+            head = fm.height() + fm.ascent() / 2 + 2  # room for the title above the top tick
             bar = QRectF(x0 + 10, y + head, 14, bar_h - 12 - head)
             grad.setStart(0, bar.top())
             grad.setFinalStop(0, bar.bottom())
@@ -776,7 +879,9 @@ class ProfileCanvas(QWidget):
             elif kind == "difference":
                 swatch = QRectF(x0 + 10, cy - 5, 14, 10)
                 qp.fillRect(swatch, _qcolor(OKABE_ITO["reddish_purple"], 0.30))
-                qp.fillRect(swatch, QBrush(_qcolor(OKABE_ITO["reddish_purple"], 1.0), Qt.FDiagPattern))
+                qp.fillRect(
+                    swatch, QBrush(_qcolor(OKABE_ITO["reddish_purple"], 1.0), Qt.FDiagPattern)
+                )
             qp.setPen(QColor(20, 20, 20))
             qp.drawText(QPointF(x0 + 34, y + fm.ascent()), text)
             y += fm.height() + 3
@@ -784,9 +889,21 @@ class ProfileCanvas(QWidget):
     # ----------------------------------------------------------------- overlay cache
     def _overlay_key(self):
         v = self.view
-        return (id(self.analysis), self.stale, self.show_cp, self.cp_min, self.cp_offset_curve, self.selected,
-                getattr(self.state, "baseline", None) is not None, v.scale, v.offset_x, v.offset_y,
-                self.width(), self.height(), self.devicePixelRatioF())
+        return (
+            id(self.analysis),
+            self.stale,
+            self.show_cp,
+            self.cp_min,
+            self.cp_offset_curve,
+            self.selected,
+            getattr(self.state, "baseline", None) is not None,
+            v.scale,
+            v.offset_x,
+            v.offset_y,
+            self.width(),
+            self.height(),
+            self.devicePixelRatioF(),
+        )
 
     def _scene(self):
         """A copy of what the analysis overlay depends on, for drawing it on a worker thread."""
@@ -855,19 +972,28 @@ class ProfileCanvas(QWidget):
         bounding box, of the length readouts at the top left, and of the ground line's label.
         """
         W, H, m = self.width(), self.height(), 10.0
-        candidates = [(W - width - m, m), (W - width - m, H - height - m - 18),
-                      (m, H - height - m - 18), (0.5 * (W - width), m),
-                      (0.5 * (W - width), H - height - m - 18), (m, 110.0)]
+        candidates = [
+            (W - width - m, m),
+            (W - width - m, H - height - m - 18),
+            (m, H - height - m - 18),
+            (0.5 * (W - width), m),
+            (0.5 * (W - width), H - height - m - 18),
+            (m, 110.0),
+        ]
         avoid = [(r, 4.0) for r in self._label_rects]
         pts = None
         if self.state is not None:
             hit = _cached(self._outline_cache, self.state.profile)
             pts = hit[0] if hit is not None else np.asarray(self.state.profile.xy, float)
         if pts is not None and len(pts):
-            (x0, y1), (x1, y0) = (self.view.to_screen(*pts.min(axis=0)),
-                                  self.view.to_screen(*pts.max(axis=0)))
-            avoid.append((QRectF(QPointF(min(x0, x1), min(y0, y1)), QPointF(max(x0, x1), max(y0, y1))), 1.0))
-        avoid.append((QRectF(0, 0, 230, 90), 2.0))    # length readouts
+            (x0, y1), (x1, y0) = (
+                self.view.to_screen(*pts.min(axis=0)),
+                self.view.to_screen(*pts.max(axis=0)),
+            )
+            avoid.append(
+                (QRectF(QPointF(min(x0, x1), min(y0, y1)), QPointF(max(x0, x1), max(y0, y1))), 1.0)
+            )
+        avoid.append((QRectF(0, 0, 230, 90), 2.0))  # length readouts
 
         def cost(x, y):
             box = QRectF(x, y, width, height)
@@ -900,8 +1026,11 @@ class ProfileCanvas(QWidget):
             under, over, mapping = self._overlay_images()
             if under is not None:
                 self._draw_layer(qp, under, mapping)
-        pen = QPen(QColor(15, 15, 15) if ok else QColor(OKABE_ITO["vermillion"]), 1.6,
-                   Qt.SolidLine if ok else Qt.DashLine)
+        pen = QPen(
+            QColor(15, 15, 15) if ok else QColor(OKABE_ITO["vermillion"]),
+            1.6,
+            Qt.SolidLine if ok else Qt.DashLine,
+        )
         qp.setPen(pen)
         qp.setBrush(Qt.NoBrush)
         qp.drawPolyline(self._poly(pts))
@@ -914,8 +1043,9 @@ class ProfileCanvas(QWidget):
         self._draw_readouts(qp, pts)
         if self.stale and self.analysis is not None:
             qp.setPen(QColor(OKABE_ITO["vermillion"]))
-            qp.drawText(QPointF(12, self.height() - 12),
-                        "results shown are for an earlier outline (stale)")
+            qp.drawText(
+                QPointF(12, self.height() - 12), "results shown are for an earlier outline (stale)"
+            )
         qp.end()
         restore_none_refcount()
         self.last_paint_profile = self.state.profile

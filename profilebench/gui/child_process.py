@@ -16,8 +16,16 @@ import threading
 import time
 import traceback
 
-__all__ = ["ChildProcess", "call", "call_with_keywords", "import_modules", "shared_child",
-           "child_command", "child_path", "CHILD_NICENESS"]
+__all__ = [
+    "ChildProcess",
+    "call",
+    "call_with_keywords",
+    "import_modules",
+    "shared_child",
+    "child_command",
+    "child_path",
+    "CHILD_NICENESS",
+]
 
 # The child runs at a lower CPU priority (POSIX niceness increment) than the editor: when the
 # cores are busy, the GUI thread is scheduled first and background work waits instead.
@@ -37,7 +45,7 @@ class ChildProcess:
     def __init__(self):
         self._lock = threading.Lock()
         self._proc = None
-        self._jobs: dict = {}          # job id -> callback(ok, payload)
+        self._jobs: dict = {}  # job id -> callback(ok, payload)
         self._next = 0
         self._outbox = None
 
@@ -61,10 +69,12 @@ class ChildProcess:
         proc = subprocess.Popen(child_command(), stdin=subprocess.PIPE, stdout=subprocess.PIPE)
         outbox = queue.Queue()
         self._proc, self._outbox = proc, outbox
-        threading.Thread(target=self._write, args=(proc, outbox), daemon=True,
-                         name="profilebench-child-writer").start()
-        threading.Thread(target=self._read, args=(proc,), daemon=True,
-                         name="profilebench-child-reader").start()
+        threading.Thread(
+            target=self._write, args=(proc, outbox), daemon=True, name="profilebench-child-writer"
+        ).start()
+        threading.Thread(
+            target=self._read, args=(proc,), daemon=True, name="profilebench-child-reader"
+        ).start()
 
     def _write(self, proc, outbox):
         import pickle
@@ -74,11 +84,15 @@ class ChildProcess:
             if item is None:
                 break
             try:
-                data = pickle.dumps(item, protocol=pickle.HIGHEST_PROTOCOL)  # whole, or nothing sent
+                data = pickle.dumps(
+                    item, protocol=pickle.HIGHEST_PROTOCOL
+                )  # whole, or nothing sent
                 proc.stdin.write(data)
                 proc.stdin.flush()
-            except OSError as exc:    # the child ended: the reader fails its other jobs
-                self._finish(item[0], False, f"the background process ended ({type(exc).__name__}: {exc})")
+            except OSError as exc:  # the child ended: the reader fails its other jobs
+                self._finish(
+                    item[0], False, f"the background process ended ({type(exc).__name__}: {exc})"
+                )
                 break
             except Exception as exc:  # the job does not pickle
                 self._finish(item[0], False, f"{type(exc).__name__}: {exc}")
@@ -125,8 +139,10 @@ class ChildProcess:
 
 
 #: the child's start: the import path is set before anything else is imported
-_BOOT = ("import sys; sys.path[:] = {path!r}; "
-         "from profilebench.gui.child_process import _serve; _serve()")
+_BOOT = (
+    "import sys; sys.path[:] = {path!r}; "
+    "from profilebench.gui.child_process import _serve; _serve()"
+)
 
 
 def child_path() -> list[str]:
@@ -141,7 +157,7 @@ def child_path() -> list[str]:
     root = str(Path(profilebench.__file__).resolve().parents[1])
     try:
         here = os.path.realpath(os.getcwd())
-    except OSError:                 # the current folder was deleted
+    except OSError:  # the current folder was deleted
         here = None
     path = [root]
     for entry in sys.path:
@@ -208,13 +224,13 @@ def _serve():
     import pickle
     import sys
 
-    if hasattr(os, "nice"):            # POSIX only; elsewhere the child keeps normal priority
+    if hasattr(os, "nice"):  # POSIX only; elsewhere the child keeps normal priority
         try:
             os.nice(CHILD_NICENESS)
         except OSError:
             pass
     stdin, stdout = sys.stdin.buffer, sys.stdout.buffer
-    sys.stdout = sys.stderr             # nothing else may write into the result stream
+    sys.stdout = sys.stderr  # nothing else may write into the result stream
     while True:
         try:
             job, fn, args = pickle.load(stdin)
@@ -223,15 +239,19 @@ def _serve():
         t0 = time.perf_counter()
         try:
             reply = (job, True, fn(*args), time.perf_counter() - t0)
-            data = pickle.dumps(reply, protocol=pickle.HIGHEST_PROTOCOL)   # whole, or not sent
+            data = pickle.dumps(reply, protocol=pickle.HIGHEST_PROTOCOL)  # whole, or not sent
         except Exception as exc:  # reported to the editor, which logs and shows it
-            reply = (job, False, f"{type(exc).__name__}: {exc}\n{traceback.format_exc()}",
-                     time.perf_counter() - t0)
+            reply = (
+                job,
+                False,
+                f"{type(exc).__name__}: {exc}\n{traceback.format_exc()}",
+                time.perf_counter() - t0,
+            )
             data = pickle.dumps(reply, protocol=pickle.HIGHEST_PROTOCOL)
         try:
             stdout.write(data)
             stdout.flush()
-        except OSError:                 # the editor ended meanwhile: nobody wants the result
+        except OSError:  # the editor ended meanwhile: nobody wants the result
             return
 
 

@@ -7,10 +7,22 @@ undoable edit. A refused entry keeps the previous conditions and shows why under
 from __future__ import annotations
 
 from PySide6.QtCore import Signal
-from PySide6.QtWidgets import (QCheckBox, QComboBox, QFormLayout, QLabel, QLineEdit, QVBoxLayout,
-                               QWidget)
+from PySide6.QtWidgets import (
+    QCheckBox,
+    QComboBox,
+    QFormLayout,
+    QLabel,
+    QLineEdit,
+    QVBoxLayout,
+    QWidget,
+)
 
-from profilebench.editor.fields import parse_length_mm, parse_number, parse_optional, parse_speed_kmh
+from profilebench.editor.fields import (
+    parse_length_mm,
+    parse_number,
+    parse_optional,
+    parse_speed_kmh,
+)
 from profilebench.errors import ProfileBenchError
 
 __all__ = ["ConditionsPanel"]
@@ -122,7 +134,13 @@ class ConditionsPanel(QWidget):
         text = self.fields[key].text()
         if key == "speed":
             return {"speed": parse_speed_kmh(text, "speed")}
-        if key in ("altitude", "temperature_offset", "h_separation", "base_pressure", "model_scale"):
+        if key in (
+            "altitude",
+            "temperature_offset",
+            "h_separation",
+            "base_pressure",
+            "model_scale",
+        ):
             return {key: parse_number(text, key.replace("_", " "))}
         if key in ("density", "kinematic_viscosity"):
             other = "kinematic_viscosity" if key == "density" else "density"
@@ -143,7 +161,9 @@ class ConditionsPanel(QWidget):
             if value != int(value):
                 from profilebench.errors import InputError
 
-                raise InputError(f"panels = {value:g} is not a whole number; type a count such as 250")
+                raise InputError(
+                    f"panels = {value:g} is not a whole number; type a count such as 250"
+                )
             return {"panels": int(value)}
         if key == "transition":
             mode = self.transition_mode.currentIndex()
@@ -153,7 +173,9 @@ class ConditionsPanel(QWidget):
             if mode == 1:
                 return {"transition": "turbulent"}
             if not text.strip():
-                raise ProfileBenchError("forced transition needs a position; type the arc length in mm")
+                raise ProfileBenchError(
+                    "forced transition needs a position; type the arc length in mm"
+                )
             return {"transition": parse_length_mm(text, "forced transition position")}
         raise KeyError(key)
 

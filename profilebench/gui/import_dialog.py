@@ -13,8 +13,16 @@ from __future__ import annotations
 import numpy as np
 from PySide6.QtCore import QPointF, QRectF, Qt, QTimer
 from PySide6.QtGui import QColor, QPainter, QPainterPath, QPen
-from PySide6.QtWidgets import (QDialog, QDialogButtonBox, QDoubleSpinBox, QFormLayout, QLabel,
-                               QSizePolicy, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (
+    QDialog,
+    QDialogButtonBox,
+    QDoubleSpinBox,
+    QFormLayout,
+    QLabel,
+    QSizePolicy,
+    QVBoxLayout,
+    QWidget,
+)
 
 from profilebench.editor.document import CAUTION
 from profilebench.editor.import_preview import ImportPreview, fit_preview
@@ -23,7 +31,7 @@ from profilebench.gui.worker import ProcessTaskRunner
 __all__ = ["ImportDialog", "OutlinePreview"]
 
 TOLERANCE_RANGE_MM = (0.5, 50.0)
-REFIT_DELAY_MS = 300          # a tolerance typed digit by digit is fitted once
+REFIT_DELAY_MS = 300  # a tolerance typed digit by digit is fitted once
 
 
 class OutlinePreview(QWidget):
@@ -54,8 +62,9 @@ class OutlinePreview(QWidget):
 
         def to_px(xy):
             xy = np.asarray(xy, dtype=float)
-            return np.stack([x0 + (xy[..., 0] - lo[0]) * scale,
-                             y0 - (xy[..., 1] - lo[1]) * scale], axis=-1)
+            return np.stack(
+                [x0 + (xy[..., 0] - lo[0]) * scale, y0 - (xy[..., 1] - lo[1]) * scale], axis=-1
+            )
 
         return to_px, lo, hi
 
@@ -121,20 +130,22 @@ class ImportDialog(QDialog):
     After ``accept`` (OK), :attr:`preview` holds the fit to load (``preview.ok`` is True).
     """
 
-    def __init__(self, points_import, name: str, ground: bool = True, tolerance_mm: float = 5.0,
-                 parent=None):
+    def __init__(
+        self, points_import, name: str, ground: bool = True, tolerance_mm: float = 5.0, parent=None
+    ):
         super().__init__(parent)
         self.setWindowTitle(f"Import outline: {name}")
         self.points_import = points_import
         self.name = name
         self.ground = bool(ground)
         self.preview: ImportPreview | None = None
-        self._wanted = None            # generation of the newest fit asked for
+        self._wanted = None  # generation of the newest fit asked for
 
         pts = points_import.points
         self.view = OutlinePreview(pts, self.ground, self)
-        source = QLabel(f"{len(pts)} points, read in {points_import.units} "
-                        f"({points_import.units_reason})")
+        source = QLabel(
+            f"{len(pts)} points, read in {points_import.units} ({points_import.units_reason})"
+        )
         source.setWordWrap(True)
         self.tolerance = QDoubleSpinBox()
         self.tolerance.setRange(*TOLERANCE_RANGE_MM)
@@ -142,14 +153,18 @@ class ImportDialog(QDialog):
         self.tolerance.setSingleStep(0.5)
         self.tolerance.setSuffix(" mm")
         self.tolerance.setValue(float(tolerance_mm))
-        self.tolerance.setToolTip("the largest distance the fitted outline may keep from the "
-                                  "points; a larger tolerance gives fewer nodes")
-        legend = QLabel("<span style='color:#6e6e6e'>&#9679;</span> points &nbsp; "
-                        "<span style='color:#1f5fb4'>&#9472;&#9472;</span> fitted outline &nbsp; "
-                        "<span style='color:#c0392b'>&#9632;</span> rounded corner &nbsp; "
-                        "<span style='color:#1f5fb4'>&#9632;</span> sharp corner &nbsp; "
-                        "<span style='color:#1f5fb4'>&#9675;</span> smooth node"
-                        + (" &nbsp; - - ground" if self.ground else ""))
+        self.tolerance.setToolTip(
+            "the largest distance the fitted outline may keep from the "
+            "points; a larger tolerance gives fewer nodes"
+        )
+        legend = QLabel(
+            "<span style='color:#6e6e6e'>&#9679;</span> points &nbsp; "
+            "<span style='color:#1f5fb4'>&#9472;&#9472;</span> fitted outline &nbsp; "
+            "<span style='color:#c0392b'>&#9632;</span> rounded corner &nbsp; "
+            "<span style='color:#1f5fb4'>&#9632;</span> sharp corner &nbsp; "
+            "<span style='color:#1f5fb4'>&#9675;</span> smooth node"
+            + (" &nbsp; - - ground" if self.ground else "")
+        )
         self.status = QLabel("")
         self.status.setWordWrap(True)
         self.notes = QLabel("")
@@ -204,9 +219,9 @@ class ImportDialog(QDialog):
     def refit(self) -> None:
         """Fit the points again at the tolerance shown (the newest request wins)."""
         self._timer.stop()
-        self._wanted = self.runner.request(self.points_import.points,
-                                           self.tolerance.value() / 1000.0, self.ground,
-                                           self.name)
+        self._wanted = self.runner.request(
+            self.points_import.points, self.tolerance.value() / 1000.0, self.ground, self.name
+        )
         self.ok_button.setEnabled(False)
         self.status.setText(f"fitting within {self.tolerance.value():.1f} mm…")
         self.status.setStyleSheet("")
@@ -234,7 +249,7 @@ class ImportDialog(QDialog):
 
     def accept(self) -> None:
         if self.fitting or self.preview is None or not self.preview.ok:
-            return          # an invalid or outdated fit is never loaded
+            return  # an invalid or outdated fit is never loaded
         super().accept()
 
     def done(self, result) -> None:

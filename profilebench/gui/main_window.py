@@ -17,8 +17,16 @@ from pathlib import Path
 
 from PySide6.QtCore import QSettings, QStandardPaths, Qt, QTimer
 from PySide6.QtGui import QAction, QImageReader, QKeySequence, QUndoStack
-from PySide6.QtWidgets import (QDockWidget, QFileDialog, QInputDialog, QLabel, QMainWindow,
-                               QMessageBox, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (
+    QDockWidget,
+    QFileDialog,
+    QInputDialog,
+    QLabel,
+    QMainWindow,
+    QMessageBox,
+    QVBoxLayout,
+    QWidget,
+)
 
 from profilebench.editor import commands, recovery
 from profilebench.editor.document import CAUTION, Document
@@ -44,15 +52,18 @@ MAX_RECENT = 8
 # Python's default 5 ms switch interval every hand-over to the GUI thread can wait up to 5 ms;
 # 1 ms keeps the GUI thread's painting responsive (measured with benchmarks/bench_gui.py).
 GIL_SWITCH_INTERVAL_S = 0.001
-AUTOSAVE_MS = 60000         # default interval of the recovery copy
+AUTOSAVE_MS = 60000  # default interval of the recovery copy
 AUTOSAVE_ENV = "PROFILEBENCH_AUTOSAVE_MS"
-LONG_WORK_MS = 600          # work running longer shows the status bar's busy bar and Cancel
-PLOT_INTERVAL_MS = 200      # plots are rendered at most this often, and not during a drag
+LONG_WORK_MS = 600  # work running longer shows the status bar's busy bar and Cancel
+PLOT_INTERVAL_MS = 200  # plots are rendered at most this often, and not during a drag
+
+
 def _same_analysis(a, b) -> bool:
     """Do document states ``a`` and ``b`` have the same analysis? Only the profile and the
     conditions enter it: pinning a baseline, an underlay or the selection leave it current."""
-    return (a is not None and b is not None and a.profile == b.profile
-            and a.conditions == b.conditions)
+    return (
+        a is not None and b is not None and a.profile == b.profile and a.conditions == b.conditions
+    )
 
 
 BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px solid #e0a080;"
@@ -68,11 +79,15 @@ def _interval_ms(name, value) -> int:
     try:
         ms = float(value)
     except (TypeError, ValueError):
-        raise InputError(f"{name} = {str(value)[:40]!r} is not a number; give the autosave "
-                         "interval in milliseconds, e.g. 60000") from None
-    if not 100 <= ms <= AUTOSAVE_MAX_MS:      # also refuses NaN and infinity
-        raise InputError(f"{name} = {str(value)[:40]!r} ms is outside 100 ms to "
-                         f"{AUTOSAVE_MAX_MS} ms (a day); give an interval in that range")
+        raise InputError(
+            f"{name} = {str(value)[:40]!r} is not a number; give the autosave "
+            "interval in milliseconds, e.g. 60000"
+        ) from None
+    if not 100 <= ms <= AUTOSAVE_MAX_MS:  # also refuses NaN and infinity
+        raise InputError(
+            f"{name} = {str(value)[:40]!r} ms is outside 100 ms to "
+            f"{AUTOSAVE_MAX_MS} ms (a day); give an interval in that range"
+        )
     return int(ms)
 
 
@@ -100,8 +115,14 @@ class MainWindow(QMainWindow):
         the application's data folder (QStandardPaths.AppDataLocation).
     """
 
-    def __init__(self, path=None, settings: QSettings | None = None, analyze_fn=None,
-                 autosave_ms: int | None = None, recovery_dir=None):
+    def __init__(
+        self,
+        path=None,
+        settings: QSettings | None = None,
+        analyze_fn=None,
+        autosave_ms: int | None = None,
+        recovery_dir=None,
+    ):
         super().__init__()
         if sys.getswitchinterval() > GIL_SWITCH_INTERVAL_S:
             sys.setswitchinterval(GIL_SWITCH_INTERVAL_S)
@@ -113,16 +134,16 @@ class MainWindow(QMainWindow):
         self.baseline_runner = AnalysisRunner(self, analyze_fn)
         self.search_runner = ProcessTaskRunner(_search, self, child="search")
         self.document = None
-        self.analysis = None               # last good analysis (may be stale)
-        self.analysis_state = None         # the document state it was computed for
+        self.analysis = None  # last good analysis (may be stale)
+        self.analysis_state = None  # the document state it was computed for
         self.last_message = ""
         self.last_seconds = None
         self.baseline_analysis = None
         self.searches: dict = {}
         self._search_node = None
         self.results_received = 0
-        self.lagging_shown = 0             # superseded analyses shown during a drag (marked stale)
-        self._requested: dict = {}         # analysis generation -> the document state it is for
+        self.lagging_shown = 0  # superseded analyses shown during a drag (marked stale)
+        self._requested: dict = {}  # analysis generation -> the document state it is for
 
         self.canvas = ProfileCanvas()
         self.banner = QLabel("")
@@ -175,14 +196,17 @@ class MainWindow(QMainWindow):
         self._load_cp_scale()
         self.statusBar().showMessage("ready")
         self.resize(1500, 950)
-        self.startup_problems = []          # what went wrong at start-up, told once it is shown
+        self.startup_problems = []  # what went wrong at start-up, told once it is shown
         if path is not None and not self.open_file(path):
-            self.startup_problems.append(f"{self.last_message}; the default profile is shown "
-                                         "instead")
+            self.startup_problems.append(
+                f"{self.last_message}; the default profile is shown instead"
+            )
         if self.document is None:
             self.new_document()
 
-        self.recovery_dir = Path(recovery_dir if recovery_dir is not None else self._default_recovery_dir())
+        self.recovery_dir = Path(
+            recovery_dir if recovery_dir is not None else self._default_recovery_dir()
+        )
         self.autosave_ms = self._autosave_interval(autosave_ms)
         self._autosaved_state = None
         self.autosave_error = ""
@@ -190,8 +214,8 @@ class MainWindow(QMainWindow):
         self._autosave_timer.setInterval(self.autosave_ms)
         self._autosave_timer.timeout.connect(self.autosave)
         self._autosave_timer.start()
-        QTimer.singleShot(0, self._tell_startup_problems)   # after the caller could set report_error
-        QTimer.singleShot(0, self.offer_recovery)   # after the caller could set ask_recover
+        QTimer.singleShot(0, self._tell_startup_problems)  # after the caller could set report_error
+        QTimer.singleShot(0, self.offer_recovery)  # after the caller could set ask_recover
 
     def _tell_startup_problems(self):
         if self.startup_problems:
@@ -212,7 +236,7 @@ class MainWindow(QMainWindow):
         c = self.canvas
         c.preview.connect(self.preview_profile)
         c.edit_finished.connect(self.push)
-        c.edit_finished.connect(self._refine_provisional)   # after push: the final state is set
+        c.edit_finished.connect(self._refine_provisional)  # after push: the final state is set
         c.node_selected.connect(self.select_node)
         c.insert_requested.connect(self.insert_node)
         c.picked.connect(self._underlay_pick)
@@ -221,16 +245,23 @@ class MainWindow(QMainWindow):
         self.corner_table.apply_requested.connect(self.apply_smallest_radius)
         self.node_panel.radius_entered.connect(self.set_radius)
         self.node_panel.position_entered.connect(
-            lambda i, x, y: self._try(lambda: commands.move_node(self.document.state, i, x, y)))
+            lambda i, x, y: self._try(lambda: commands.move_node(self.document.state, i, x, y))
+        )
         self.node_panel.smooth_toggled.connect(
-            lambda i, on: self._try(lambda: commands.set_smooth(self.document.state, i, on)))
+            lambda i, on: self._try(lambda: commands.set_smooth(self.document.state, i, on))
+        )
         self.conditions_panel.changed.connect(
-            lambda cond, text: self._try(lambda: commands.set_conditions(self.document.state, cond, text)))
+            lambda cond, text: self._try(
+                lambda: commands.set_conditions(self.document.state, cond, text)
+            )
+        )
         self.runner.finished.connect(self._analysis_finished)
         self.runner.failed.connect(self._analysis_failed)
         self.runner.lagging.connect(self._analysis_lagging)
         self.baseline_runner.finished.connect(self._baseline_finished)
-        self.baseline_runner.failed.connect(lambda g, m: self._show_banner(f"baseline analysis failed: {m}", True))
+        self.baseline_runner.failed.connect(
+            lambda g, m: self._show_banner(f"baseline analysis failed: {m}", True)
+        )
         self.search_runner.finished.connect(self._search_finished)
         self.search_runner.failed.connect(self._search_failed)
         self.progress.cancelled.connect(self._cancel_work)
@@ -276,7 +307,9 @@ class MainWindow(QMainWindow):
         self._action(v, "&Fit to window", self.canvas.fit, "Ctrl+0")
         self._action(v, "Zoom &in", lambda: self.canvas.zoom(1.25), QKeySequence.ZoomIn)
         self._action(v, "Zoom &out", lambda: self.canvas.zoom(0.8), QKeySequence.ZoomOut)
-        self.grid_action = self._action(v, "Snap to grid", self._toggle_grid, "Ctrl+G", checkable=True)
+        self.grid_action = self._action(
+            v, "Snap to grid", self._toggle_grid, "Ctrl+G", checkable=True
+        )
         self._action(v, "Grid spacing…", self._ask_grid)
         self.cp_action = self._action(v, "Cp colour band", self._toggle_cp, checkable=True)
         self.cp_action.setChecked(True)
@@ -286,7 +319,13 @@ class MainWindow(QMainWindow):
         self._action(u, "Load image…", self._ask_underlay)
         self._action(u, "Place by two reference points…", self.start_underlay_picking)
         self._action(u, "Opacity…", self._ask_underlay_opacity)
-        self._action(u, "Remove", lambda: self._try(lambda: commands.set_underlay(self.document.state, None, "Remove underlay")))
+        self._action(
+            u,
+            "Remove",
+            lambda: self._try(
+                lambda: commands.set_underlay(self.document.state, None, "Remove underlay")
+            ),
+        )
         self.grid_spacing = 0.01
         self._refresh_recent()
 
@@ -301,7 +340,7 @@ class MainWindow(QMainWindow):
         self.analysis_state = None
         self.baseline_analysis = None
         self.searches = {}
-        self._requested = {}        # an analysis still running for the old document is not shown
+        self._requested = {}  # an analysis still running for the old document is not shown
         self.canvas._fitted = False
         self.canvas.set_analysis(None, False)
         self.conditions_panel.set_conditions(document.conditions)
@@ -333,8 +372,15 @@ class MainWindow(QMainWindow):
         except ProfileBenchError as exc:
             self._show_banner(f"cannot open {path}: {exc}", True)
             return False
-        self._install(Document(project.profile, project.conditions, path=path,
-                               baseline=project.baseline, underlay=underlay))
+        self._install(
+            Document(
+                project.profile,
+                project.conditions,
+                path=path,
+                baseline=project.baseline,
+                underlay=underlay,
+            )
+        )
         self._add_recent(path)
         return True
 
@@ -349,9 +395,12 @@ class MainWindow(QMainWindow):
             file_underlay = None
             if doc.underlay is not None:
                 u = doc.underlay
-                file_underlay = FileUnderlay(underlay_relative_path(u.path, path), u.points_px,
-                                             u.points_m, u.opacity)
-            project = Project(doc.profile, doc.conditions, baseline=doc.baseline, underlay=file_underlay)
+                file_underlay = FileUnderlay(
+                    underlay_relative_path(u.path, path), u.points_px, u.points_m, u.opacity
+                )
+            project = Project(
+                doc.profile, doc.conditions, baseline=doc.baseline, underlay=file_underlay
+            )
             save_project(project, path)
         except ProfileBenchError as exc:
             self._show_banner(f"not saved: {exc}", True)
@@ -382,8 +431,12 @@ class MainWindow(QMainWindow):
         except ProfileBenchError as exc:
             self._show_banner(f"cannot import {path}: {exc}", True)
             return False
-        preview = fit_preview(pts.points, simplify_mm / 1000.0,
-                              ground=self.document.conditions.ground, name=Path(path).stem)
+        preview = fit_preview(
+            pts.points,
+            simplify_mm / 1000.0,
+            ground=self.document.conditions.ground,
+            name=Path(path).stem,
+        )
         return self._load_imported(path, pts, preview)
 
     def import_points_with_dialog(self, path) -> bool:
@@ -396,8 +449,9 @@ class MainWindow(QMainWindow):
         except ProfileBenchError as exc:
             self._show_banner(f"cannot import {path}: {exc}", True)
             return False
-        dialog = ImportDialog(pts, Path(path).stem, ground=self.document.conditions.ground,
-                              parent=self)
+        dialog = ImportDialog(
+            pts, Path(path).stem, ground=self.document.conditions.ground, parent=self
+        )
         try:
             if not self.run_import_dialog(dialog):
                 return False
@@ -418,13 +472,15 @@ class MainWindow(QMainWindow):
             self._show_banner(f"cannot import {path}: {reason}", True)
             return False
         prof = preview.profile
-        self.select_node(None)      # the old selection was a node of the old outline
+        self.select_node(None)  # the old selection was a node of the old outline
         self.push(commands.import_profile(self.document.state, prof, f"Import {Path(path).name}"))
         self.canvas.fit()
         self.statusBar().showMessage(
             f"imported {len(prof)} nodes, {preview.corners} corners, within "
             f"{preview.max_deviation * 1e3:.1f} mm of the points ({pts.units}, {pts.units_reason})"
-            + (f"; {preview.notes[0]}" if preview.notes else ""), 12000)
+            + (f"; {preview.notes[0]}" if preview.notes else ""),
+            12000,
+        )
         return True
 
     def export_image(self, path) -> bool:
@@ -436,7 +492,7 @@ class MainWindow(QMainWindow):
             self._show_banner("nothing to export yet: no successful analysis", True)
             return False
         try:
-            check_writable(path)        # a folder that refuses files: a message, not an OSError
+            check_writable(path)  # a folder that refuses files: a message, not an OSError
             baseline = self.baseline_analysis or self.document.baseline
             fig = review_figure(self.analysis, baseline=baseline, cp_min=self.canvas.cp_min)
             save_figure(fig, path)
@@ -526,12 +582,19 @@ class MainWindow(QMainWindow):
         self._shown_state = state
         sel = self.document.selection.node
         self.canvas.set_state(state, sel)
-        self.canvas.set_stale(self.analysis_state is not None and not _same_analysis(self.analysis_state, state))
+        self.canvas.set_stale(
+            self.analysis_state is not None and not _same_analysis(self.analysis_state, state)
+        )
         if prev is None or prev.conditions != state.conditions or force:
             self.conditions_panel.set_conditions(state.conditions)
         if not self.canvas.dragging:
             self.node_panel.set_node(state.profile, sel)
-        if force or prev is None or prev.profile != state.profile or prev.conditions != state.conditions:
+        if (
+            force
+            or prev is None
+            or prev.profile != state.profile
+            or prev.conditions != state.conditions
+        ):
             self.searches = {}
             # during a drag a corner bubble's smallest attached radius comes from a nearby
             # outline's search (provisional) instead of a fresh search of ~10 solves
@@ -539,7 +602,12 @@ class MainWindow(QMainWindow):
             self.statusBar().showMessage("analysing…")
         if state.baseline is None:
             self.baseline_analysis = None
-        elif force or prev is None or prev.baseline != state.baseline or prev.conditions != state.conditions:
+        elif (
+            force
+            or prev is None
+            or prev.baseline != state.baseline
+            or prev.conditions != state.conditions
+        ):
             self.baseline_analysis = None
             self.baseline_runner.request(state.baseline, state.conditions)
         self._update_title()
@@ -571,17 +639,22 @@ class MainWindow(QMainWindow):
 
     def _cancel_work(self, kind):
         if kind == "search":
-            self.search_runner.cancel_pending()     # its result is never shown
+            self.search_runner.cancel_pending()  # its result is never shown
             self.searches.pop(self._search_node, None)
             self.corner_table.message.setText("search cancelled")
             if self.analysis is not None:
-                self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+                self.corner_table.set_rows(
+                    self.analysis, self.searches, self.document.selection.node
+                )
         else:
             self.runner.cancel_pending()
             self._requested = {}
             self.canvas.set_stale(self.analysis is not None)
-            self._show_banner("analysis cancelled: the results shown are for an earlier outline "
-                              "(stale); the next edit analyses again", False)
+            self._show_banner(
+                "analysis cancelled: the results shown are for an earlier outline "
+                "(stale); the next edit analyses again",
+                False,
+            )
         self.statusBar().showMessage(f"{kind} cancelled", 5000)
 
     # ------------------------------------------------------------------ Cp colour scale
@@ -591,7 +664,7 @@ class MainWindow(QMainWindow):
             try:
                 self.canvas.set_cp_min(float(value))
             except (ProfileBenchError, TypeError, ValueError):
-                pass                     # a bad stored value: the default scale
+                pass  # a bad stored value: the default scale
 
     def set_cp_scale(self, cp_min) -> bool:
         """Set the lowest Cp of the colour scale (canvas and exported pages), remembered."""
@@ -606,8 +679,11 @@ class MainWindow(QMainWindow):
 
     def _ask_cp_scale(self):
         text, ok = QInputDialog.getText(
-            self, "Cp colour scale", "Lowest Cp of the colour scale (the same on every page; "
-            "default -3):", text=f"{self.canvas.cp_min:g}")
+            self,
+            "Cp colour scale",
+            "Lowest Cp of the colour scale (the same on every page; default -3):",
+            text=f"{self.canvas.cp_min:g}",
+        )
         if ok:
             try:
                 value = parse_number(text, "lowest Cp")
@@ -621,11 +697,18 @@ class MainWindow(QMainWindow):
         corrections is redone with the searches run (the drag's last result would otherwise
         keep a nearby outline's smallest attached radius)."""
         a = self.analysis
-        if (a is not None and a.provisional and not self.canvas.dragging and not self.runner.busy
-                and _same_analysis(self.analysis_state, self.document.state)):
+        if (
+            a is not None
+            and a.provisional
+            and not self.canvas.dragging
+            and not self.runner.busy
+            and _same_analysis(self.analysis_state, self.document.state)
+        ):
             self._request_analysis(self.document.state, "run")
-            self.statusBar().showMessage("searching the smallest attached radius of the corner "
-                                         "bubbles for the final outline…")
+            self.statusBar().showMessage(
+                "searching the smallest attached radius of the corner "
+                "bubbles for the final outline…"
+            )
 
     def _forget_requests(self, upto):
         """Drop the remembered states of requests up to generation ``upto``; return its state."""
@@ -647,10 +730,14 @@ class MainWindow(QMainWindow):
         self.lagging_shown += 1
         # a failure shown earlier was for an older outline than this one: _show_analysis hides
         # its banner
-        self._show_analysis(analysis, state, seconds, stale=not _same_analysis(state, self.document.state))
-        self.statusBar().showMessage(f"Cd {analysis.drag.cd:.4f} for an earlier position "
-                                     f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
-                                     "analysed")
+        self._show_analysis(
+            analysis, state, seconds, stale=not _same_analysis(state, self.document.state)
+        )
+        self.statusBar().showMessage(
+            f"Cd {analysis.drag.cd:.4f} for an earlier position "
+            f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
+            "analysed"
+        )
 
     def _show_analysis(self, analysis, state, seconds, stale):
         """Put a successful ``analysis`` of document state ``state`` on every view."""
@@ -675,7 +762,9 @@ class MainWindow(QMainWindow):
             self._show_banner(f"Analysis not updated ({status}): {msg}", True)
             self.statusBar().showMessage(f"{status}: {msg}")
             self.canvas.set_stale(self.analysis is not None)
-            self.summary.set_analysis(self.analysis, self._comparison(), self.last_seconds, stale=True)
+            self.summary.set_analysis(
+                self.analysis, self._comparison(), self.last_seconds, stale=True
+            )
             return
         self._show_analysis(analysis, state, seconds, stale=False)
         self._schedule_plots()
@@ -691,11 +780,13 @@ class MainWindow(QMainWindow):
         if wait_ms <= 0 and not self.canvas.dragging:
             self._redraw_plots()
         else:
-            self._plot_timer.start(max(int(wait_ms), 20) if not self.canvas.dragging else PLOT_INTERVAL_MS)
+            self._plot_timer.start(
+                max(int(wait_ms), 20) if not self.canvas.dragging else PLOT_INTERVAL_MS
+            )
 
     def _plots_due(self):
         if self.canvas.dragging:
-            self._plot_timer.start(PLOT_INTERVAL_MS)   # not while the user drags
+            self._plot_timer.start(PLOT_INTERVAL_MS)  # not while the user drags
         else:
             self._redraw_plots()
 
@@ -712,15 +803,18 @@ class MainWindow(QMainWindow):
         if not self.runner.busy:
             self.progress.finish("analysis")
         self._forget_requests(generation)
-        self._show_banner(f"Analysis error (logged; last good result kept, marked stale): {message}", True)
+        self._show_banner(
+            f"Analysis error (logged; last good result kept, marked stale): {message}", True
+        )
         self.canvas.set_stale(self.analysis is not None)
         self.statusBar().showMessage("analysis error: " + message)
 
     def _baseline_finished(self, generation, analysis, seconds):
         self.baseline_analysis = analysis if getattr(analysis, "success", False) else None
         if self.analysis is not None:
-            self.summary.set_analysis(self.analysis, self._comparison(), self.last_seconds,
-                                      stale=self.canvas.stale)
+            self.summary.set_analysis(
+                self.analysis, self._comparison(), self.last_seconds, stale=self.canvas.stale
+            )
 
     def _comparison(self):
         if self.analysis is None or self.baseline_analysis is None:
@@ -735,8 +829,11 @@ class MainWindow(QMainWindow):
     @property
     def results_current(self) -> bool:
         """True when the shown analysis is for the document's current state."""
-        return (not self.runner.busy and self.analysis is not None
-                and _same_analysis(self.analysis_state, self.document.state))
+        return (
+            not self.runner.busy
+            and self.analysis is not None
+            and _same_analysis(self.analysis_state, self.document.state)
+        )
 
     # ------------------------------------------------------------------ corner radius search
     def find_smallest_radius(self, node):
@@ -762,8 +859,11 @@ class MainWindow(QMainWindow):
         """The search of ``node`` that the shown analysis ran for this very outline, or None
         (none ran, the analysis is of an earlier outline, or its search was a nearby one's)."""
         a = self.analysis
-        if (a is None or self.analysis_state != self.document.state
-                or node in getattr(a, "provisional", ())):
+        if (
+            a is None
+            or self.analysis_state != self.document.state
+            or node in getattr(a, "provisional", ())
+        ):
             return None
         return next((r for r in getattr(a, "radius_searches", ()) if r.node == node), None)
 
@@ -774,7 +874,9 @@ class MainWindow(QMainWindow):
             self.searches.pop(self._search_node, None)
         else:
             self.searches[self._search_node] = result
-            self.corner_table.message.setText(f"{result.message} ({result.solves} solves, {seconds:.1f} s)")
+            self.corner_table.message.setText(
+                f"{result.message} ({result.solves} solves, {seconds:.1f} s)"
+            )
         if self.analysis is not None:
             self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
 
@@ -786,7 +888,9 @@ class MainWindow(QMainWindow):
     def apply_smallest_radius(self, node, margin_text):
         search = self.searches.get(node)
         if search is None or search == "running" or getattr(search, "radius", None) is None:
-            self.corner_table.message.setText("find the smallest attached radius of this corner first")
+            self.corner_table.message.setText(
+                "find the smallest attached radius of this corner first"
+            )
             return
         try:
             margin = parse_number(margin_text, "margin", "%", 0.0)
@@ -795,7 +899,8 @@ class MainWindow(QMainWindow):
                 raise InputError(
                     f"{search.radius * 1000:.0f} mm + {margin:g}% = {r * 1000:.0f} mm does not fit; "
                     f"the largest radius that fits is {search.largest_fitting * 1000:.0f} mm: "
-                    "choose a smaller margin")
+                    "choose a smaller margin"
+                )
         except ProfileBenchError as exc:
             self.corner_table.message.setText(str(exc))
             return
@@ -811,7 +916,9 @@ class MainWindow(QMainWindow):
         reader = QImageReader(str(path))
         size = reader.size()
         if not size.isValid() or size.width() <= 0:
-            raise InputError(f"cannot read the image {path} ({reader.errorString()}); give a PNG or JPEG")
+            raise InputError(
+                f"cannot read the image {path} ({reader.errorString()}); give a PNG or JPEG"
+            )
         length = 4.5
         if self.document is not None:
             xs = [x for x, _ in self.document.profile.xy]
@@ -831,8 +938,11 @@ class MainWindow(QMainWindow):
         if u is None:
             self._show_banner("load an underlay image first", True)
             return False
-        return self._try(lambda: commands.set_underlay(self.document.state, u.placed(points_px, points_m),
-                                                       "Place underlay"))
+        return self._try(
+            lambda: commands.set_underlay(
+                self.document.state, u.placed(points_px, points_m), "Place underlay"
+            )
+        )
 
     def start_underlay_picking(self):
         if self.document.underlay is None:
@@ -840,20 +950,25 @@ class MainWindow(QMainWindow):
             return
         self._picks = []
         self.canvas.picking = True
-        self._show_banner("Click the first reference point on the image (e.g. the front wheel centre).", False)
+        self._show_banner(
+            "Click the first reference point on the image (e.g. the front wheel centre).", False
+        )
 
     def _underlay_pick(self, x, y):
         u = self.document.underlay
         self._picks.append(u.to_image(x, y))
         if len(self._picks) < 2:
-            self._show_banner("Click the second reference point on the image (e.g. the rear wheel centre).", False)
+            self._show_banner(
+                "Click the second reference point on the image (e.g. the rear wheel centre).", False
+            )
             return
         self.canvas.picking = False
         self.banner.hide()
         points_m = []
         for k in range(2):
-            text, ok = QInputDialog.getText(self, "Underlay reference point",
-                                            f"Profile position of point {k + 1}: x, y in mm")
+            text, ok = QInputDialog.getText(
+                self, "Underlay reference point", f"Profile position of point {k + 1}: x, y in mm"
+            )
             if not ok:
                 return
             try:
@@ -867,7 +982,9 @@ class MainWindow(QMainWindow):
         self.place_underlay(self._picks, points_m)
 
     def _ask_underlay(self):
-        path, _ = QFileDialog.getOpenFileName(self, "Underlay image", "", "Images (*.png *.jpg *.jpeg *.bmp)")
+        path, _ = QFileDialog.getOpenFileName(
+            self, "Underlay image", "", "Images (*.png *.jpg *.jpeg *.bmp)"
+        )
         if path:
             self.load_underlay(path)
 
@@ -875,14 +992,20 @@ class MainWindow(QMainWindow):
         u = self.document.underlay
         if u is None:
             return
-        value, ok = QInputDialog.getText(self, "Underlay opacity", "Opacity, 0 (hidden) to 1:", text=f"{u.opacity:g}")
+        value, ok = QInputDialog.getText(
+            self, "Underlay opacity", "Opacity, 0 (hidden) to 1:", text=f"{u.opacity:g}"
+        )
         if ok:
             try:
                 op = parse_number(value, "opacity", "", 0.0, 1.0)
             except ProfileBenchError as exc:
                 self._show_banner(str(exc), True)
                 return
-            self._try(lambda: commands.set_underlay(self.document.state, u.with_opacity(op), "Dim underlay"))
+            self._try(
+                lambda: commands.set_underlay(
+                    self.document.state, u.with_opacity(op), "Dim underlay"
+                )
+            )
 
     # ------------------------------------------------------------------ view options
     def _toggle_grid(self, on):
@@ -890,11 +1013,15 @@ class MainWindow(QMainWindow):
         self.canvas.update()
 
     def _ask_grid(self):
-        text, ok = QInputDialog.getText(self, "Grid spacing", "Grid spacing (mm):", text=f"{self.grid_spacing * 1000:g}")
+        text, ok = QInputDialog.getText(
+            self, "Grid spacing", "Grid spacing (mm):", text=f"{self.grid_spacing * 1000:g}"
+        )
         if not ok:
             return
         try:
-            self.grid_spacing = parse_number(text, "grid spacing", "mm", 0.0, exclusive_minimum=True) / 1000.0
+            self.grid_spacing = (
+                parse_number(text, "grid spacing", "mm", 0.0, exclusive_minimum=True) / 1000.0
+            )
         except ProfileBenchError as exc:
             self._show_banner(str(exc), True)
             return
@@ -916,21 +1043,29 @@ class MainWindow(QMainWindow):
     def _ask_open(self):
         if not self.confirm_discard():
             return
-        path, _ = QFileDialog.getOpenFileName(self, "Open project", self._dialog_folder(), "Projects (*.json)")
+        path, _ = QFileDialog.getOpenFileName(
+            self, "Open project", self._dialog_folder(), "Projects (*.json)"
+        )
         if path:
             self.open_file(path)
 
     def _ask_save_as(self) -> bool:
-        path, _ = QFileDialog.getSaveFileName(self, "Save project", self._dialog_folder(), "Projects (*.json)")
+        path, _ = QFileDialog.getSaveFileName(
+            self, "Save project", self._dialog_folder(), "Projects (*.json)"
+        )
         return self.save_to(path) if path else False
 
     def _ask_import_csv(self):
-        path, _ = QFileDialog.getOpenFileName(self, "Import point outline", "", "Point files (*.csv *.txt)")
+        path, _ = QFileDialog.getOpenFileName(
+            self, "Import point outline", "", "Point files (*.csv *.txt)"
+        )
         if path:
             self.import_points_with_dialog(path)
 
     def _ask_export_image(self):
-        path, _ = QFileDialog.getSaveFileName(self, "Export annotated view", "", "Images (*.png *.svg *.pdf)")
+        path, _ = QFileDialog.getSaveFileName(
+            self, "Export annotated view", "", "Images (*.png *.svg *.pdf)"
+        )
         if path:
             self.export_image(path)
 
@@ -957,7 +1092,9 @@ class MainWindow(QMainWindow):
         self.recent_menu.clear()
         for p in self.recent_files():
             act = self.recent_menu.addAction(p)
-            act.triggered.connect(lambda _=False, path=p: self.confirm_discard() and self.open_file(path))
+            act.triggered.connect(
+                lambda _=False, path=p: self.confirm_discard() and self.open_file(path)
+            )
         self.recent_menu.setEnabled(bool(self.recent_files()))
 
     # ------------------------------------------------------------------ recovery copies
@@ -974,8 +1111,11 @@ class MainWindow(QMainWindow):
         A bad argument raises InputError; a bad environment variable or setting is reported
         (in :attr:`startup_problems`) and the next source, or the default, is used.
         """
-        sources = [("autosave_ms argument", given), (AUTOSAVE_ENV, os.environ.get(AUTOSAVE_ENV)),
-                   ("setting autosave_ms", self.settings.value("autosave_ms", None))]
+        sources = [
+            ("autosave_ms argument", given),
+            (AUTOSAVE_ENV, os.environ.get(AUTOSAVE_ENV)),
+            ("setting autosave_ms", self.settings.value("autosave_ms", None)),
+        ]
         for name, value in sources:
             if value is None or value == "":
                 continue
@@ -984,8 +1124,9 @@ class MainWindow(QMainWindow):
             except InputError as exc:
                 if value is given:
                     raise
-                self.startup_problems.append(f"{exc}; the autosave interval is "
-                                             f"{AUTOSAVE_MS} ms instead")
+                self.startup_problems.append(
+                    f"{exc}; the autosave interval is {AUTOSAVE_MS} ms instead"
+                )
                 log.warning("%s", exc)
         return AUTOSAVE_MS
 
@@ -1002,14 +1143,15 @@ class MainWindow(QMainWindow):
         try:
             recovery.write_recovery(self.recovery_dir, doc)
         except ProfileBenchError as exc:
-            if self.autosave_error != str(exc):     # told once per distinct failure
+            if self.autosave_error != str(exc):  # told once per distinct failure
                 log.warning("recovery copy not written: %s", exc)
                 self.statusBar().showMessage(f"recovery copy not written: {exc}", 10000)
                 self.report_error(
                     "Recovery copy not written",
                     f"Your unsaved changes are not protected by a recovery copy:\n\n{exc}\n\n"
                     "Save the project to keep them, or choose another recovery folder (setting "
-                    "recovery_dir).")
+                    "recovery_dir).",
+                )
             self.autosave_error = str(exc)
             return False
         self.autosave_error = ""
@@ -1027,9 +1169,12 @@ class MainWindow(QMainWindow):
         """Ask whether to restore the recovery copy ``copy`` (a dialog; tests replace it)."""
         where = str(copy.origin) if copy.origin is not None else "an untitled project"
         answer = QMessageBox.question(
-            self, "Recover unsaved work",
+            self,
+            "Recover unsaved work",
             f"The editor did not close normally last time. Restore the unsaved changes to {where}?",
-            QMessageBox.Yes | QMessageBox.No, QMessageBox.Yes)
+            QMessageBox.Yes | QMessageBox.No,
+            QMessageBox.Yes,
+        )
         return answer == QMessageBox.Yes
 
     def report_error(self, title: str, text: str) -> None:
@@ -1041,7 +1186,7 @@ class MainWindow(QMainWindow):
         from profilebench.io import load_project
 
         copies, project = recovery.left_behind(self.recovery_dir), None
-        while copies and project is None:   # the newest copy that can be read
+        while copies and project is None:  # the newest copy that can be read
             try:
                 project = load_project(copies[0].path)
             except ProfileBenchError as exc:
@@ -1050,16 +1195,18 @@ class MainWindow(QMainWindow):
                     where = f"set aside as {aside}"
                 except ProfileBenchError as why:
                     where = str(why)
-                self._show_banner(f"the recovery copy {copies[0].path} cannot be read ({exc}); "
-                                  f"{where}", True)
+                self._show_banner(
+                    f"the recovery copy {copies[0].path} cannot be read ({exc}); {where}", True
+                )
                 copies.pop(0)
         if not copies:
             return False
         copy = copies[0]
         restored = False
         if self.ask_recover(copy):
-            doc = Document(project.profile, project.conditions, path=copy.origin,
-                           baseline=project.baseline)
+            doc = Document(
+                project.profile, project.conditions, path=copy.origin, baseline=project.baseline
+            )
             doc.mark_unsaved()
             self._install(doc)
             restored = True
@@ -1074,8 +1221,12 @@ class MainWindow(QMainWindow):
     def ask_unsaved(self) -> str:
         """Ask whether to save unsaved changes: "save", "discard" or "cancel" (a dialog)."""
         answer = QMessageBox.question(
-            self, "Unsaved changes", f"Save the changes to {self.document.title.rstrip(' *')}?",
-            QMessageBox.Save | QMessageBox.Discard | QMessageBox.Cancel, QMessageBox.Save)
+            self,
+            "Unsaved changes",
+            f"Save the changes to {self.document.title.rstrip(' *')}?",
+            QMessageBox.Save | QMessageBox.Discard | QMessageBox.Cancel,
+            QMessageBox.Save,
+        )
         if answer == QMessageBox.Save:
             return "save"
         return "discard" if answer == QMessageBox.Discard else "cancel"
@@ -1090,13 +1241,16 @@ class MainWindow(QMainWindow):
         return answer == "discard"
 
     def closeEvent(self, event):
-        event.ignore()          # closed only when the work is saved or knowingly discarded
+        event.ignore()  # closed only when the work is saved or knowingly discarded
         try:
             allowed = self.confirm_discard()
-        except Exception as exc:        # a failure while saving must not close the window
+        except Exception as exc:  # a failure while saving must not close the window
             log.exception("saving before closing failed")
-            self.report_error("Not closed", f"The project could not be saved ({exc}); the "
-                                            "window stays open so nothing is lost.")
+            self.report_error(
+                "Not closed",
+                f"The project could not be saved ({exc}); the "
+                "window stays open so nothing is lost.",
+            )
             allowed = False
         if not allowed:
             return

@@ -26,8 +26,9 @@ def render_plot_rgba(analysis, kind: str, width_px: int, height_px: int, dpi: fl
 
     from profilebench.plotting import draw_boundary_layer, draw_cp
 
-    fig = Figure(figsize=(max(width_px, 50) / dpi, max(height_px, 50) / dpi), dpi=dpi,
-                 layout="constrained")
+    fig = Figure(
+        figsize=(max(width_px, 50) / dpi, max(height_px, 50) / dpi), dpi=dpi, layout="constrained"
+    )
     agg = FigureCanvasAgg(fig)
     if kind == "cp":
         ax = fig.add_subplot(111)

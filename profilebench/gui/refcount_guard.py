@@ -21,6 +21,8 @@ _baseline = None
 _incref = ctypes.pythonapi.Py_IncRef
 _incref.argtypes = [ctypes.py_object]
 _incref.restype = None
+
+
 def _needed() -> bool:
     try:
         import PySide6

@@ -10,9 +10,20 @@ from __future__ import annotations
 
 from PySide6.QtCore import QSize, Qt, QTimer, Signal
 from PySide6.QtGui import QImage, QPixmap
-from PySide6.QtWidgets import (QAbstractItemView, QHBoxLayout, QHeaderView, QLabel, QLineEdit,
-                               QPushButton, QSizePolicy, QTableWidget, QTableWidgetItem,
-                               QTabWidget, QVBoxLayout, QWidget)
+from PySide6.QtWidgets import (
+    QAbstractItemView,
+    QHBoxLayout,
+    QHeaderView,
+    QLabel,
+    QLineEdit,
+    QPushButton,
+    QSizePolicy,
+    QTableWidget,
+    QTableWidgetItem,
+    QTabWidget,
+    QVBoxLayout,
+    QWidget,
+)
 
 from profilebench.gui.plot_render import render_plot_rgba, warm_up
 from profilebench.gui.worker import ProcessTaskRunner
@@ -20,11 +31,20 @@ from profilebench.gui.worker import ProcessTaskRunner
 from profilebench.plotting import summary_rows
 from profilebench.plotting.summary import MARGIN_DEFINITION, corner_notes, corner_rows
 
-__all__ = ["CornerTable", "SummaryPanel", "PlotPanel", "CORNER_HEADER", "LIFT_NOTE",
-           "render_plot", "set_table_cells"]
+__all__ = [
+    "CornerTable",
+    "SummaryPanel",
+    "PlotPanel",
+    "CORNER_HEADER",
+    "LIFT_NOTE",
+    "render_plot",
+    "set_table_cells",
+]
 
-LIFT_NOTE = ("Cl: 2D section over a slip ground; the gap flow under the body cannot escape "
-             "sideways, so ground suction is overstated. Read its sign and trend only.")
+LIFT_NOTE = (
+    "Cl: 2D section over a slip ground; the gap flow under the body cannot escape "
+    "sideways, so ground suction is overstated. Read its sign and trend only."
+)
 
 
 def set_table_cells(table: QTableWidget, rows, style=None) -> int:
@@ -55,13 +75,23 @@ def set_table_cells(table: QTableWidget, rows, style=None) -> int:
         table.setUpdatesEnabled(True)
     return changed
 
-CORNER_HEADER = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "sep. margin",
-                 "table verdict", "smallest r (mm)", "ΔCd")
+
+CORNER_HEADER = (
+    "corner",
+    "r (mm)",
+    "t (mm)",
+    "r/t",
+    "solver verdict",
+    "sep. margin",
+    "table verdict",
+    "smallest r (mm)",
+    "ΔCd",
+)
 #: header tool tips of the corner table
 CORNER_TIPS = {
     5: MARGIN_DEFINITION,
     7: "the smallest radius that keeps the flow attached at these conditions (Find smallest "
-       "attached radius)",
+    "attached radius)",
     8: "the corner's drag correction from the r/t table",
 }
 #: widest the corner-name column starts (px); the full name is in the cell's tool tip
@@ -83,7 +113,7 @@ class CornerTable(QWidget):
     ``apply_requested(int, str)`` (node, margin text in %).
     """
 
-    node_selected = Signal(int)       # -1: no corner selected
+    node_selected = Signal(int)  # -1: no corner selected
     search_requested = Signal(int)
     apply_requested = Signal(int, str)
 
@@ -105,13 +135,15 @@ class CornerTable(QWidget):
         self.search_button.clicked.connect(self._search)
         self.margin = QLineEdit("20")
         self.margin.setMaximumWidth(60)
-        self.margin.setToolTip("radius allowance: per cent added to the smallest attached radius "
-                               "(not the separation margin of the table)")
+        self.margin.setToolTip(
+            "radius allowance: per cent added to the smallest attached radius "
+            "(not the separation margin of the table)"
+        )
         self.apply_button = QPushButton("Set radius to smallest + allowance")
         self.apply_button.clicked.connect(self._apply)
         self.message = QLabel("")
         self.message.setWordWrap(True)
-        self.notes = QLabel("")       # what every corner shares, said once
+        self.notes = QLabel("")  # what every corner shares, said once
         self.notes.setWordWrap(True)
         self.notes.setStyleSheet("color: #5a4500;")
         buttons = QHBoxLayout()
@@ -128,7 +160,7 @@ class CornerTable(QWidget):
         layout.addWidget(self.message)
         self._nodes: list[int] = []
         self._updating = False
-        self.last_changed = 0      # cells changed by the last set_rows
+        self.last_changed = 0  # cells changed by the last set_rows
 
     def set_rows(self, analysis, searches: dict, selected):
         """Fill from ``analysis.corners`` (via :func:`profilebench.plotting.corner_rows`)."""
@@ -154,15 +186,21 @@ class CornerTable(QWidget):
 
             def style(r, k, item):
                 c = corners[r]
-                if k in (1, 2, 3, 5, 7, 8) and item.textAlignment() != int(Qt.AlignRight | Qt.AlignVCenter):
+                if k in (1, 2, 3, 5, 7, 8) and item.textAlignment() != int(
+                    Qt.AlignRight | Qt.AlignVCenter
+                ):
                     item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
                 if k == 4:
                     sep = bool(getattr(c.verdict, "separated", False))
                     if item.data(Qt.UserRole) != sep:
                         item.setData(Qt.UserRole, sep)
                         item.setForeground(Qt.darkRed if sep else self.palette().text())
-                tip = {0: item.text(), 4: item.text(), 5: MARGIN_DEFINITION,
-                       6: c.table_verdict + (f"; {c.disagreement}" if c.disagreement else "")}.get(k)
+                tip = {
+                    0: item.text(),
+                    4: item.text(),
+                    5: MARGIN_DEFINITION,
+                    6: c.table_verdict + (f"; {c.disagreement}" if c.disagreement else ""),
+                }.get(k)
                 if tip is not None and item.toolTip() != tip:
                     item.setToolTip(tip)
 
@@ -256,7 +294,9 @@ class SummaryPanel(QWidget):
             notes.extend(d.notes)
         if comparison is not None:
             rows.append(("baseline Cd", f"{comparison.cd_before:.4f}", ""))
-            rows.append(("ΔCd", f"{comparison.delta_cd:+.4f}", f"{comparison.delta_cd_percent:+.1f}%"))
+            rows.append(
+                ("ΔCd", f"{comparison.delta_cd:+.4f}", f"{comparison.delta_cd_percent:+.1f}%")
+            )
             if comparison.delta_cda is not None:
                 rows.append(("ΔCdA", f"{comparison.delta_cda:+.4f}", "m²"))
                 rows.append(("Δ drag force", f"{comparison.delta_force:+.1f}", "N"))
@@ -332,11 +372,14 @@ class PlotPanel(QTabWidget):
         self._sizes = {"cp": None, "bl": None}
         self.images = {"cp": None, "bl": None}
         # the child starts with the first plot, so it does not slow the window's first analysis
-        self.renderer = ProcessTaskRunner(render_plot_rgba, self, warm_up=warm_up, child="plots",
-                                          start=False)
-        self._requests: dict = {}      # generation -> analysis it draws
+        self.renderer = ProcessTaskRunner(
+            render_plot_rgba, self, warm_up=warm_up, child="plots", start=False
+        )
+        self._requests: dict = {}  # generation -> analysis it draws
         self.renderer.finished.connect(self._rendered)
-        self.renderer.failed.connect(lambda g, m: self._show_text(self._kind(), f"plot failed (logged): {m}"))
+        self.renderer.failed.connect(
+            lambda g, m: self._show_text(self._kind(), f"plot failed (logged): {m}")
+        )
         self._resize_timer = QTimer(self)
         self._resize_timer.setSingleShot(True)
         self._resize_timer.timeout.connect(self._draw_current)
@@ -361,7 +404,7 @@ class PlotPanel(QTabWidget):
         self._sizes[kind] = size
         self.draws += 1
         generation = self.renderer.request(a, kind, *size)
-        self._requests = {generation: a}   # only the newest request is ever delivered
+        self._requests = {generation: a}  # only the newest request is ever delivered
 
     def _rendered(self, generation, result, seconds):
         analysis = self._requests.pop(generation, None)

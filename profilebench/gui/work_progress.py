@@ -23,7 +23,7 @@ class WorkProgress(QWidget):
         lay.setContentsMargins(0, 0, 0, 0)
         self.label = QLabel("")
         self.bar = QProgressBar()
-        self.bar.setRange(0, 0)          # busy: no fraction to show
+        self.bar.setRange(0, 0)  # busy: no fraction to show
         self.bar.setMaximumWidth(140)
         self.bar.setMaximumHeight(14)
         self.cancel_button = QPushButton("Cancel")

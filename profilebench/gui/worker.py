@@ -34,7 +34,7 @@ log = logging.getLogger("profilebench.gui")
 
 
 class _Relay(QObject):
-    done = Signal(int, object, str, float)   # generation, result, error text, seconds
+    done = Signal(int, object, str, float)  # generation, result, error text, seconds
 
 
 class _Activity:
@@ -69,14 +69,14 @@ class _Job(QRunnable):
         t0 = time.perf_counter()
         try:
             try:
-                result, error = (self.fn(*self.args),), ""   # boxed: None must not cross as itself
+                result, error = (self.fn(*self.args),), ""  # boxed: None must not cross as itself
             except Exception as exc:  # shown in the window and logged; the app goes on
                 result = ()
                 error = f"{type(exc).__name__}: {exc}"
                 log.error("%s failed in the background:\n%s", self.name, traceback.format_exc())
             try:
                 self.relay.done.emit(self.generation, result, error, time.perf_counter() - t0)
-            except RuntimeError:   # the runner was deleted meanwhile: nobody wants the result
+            except RuntimeError:  # the runner was deleted meanwhile: nobody wants the result
                 pass
         finally:
             self.activity.end()
@@ -100,12 +100,13 @@ class TaskRunner(QObject):
     failed = Signal(int, str)
     lagging = Signal(int, object, float)
 
-    def __init__(self, fn, parent=None, pool: QThreadPool | None = None,
-                 deliver_lagging: bool = False):
+    def __init__(
+        self, fn, parent=None, pool: QThreadPool | None = None, deliver_lagging: bool = False
+    ):
         super().__init__(parent)
         self.deliver_lagging = bool(deliver_lagging)
-        self._floor = 0      # generation of the newest result delivered (or cancelled up to)
-        self.lagging_delivered = 0   # superseded results delivered through ``lagging``
+        self._floor = 0  # generation of the newest result delivered (or cancelled up to)
+        self.lagging_delivered = 0  # superseded results delivered through ``lagging``
         self._fn = fn
         # Qt's shared pool unless given one; this runner keeps at most one of its jobs running
         self._pool = pool if pool is not None else QThreadPool.globalInstance()
@@ -117,7 +118,7 @@ class TaskRunner(QObject):
         self._pending = None
         self._running = False
         self._closed = False
-        self.dropped = 0     # stale results dropped (for tests and the benchmark)
+        self.dropped = 0  # stale results dropped (for tests and the benchmark)
         self.started = 0
 
     @property
@@ -200,8 +201,15 @@ class ProcessTaskRunner(TaskRunner):
     Results come back through the same signals, on the GUI thread.
     """
 
-    def __init__(self, fn, parent=None, warm_up=None, child: str = "default", start: bool = True,
-                 deliver_lagging: bool = False):
+    def __init__(
+        self,
+        fn,
+        parent=None,
+        warm_up=None,
+        child: str = "default",
+        start: bool = True,
+        deliver_lagging: bool = False,
+    ):
         super().__init__(fn, parent, deliver_lagging=deliver_lagging)
         self._child = shared_child(child)
         self._warm_up = warm_up
@@ -218,7 +226,7 @@ class ProcessTaskRunner(TaskRunner):
         """Run ``fn(*args)`` for request ``generation`` in the child process."""
         relay, activity, name, t0 = self._relay, self._activity, self.name, time.perf_counter()
 
-        def done(ok, payload, seconds):     # on the reader thread; seconds: the child's run time
+        def done(ok, payload, seconds):  # on the reader thread; seconds: the child's run time
             try:
                 if ok:
                     result, error = (payload,), ""
@@ -228,7 +236,7 @@ class ProcessTaskRunner(TaskRunner):
                 try:
                     took = seconds if seconds is not None else time.perf_counter() - t0
                     relay.done.emit(generation, result, error, took)
-                except RuntimeError:   # the runner was deleted meanwhile: nobody wants it
+                except RuntimeError:  # the runner was deleted meanwhile: nobody wants it
                     pass
             finally:
                 activity.end()
@@ -252,8 +260,13 @@ class AnalysisRunner(ProcessTaskRunner):
 
     def __init__(self, parent=None, analyze_fn=None, deliver_lagging: bool = False):
         if analyze_fn is None:
-            super().__init__(_ANALYZE_IN_CHILD, parent, warm_up=_IMPORT_ANALYSIS, child="analysis",
-                             deliver_lagging=deliver_lagging)
+            super().__init__(
+                _ANALYZE_IN_CHILD,
+                parent,
+                warm_up=_IMPORT_ANALYSIS,
+                child="analysis",
+                deliver_lagging=deliver_lagging,
+            )
             self.name = "analyze"
         else:
             TaskRunner.__init__(self, analyze_fn, parent, deliver_lagging=deliver_lagging)

@@ -25,16 +25,23 @@ from pathlib import Path
 from typing import BinaryIO, Callable, TextIO
 
 from profilebench.errors import ProjectFileError
+
 # the bounded input reader lives below every layer (the r/t tables of assess read with it too)
 from profilebench.input_files import check_input_file, megabytes, read_input_bytes  # noqa: F401
 
-try:                    # POSIX: a writer holds a lock on its temporary file while it writes
+try:  # POSIX: a writer holds a lock on its temporary file while it writes
     import fcntl
-except ImportError:     # pragma: no cover - Windows: stale files are recognised by age instead
+except ImportError:  # pragma: no cover - Windows: stale files are recognised by age instead
     fcntl = None
 
-__all__ = ["atomic_write_text", "atomic_write_bytes", "read_input_bytes", "check_input_file",
-           "check_writable", "megabytes"]
+__all__ = [
+    "atomic_write_text",
+    "atomic_write_bytes",
+    "read_input_bytes",
+    "check_input_file",
+    "check_writable",
+    "megabytes",
+]
 
 #: without file locks (Windows), a temporary file this old (s) counts as left by a dead writer
 STALE_TMP_SECONDS = 3600.0
@@ -60,8 +67,9 @@ def _real_target(path) -> Path:
                 raise ProjectFileError(
                     f"cannot save to {str(target)!r}: it is a link that loops or leads to a "
                     f"missing folder ({str(resolved)!r}); remove the link or choose another "
-                    "location") from None
-            return resolved        # a link to a file not yet written: create that file
+                    "location"
+                ) from None
+            return resolved  # a link to a file not yet written: create that file
     return target
 
 
@@ -69,31 +77,39 @@ def _target_and_folder(path) -> tuple[Path, Path]:
     """The file a save of ``path`` writes (a link's target) and its folder, both checked."""
     shown = str(path)
     if "\0" in shown:
-        raise ProjectFileError(f"cannot save to {shown!r}: a file name cannot hold a NUL "
-                               "character; choose another name")
+        raise ProjectFileError(
+            f"cannot save to {shown!r}: a file name cannot hold a NUL "
+            "character; choose another name"
+        )
     name = Path(path).name
     if len(os.fsencode(name)) > NAME_MAX:
-        raise ProjectFileError(f"cannot save to {shown!r}: the file name is {len(name)} "
-                               f"characters, over the {NAME_MAX} a file system allows; choose a "
-                               "shorter name")
+        raise ProjectFileError(
+            f"cannot save to {shown!r}: the file name is {len(name)} "
+            f"characters, over the {NAME_MAX} a file system allows; choose a "
+            "shorter name"
+        )
     try:
         target = _real_target(path)
         folder = target.parent if str(target.parent) else Path(".")
         if target.is_dir():
             raise ProjectFileError(
                 f"cannot save to {str(target)!r}: it is a folder; give a file name such as "
-                f"{str(target / 'project.json')!r}")
+                f"{str(target / 'project.json')!r}"
+            )
         if folder.exists() and not folder.is_dir():
             raise ProjectFileError(
                 f"cannot save to {str(target)!r}: {str(folder)!r} is a file, not a folder; "
-                "choose another location")
+                "choose another location"
+            )
         if not folder.is_dir():
             raise ProjectFileError(
                 f"cannot save to {str(target)!r}: the folder {str(folder)!r} does not exist; "
-                "create it first or choose another location")
-    except OSError as exc:      # a folder name too long, a folder that cannot be entered
-        raise ProjectFileError(f"cannot save to {shown!r}: {exc.strerror or exc}; choose "
-                               "another location") from exc
+                "create it first or choose another location"
+            )
+    except OSError as exc:  # a folder name too long, a folder that cannot be entered
+        raise ProjectFileError(
+            f"cannot save to {shown!r}: {exc.strerror or exc}; choose another location"
+        ) from exc
     return target, folder
 
 
@@ -118,7 +134,7 @@ def _is_stale(name: str, folder: Path) -> bool:
         try:
             fcntl.flock(fd, fcntl.LOCK_EX | fcntl.LOCK_NB)
         except OSError:
-            return False       # a writer holds it: a save in progress
+            return False  # a writer holds it: a save in progress
         return True
     finally:
         os.close(fd)
@@ -168,8 +184,9 @@ def atomic_write_bytes(path, write: Callable[[BinaryIO], None]) -> Path:
     return _atomic_write(path, write, {"mode": "wb"})
 
 
-def atomic_write_text(path, write: Callable[[TextIO], None], *, encoding: str = "utf-8",
-                      errors: str = "strict") -> Path:
+def atomic_write_text(
+    path, write: Callable[[TextIO], None], *, encoding: str = "utf-8", errors: str = "strict"
+) -> Path:
     """Write a text file atomically.
 
     Parameters
@@ -193,21 +210,22 @@ def atomic_write_text(path, write: Callable[[TextIO], None], *, encoding: str = 
         fails while writing (the original error is chained as ``__cause__``). The previous
         file, if any, is intact and no temporary file is left behind.
     """
-    return _atomic_write(path, write, {"mode": "w", "encoding": encoding, "errors": errors,
-                                       "newline": "\n"})
+    return _atomic_write(
+        path, write, {"mode": "w", "encoding": encoding, "errors": errors, "newline": "\n"}
+    )
 
 
 def _atomic_write(path, write, open_args: dict) -> Path:
     target, folder = _target_and_folder(path)
     mode = _file_mode_for(target)
     try:
-        fd, tmp_name = tempfile.mkstemp(prefix=_temporary_prefix(target), suffix=".tmp",
-                                        dir=folder)
+        fd, tmp_name = tempfile.mkstemp(prefix=_temporary_prefix(target), suffix=".tmp", dir=folder)
     except OSError as exc:
         raise ProjectFileError(
             f"cannot save to {str(target)!r}: {exc.strerror or exc} (a file cannot be created in "
             f"{str(folder)!r}); nothing was written. Choose a folder you can write to, or a "
-            "shorter file name") from exc
+            "shorter file name"
+        ) from exc
     tmp = Path(tmp_name)
     in_place = False
     lock = _lock(fd)
@@ -232,7 +250,8 @@ def _atomic_write(path, write, open_args: dict) -> Path:
             raise ProjectFileError(
                 f"could not rewrite the hard-linked file {str(target)!r} in place: "
                 f"{type(exc).__name__}: {exc}; it may be incomplete, and the complete new "
-                f"content is in {str(tmp)!r}: copy that file over it") from exc
+                f"content is in {str(tmp)!r}: copy that file over it"
+            ) from exc
         try:
             tmp.unlink()
         except FileNotFoundError:
@@ -258,11 +277,11 @@ def _lock(fd: int) -> int | None:
     writing descriptor itself may then be closed before the rename (Windows needs that)."""
     if fcntl is None:
         return None
-    lock = os.dup(fd)      # the same open file: its lock lasts until both are closed
+    lock = os.dup(fd)  # the same open file: its lock lasts until both are closed
     try:
         fcntl.flock(lock, fcntl.LOCK_EX)
-    except OSError:     # a file system without locks: others cannot lock it either, so they
-        pass            # never take this file for a stale one
+    except OSError:  # a file system without locks: others cannot lock it either, so they
+        pass  # never take this file for a stale one
     return lock
 
 
@@ -294,10 +313,11 @@ def check_writable(path) -> Path:
     except OSError as exc:
         raise ProjectFileError(
             f"cannot write {str(target)!r}: {exc.strerror or exc} (a file cannot be created in "
-            f"{str(folder)!r}); choose a folder you can write to, or a shorter file name") from exc
+            f"{str(folder)!r}); choose a folder you can write to, or a shorter file name"
+        ) from exc
     os.close(fd)
     try:
         os.unlink(probe)
-    except FileNotFoundError:   # another save took it for a stale temporary meanwhile
+    except FileNotFoundError:  # another save took it for a stale temporary meanwhile
         pass
     return target

@@ -20,8 +20,15 @@ import profilebench
 from profilebench.errors import InputError
 from profilebench.io.atomic import atomic_write_text
 
-__all__ = ["SURFACE_COLUMNS", "CAUTION", "write_surface_csv", "write_results_json", "results_to_dict",
-           "surface_table", "run_record"]
+__all__ = [
+    "SURFACE_COLUMNS",
+    "CAUTION",
+    "write_surface_csv",
+    "write_results_json",
+    "results_to_dict",
+    "surface_table",
+    "run_record",
+]
 
 SURFACE_COLUMNS = ("surface", "s", "x", "y", "ue", "cp", "theta", "delta_star", "H", "cf", "regime")
 
@@ -81,8 +88,21 @@ def surface_table(analysis):
         regime = list(bl.regime)
         for k, i in enumerate(idx):
             j = k + off
-            rows.append((name, s_bl[j], x[i], y[i], ue[i], cp[i], float(bl.theta[j]),
-                         float(bl.delta_star[j]), float(bl.H[j]), float(bl.cf[j]), _regime(regime[j])))
+            rows.append(
+                (
+                    name,
+                    s_bl[j],
+                    x[i],
+                    y[i],
+                    ue[i],
+                    cp[i],
+                    float(bl.theta[j]),
+                    float(bl.delta_star[j]),
+                    float(bl.H[j]),
+                    float(bl.cf[j]),
+                    _regime(regime[j]),
+                )
+            )
             seen[i] = True
     for i in np.where(~seen)[0]:
         rows.append(("wake", "", x[i], y[i], ue[i], cp[i], "", "", "", "", "separated"))
@@ -117,8 +137,11 @@ def _plain(value):
     if isinstance(value, enum.Enum):
         return value.value
     if dataclasses.is_dataclass(value) and not isinstance(value, type):
-        return {f.name: _plain(getattr(value, f.name)) for f in dataclasses.fields(value)
-                if not f.name.startswith("_")}
+        return {
+            f.name: _plain(getattr(value, f.name))
+            for f in dataclasses.fields(value)
+            if not f.name.startswith("_")
+        }
     if isinstance(value, dict):
         return {str(k): _plain(v) for k, v in value.items()}
     if isinstance(value, (list, tuple)):
@@ -151,10 +174,15 @@ def run_record(analysis, created=None) -> dict:
     if hasattr(cond, "air"):
         try:
             a = cond.air
-            air = {"density_kg_m3": _plain(getattr(a, "density", None)),
-                   "kinematic_viscosity_m2_s": _plain(getattr(a, "kinematic_viscosity", None)),
-                   "source": ("given density and viscosity" if getattr(cond, "density", None)
-                              is not None else "ISO 2533 standard atmosphere")}
+            air = {
+                "density_kg_m3": _plain(getattr(a, "density", None)),
+                "kinematic_viscosity_m2_s": _plain(getattr(a, "kinematic_viscosity", None)),
+                "source": (
+                    "given density and viscosity"
+                    if getattr(cond, "density", None) is not None
+                    else "ISO 2533 standard atmosphere"
+                ),
+            }
         except Exception:  # conditions that give no air still get a record of what was asked
             air = None
     tables = sorted({c.table_name for c in analysis.corners if getattr(c, "table_name", "")})

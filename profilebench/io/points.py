@@ -117,7 +117,8 @@ def _header_unit(cells) -> str | None:
             found.add("m")
     if len(found) > 1:
         raise ProjectFileError(
-            f"the header {list(cells)} names both mm and m; use one unit for x and y")
+            f"the header {list(cells)} names both mm and m; use one unit for x and y"
+        )
     return found.pop() if found else None
 
 
@@ -160,7 +161,9 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
     try:
         text = raw.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
-        raise ProjectFileError(f"{shown!r} is not UTF-8 text (byte {exc.start}); save it as UTF-8 CSV") from exc
+        raise ProjectFileError(
+            f"{shown!r} is not UTF-8 text (byte {exc.start}); save it as UTF-8 CSV"
+        ) from exc
 
     lines = []  # (line number, content without comment)
     for number, line in enumerate(text.splitlines(), start=1):
@@ -168,8 +171,10 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         if content:
             lines.append((number, content))
     if not lines:
-        raise ProjectFileError(f"{shown!r} holds no points (only blank lines or comments); "
-                               "choose the CSV file that holds the x, y columns")
+        raise ProjectFileError(
+            f"{shown!r} holds no points (only blank lines or comments); "
+            "choose the CSV file that holds the x, y columns"
+        )
 
     first = lines[0][1]
     delimiter = "\t" if "\t" in first else ";" if ";" in first else "," if "," in first else " "
@@ -187,14 +192,16 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         elif len(header) != 2:
             raise ProjectFileError(
                 f"{shown!r} line 1: the header has {len(header)} columns {list(header)}; name "
-                "exactly one 'x' and one 'y' column, or give two columns only")
+                "exactly one 'x' and one 'y' column, or give two columns only"
+            )
         # else: two columns whose header names no x and y: taken as x, y in that order
     ncols = len(header) if header is not None else 2
 
-    if len(lines) > MAX_POINTS:         # the header row is already taken off
+    if len(lines) > MAX_POINTS:  # the header row is already taken off
         raise ProjectFileError(
             f"{shown!r} has {len(lines)} points, over the limit of {MAX_POINTS} for an "
-            "outline; thin it out (keep every second or tenth point) and import it again")
+            "outline; thin it out (keep every second or tenth point) and import it again"
+        )
     rows, row_lines = [], []
     decimal_comma = False
     for number, content in lines:
@@ -203,26 +210,30 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
             raise ProjectFileError(
                 f"{shown!r} line {number}: {len(cells)} column(s), expected {ncols}"
                 + (" (x, y)" if ncols == 2 else f" as in the header {list(header)}")
-                + "; fix that line or remove it")
+                + "; fix that line or remove it"
+            )
         values = []
         for col in columns:
             parsed = _to_float(cells[col], delimiter)
             if parsed is None:
                 raise ProjectFileError(
                     f"{shown!r} line {number}, column {col + 1}: {excerpt(cells[col])} is not a "
-                    "number; fix that cell or remove the line")
+                    "number; fix that cell or remove the line"
+                )
             value, used = parsed
             if not math.isfinite(value):
                 raise ProjectFileError(
                     f"{shown!r} line {number}, column {col + 1}: {excerpt(cells[col])} is not a "
-                    "finite number; remove or fix that point")
+                    "finite number; remove or fix that point"
+                )
             decimal_comma |= used
             values.append(value)
         rows.append(values)
         row_lines.append(number)
     if len(rows) < 3:
         raise ProjectFileError(
-            f"{shown!r} has {len(rows)} point(s); an outline needs at least 3: add points")
+            f"{shown!r} has {len(rows)} point(s); an outline needs at least 3: add points"
+        )
     pts = np.asarray(rows, dtype=float)
 
     header_unit = _header_unit(header) if header is not None else None
@@ -230,7 +241,8 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         if header_unit is not None and header_unit != units:
             raise ProjectFileError(
                 f"{shown!r}: units={units!r} was asked for but the header {list(header)} says "
-                f"{header_unit!r}; fix the header or ask for {header_unit!r}")
+                f"{header_unit!r}; fix the header or ask for {header_unit!r}"
+            )
         chosen, reason = units, f"units={units!r} was asked for"
     elif header_unit is not None:
         chosen, reason = header_unit, f"the header {list(header)} names {header_unit}"
@@ -250,7 +262,8 @@ def import_points_csv(path, units: str = "auto") -> PointImport:
         raise ProjectFileError(
             f"{shown!r} line {row_lines[k]}: the point ({rows[k][0]:.4g}, {rows[k][1]:.4g}) {chosen} "
             f"lies beyond {MAX_COORDINATE:g} m from the origin, farther than any vehicle; fix "
-            "that point, or give the unit (units='mm' or 'm') if it was misread")
+            "that point, or give the unit (units='mm' or 'm') if it was misread"
+        )
     return PointImport(pts, chosen, reason, delimiter, decimal_comma, header)
 
 
@@ -302,8 +315,12 @@ def _turning_angles(pts: np.ndarray) -> np.ndarray:
     return np.degrees(np.abs(np.arctan2(cross, dot)))
 
 
-def profile_from_points(points, name: str = "imported", simplify_tolerance: float | None = None,
-                        sharp_angle: float = 30.0) -> Profile:
+def profile_from_points(
+    points,
+    name: str = "imported",
+    simplify_tolerance: float | None = None,
+    sharp_angle: float = 30.0,
+) -> Profile:
     """An editable profile with nodes at the given outline points.
 
     Parameters
@@ -329,8 +346,11 @@ def profile_from_points(points, name: str = "imported", simplify_tolerance: floa
         Bad points, tolerance or angle, or fewer than 3 distinct nodes left.
     """
     pts = _as_points(points)
-    if not (isinstance(sharp_angle, (int, float)) and not isinstance(sharp_angle, bool)
-            and 0.0 < sharp_angle < 180.0):
+    if not (
+        isinstance(sharp_angle, (int, float))
+        and not isinstance(sharp_angle, bool)
+        and 0.0 < sharp_angle < 180.0
+    ):
         raise InputError(f"sharp_angle must be between 0 and 180 degrees, got {sharp_angle!r}")
     keep = np.ones(len(pts), dtype=bool)
     keep[1:] = np.any(pts[1:] != pts[:-1], axis=1)
@@ -341,9 +361,15 @@ def profile_from_points(points, name: str = "imported", simplify_tolerance: floa
         raise InputError(f"only {len(pts)} distinct point(s); an outline needs at least 3")
     if simplify_tolerance is not None:
         tol = simplify_tolerance
-        if isinstance(tol, bool) or not isinstance(tol, (int, float)) or not math.isfinite(tol) or tol <= 0:
+        if (
+            isinstance(tol, bool)
+            or not isinstance(tol, (int, float))
+            or not math.isfinite(tol)
+            or tol <= 0
+        ):
             raise InputError(
-                f"simplify_tolerance must be a positive distance in metres or None, got {tol!r}")
+                f"simplify_tolerance must be a positive distance in metres or None, got {tol!r}"
+            )
         import shapely
         from shapely.geometry import LinearRing
 
@@ -356,9 +382,11 @@ def profile_from_points(points, name: str = "imported", simplify_tolerance: floa
             raise InputError(
                 f"simplify_tolerance {tol!r} m is too large for this outline: the reduced "
                 f"outline would lie up to {deviation:.4g} m from the points; use a smaller "
-                "tolerance")
+                "tolerance"
+            )
         pts = reduced
     turn = _turning_angles(pts)
-    nodes = tuple(Node(float(x), float(y), 0.0, bool(a <= sharp_angle))
-                  for (x, y), a in zip(pts, turn))
+    nodes = tuple(
+        Node(float(x), float(y), 0.0, bool(a <= sharp_angle)) for (x, y), a in zip(pts, turn)
+    )
     return Profile(nodes, name=name)

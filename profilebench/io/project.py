@@ -127,7 +127,9 @@ class Underlay:
             try:
                 a, b = value
             except (TypeError, ValueError) as exc:
-                raise InputError(f"underlay {name} must be two (x, y) points, got {value!r}") from exc
+                raise InputError(
+                    f"underlay {name} must be two (x, y) points, got {value!r}"
+                ) from exc
             pa, pb = _pair(a, f"underlay {name}[0]"), _pair(b, f"underlay {name}[1]")
             if pa == pb:
                 raise InputError(
@@ -167,7 +169,9 @@ class Project:
 
     def __post_init__(self):
         if not isinstance(self.profile, Profile):
-            raise InputError(f"project profile must be a Profile, got {type(self.profile).__name__}")
+            raise InputError(
+                f"project profile must be a Profile, got {type(self.profile).__name__}"
+            )
         if not isinstance(self.conditions, _conditions_class()):
             raise InputError(
                 f"project conditions must be a Conditions, got {type(self.conditions).__name__}"
@@ -278,7 +282,11 @@ def _show(value) -> str:
         return repr(value)
     if isinstance(value, float) and not math.isfinite(value):
         return repr(value)
-    text = json.dumps(value, ensure_ascii=True) if isinstance(value, (str, int, float, bool, type(None))) else type(value).__name__
+    text = (
+        json.dumps(value, ensure_ascii=True)
+        if isinstance(value, (str, int, float, bool, type(None)))
+        else type(value).__name__
+    )
     return text if len(text) <= 60 else text[:57] + "..."
 
 
@@ -307,13 +315,17 @@ def _obj(value, path: str, what: str = "an object") -> dict:
 def _keys(d: dict, path: str, required: tuple, optional: tuple) -> None:
     for key in required:
         if key not in d:
-            _fail(_join(path, key), "missing field; add it (see the project format in "
-                  "profilebench.io.project)")
+            _fail(
+                _join(path, key),
+                "missing field; add it (see the project format in profilebench.io.project)",
+            )
     allowed = set(required) | set(optional)
     for key in d:
         if key not in allowed:
-            _fail(_join(path, key), f"unknown field; expected only {sorted(allowed)} "
-                  "(check the spelling)")
+            _fail(
+                _join(path, key),
+                f"unknown field; expected only {sorted(allowed)} (check the spelling)",
+            )
 
 
 def _join(path: str, key: str) -> str:
@@ -339,8 +351,11 @@ def _string(value, path: str) -> str:
         _fail(path, f"expected a string, got {_show(value)}")
     surrogate = next((i for i, c in enumerate(value) if "\ud800" <= c <= "\udfff"), None)
     if surrogate is not None:
-        _fail(path, f"holds a lone surrogate {value[surrogate]!r} at character {surrogate}, which "
-              "is not a character (no file or screen can show it); fix or retype that text")
+        _fail(
+            path,
+            f"holds a lone surrogate {value[surrogate]!r} at character {surrogate}, which "
+            "is not a character (no file or screen can show it); fix or retype that text",
+        )
     return value
 
 
@@ -351,7 +366,7 @@ def _boolean(value, path: str) -> bool:
 
 
 def _node_from_dict(d, path: str) -> Node:
-    d = _obj(d, path, "a node object {\"x\": m, \"y\": m, \"radius\": m, \"smooth\": bool, \"label\": str}")
+    d = _obj(d, path, 'a node object {"x": m, "y": m, "radius": m, "smooth": bool, "label": str}')
     _keys(d, path, ("x", "y"), ("radius", "smooth", "label"))
     x = _number(d["x"], _join(path, "x"))
     y = _number(d["y"], _join(path, "y"))
@@ -359,11 +374,17 @@ def _node_from_dict(d, path: str) -> Node:
     smooth = _boolean(d.get("smooth", False), _join(path, "smooth"))
     label = _string(d.get("label", ""), _join(path, "label"))
     if radius < 0:
-        _fail(_join(path, "radius"), f"corner radius {radius!r} m is negative; use 0 for a "
-              "sharp edge or a positive radius in metres")
+        _fail(
+            _join(path, "radius"),
+            f"corner radius {radius!r} m is negative; use 0 for a "
+            "sharp edge or a positive radius in metres",
+        )
     if smooth and radius > 0:
-        _fail(path, f"node is smooth and has corner radius {radius!r} m; set radius to 0 or "
-              "smooth to false")
+        _fail(
+            path,
+            f"node is smooth and has corner radius {radius!r} m; set radius to 0 or "
+            "smooth to false",
+        )
     try:
         return Node(x, y, radius, smooth, label)
     except ProfileBenchError as exc:  # pragma: no cover - the checks above cover Node's rules
@@ -378,7 +399,7 @@ def profile_from_dict(d, path: str = "profile") -> Profile:
     ProjectFileError
         Naming the first bad field by its JSON path (``path`` is the prefix used).
     """
-    d = _obj(d, path, "a profile object {\"name\", \"trailing_edge\", \"nodes\"}")
+    d = _obj(d, path, 'a profile object {"name", "trailing_edge", "nodes"}')
     _keys(d, path, ("nodes",), ("name", "trailing_edge"))
     name = _string(d.get("name", "profile"), _join(path, "name"))
     nodes_raw = d["nodes"]
@@ -388,8 +409,11 @@ def profile_from_dict(d, path: str = "profile") -> Profile:
     if len(nodes_raw) < 3:
         _fail(npath, f"has {len(nodes_raw)} node(s); a closed outline needs at least 3")
     if len(nodes_raw) > MAX_NODES:
-        _fail(npath, f"has {len(nodes_raw)} nodes, over the limit of {MAX_NODES}; simplify the "
-              "outline (fit it with fewer nodes)")
+        _fail(
+            npath,
+            f"has {len(nodes_raw)} nodes, over the limit of {MAX_NODES}; simplify the "
+            "outline (fit it with fewer nodes)",
+        )
     nodes = tuple(_node_from_dict(n, f"{npath}[{i}]") for i, n in enumerate(nodes_raw))
     te = d.get("trailing_edge", None)
     tpath = _join(path, "trailing_edge")
@@ -406,12 +430,18 @@ def profile_from_dict(d, path: str = "profile") -> Profile:
 
 def _points2(value, path: str, unit: str):
     if not isinstance(value, list) or len(value) != 2:
-        _fail(path, f"expected two points [[a, b], [c, d]] {unit}, got {_show(value) if not isinstance(value, list) else f'a list of {len(value)}'}")
+        _fail(
+            path,
+            f"expected two points [[a, b], [c, d]] {unit}, got {_show(value) if not isinstance(value, list) else f'a list of {len(value)}'}",
+        )
     out = []
     for i, p in enumerate(value):
         ppath = f"{path}[{i}]"
         if not isinstance(p, list) or len(p) != 2:
-            _fail(ppath, f"expected a point [a, b] {unit}, got {_kind(p) if not isinstance(p, list) else f'a list of {len(p)}'}")
+            _fail(
+                ppath,
+                f"expected a point [a, b] {unit}, got {_kind(p) if not isinstance(p, list) else f'a list of {len(p)}'}",
+            )
         out.append((_number(p[0], f"{ppath}[0]", unit), _number(p[1], f"{ppath}[1]", unit)))
     if out[0] == out[1]:
         _fail(path, "the two reference points are the same; pick two distinct points")
@@ -423,7 +453,10 @@ def _underlay_from_dict(d, path: str = "underlay") -> Underlay:
     _keys(d, path, ("path", "points_px", "points_m"), ("opacity",))
     rel = _string(d["path"], _join(path, "path"))
     if not rel.strip():
-        _fail(_join(path, "path"), "empty image path; give the image path relative to the project file")
+        _fail(
+            _join(path, "path"),
+            "empty image path; give the image path relative to the project file",
+        )
     px = _points2(d["points_px"], _join(path, "points_px"), "in pixels")
     pm = _points2(d["points_m"], _join(path, "points_m"), "in metres")
     opacity = _number(d.get("opacity", 0.5), _join(path, "opacity"), "from 0 to 1")
@@ -443,27 +476,45 @@ def project_from_dict(d) -> Project:
     d = _obj(d, "(top level)", "a JSON object")
     fmt = d.get("format", _MISSING)
     if fmt is _MISSING:
-        _fail("format", f"missing; this is not a profilebench project file (expected "
-              f"\"format\": \"{FORMAT_NAME}\")")
+        _fail(
+            "format",
+            f"missing; this is not a profilebench project file (expected "
+            f'"format": "{FORMAT_NAME}")',
+        )
     if fmt != FORMAT_NAME:
-        _fail("format", f"is {_show(fmt)}, expected \"{FORMAT_NAME}\"; this is not a "
-              "profilebench project file")
+        _fail(
+            "format",
+            f'is {_show(fmt)}, expected "{FORMAT_NAME}"; this is not a profilebench project file',
+        )
     version = d.get("version", _MISSING)
     if version is _MISSING:
-        _fail("version", f"missing; add \"version\": {FORMAT_VERSION}")
+        _fail("version", f'missing; add "version": {FORMAT_VERSION}')
     if isinstance(version, bool) or not isinstance(version, int):
         _fail("version", f"expected an integer format version, got {_show(version)}")
     if version > FORMAT_VERSION:
-        _fail("version", f"file format version {version} was made by a newer profilebench "
-              f"(this one reads version {FORMAT_VERSION}); upgrade profilebench to open it")
+        _fail(
+            "version",
+            f"file format version {version} was made by a newer profilebench "
+            f"(this one reads version {FORMAT_VERSION}); upgrade profilebench to open it",
+        )
     if version != FORMAT_VERSION:
-        _fail("version", f"unknown or older file format version {version}; this profilebench "
-              f"reads version {FORMAT_VERSION} only")
-    _keys(d, "", ("format", "version", "profile", "conditions"),
-          ("units", "baseline", "underlay", "notes"))
+        _fail(
+            "version",
+            f"unknown or older file format version {version}; this profilebench "
+            f"reads version {FORMAT_VERSION} only",
+        )
+    _keys(
+        d,
+        "",
+        ("format", "version", "profile", "conditions"),
+        ("units", "baseline", "underlay", "notes"),
+    )
     if "units" in d and d["units"] != UNITS:
-        _fail("units", f"is {_show(d['units'])}; project files are in \"{UNITS}\"; convert "
-              "the lengths to metres and speeds to m/s")
+        _fail(
+            "units",
+            f'is {_show(d["units"])}; project files are in "{UNITS}"; convert '
+            "the lengths to metres and speeds to m/s",
+        )
     profile = profile_from_dict(d["profile"], "profile")
     cond_raw = _obj(d["conditions"], "conditions", "a conditions object")
     for key, value in cond_raw.items():
@@ -508,7 +559,8 @@ def _pairs_no_duplicates(pairs, counter=None):
             raise ProjectFileError(
                 f"the file holds more than {MAX_OBJECTS} JSON objects, more than a project of "
                 f"two profiles of {MAX_NODES} nodes each has; simplify the outline or choose "
-                "the right file")
+                "the right file"
+            )
     out = {}
     for key, value in pairs:
         if key in out:
@@ -544,8 +596,12 @@ def load_project(path) -> Project:
         ) from exc
     counter = [0]
     try:
-        data = json.loads(text, parse_constant=_reject_constant, parse_int=_parse_int,
-                          object_pairs_hook=lambda pairs: _pairs_no_duplicates(pairs, counter))
+        data = json.loads(
+            text,
+            parse_constant=_reject_constant,
+            parse_int=_parse_int,
+            object_pairs_hook=lambda pairs: _pairs_no_duplicates(pairs, counter),
+        )
     except json.JSONDecodeError as exc:
         if exc.pos >= len(text.rstrip()):
             raise ProjectFileError(
@@ -558,11 +614,13 @@ def load_project(path) -> Project:
         ) from exc
     except RecursionError as exc:
         raise ProjectFileError(f"{shown!r} is nested too deeply to be a project file") from exc
-    except ValueError as exc:    # ProjectFileError passes through; anything else the parser refuses
+    except ValueError as exc:  # ProjectFileError passes through; anything else the parser refuses
         if isinstance(exc, ProjectFileError):
             raise
-        raise ProjectFileError(f"{shown!r} cannot be read as a project file ({exc}); choose a "
-                               "profilebench project file") from exc
+        raise ProjectFileError(
+            f"{shown!r} cannot be read as a project file ({exc}); choose a "
+            "profilebench project file"
+        ) from exc
     return project_from_dict(data)
 
 
@@ -573,17 +631,27 @@ def _relative_parts(rel: str):
     if any(ord(c) < 32 for c in rel):
         raise ProjectFileError(
             f"underlay.path {rel!r} holds a control character (such as NUL), which no file name "
-            "can; give the image's file name relative to the project file", path="underlay.path")
+            "can; give the image's file name relative to the project file",
+            path="underlay.path",
+        )
     text = rel.replace("\\", "/")
-    if PurePosixPath(text).is_absolute() or PureWindowsPath(rel).is_absolute() or PureWindowsPath(rel).drive:
+    if (
+        PurePosixPath(text).is_absolute()
+        or PureWindowsPath(rel).is_absolute()
+        or PureWindowsPath(rel).drive
+    ):
         raise ProjectFileError(
             f"underlay.path {rel!r} is absolute; store the image path relative to the project "
-            "file's folder (put the image beside the project)", path="underlay.path")
+            "file's folder (put the image beside the project)",
+            path="underlay.path",
+        )
     parts = [s for s in PurePosixPath(text).parts if s not in ("", ".")]
     if ".." in parts:
         raise ProjectFileError(
-            f"underlay.path {rel!r} leaves the project folder (\"..\"); keep the image in the "
-            "project's folder or a sub-folder of it", path="underlay.path")
+            f'underlay.path {rel!r} leaves the project folder (".."); keep the image in the '
+            "project's folder or a sub-folder of it",
+            path="underlay.path",
+        )
     if not parts:
         raise ProjectFileError(f"underlay.path {rel!r} names no file", path="underlay.path")
     return parts
@@ -601,14 +669,18 @@ def resolve_underlay(project: Project, project_path) -> Path | None:
     try:
         base = Path(project_path).resolve().parent
         target = base.joinpath(*parts).resolve()
-    except (OSError, RuntimeError, ValueError) as exc:   # a loop of links (RuntimeError < 3.13)
+    except (OSError, RuntimeError, ValueError) as exc:  # a loop of links (RuntimeError < 3.13)
         raise ProjectFileError(
             f"underlay.path {project.underlay.path!r} cannot be followed ({exc}); put the image "
-            "itself in the project folder", path="underlay.path") from exc
+            "itself in the project folder",
+            path="underlay.path",
+        ) from exc
     if not target.is_relative_to(base):
         raise ProjectFileError(
             f"underlay.path {project.underlay.path!r} resolves to {str(target)!r}, outside the "
-            f"project folder {str(base)!r}; keep the image inside it", path="underlay.path")
+            f"project folder {str(base)!r}; keep the image inside it",
+            path="underlay.path",
+        )
     return target
 
 
@@ -622,5 +694,7 @@ def underlay_relative_path(image_path, project_path) -> str:
     if not image.is_relative_to(base):
         raise ProjectFileError(
             f"image {str(image)!r} is not inside the project folder {str(base)!r}; copy it "
-            "there first so the project can be moved with its image", path="underlay.path")
+            "there first so the project can be moved with its image",
+            path="underlay.path",
+        )
     return image.relative_to(base).as_posix()

@@ -2,7 +2,13 @@
 
 from profilebench.plotting.charts import draw_boundary_layer, draw_cp
 from profilebench.plotting.profile_view import draw_profile
-from profilebench.plotting.review import IMAGE_FORMATS, image_format, new_figure, review_figure, save_figure
+from profilebench.plotting.review import (
+    IMAGE_FORMATS,
+    image_format,
+    new_figure,
+    review_figure,
+    save_figure,
+)
 from profilebench.plotting.style import CAUTION, EVENT_STYLES
 from profilebench.plotting.summary import corner_rows, summary_rows
 

@@ -31,8 +31,14 @@ def draw_cp(ax, analysis, *, events=True, legend=True):
     """
     st = _stations_or_raise(analysis, "the Cp plot")
     for name, s in st.items():
-        ax.plot(s.x, s.cp, color=SURFACE_COLOURS[name], lw=1.4,
-                ls="-" if name == "upper" else "--", label=f"{name} surface")
+        ax.plot(
+            s.x,
+            s.cp,
+            color=SURFACE_COLOURS[name],
+            lw=1.4,
+            ls="-" if name == "upper" else "--",
+            label=f"{name} surface",
+        )
     handles = {}
     if events:
         evs = [e for e in analysis.events if e.surface in st or e.kind == "stagnation"]
@@ -90,10 +96,13 @@ def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
             ax_h.plot(s.s[keep], s.H[keep], color=colour, ls=style, lw=1.3, label=f"{name} surface")
             h_all.append(np.asarray(s.H[keep], float))
         if s.cf is not None:
-            ax_cf.plot(s.s[keep], s.cf[keep], color=colour, ls=style, lw=1.3, label=f"{name} surface")
+            ax_cf.plot(
+                s.s[keep], s.cf[keep], color=colour, ls=style, lw=1.3, label=f"{name} surface"
+            )
             cf_all.append(np.asarray(s.cf[keep], float))
-    ax_h.axhline(h_sep, color=OKABE_ITO["vermillion"], lw=1.0, ls=":",
-                 label=f"H_sep = {h_sep:g} (turbulent)")
+    ax_h.axhline(
+        h_sep, color=OKABE_ITO["vermillion"], lw=1.0, ls=":", label=f"H_sep = {h_sep:g} (turbulent)"
+    )
     ax_h.set_ylim(*H_AXIS)
     h_max = max((float(np.nanmax(h)) for h in h_all if h.size), default=H_AXIS[0])
     if h_max > H_AXIS[1]:
@@ -111,6 +120,12 @@ def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
     for ax in (ax_h, ax_cf):
         ax.grid(True, lw=0.3, alpha=0.6)
     if legend:
-        ax_h.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0), borderaxespad=0.0,
-                    title="H = delta*/theta", title_fontsize=7)
+        ax_h.legend(
+            fontsize=7,
+            loc="upper left",
+            bbox_to_anchor=(1.01, 1.0),
+            borderaxespad=0.0,
+            title="H = delta*/theta",
+            title_fontsize=7,
+        )
         ax_cf.legend(fontsize=7, loc="upper left", bbox_to_anchor=(1.01, 1.0), borderaxespad=0.0)

@@ -19,7 +19,15 @@ from __future__ import annotations
 import numpy as np
 from matplotlib.path import Path as MplPath
 
-__all__ = ["place_labels", "place_boxes", "LabelSpec", "CELL_PX", "FRONT_FRACTION", "LABEL_GID", "LEADER_GID"]
+__all__ = [
+    "place_labels",
+    "place_boxes",
+    "LabelSpec",
+    "CELL_PX",
+    "FRONT_FRACTION",
+    "LABEL_GID",
+    "LEADER_GID",
+]
 
 #: raster cell size in display pixels
 CELL_PX = 2.0
@@ -131,15 +139,26 @@ def _segments_cross(p, q, segs):
     a, b = segs[:, 0], segs[:, 1]
 
     def orient(u, v, w):
-        return (v[..., 0] - u[..., 0]) * (w[..., 1] - u[..., 1]) - (v[..., 1] - u[..., 1]) * (w[..., 0] - u[..., 0])
+        return (v[..., 0] - u[..., 0]) * (w[..., 1] - u[..., 1]) - (v[..., 1] - u[..., 1]) * (
+            w[..., 0] - u[..., 0]
+        )
 
     p = np.broadcast_to(p, a.shape)
     q = np.broadcast_to(q, a.shape)
-    return ((orient(p, q, a) * orient(p, q, b) < 0) & (orient(a, b, p) * orient(a, b, q) < 0))
+    return (orient(p, q, a) * orient(p, q, b) < 0) & (orient(a, b, p) * orient(a, b, q) < 0)
 
 
-def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_px=7.0,
-                 front_box=None, renderer=None):
+def place_labels(
+    ax,
+    specs,
+    *,
+    outline_xy,
+    obstacles=(),
+    markers_xy=(),
+    marker_px=7.0,
+    front_box=None,
+    renderer=None,
+):
     """Move each label of ``specs`` to a free place and draw its leader line.
 
     Parameters
@@ -174,7 +193,9 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
     for patch in obstacles:
         path = patch.get_path().transformed(patch.get_transform())
         polys = [poly for poly in path.to_polygons() if len(poly) >= 3]
-        (ground if getattr(patch, "get_gid", lambda: None)() == "ground-band" else hatched).extend(polys)
+        (ground if getattr(patch, "get_gid", lambda: None)() == "ground-band" else hatched).extend(
+            polys
+        )
     markers = to_px(np.asarray(markers_xy, float).reshape(-1, 2)) if len(markers_xy) else ()
     front = None
     if front_box is not None:
@@ -182,9 +203,16 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
         front = (fx0, fy0, fx1, fy1)
     anchors = to_px(np.array([s.anchor for s in specs], float).reshape(-1, 2))
     placed, crowded, crossing = place_boxes(
-        (bb.x0, bb.y0, bb.x1, bb.y1), [_box_px(s.text, renderer) for s in specs], anchors,
-        outline_px=to_px(np.asarray(outline_xy, float)), hatched_px=hatched, ground_px=ground,
-        markers_px=markers, marker_px=marker_px, front_px=front)
+        (bb.x0, bb.y0, bb.x1, bb.y1),
+        [_box_px(s.text, renderer) for s in specs],
+        anchors,
+        outline_px=to_px(np.asarray(outline_xy, float)),
+        hatched_px=hatched,
+        ground_px=ground,
+        markers_px=markers,
+        marker_px=marker_px,
+        front_px=front,
+    )
     inverse = ax.transData.inverted()
     for spec, a, (box, end) in zip(specs, anchors, placed):
         centre = ((box[0] + box[2]) / 2.0, (box[1] + box[3]) / 2.0)
@@ -195,8 +223,19 @@ def place_labels(ax, specs, *, outline_xy, obstacles=(), markers_xy=(), marker_p
     return crowded, crossing
 
 
-def place_boxes(frame, sizes, anchors, *, outline_px, hatched_px=(), ground_px=(),
-                markers_px=(), marker_px=7.0, front_px=None, front_cost=600.0):
+def place_boxes(
+    frame,
+    sizes,
+    anchors,
+    *,
+    outline_px,
+    hatched_px=(),
+    ground_px=(),
+    markers_px=(),
+    marker_px=7.0,
+    front_px=None,
+    front_cost=600.0,
+):
     """Free places for label boxes in display pixels (no drawing library needed).
 
     Parameters
@@ -226,7 +265,9 @@ def place_boxes(frame, sizes, anchors, *, outline_px, hatched_px=(), ground_px=(
     """
     ras = _Raster(frame)
     outline_px = np.asarray(outline_px, float)
-    interior = ras.fill_path(ras.empty(), MplPath(np.vstack([outline_px, outline_px[:1]]), closed=True))
+    interior = ras.fill_path(
+        ras.empty(), MplPath(np.vstack([outline_px, outline_px[:1]]), closed=True)
+    )
     hard = interior.copy()
     # the outline's line and its Cp band (5 px wide) plus the clearance
     ras.fill_polyline(hard, np.vstack([outline_px, outline_px[:1]]), 6.0 + 2 * CLEARANCE_PX)
@@ -247,9 +288,9 @@ def place_boxes(frame, sizes, anchors, *, outline_px, hatched_px=(), ground_px=(
         fx0, fy0, fx1, fy1 = front_px
         ras.fill_box(front, min(fx0, fx1), min(fy0, fy1), max(fx0, fx1), max(fy0, fy1))
     front_sat = ras.table(front)
-    labels = ras.empty()      # boxes placed (with their clearance)
+    labels = ras.empty()  # boxes placed (with their clearance)
     leader_cells = ras.empty()
-    leaders = []              # (2, 2) segments already drawn
+    leaders = []  # (2, 2) segments already drawn
     sizes = [tuple(map(float, sz)) for sz in sizes]
     anchors = np.asarray(anchors, float).reshape(-1, 2)
     gap = int(np.ceil(CLEARANCE_PX / CELL_PX))
@@ -260,10 +301,11 @@ def place_boxes(frame, sizes, anchors, *, outline_px, hatched_px=(), ground_px=(
         hi = int(np.ceil(h / CELL_PX)) + 2 * gap
         if wj >= ras.nx or hi >= ras.ny:
             return None
-        i0, j0 = np.mgrid[0:ras.ny - hi:3, 0:ras.nx - wj:3]
+        i0, j0 = np.mgrid[0 : ras.ny - hi : 3, 0 : ras.nx - wj : 3]
         i0, j0 = i0.ravel(), j0.ravel()
-        blocked = (_Raster.box_sums(hard_sat, i0, j0, hi, wj)
-                   + _Raster.box_sums(labels_sat, i0, j0, hi, wj))
+        blocked = _Raster.box_sums(hard_sat, i0, j0, hi, wj) + _Raster.box_sums(
+            labels_sat, i0, j0, hi, wj
+        )
         in_front = _Raster.box_sums(front_sat, i0, j0, hi, wj) / float(hi * wj)
         # box (px) without the clearance ring
         bx0 = ras.x0 + (j0 + gap) * CELL_PX
@@ -330,9 +372,17 @@ def place_boxes(frame, sizes, anchors, *, outline_px, hatched_px=(), ground_px=(
                 if len(good):
                     cost = score[good].astype(float)
                     for seg in segs:
-                        cost += 300.0 * _segments_cross(seg[0], seg[1], np.stack(
-                            [np.broadcast_to(anchors[k], (len(good), 2)),
-                             np.column_stack([px[good], py[good]])], axis=1))
+                        cost += 300.0 * _segments_cross(
+                            seg[0],
+                            seg[1],
+                            np.stack(
+                                [
+                                    np.broadcast_to(anchors[k], (len(good), 2)),
+                                    np.column_stack([px[good], py[good]]),
+                                ],
+                                axis=1,
+                            ),
+                        )
                     choice = (float(cost.min()), int(good[np.argmin(cost)]))
                 else:
                     free_idx = np.flatnonzero(blocked == 0)
@@ -357,8 +407,13 @@ def place_boxes(frame, sizes, anchors, *, outline_px, hatched_px=(), ground_px=(
                 box = (anchors[k][0], anchors[k][1], anchors[k][0] + w, anchors[k][1] + h)
                 end = anchors[k]
             placed[k] = (box, end)
-            ras.fill_box(labels, box[0] - CLEARANCE_PX, box[1] - CLEARANCE_PX,
-                         box[2] + CLEARANCE_PX, box[3] + CLEARANCE_PX)
+            ras.fill_box(
+                labels,
+                box[0] - CLEARANCE_PX,
+                box[1] - CLEARANCE_PX,
+                box[2] + CLEARANCE_PX,
+                box[3] + CLEARANCE_PX,
+            )
             if np.hypot(*(end - anchors[k])) > 1.0:
                 leaders.append([anchors[k], end])
                 # later boxes keep off this leader (but not off the corner's marker end of it)

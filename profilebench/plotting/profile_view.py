@@ -15,7 +15,13 @@ from matplotlib.patheffects import withStroke
 
 from profilebench.assess.results import Verdict
 from profilebench.errors import InputError
-from profilebench.plotting.labels import FRONT_FRACTION, LABEL_GID, LEADER_GID, LabelSpec, place_labels
+from profilebench.plotting.labels import (
+    FRONT_FRACTION,
+    LABEL_GID,
+    LEADER_GID,
+    LabelSpec,
+    place_labels,
+)
 from profilebench.plotting.stations import is_analysis, outline_of
 from profilebench.plotting.style import (
     BASELINE_COLOUR,
@@ -26,8 +32,15 @@ from profilebench.plotting.style import (
     SEPARATED_COLOUR,
 )
 
-__all__ = ["draw_profile", "draw_events", "bubbles", "corner_label", "CP_FLOOR", "CP_MIN_RANGE",
-           "check_cp_min"]
+__all__ = [
+    "draw_profile",
+    "draw_events",
+    "bubbles",
+    "corner_label",
+    "CP_FLOOR",
+    "CP_MIN_RANGE",
+    "check_cp_min",
+]
 
 #: gids of the hatched areas (labels keep off them; tests find them by these)
 GROUND_GID = "ground-band"
@@ -49,11 +62,15 @@ def check_cp_min(cp_min):
     try:
         v = float(cp_min)
     except (TypeError, ValueError):
-        raise InputError(f"the Cp colour scale's lowest value {cp_min!r} is not a number; give "
-                         f"one from {lo:g} to {hi:g}, such as {CP_FLOOR:g}") from None
+        raise InputError(
+            f"the Cp colour scale's lowest value {cp_min!r} is not a number; give "
+            f"one from {lo:g} to {hi:g}, such as {CP_FLOOR:g}"
+        ) from None
     if not (lo <= v <= hi):
-        raise InputError(f"the Cp colour scale's lowest value {cp_min!r} is outside "
-                         f"[{lo:g}, {hi:g}]; give one in that range, such as {CP_FLOOR:g}")
+        raise InputError(
+            f"the Cp colour scale's lowest value {cp_min!r} is outside "
+            f"[{lo:g}, {hi:g}]; give one in that range, such as {CP_FLOOR:g}"
+        )
     return v
 
 
@@ -82,12 +99,16 @@ def bubbles(events):
         for i, e in enumerate(evs):
             if e.kind != "laminar_separation":
                 continue
-            for f in evs[i + 1:]:
+            for f in evs[i + 1 :]:
                 if f.kind == "reattachment":
                     pairs.append((e, f))
                     break
-                if f.kind in ("laminar_separation", "turbulent_separation", "edge_separation",
-                              "bubble_separation"):
+                if f.kind in (
+                    "laminar_separation",
+                    "turbulent_separation",
+                    "edge_separation",
+                    "bubble_separation",
+                ):
                     break
     return pairs
 
@@ -104,9 +125,18 @@ def draw_events(ax, events, *, y_of=None, x_of=None, zorder=6):
             continue
         xs = [x_of(e) if x_of else e.x for e in evs]
         ys = [y_of(e) if y_of else e.y for e in evs]
-        h = ax.plot(xs, ys, linestyle="none", marker=st.marker, markersize=st.size,
-                    markerfacecolor=st.face, markeredgecolor=st.edge, markeredgewidth=1.0,
-                    label=st.label, zorder=zorder)[0]
+        h = ax.plot(
+            xs,
+            ys,
+            linestyle="none",
+            marker=st.marker,
+            markersize=st.size,
+            markerfacecolor=st.face,
+            markeredgecolor=st.edge,
+            markeredgewidth=1.0,
+            label=st.label,
+            zorder=zorder,
+        )[0]
         handles[kind] = h
     return handles
 
@@ -117,7 +147,10 @@ def corner_label(corner) -> str:
     name = corner.label or f"node {corner.node}"
     verdict = getattr(corner.verdict, "value", str(corner.verdict))
     second = f"r/t {corner.r_over_t:.3f}"
-    if corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES) and corner.margin is not None:
+    if (
+        corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES)
+        and corner.margin is not None
+    ):
         second += f", {100 * corner.margin:.0f}% sep. margin"
     return "\n".join(textwrap.wrap(name, 30) + [second, verdict])
 
@@ -169,24 +202,43 @@ def _label_corners(ax, corners, x, y, *, obstacles, markers, ground, scale):
     size = 7 if len(corners) <= MANY_CORNERS else 6  # imported outlines may have dozens
     for c in corners:
         colour = _label_colour(c)
-        texts.append(ax.text(
-            c.x, c.y, corner_label(c), fontsize=size, ha="center", va="center",
-            color=OKABE_ITO["black"], gid=LABEL_GID, zorder=8,
-            bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.95),
-        ))
+        texts.append(
+            ax.text(
+                c.x,
+                c.y,
+                corner_label(c),
+                fontsize=size,
+                ha="center",
+                va="center",
+                color=OKABE_ITO["black"],
+                gid=LABEL_GID,
+                zorder=8,
+                bbox=dict(boxstyle="round,pad=0.25", fc="white", ec=colour, lw=1.0, alpha=0.95),
+            )
+        )
     fig = ax.figure
     if not hasattr(fig.canvas, "get_renderer"):
         return texts
     xmin, xmax = float(np.min(x)), float(np.max(x))
     front_x = xmin + FRONT_FRACTION * (xmax - xmin)
     in_front = x <= front_x
-    front_box = (xmin - 0.02 * scale, float(np.min(y[in_front])) if not ground else 0.0,
-                 front_x, float(np.max(y[in_front])) + 0.03 * scale)
+    front_box = (
+        xmin - 0.02 * scale,
+        float(np.min(y[in_front])) if not ground else 0.0,
+        front_x,
+        float(np.max(y[in_front])) + 0.03 * scale,
+    )
     specs = [LabelSpec((c.x, c.y), t, _label_colour(c)) for c, t in zip(corners, texts)]
     outline_xy = np.column_stack([x, y])
     for attempt in range(PLACEMENT_ATTEMPTS):
-        crowded, crossing = place_labels(ax, specs, outline_xy=outline_xy, obstacles=obstacles,
-                                         markers_xy=markers, front_box=front_box)
+        crowded, crossing = place_labels(
+            ax,
+            specs,
+            outline_xy=outline_xy,
+            obstacles=obstacles,
+            markers_xy=markers,
+            front_box=front_box,
+        )
         # more room always helps a crowded label; a crossing leader gets two tries
         if crowded == 0 and (crossing == 0 or attempt >= 1) or attempt == PLACEMENT_ATTEMPTS - 1:
             break
@@ -224,9 +276,19 @@ def _shade_separated(ax, x, y, mask, depth):
         px, py = x[run], y[run]
         ox, oy = px + depth * nx[run], py + depth * ny[run]
         poly = np.column_stack([np.concatenate([px, ox[::-1]]), np.concatenate([py, oy[::-1]])])
-        handle = ax.add_patch(Polygon(poly, closed=True, facecolor=SEPARATED_COLOUR, alpha=0.35,
-                                      edgecolor="none", hatch="///", zorder=2,
-                                      label="separated flow", gid=SEPARATED_GID))
+        handle = ax.add_patch(
+            Polygon(
+                poly,
+                closed=True,
+                facecolor=SEPARATED_COLOUR,
+                alpha=0.35,
+                edgecolor="none",
+                hatch="///",
+                zorder=2,
+                label="separated flow",
+                gid=SEPARATED_GID,
+            )
+        )
     return handle
 
 
@@ -252,14 +314,35 @@ def _baseline_difference(ax, baseline_xy, current_xy):
         g = orient(g, sign=1.0)
         rings = [np.asarray(g.exterior.coords)] + [np.asarray(r.coords) for r in g.interiors]
         path = MplPath.make_compound_path(*[MplPath(r, closed=True) for r in rings])
-        handle = ax.add_patch(PathPatch(path, facecolor="none", edgecolor=BASELINE_COLOUR,
-                                        hatch="xx", linewidth=0.0, zorder=1,
-                                        label="change from baseline", gid=BASELINE_CHANGE_GID))
+        handle = ax.add_patch(
+            PathPatch(
+                path,
+                facecolor="none",
+                edgecolor=BASELINE_COLOUR,
+                hatch="xx",
+                linewidth=0.0,
+                zorder=1,
+                label="change from baseline",
+                gid=BASELINE_CHANGE_GID,
+            )
+        )
     return handle
 
 
-def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, corners=True,
-                 colorbar=True, legend=True, title=None, cp_min=CP_FLOOR):
+def draw_profile(
+    ax,
+    obj,
+    *,
+    baseline=None,
+    ground=None,
+    cp=True,
+    events=True,
+    corners=True,
+    colorbar=True,
+    legend=True,
+    title=None,
+    cp_min=CP_FLOOR,
+):
     """Draw an annotated profile at true aspect ratio onto ``ax``.
 
     Parameters
@@ -291,7 +374,9 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         For a ``cp_min`` that is not a finite number below 0.
     """
     if ax is None or not hasattr(ax, "plot"):
-        raise InputError("draw_profile needs a matplotlib Axes to draw on; got " f"{type(ax).__name__}")
+        raise InputError(
+            f"draw_profile needs a matplotlib Axes to draw on; got {type(ax).__name__}"
+        )
     check_cp_min(cp_min)
     analysis = obj if is_analysis(obj) else None
     outline = outline_of(obj)
@@ -302,8 +387,15 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     if ground is None:
         cond = getattr(analysis, "conditions", None)
         ground = bool(getattr(cond, "ground", True))
-    out = {"outline": None, "cp": None, "colorbar": None, "events": {}, "corner_labels": [],
-           "legend": None, "legend_handles": []}
+    out = {
+        "outline": None,
+        "cp": None,
+        "colorbar": None,
+        "events": {},
+        "corner_labels": [],
+        "legend": None,
+        "legend_handles": [],
+    }
     legend_handles = []
 
     if baseline is not None:
@@ -311,9 +403,19 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
         bx, by = _closed(bl.x, bl.y)
         # over the Cp band (zorder 3) and the outline, with a white halo so that it shows on
         # every colour of the band
-        legend_handles.append(ax.plot(bx, by, color=BASELINE_LINE_COLOUR, lw=1.3, ls=(0, (5, 3)),
-                                      zorder=5.5, label="baseline", gid=BASELINE_GID,
-                                      path_effects=[withStroke(linewidth=3.0, foreground="white")])[0])
+        legend_handles.append(
+            ax.plot(
+                bx,
+                by,
+                color=BASELINE_LINE_COLOUR,
+                lw=1.3,
+                ls=(0, (5, 3)),
+                zorder=5.5,
+                label="baseline",
+                gid=BASELINE_GID,
+                path_effects=[withStroke(linewidth=3.0, foreground="white")],
+            )[0]
+        )
         try:
             h = _baseline_difference(ax, np.column_stack([bl.x, bl.y]), np.column_stack([x, y]))
             if h is not None:
@@ -329,22 +431,28 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     inv = getattr(flow, "inviscid", None)
     if analysis is not None and cp and inv is not None:
         cpv = np.asarray(inv.cp, dtype=float)
-        seg = np.stack([np.column_stack([xc[:-1], yc[:-1]]), np.column_stack([xc[1:], yc[1:]])], axis=1)
+        seg = np.stack(
+            [np.column_stack([xc[:-1], yc[:-1]]), np.column_stack([xc[1:], yc[1:]])], axis=1
+        )
         seg_cp = 0.5 * (cpv + np.roll(cpv, -1))
         # A fixed colour scale from Cp = 1 (stagnation) down to cp_min, the same on every page:
         # values below it show in the end colour, flagged by the colourbar's arrow.
         norm = TwoSlopeNorm(vmin=float(cp_min), vcenter=0.0, vmax=1.0)
-        lc = LineCollection(seg, cmap=CP_COLORMAP, norm=norm, linewidths=5.0, zorder=3,
-                            capstyle="round")
+        lc = LineCollection(
+            seg, cmap=CP_COLORMAP, norm=norm, linewidths=5.0, zorder=3, capstyle="round"
+        )
         lc.set_array(seg_cp)
         ax.add_collection(lc)
         out["cp"] = lc
         if colorbar:
             saturated = float(cpv.min()) < cp_min
-            cb = ax.figure.colorbar(lc, ax=ax, fraction=0.03, pad=0.01,
-                                    extend="min" if saturated else "neither")
-            cb.set_label("Cp, colour band on the outline"
-                         + (f" (below {cp_min:g} in the end colour)" if saturated else ""))
+            cb = ax.figure.colorbar(
+                lc, ax=ax, fraction=0.03, pad=0.01, extend="min" if saturated else "neither"
+            )
+            cb.set_label(
+                "Cp, colour band on the outline"
+                + (f" (below {cp_min:g} in the end colour)" if saturated else "")
+            )
             out["colorbar"] = cb
 
     if analysis is not None and flow is not None and getattr(flow, "separated", None) is not None:
@@ -362,6 +470,7 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
                 bx, by = [sep.x, rea.x], [sep.y, rea.y]
             else:
                 from profilebench.plotting.stations import surface_stations
+
                 st = {s.name: s for s in surface_stations(analysis)}[sep.surface]
                 keep = (st.s >= sep.s) & (st.s <= rea.s)
                 bx = np.concatenate([[sep.x], st.x[keep], [rea.x]])
@@ -375,19 +484,38 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
     if ground:
         strip = 0.04 * scale
         x0, x1 = float(x.min()) - 0.1 * length, float(x.max()) + 0.1 * length
-        ax.add_patch(Rectangle((x0, -strip), x1 - x0, strip, facecolor="white",
-                               edgecolor=OKABE_ITO["black"], hatch="////", linewidth=0.0, zorder=1,
-                               gid=GROUND_GID))
+        ax.add_patch(
+            Rectangle(
+                (x0, -strip),
+                x1 - x0,
+                strip,
+                facecolor="white",
+                edgecolor=OKABE_ITO["black"],
+                hatch="////",
+                linewidth=0.0,
+                zorder=1,
+                gid=GROUND_GID,
+            )
+        )
         ax.plot([x0, x1], [0.0, 0.0], color=OKABE_ITO["black"], lw=1.2, zorder=2)
-        legend_handles.append(Patch(facecolor="white", edgecolor=OKABE_ITO["black"], hatch="////",
-                                    label="ground (y = 0)"))
+        legend_handles.append(
+            Patch(
+                facecolor="white",
+                edgecolor=OKABE_ITO["black"],
+                hatch="////",
+                label="ground (y = 0)",
+            )
+        )
 
     ax.set_aspect("equal", adjustable="box")
     labelled = analysis is not None and corners and len(analysis.corners) > 0
     pad = 0.28 * scale if labelled else 0.08 * scale
     ylo = -0.06 * scale if ground else float(y.min()) - 0.6 * pad
-    _fill_box(ax, (float(x.min()) - pad, float(x.max()) + pad),
-              (min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.45 * pad))
+    _fill_box(
+        ax,
+        (float(x.min()) - pad, float(x.max()) + pad),
+        (min(ylo, float(y.min()) - 0.05 * scale), float(y.max()) + 0.45 * pad),
+    )
     ax.set_xlabel("x, rearward (m)")
     ax.set_ylabel("y, up (m)")
     if title is None:
@@ -396,13 +524,23 @@ def draw_profile(ax, obj, *, baseline=None, ground=None, cp=True, events=True, c
 
     if analysis is not None and corners:
         markers = [(e.x, e.y) for e in analysis.events] if events else []
-        hatched = [p for p in ax.patches
-                   if p.get_gid() in (GROUND_GID, SEPARATED_GID, BASELINE_CHANGE_GID)]
-        out["corner_labels"] = _label_corners(ax, tuple(analysis.corners), x, y, obstacles=hatched,
-                                              markers=markers, ground=ground, scale=scale)
+        hatched = [
+            p for p in ax.patches if p.get_gid() in (GROUND_GID, SEPARATED_GID, BASELINE_CHANGE_GID)
+        ]
+        out["corner_labels"] = _label_corners(
+            ax,
+            tuple(analysis.corners),
+            x,
+            y,
+            obstacles=hatched,
+            markers=markers,
+            ground=ground,
+            scale=scale,
+        )
 
     out["legend_handles"] = legend_handles
     if legend and legend_handles:
-        out["legend"] = ax.legend(handles=legend_handles, loc="upper left", fontsize=7,
-                                  framealpha=0.9, ncol=2)
+        out["legend"] = ax.legend(
+            handles=legend_handles, loc="upper left", fontsize=7, framealpha=0.9, ncol=2
+        )
     return out

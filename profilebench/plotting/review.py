@@ -17,20 +17,32 @@ from profilebench.io.export import run_record
 from profilebench.plotting.profile_view import CP_FLOOR, draw_profile
 from profilebench.plotting.stations import is_analysis
 from profilebench.plotting.summary import (
-    CORNER_COLUMNS, MARGIN_DEFINITION, corner_disagreements, corner_notes, corner_rows, run_lines,
+    CORNER_COLUMNS,
+    MARGIN_DEFINITION,
+    corner_disagreements,
+    corner_notes,
+    corner_rows,
+    run_lines,
     summary_rows,
 )
 from profilebench.plotting.style import CAUTION
 
-__all__ = ["review_figure", "baseline_rows", "save_figure", "IMAGE_FORMATS", "image_format",
-           "RUN_GID", "NOTES_GID"]
+__all__ = [
+    "review_figure",
+    "baseline_rows",
+    "save_figure",
+    "IMAGE_FORMATS",
+    "image_format",
+    "RUN_GID",
+    "NOTES_GID",
+]
 
 #: gids of the run block's and the notes' texts on the page
 RUN_GID = "run-block"
 NOTES_GID = "page-notes"
 
 IMAGE_FORMATS = {".png": "png", ".svg": "svg", ".pdf": "pdf"}
-PAGE_SIZE = (16.5, 11.7)     # inches, about A3 landscape (1980 x 1404 pixels at PAGE_DPI)
+PAGE_SIZE = (16.5, 11.7)  # inches, about A3 landscape (1980 x 1404 pixels at PAGE_DPI)
 PAGE_DPI = 120
 
 
@@ -42,8 +54,14 @@ def new_figure(size=PAGE_SIZE, dpi=PAGE_DPI) -> Figure:
 
 
 def _make_table(ax, header, rows, fontsize, col_widths, row_scale=1.25):
-    t = ax.table(cellText=[list(r) for r in rows], colLabels=list(header), loc="upper left",
-                 cellLoc="left", colLoc="left", colWidths=col_widths)
+    t = ax.table(
+        cellText=[list(r) for r in rows],
+        colLabels=list(header),
+        loc="upper left",
+        cellLoc="left",
+        colLoc="left",
+        colWidths=col_widths,
+    )
     t.auto_set_font_size(False)
     t.set_fontsize(fontsize)
     t.scale(1.0, row_scale)
@@ -76,21 +94,28 @@ def _table(ax, header, rows, fontsize=8, col_widths=None, bottom=None):
     t = _make_table(ax, header, rows, fontsize, col_widths, row_scale)
     t.get_window_extent(renderer)  # lays the cells out
     cells = t.get_celld()
-    fit = sum(1 for (r, c), cell in cells.items()
-              if r > 0 and c == 0 and cell.get_window_extent(renderer).y0 >= bottom - 1.0)
+    fit = sum(
+        1
+        for (r, c), cell in cells.items()
+        if r > 0 and c == 0 and cell.get_window_extent(renderer).y0 >= bottom - 1.0
+    )
     t.remove()
-    kept = rows[:max(fit - 1, 0)]
+    kept = rows[: max(fit - 1, 0)]
     more = f"+ {len(rows) - len(kept)} more (CLI, JSON)"
-    return _make_table(ax, header, kept + [(more,) + ("",) * (len(header) - 1)], fontsize,
-                       col_widths, row_scale)
+    return _make_table(
+        ax, header, kept + [(more,) + ("",) * (len(header) - 1)], fontsize, col_widths, row_scale
+    )
 
 
 def baseline_rows(analysis, baseline):
     """Summary rows of a baseline analysis against ``analysis``: its Cd and the deltas
     (variant minus baseline, :func:`profilebench.assess.compare.compare`). [] when the baseline
     is a bare profile (no analysis) or either analysis did not succeed."""
-    if not (is_analysis(baseline) and getattr(baseline, "success", False)
-            and getattr(analysis, "success", False)):
+    if not (
+        is_analysis(baseline)
+        and getattr(baseline, "success", False)
+        and getattr(analysis, "success", False)
+    ):
         return []
     from profilebench.assess.compare import compare
 
@@ -132,11 +157,21 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
             f"{type(analysis).__name__}"
         )
     fig = new_figure()
-    gs = fig.add_gridspec(3, 2, height_ratios=[1.55, 1.0, 0.75], width_ratios=[1.5, 1.0],
-                          left=0.05, right=0.95, top=0.905, bottom=0.1, hspace=0.28, wspace=0.12)
+    gs = fig.add_gridspec(
+        3,
+        2,
+        height_ratios=[1.55, 1.0, 0.75],
+        width_ratios=[1.5, 1.0],
+        left=0.05,
+        right=0.95,
+        top=0.905,
+        bottom=0.1,
+        hspace=0.28,
+        wspace=0.12,
+    )
     # a strip on the left holds the marker legend, however wide the profile is
     top = gs[0, :].subgridspec(1, 2, width_ratios=[0.12, 0.88], wspace=0.02)
-    ax_prof = fig.add_subplot(top[0, 1])   # the first axes of the page
+    ax_prof = fig.add_subplot(top[0, 1])  # the first axes of the page
     ax_leg = fig.add_subplot(top[0, 0])
     ax_leg.axis("off")
     ax_cp = fig.add_subplot(gs[1, 0])
@@ -144,30 +179,56 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
     ax_cor = fig.add_subplot(gs[2, :])
     name = getattr(analysis.profile, "name", "profile")
     fig.suptitle(f"{name}: screening review", fontsize=13, weight="bold", y=0.985)
-    lines = [part for line in run_lines(run_record(analysis, created=created))
-             for part in textwrap.wrap(line, 250, subsequent_indent="    ")]
+    lines = [
+        part
+        for line in run_lines(run_record(analysis, created=created))
+        for part in textwrap.wrap(line, 250, subsequent_indent="    ")
+    ]
     fig.text(0.05, 0.962, "\n".join(lines), fontsize=8, va="top", gid=RUN_GID)
 
     out = draw_profile(ax_prof, analysis, baseline=baseline, title="", legend=False, cp_min=cp_min)
     if out["legend_handles"]:
-        ax_leg.legend(handles=out["legend_handles"], loc="upper left", fontsize=8,
-                      framealpha=0.9, borderaxespad=0.0)
+        ax_leg.legend(
+            handles=out["legend_handles"],
+            loc="upper left",
+            fontsize=8,
+            framealpha=0.9,
+            borderaxespad=0.0,
+        )
     if analysis.success and analysis.flow is not None:
         draw_cp(ax_cp, analysis)
         ax_cp.set_title("Cp along the surface", fontsize=10)
     else:
         ax_cp.axis("off")
-        ax_cp.text(0.02, 0.5, f"No flow result: {analysis.status.value}\n{analysis.message}",
-                   fontsize=10, transform=ax_cp.transAxes, va="center", wrap=True)
+        ax_cp.text(
+            0.02,
+            0.5,
+            f"No flow result: {analysis.status.value}\n{analysis.message}",
+            fontsize=10,
+            transform=ax_cp.transAxes,
+            va="center",
+            wrap=True,
+        )
 
     rows = summary_rows(analysis) + baseline_rows(analysis, baseline)
     # the summary may run down to the corner table's title
     room = ax_cor.get_window_extent(fig.canvas.get_renderer()).y1 + 0.025 * fig.bbox.height
-    _table(ax_sum, ("quantity", "value", "unit / note"), rows, fontsize=8,
-           col_widths=[0.32, 0.2, 0.48], bottom=room)
+    _table(
+        ax_sum,
+        ("quantity", "value", "unit / note"),
+        rows,
+        fontsize=8,
+        col_widths=[0.32, 0.2, 0.48],
+        bottom=room,
+    )
     ax_sum.set_title("Summary", fontsize=10, loc="left")
-    _table(ax_cor, CORNER_COLUMNS, corner_rows(analysis), fontsize=8,
-           col_widths=[0.27, 0.055, 0.055, 0.055, 0.2, 0.07, 0.12, 0.06, 0.04])
+    _table(
+        ax_cor,
+        CORNER_COLUMNS,
+        corner_rows(analysis),
+        fontsize=8,
+        col_widths=[0.27, 0.055, 0.055, 0.055, 0.2, 0.07, 0.12, 0.06, 0.04],
+    )
     ax_cor.set_title("Corners", fontsize=10, loc="left")
 
     notes = corner_notes(analysis) + [f"{n}: {d}" for n, d in corner_disagreements(analysis)]
@@ -177,8 +238,9 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
     notes.append(MARGIN_DEFINITION)
     lines = textwrap.wrap("Notes: " + " | ".join(notes), 250)
     if len(lines) > 4:
-        lines = lines[:3] + [textwrap.shorten(" ".join(lines[3:]), 230)
-                             + " (all notes: profilebench analyse FILE)"]
+        lines = lines[:3] + [
+            textwrap.shorten(" ".join(lines[3:]), 230) + " (all notes: profilebench analyse FILE)"
+        ]
     fig.text(0.05, 0.072, "\n".join(lines), fontsize=7, va="top", gid=NOTES_GID)
     fig.text(0.5, 0.012, CAUTION, ha="center", fontsize=9, weight="bold", color="#000000")
     return fig

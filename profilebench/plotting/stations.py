@@ -14,7 +14,14 @@ import numpy as np
 from profilebench.errors import InputError
 from profilebench.geometry.profile import Profile
 
-__all__ = ["Outline2D", "SurfaceStations", "outline_of", "surface_stations", "regime_name", "is_analysis"]
+__all__ = [
+    "Outline2D",
+    "SurfaceStations",
+    "outline_of",
+    "surface_stations",
+    "regime_name",
+    "is_analysis",
+]
 
 
 @dataclass(frozen=True)
@@ -23,7 +30,7 @@ class Outline2D:
 
     x: np.ndarray
     y: np.ndarray
-    source: str   # "panel stations", "panel points" or "nodes"
+    source: str  # "panel stations", "panel points" or "nodes"
 
 
 @dataclass(frozen=True)
@@ -31,11 +38,11 @@ class SurfaceStations:
     """One surface's stations in marching order, with its inviscid and boundary-layer values (SI)."""
 
     name: str
-    index: np.ndarray      # into the inviscid arrays
-    s: np.ndarray          # arc length from the stagnation point, m
+    index: np.ndarray  # into the inviscid arrays
+    s: np.ndarray  # arc length from the stagnation point, m
     x: np.ndarray
     y: np.ndarray
-    ue: np.ndarray         # edge speed / free-stream speed (magnitude)
+    ue: np.ndarray  # edge speed / free-stream speed (magnitude)
     cp: np.ndarray
     theta: np.ndarray | None
     delta_star: np.ndarray | None
@@ -109,7 +116,7 @@ def _bl_array(bl, name, offset, n):
     arr = np.asarray(arr)
     if arr.ndim != 1 or len(arr) < offset + n:
         return None
-    return arr[offset:offset + n]
+    return arr[offset : offset + n]
 
 
 def surface_stations(analysis) -> tuple[SurfaceStations, ...]:
@@ -134,23 +141,34 @@ def surface_stations(analysis) -> tuple[SurfaceStations, ...]:
         idx = np.asarray(surf.index, dtype=int)
         n = len(idx)
         s = np.asarray(surf.s, dtype=float)
-        s = s[len(s) - n:] if len(s) >= n else s
+        s = s[len(s) - n :] if len(s) >= n else s
         bl = getattr(sf, "bl", None)
         offset = 0
         if bl is not None and getattr(bl, "s", None) is not None:
             offset = max(0, len(np.asarray(bl.s)) - n)
-        arrays = {k: (_bl_array(bl, k, offset, n) if bl is not None else None)
-                  for k in ("theta", "delta_star", "H", "cf")}
+        arrays = {
+            k: (_bl_array(bl, k, offset, n) if bl is not None else None)
+            for k in ("theta", "delta_star", "H", "cf")
+        }
         regime = None
         if bl is not None and getattr(bl, "regime", None) is not None:
             reg = list(bl.regime)
             if len(reg) >= offset + n:
-                regime = tuple(regime_name(r) for r in reg[offset:offset + n])
-        out.append(SurfaceStations(
-            name=name, index=idx, s=s,
-            x=np.asarray(inv.x, float)[idx], y=np.asarray(inv.y, float)[idx],
-            ue=np.abs(np.asarray(inv.ue, float)[idx]), cp=cp_all[idx],
-            theta=arrays["theta"], delta_star=arrays["delta_star"], H=arrays["H"], cf=arrays["cf"],
-            regime=regime,
-        ))
+                regime = tuple(regime_name(r) for r in reg[offset : offset + n])
+        out.append(
+            SurfaceStations(
+                name=name,
+                index=idx,
+                s=s,
+                x=np.asarray(inv.x, float)[idx],
+                y=np.asarray(inv.y, float)[idx],
+                ue=np.abs(np.asarray(inv.ue, float)[idx]),
+                cp=cp_all[idx],
+                theta=arrays["theta"],
+                delta_star=arrays["delta_star"],
+                H=arrays["H"],
+                cf=arrays["cf"],
+                regime=regime,
+            )
+        )
     return tuple(out)

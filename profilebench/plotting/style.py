@@ -48,16 +48,31 @@ class MarkerStyle:
 EVENT_STYLES = {
     "stagnation": MarkerStyle("o", "white", OKABE_ITO["black"], "stagnation point"),
     "transition": MarkerStyle("^", OKABE_ITO["blue"], OKABE_ITO["black"], "transition"),
-    "laminar_separation": MarkerStyle("D", OKABE_ITO["orange"], OKABE_ITO["black"], "laminar separation", 8.0),
-    "reattachment": MarkerStyle("P", OKABE_ITO["bluish_green"], OKABE_ITO["black"], "bubble reattachment", 10.0),
-    "turbulent_separation": MarkerStyle("X", OKABE_ITO["vermillion"], OKABE_ITO["black"], "turbulent separation", 10.0),
-    "edge_separation": MarkerStyle("s", OKABE_ITO["reddish_purple"], OKABE_ITO["black"], "sharp-edge separation", 8.0),
-    "bubble_separation": MarkerStyle("v", "white", OKABE_ITO["vermillion"], "separation, reattaches", 9.0),
+    "laminar_separation": MarkerStyle(
+        "D", OKABE_ITO["orange"], OKABE_ITO["black"], "laminar separation", 8.0
+    ),
+    "reattachment": MarkerStyle(
+        "P", OKABE_ITO["bluish_green"], OKABE_ITO["black"], "bubble reattachment", 10.0
+    ),
+    "turbulent_separation": MarkerStyle(
+        "X", OKABE_ITO["vermillion"], OKABE_ITO["black"], "turbulent separation", 10.0
+    ),
+    "edge_separation": MarkerStyle(
+        "s", OKABE_ITO["reddish_purple"], OKABE_ITO["black"], "sharp-edge separation", 8.0
+    ),
+    "bubble_separation": MarkerStyle(
+        "v", "white", OKABE_ITO["vermillion"], "separation, reattaches", 9.0
+    ),
 }
 
 # The laminar bubble (laminar separation followed by reattachment on the same surface) is drawn
 # as a thick line along the surface between its two ends.
-BUBBLE_STYLE = {"color": OKABE_ITO["orange"], "linewidth": 5.0, "alpha": 0.8, "label": "laminar bubble"}
+BUBBLE_STYLE = {
+    "color": OKABE_ITO["orange"],
+    "linewidth": 5.0,
+    "alpha": 0.8,
+    "label": "laminar bubble",
+}
 
 SEPARATED_COLOUR = "#7f7f7f"
 BASELINE_COLOUR = "#9a9a9a"

@@ -8,11 +8,29 @@ from __future__ import annotations
 
 from profilebench.plotting.style import CAUTION
 
-__all__ = ["summary_rows", "corner_rows", "corner_notes", "corner_disagreements", "run_lines", "CORNER_COLUMNS",
-           "MARGIN_DEFINITION", "format_table", "CAUTION"]
+__all__ = [
+    "summary_rows",
+    "corner_rows",
+    "corner_notes",
+    "corner_disagreements",
+    "run_lines",
+    "CORNER_COLUMNS",
+    "MARGIN_DEFINITION",
+    "format_table",
+    "CAUTION",
+]
 
-CORNER_COLUMNS = ("corner", "r (mm)", "t (mm)", "r/t", "solver verdict", "sep. margin",
-                  "table verdict", "delta Cd", "node")
+CORNER_COLUMNS = (
+    "corner",
+    "r (mm)",
+    "t (mm)",
+    "r/t",
+    "solver verdict",
+    "sep. margin",
+    "table verdict",
+    "delta Cd",
+    "node",
+)
 
 
 #: what the "margin" column means (shown in the editor's tooltip, the README and every page)
@@ -29,14 +47,24 @@ def run_lines(record):
     c = record["conditions"]
     air = record.get("air") or {}
     if c.get("density") is not None:
-        air_text = f"air given: rho {c['density']:.4g} kg/m^3, nu {c['kinematic_viscosity']:.4g} m^2/s"
+        air_text = (
+            f"air given: rho {c['density']:.4g} kg/m^3, nu {c['kinematic_viscosity']:.4g} m^2/s"
+        )
     else:
-        air_text = (f"ISO 2533 air at {c['altitude']:g} m, {c['temperature_offset']:+g} K"
-                    + (f" (rho {air['density_kg_m3']:.4g} kg/m^3, nu "
-                       f"{air['kinematic_viscosity_m2_s']:.4g} m^2/s)" if air else ""))
+        air_text = f"ISO 2533 air at {c['altitude']:g} m, {c['temperature_offset']:+g} K" + (
+            f" (rho {air['density_kg_m3']:.4g} kg/m^3, nu "
+            f"{air['kinematic_viscosity_m2_s']:.4g} m^2/s)"
+            if air
+            else ""
+        )
     tr = c["transition"]
-    tr_text = ("free transition (Michel)" if tr == "free" else "turbulent from the stagnation point"
-               if tr == "turbulent" else f"transition forced at s = {float(tr):g} m")
+    tr_text = (
+        "free transition (Michel)"
+        if tr == "free"
+        else "turbulent from the stagnation point"
+        if tr == "turbulent"
+        else f"transition forced at s = {float(tr):g} m"
+    )
     if c.get("frontal_area") is not None:
         area = f"frontal area {c['frontal_area']:g} m^2"
     elif c.get("width") is not None:
@@ -47,14 +75,19 @@ def run_lines(record):
     if c.get("model_scale", 1.0) != 1.0 or c.get("tunnel_speed") is not None:
         ts = c.get("tunnel_speed")
         scale = f"; model scale 1:{1.0 / c['model_scale']:g}" + (
-            f" at {ts * 3.6:.1f} km/h" if ts is not None else "")
-    line1 = (f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; "
-             f"{'ground on (slip, moving belt)' if c['ground'] else 'free air (no ground)'}; "
-             f"{tr_text}; turbulent separation at H = {c['h_separation']:g}; base pressure "
-             f"Cp_b = {c['base_pressure']:g}; {c['panels']} panels; {area}{scale}")
+            f" at {ts * 3.6:.1f} km/h" if ts is not None else ""
+        )
+    line1 = (
+        f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; "
+        f"{'ground on (slip, moving belt)' if c['ground'] else 'free air (no ground)'}; "
+        f"{tr_text}; turbulent separation at H = {c['h_separation']:g}; base pressure "
+        f"Cp_b = {c['base_pressure']:g}; {c['panels']} panels; {area}{scale}"
+    )
     tables = "; ".join(record.get("tables") or []) or "none"
-    line2 = (f"r/t table: {tables}; profilebench {record['profilebench_version']}; "
-             f"made {record['created_utc'].replace('T', ' ').replace('+00:00', ' UTC')}")
+    line2 = (
+        f"r/t table: {tables}; profilebench {record['profilebench_version']}; "
+        f"made {record['created_utc'].replace('T', ' ').replace('+00:00', ' UTC')}"
+    )
     return [line1, line2]
 
 
@@ -112,7 +145,9 @@ def corner_disagreements(analysis):
     :func:`corner_notes`."""
     if _shared(c.disagreement for c in analysis.corners):
         return []
-    return [(c.label or f"node {c.node}", c.disagreement) for c in analysis.corners if c.disagreement]
+    return [
+        (c.label or f"node {c.node}", c.disagreement) for c in analysis.corners if c.disagreement
+    ]
 
 
 def corner_rows(analysis):
@@ -125,13 +160,19 @@ def corner_rows(analysis):
         # no margin for a concave corner or one already in separated flow from upstream
         in_wake = getattr(c.verdict, "name", "") in ("IN_WAKE", "CONCAVE", "CONCAVE_BUBBLE")
         margin = "" if (not c.convex or in_wake) else f"{100 * c.margin:.0f}%"
-        rows.append((
-            c.label or f"node {c.node}", f"{c.radius * 1000:.1f}",
-            f"{c.thickness * 1000:.1f}",
-            f"{c.r_over_t:.4f}", verdict, margin, "(see note)" if said_once else c.table_verdict,
-            f"{c.delta_cd:+.4f}",
-            str(c.node),
-        ))
+        rows.append(
+            (
+                c.label or f"node {c.node}",
+                f"{c.radius * 1000:.1f}",
+                f"{c.thickness * 1000:.1f}",
+                f"{c.r_over_t:.4f}",
+                verdict,
+                margin,
+                "(see note)" if said_once else c.table_verdict,
+                f"{c.delta_cd:+.4f}",
+                str(c.node),
+            )
+        )
     return rows
 
 

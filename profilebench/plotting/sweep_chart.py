@@ -25,9 +25,11 @@ VERDICT_BANDS = {
 
 def axis_scale(parameter):
     """(factor, axis label) that shows a parameter in the units users read: mm, km/h."""
-    return {"radius": (1e3, "corner radius (mm)"),
-            "displacement": (1e3, "node moved (mm)"),
-            "speed": (3.6, "speed (km/h)")}[parameter]
+    return {
+        "radius": (1e3, "corner radius (mm)"),
+        "displacement": (1e3, "node moved (mm)"),
+        "speed": (3.6, "speed (km/h)"),
+    }[parameter]
 
 
 def _band_kind(verdict):
@@ -55,21 +57,37 @@ def _shade(ax, x, verdicts, seen):
     for i, v in enumerate(verdicts):
         kind = _band_kind(v)
         colour, text = VERDICT_BANDS[kind]
-        ax.axvspan(edges[i], edges[i + 1], color=colour, alpha=0.22, lw=0,
-                   hatch="//" if kind == "failed" else None,
-                   label=None if kind in seen else text)
+        ax.axvspan(
+            edges[i],
+            edges[i + 1],
+            color=colour,
+            alpha=0.22,
+            lw=0,
+            hatch="//" if kind == "failed" else None,
+            label=None if kind in seen else text,
+        )
         seen.add(kind)
 
 
 def _marks(ax, table, scale, legend):
     knee = getattr(table, "knee", None)
     if knee is not None and knee.found:
-        ax.axvline(knee.radius * scale, color=OKABE_ITO["black"], ls="--", lw=1.2,
-                   label=f"knee {knee.radius * 1e3:.0f} mm" if legend else None)
+        ax.axvline(
+            knee.radius * scale,
+            color=OKABE_ITO["black"],
+            ls="--",
+            lw=1.2,
+            label=f"knee {knee.radius * 1e3:.0f} mm" if legend else None,
+        )
     r = table.smallest_attached_radius if table.parameter == "radius" else None
     if r is not None:
-        ax.axvline(r * scale, color=OKABE_ITO["blue"], ls=":", lw=1.6,
-                   label=f"smallest attached r {r * 1e3:.0f} mm" if legend else None)
+        ax.axvline(
+            r * scale,
+            color=OKABE_ITO["blue"],
+            ls=":",
+            lw=1.6,
+            label=f"smallest attached r {r * 1e3:.0f} mm" if legend else None,
+        )
 
 
 def sweep_figure(table, title=None):
@@ -85,14 +103,23 @@ def sweep_figure(table, title=None):
     fig = Figure(figsize=(8.0, 6.4 if has_cda else 4.4), dpi=110, layout="constrained")
     axes = fig.subplots(2 if has_cda else 1, 1, sharex=True, squeeze=False)[:, 0]
     verdicts = table.corner_verdicts() if table.corner is not None else (None,) * len(table)
-    if table.corner is None:   # no watched corner: shade the failed points only
+    if table.corner is None:  # no watched corner: shade the failed points only
         verdicts = tuple(None if not ok else _Unwatched() for ok in table.ok)
     seen = set()
-    for k, (ax, name, label) in enumerate(zip(axes, ("cd", "cda"), ("Cd (on frontal height)",
-                                                                      "CdA (m^2)"))):
+    for k, (ax, name, label) in enumerate(
+        zip(axes, ("cd", "cda"), ("Cd (on frontal height)", "CdA (m^2)"))
+    ):
         _shade(ax, x, verdicts, seen if k == 0 else set(VERDICT_BANDS))
         y = getattr(table, name)
-        ax.plot(x, y, color=OKABE_ITO["black"], marker="o", ms=4, lw=1.3, label=name.replace("cd", "Cd", 1) if k == 0 else None)
+        ax.plot(
+            x,
+            y,
+            color=OKABE_ITO["black"],
+            marker="o",
+            ms=4,
+            lw=1.3,
+            label=name.replace("cd", "Cd", 1) if k == 0 else None,
+        )
         _marks(ax, table, scale, legend=(k == 0))
         ax.set_ylabel(label)
         ax.grid(True, lw=0.3, alpha=0.6)
@@ -109,7 +136,7 @@ def sweep_figure(table, title=None):
         head += "\n" + "\n".join(textwrap.wrap(knee.message, 120))
     axes[0].set_title(head, fontsize=8)
     failed = len(table.failed)
-    foot = (f"{failed} of {len(table)} points did not succeed (hatched). " if failed else "")
+    foot = f"{failed} of {len(table)} points did not succeed (hatched). " if failed else ""
     fig.text(0.01, 0.002, foot + CAUTION, fontsize=6, wrap=True, va="bottom")
     fig.get_layout_engine().set(rect=(0, 0.05, 1, 0.95))
     return fig
@@ -132,17 +159,31 @@ def grid_figure(grid, title=None):
     r = np.asarray(grid.radii) * 1e3
     v = np.asarray(grid.speeds) * 3.6
     cd = grid.grid("cd")
-    mesh = ax.pcolormesh(_edges(r) if len(r) > 1 else r, _edges(v) if len(v) > 1 else v, cd,
-                         cmap="viridis", shading="flat")
+    mesh = ax.pcolormesh(
+        _edges(r) if len(r) > 1 else r,
+        _edges(v) if len(v) > 1 else v,
+        cd,
+        cmap="viridis",
+        shading="flat",
+    )
     fig.colorbar(mesh, ax=ax, label="Cd (on frontal height)")
     knees = [(k.radius * 1e3, s) for k, s in zip(grid.knees, v) if k is not None and k.found]
     if knees:
         ax.plot(*zip(*knees), "v", color="white", mec="black", ms=9, label="knee")
-    small = [(row.smallest_attached_radius * 1e3, s) for row, s in zip(grid.rows, v)
-             if row.smallest_attached_radius is not None]
+    small = [
+        (row.smallest_attached_radius * 1e3, s)
+        for row, s in zip(grid.rows, v)
+        if row.smallest_attached_radius is not None
+    ]
     if small:
-        ax.plot(*zip(*small), "o", color=OKABE_ITO["orange"], mec="black", ms=7,
-                label="smallest attached r")
+        ax.plot(
+            *zip(*small),
+            "o",
+            color=OKABE_ITO["orange"],
+            mec="black",
+            ms=7,
+            label="smallest attached r",
+        )
     if knees or small:
         ax.legend(fontsize=7, loc="upper right")
     ax.set_xlabel("corner radius (mm)")

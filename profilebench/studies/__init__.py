@@ -6,11 +6,36 @@ Each is a screening estimate, to be confirmed by wind tunnel or validated CFD.
 
 from profilebench.studies.points import POINT_CACHE, PointCache, PointResult, PointSpec, PointStatus
 from profilebench.studies.runner import RunStats, default_workers, run_points
-from profilebench.studies.sweep import (GridTable, Knee, SweepTable, corner_node, find_knee,
-                                        position_sweep, radius_range, radius_speed_grid,
-                                        radius_sweep, speed_sweep)
+from profilebench.studies.sweep import (
+    GridTable,
+    Knee,
+    SweepTable,
+    corner_node,
+    find_knee,
+    position_sweep,
+    radius_range,
+    radius_speed_grid,
+    radius_sweep,
+    speed_sweep,
+)
 
-__all__ = ["POINT_CACHE", "PointCache", "PointResult", "PointSpec", "PointStatus", "RunStats",
-           "default_workers", "run_points", "GridTable", "Knee", "SweepTable", "corner_node",
-           "find_knee", "position_sweep", "radius_range", "radius_speed_grid", "radius_sweep",
-           "speed_sweep"]
+__all__ = [
+    "POINT_CACHE",
+    "PointCache",
+    "PointResult",
+    "PointSpec",
+    "PointStatus",
+    "RunStats",
+    "default_workers",
+    "run_points",
+    "GridTable",
+    "Knee",
+    "SweepTable",
+    "corner_node",
+    "find_knee",
+    "position_sweep",
+    "radius_range",
+    "radius_speed_grid",
+    "radius_sweep",
+    "speed_sweep",
+]

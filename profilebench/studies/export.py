@@ -13,9 +13,16 @@ __all__ = ["sweep_rows", "write_sweep_csv", "PARAMETER_COLUMNS"]
 
 #: the first column of a sweep's CSV, by parameter
 PARAMETER_COLUMNS = {"radius": "radius_m", "displacement": "displacement_m", "speed": "speed_m_s"}
-_UNITS = {"cd": "cd", "cd_friction": "cd_friction", "cd_pressure": "cd_pressure",
-          "cd_base": "cd_base", "cd_corners": "cd_corners", "cda": "cda_m2", "force": "force_N",
-          "power": "power_W"}
+_UNITS = {
+    "cd": "cd",
+    "cd_friction": "cd_friction",
+    "cd_pressure": "cd_pressure",
+    "cd_base": "cd_base",
+    "cd_corners": "cd_corners",
+    "cda": "cda_m2",
+    "force": "force_N",
+    "power": "power_W",
+}
 
 
 def _cell(value, masked):

@@ -21,8 +21,16 @@ from profilebench.enums import TextEnum
 from profilebench.errors import ProfileBenchError
 from profilebench.geometry.profile import Profile
 
-__all__ = ["PointStatus", "PointSpec", "CornerPoint", "PointResult", "analyse_point",
-           "PointCache", "POINT_CACHE", "DRAG_FIELDS"]
+__all__ = [
+    "PointStatus",
+    "PointSpec",
+    "CornerPoint",
+    "PointResult",
+    "analyse_point",
+    "PointCache",
+    "POINT_CACHE",
+    "DRAG_FIELDS",
+]
 
 #: the drag numbers a point carries (names of DragBreakdown fields)
 DRAG_FIELDS = ("cd", "cd_friction", "cd_pressure", "cd_base", "cd_corners", "cda", "force", "power")
@@ -37,9 +45,9 @@ class PointStatus(TextEnum):
     BOUNDARY_LAYER_FAILED = AnalysisStatus.BOUNDARY_LAYER_FAILED.value
     PANELLING_FAILED = AnalysisStatus.PANELLING_FAILED.value
     IMPLAUSIBLE = AnalysisStatus.IMPLAUSIBLE.value
-    REFUSED = "refused"          # the analysis refused this point's input (its message says why)
-    ERROR = "error"              # an unexpected error in the analysis (a fault to report)
-    CANCELLED = "cancelled"      # not run: the study was cancelled first
+    REFUSED = "refused"  # the analysis refused this point's input (its message says why)
+    ERROR = "error"  # an unexpected error in the analysis (a fault to report)
+    CANCELLED = "cancelled"  # not run: the study was cancelled first
     WORKER_LOST = "worker lost"  # the worker process running it ended without an answer
 
 
@@ -58,8 +66,14 @@ class PointSpec:
         """The cache key: the outline (every node's position, radius, smooth flag and label, and
         the trailing edge), the conditions and the options; None when the table is not
         hashable (such a point is not cached)."""
-        key = (self.profile.nodes, self.profile.trailing_edge, self.conditions, self.thickness,
-               self.table, self.search_node)
+        key = (
+            self.profile.nodes,
+            self.profile.trailing_edge,
+            self.conditions,
+            self.thickness,
+            self.table,
+            self.search_node,
+        )
         try:
             hash(key)
         except TypeError:
@@ -114,25 +128,40 @@ def analyse_point(spec: PointSpec) -> PointResult:
     try:
         a = analyze(spec.profile, spec.conditions, thickness=spec.thickness, table=spec.table)
         if not a.success:
-            return PointResult(PointStatus(a.status.value), a.message,
-                               seconds=time.perf_counter() - t0)
+            return PointResult(
+                PointStatus(a.status.value), a.message, seconds=time.perf_counter() - t0
+            )
         search = None
         if spec.search_node is not None:
             search = next((s for s in a.radius_searches if s.node == spec.search_node), None)
             if search is None:
-                search = cached_radius_search(spec.profile, spec.conditions, spec.search_node,
-                                              thickness=spec.thickness)
-        corners = tuple(CornerPoint(c.node, c.label, c.verdict, float(c.margin), float(c.radius),
-                                    float(c.r_over_t)) for c in a.corners)
-        numbers = {f: (None if getattr(a.drag, f) is None else float(getattr(a.drag, f)))
-                   for f in DRAG_FIELDS}
-        return PointResult(PointStatus.SUCCESS, a.message, corners=corners, search=search,
-                           seconds=time.perf_counter() - t0, **numbers)
+                search = cached_radius_search(
+                    spec.profile, spec.conditions, spec.search_node, thickness=spec.thickness
+                )
+        corners = tuple(
+            CornerPoint(
+                c.node, c.label, c.verdict, float(c.margin), float(c.radius), float(c.r_over_t)
+            )
+            for c in a.corners
+        )
+        numbers = {
+            f: (None if getattr(a.drag, f) is None else float(getattr(a.drag, f)))
+            for f in DRAG_FIELDS
+        }
+        return PointResult(
+            PointStatus.SUCCESS,
+            a.message,
+            corners=corners,
+            search=search,
+            seconds=time.perf_counter() - t0,
+            **numbers,
+        )
     except ProfileBenchError as exc:
         return PointResult(PointStatus.REFUSED, str(exc), seconds=time.perf_counter() - t0)
     except Exception as exc:  # noqa: BLE001  a fault at one point must not end the study
-        return PointResult(PointStatus.ERROR, f"{type(exc).__name__}: {exc}",
-                           seconds=time.perf_counter() - t0)
+        return PointResult(
+            PointStatus.ERROR, f"{type(exc).__name__}: {exc}", seconds=time.perf_counter() - t0
+        )
 
 
 class PointCache:

@@ -18,8 +18,13 @@ import time
 from dataclasses import dataclass
 
 from profilebench.errors import InputError
-from profilebench.studies.points import (POINT_CACHE, PointCache, PointResult, PointStatus,
-                                         analyse_point)
+from profilebench.studies.points import (
+    POINT_CACHE,
+    PointCache,
+    PointResult,
+    PointStatus,
+    analyse_point,
+)
 
 __all__ = ["RunStats", "run_points", "default_workers", "START_METHODS"]
 
@@ -56,8 +61,10 @@ def _cancel_check(cancel):
         return cancel.is_set
     if callable(cancel):
         return lambda: bool(cancel())
-    raise InputError(f"cancel must be a threading.Event or a callable returning True to cancel, "
-                     f"got {type(cancel).__name__}")
+    raise InputError(
+        f"cancel must be a threading.Event or a callable returning True to cancel, "
+        f"got {type(cancel).__name__}"
+    )
 
 
 def _context(start_method):
@@ -67,10 +74,17 @@ def _context(start_method):
     package again)."""
     if start_method is None:
         alone = threading.active_count() == 1
-        start_method = "fork" if alone and "fork" in multiprocessing.get_all_start_methods() else "spawn"
-    if start_method not in START_METHODS or start_method not in multiprocessing.get_all_start_methods():
-        raise InputError(f"start_method {start_method!r} is not available here; give one of "
-                         f"{', '.join(m for m in START_METHODS if m in multiprocessing.get_all_start_methods())}")
+        start_method = (
+            "fork" if alone and "fork" in multiprocessing.get_all_start_methods() else "spawn"
+        )
+    if (
+        start_method not in START_METHODS
+        or start_method not in multiprocessing.get_all_start_methods()
+    ):
+        raise InputError(
+            f"start_method {start_method!r} is not available here; give one of "
+            f"{', '.join(m for m in START_METHODS if m in multiprocessing.get_all_start_methods())}"
+        )
     return multiprocessing.get_context(start_method)
 
 
@@ -138,8 +152,16 @@ def run_points(specs, workers=None, progress=None, cancel=None, cache=None, star
             cache.put(keys[i], result)
             report(i, result)
     elif todo:
-        stop = _run_parallel(specs, keys, todo, min(workers, len(todo)), cache, report, cancelled,
-                             _context(start_method))
+        stop = _run_parallel(
+            specs,
+            keys,
+            todo,
+            min(workers, len(todo)),
+            cache,
+            report,
+            cancelled,
+            _context(start_method),
+        )
     computed = 0
     for i in todo:
         if results[i] is None:
@@ -162,16 +184,18 @@ def _run_parallel(specs, keys, todo, workers, cache, report, cancelled, context)
             if cancelled():
                 stop = True
                 break
-            finished, pending = cf.wait(pending, timeout=POLL_SECONDS,
-                                        return_when=cf.FIRST_COMPLETED)
+            finished, pending = cf.wait(
+                pending, timeout=POLL_SECONDS, return_when=cf.FIRST_COMPLETED
+            )
             for f in finished:
                 i = futures[f]
                 try:
                     result = f.result()
                 except cf.process.BrokenProcessPool as exc:
-                    result = PointResult(PointStatus.WORKER_LOST,
-                                         f"the worker process analysing this point ended "
-                                         f"without an answer ({exc})")
+                    result = PointResult(
+                        PointStatus.WORKER_LOST,
+                        f"the worker process analysing this point ended without an answer ({exc})",
+                    )
                 cache.put(keys[i], result)
                 report(i, result)
     finally:

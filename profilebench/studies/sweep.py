@@ -26,9 +26,21 @@ from profilebench.geometry.profile import Profile
 from profilebench.studies.points import DRAG_FIELDS, PointSpec, PointStatus
 from profilebench.studies.runner import RunStats, run_points
 
-__all__ = ["Knee", "SweepTable", "GridTable", "KNEE_TOLERANCE", "LARGEST_FITTING_SHARE", "radius_range",
-           "corner_node", "find_knee", "radius_sweep", "position_sweep", "speed_sweep",
-           "radius_speed_grid", "ATTACHED_VERDICTS"]
+__all__ = [
+    "Knee",
+    "SweepTable",
+    "GridTable",
+    "KNEE_TOLERANCE",
+    "LARGEST_FITTING_SHARE",
+    "radius_range",
+    "corner_node",
+    "find_knee",
+    "radius_sweep",
+    "position_sweep",
+    "speed_sweep",
+    "radius_speed_grid",
+    "ATTACHED_VERDICTS",
+]
 
 #: Cd within this fraction of its attached value counts as settled (the issue's 2%)
 KNEE_TOLERANCE = 0.02
@@ -96,28 +108,45 @@ def find_knee(radii, cd, verdicts, tolerance=KNEE_TOLERANCE):
     if len(ok) < 2:
         return none(f"{len(ok)} of {len(radii)} points succeeded; a knee needs at least two")
     if not attached:
-        return none(f"the corner separates at every swept radius up to {radii[ok[-1]] * 1e3:.0f} mm,"
-                    " so Cd has no attached value; sweep to larger radii")
+        return none(
+            f"the corner separates at every swept radius up to {radii[ok[-1]] * 1e3:.0f} mm,"
+            " so Cd has no attached value; sweep to larger radii"
+        )
     value = float(np.median([float(cd[i]) for i in attached]))
     band = tolerance * abs(value)
     outside = [i for i in ok if abs(float(cd[i]) - value) > band]
-    what = (f"its attached value {value:.4f} (the median over the {len(attached)} points where "
-            "the corner is attached)")
+    what = (
+        f"its attached value {value:.4f} (the median over the {len(attached)} points where "
+        "the corner is attached)"
+    )
     if not outside:
-        return none(f"Cd stays within {tolerance:.0%} of {what} over the whole range: the knee "
-                    f"lies at or below the smallest swept radius, {radii[ok[0]] * 1e3:.0f} mm", value)
+        return none(
+            f"Cd stays within {tolerance:.0%} of {what} over the whole range: the knee "
+            f"lies at or below the smallest swept radius, {radii[ok[0]] * 1e3:.0f} mm",
+            value,
+        )
     after = [i for i in ok if i > outside[-1]]
     if len(after) < 2:
-        return none(f"Cd is still more than {tolerance:.0%} away from {what} at "
-                    f"{radii[outside[-1]] * 1e3:.0f} mm, with fewer than two points after it: Cd "
-                    "keeps changing with the radius; sweep a wider range or read the curve", value)
+        return none(
+            f"Cd is still more than {tolerance:.0%} away from {what} at "
+            f"{radii[outside[-1]] * 1e3:.0f} mm, with fewer than two points after it: Cd "
+            "keeps changing with the radius; sweep a wider range or read the curve",
+            value,
+        )
     k = after[0]
     r_k, r_before = float(radii[k]), float(radii[outside[-1]])
     failed = len(radii) - len(ok)
     note = f"; {failed} failed points left out" if failed else ""
-    return Knee(True, r_k, (r_before, r_k), value, len(attached), tolerance,
-                f"knee at {r_k * 1e3:.0f} mm (between {r_before * 1e3:.0f} and {r_k * 1e3:.0f} mm):"
-                f" from there Cd stays within {tolerance:.0%} of {what}{note}")
+    return Knee(
+        True,
+        r_k,
+        (r_before, r_k),
+        value,
+        len(attached),
+        tolerance,
+        f"knee at {r_k * 1e3:.0f} mm (between {r_before * 1e3:.0f} and {r_k * 1e3:.0f} mm):"
+        f" from there Cd stays within {tolerance:.0%} of {what}{note}",
+    )
 
 
 @dataclass(frozen=True)
@@ -198,8 +227,11 @@ class SweepTable:
     @property
     def failed(self) -> tuple:
         """(index, status, message) of every point that did not succeed (cancelled ones too)."""
-        return tuple((i, s, m) for i, (s, m) in enumerate(zip(self.status, self.messages))
-                     if s is not PointStatus.SUCCESS)
+        return tuple(
+            (i, s, m)
+            for i, (s, m) in enumerate(zip(self.status, self.messages))
+            if s is not PointStatus.SUCCESS
+        )
 
     def corner_verdicts(self, node=None) -> tuple:
         """The verdict of corner ``node`` (default the watched corner) at each point (None where
@@ -236,26 +268,46 @@ def _table(parameter, values, specs, results, stats, corner, corner_label, posit
             row.append(None if c is None else c.margin)
         margin_rows.append(row)
     margins = np.ma.MaskedArray(
-        _frozen(np.array([[0.0 if v is None else v for v in row] for row in margin_rows],
-                         dtype=float).reshape(n, m)),
-        mask=_frozen(np.array([[v is None for v in row] for row in margin_rows],
-                              dtype=bool).reshape(n, m)))
+        _frozen(
+            np.array(
+                [[0.0 if v is None else v for v in row] for row in margin_rows], dtype=float
+            ).reshape(n, m)
+        ),
+        mask=_frozen(
+            np.array([[v is None for v in row] for row in margin_rows], dtype=bool).reshape(n, m)
+        ),
+    )
     searches = [r.search for r in results]
-    smallest = _masked([s.radius if s is not None and s.status is SearchStatus.FOUND else
-                        (0.0 if s is not None and s.status is SearchStatus.ALWAYS_ATTACHED else None)
-                        for s in searches])
+    smallest = _masked(
+        [
+            s.radius
+            if s is not None and s.status is SearchStatus.FOUND
+            else (0.0 if s is not None and s.status is SearchStatus.ALWAYS_ATTACHED else None)
+            for s in searches
+        ]
+    )
     drag = {f: _masked([getattr(r, f) for r in results]) for f in DRAG_FIELDS}
     label = corner_label or (labels.get(corner, "") if corner is not None else "")
     table = SweepTable(
-        parameter=parameter, values=_frozen(np.array(values, dtype=float)), corner=corner,
-        corner_label=label, status=tuple(r.status for r in results),
-        messages=tuple(r.message for r in results), corner_nodes=tuple(nodes),
-        corner_labels=tuple(labels[k] for k in nodes), verdicts=_frozen(verdicts),
-        margins=margins, smallest_attached=smallest,
+        parameter=parameter,
+        values=_frozen(np.array(values, dtype=float)),
+        corner=corner,
+        corner_label=label,
+        status=tuple(r.status for r in results),
+        messages=tuple(r.message for r in results),
+        corner_nodes=tuple(nodes),
+        corner_labels=tuple(labels[k] for k in nodes),
+        verdicts=_frozen(verdicts),
+        margins=margins,
+        smallest_attached=smallest,
         search_status=tuple(None if s is None else s.status for s in searches),
-        profiles=tuple(s.profile for s in specs), conditions=tuple(s.conditions for s in specs),
+        profiles=tuple(s.profile for s in specs),
+        conditions=tuple(s.conditions for s in specs),
         positions=None if positions is None else _frozen(np.array(positions, dtype=float)),
-        knee=None, stats=stats, **drag)
+        knee=None,
+        stats=stats,
+        **drag,
+    )
     if parameter == "radius":
         knee = find_knee(table.values, table.cd, table.corner_verdicts())
         object.__setattr__(table, "knee", knee)
@@ -264,21 +316,24 @@ def _table(parameter, values, specs, results, stats, corner, corner_label, posit
 
 # --- inputs -----------------------------------------------------------------------------------
 
+
 def _check_profile(profile, conditions):
     if not isinstance(profile, Profile):
         raise InputError(f"profile must be a profilebench Profile, got {type(profile).__name__}")
     if conditions is None:
         return Conditions()
     if not isinstance(conditions, Conditions):
-        raise InputError(f"conditions must be a profilebench Conditions, got "
-                         f"{type(conditions).__name__}")
+        raise InputError(
+            f"conditions must be a profilebench Conditions, got {type(conditions).__name__}"
+        )
     return conditions
 
 
 def _count(n, least=2):
     if isinstance(n, bool) or not isinstance(n, (int, np.integer)) or not least <= n <= MAX_POINTS:
-        raise InputError(f"the number of points is {n!r}; give a whole number from {least} to "
-                         f"{MAX_POINTS}")
+        raise InputError(
+            f"the number of points is {n!r}; give a whole number from {least} to {MAX_POINTS}"
+        )
     return int(n)
 
 
@@ -299,8 +354,9 @@ def corner_node(profile, name) -> int:
     if isinstance(name, (int, np.integer)) and not isinstance(name, bool):
         index = int(name)
         if not 0 <= index < len(profile.nodes):
-            raise InputError(f"node {index} is not a node of the profile (0 to "
-                             f"{len(profile.nodes) - 1})")
+            raise InputError(
+                f"node {index} is not a node of the profile (0 to {len(profile.nodes) - 1})"
+            )
         return index
     text = str(name).strip()
     places = place_names(profile)
@@ -314,15 +370,18 @@ def corner_node(profile, name) -> int:
     if text.isdigit():
         return corner_node(profile, int(text))
     known = ", ".join(f"{label!r} (node {i})" for i, label in named.items() if label)
-    raise InputError(f"no corner is called {text!r}; give one of {known or 'the node numbers'}, "
-                     "or a node number")
+    raise InputError(
+        f"no corner is called {text!r}; give one of {known or 'the node numbers'}, or a node number"
+    )
 
 
 def _corner_to_sweep(profile, node):
     node = corner_node(profile, node)
     if profile.nodes[node].smooth:
-        raise GeometryError(f"node {node} is smooth (a spline passes through it), not a corner; "
-                            "make it a corner first to sweep its radius")
+        raise GeometryError(
+            f"node {node} is smooth (a spline passes through it), not a corner; "
+            "make it a corner first to sweep its radius"
+        )
     return node
 
 
@@ -335,22 +394,37 @@ def radius_range(profile, node, start=0.0, stop=None, points=15):
     start = _length("the first radius", start)
     stop = largest * LARGEST_FITTING_SHARE if stop is None else _length("the last radius", stop)
     if start < 0 or stop <= start:
-        raise InputError(f"the radius range {start * 1e3:g} to {stop * 1e3:g} mm is empty or "
-                         "negative; give 0 <= first < last")
+        raise InputError(
+            f"the radius range {start * 1e3:g} to {stop * 1e3:g} mm is empty or "
+            "negative; give 0 <= first < last"
+        )
     if stop > largest:
-        raise InputError(f"the last radius {stop * 1e3:.1f} mm does not fit at node {node}: the "
-                         f"largest that fits is {largest * 1e3:.1f} mm; give a smaller last radius")
+        raise InputError(
+            f"the last radius {stop * 1e3:.1f} mm does not fit at node {node}: the "
+            f"largest that fits is {largest * 1e3:.1f} mm; give a smaller last radius"
+        )
     return np.linspace(start, stop, points)
 
 
 # --- the sweeps -------------------------------------------------------------------------------
 
+
 def _run(specs, run_options):
     return run_points(specs, **run_options)
 
 
-def radius_sweep(profile, conditions=None, corner=0, radii=None, points=15, *, thickness=None,
-                 table=None, search=True, **run_options):
+def radius_sweep(
+    profile,
+    conditions=None,
+    corner=0,
+    radii=None,
+    points=15,
+    *,
+    thickness=None,
+    table=None,
+    search=True,
+    **run_options,
+):
     """Cd, its parts and every corner's verdict against the radius of one corner.
 
     Parameters
@@ -374,9 +448,21 @@ def radius_sweep(profile, conditions=None, corner=0, radii=None, points=15, *, t
     """
     conditions = _check_profile(profile, conditions)
     node = _corner_to_sweep(profile, corner)
-    radii = radius_range(profile, node, points=points) if radii is None else _radii(profile, node, radii)
-    specs = [PointSpec(profile.with_radius(node, float(r)), conditions, thickness, table,
-                       node if search else None) for r in radii]
+    radii = (
+        radius_range(profile, node, points=points)
+        if radii is None
+        else _radii(profile, node, radii)
+    )
+    specs = [
+        PointSpec(
+            profile.with_radius(node, float(r)),
+            conditions,
+            thickness,
+            table,
+            node if search else None,
+        )
+        for r in radii
+    ]
     results, stats = _run(specs, run_options)
     return _table("radius", radii, specs, results, stats, node, "")
 
@@ -389,13 +475,25 @@ def _radii(profile, node, radii):
         raise InputError("the radii must be finite, at least 0 and increasing")
     largest = largest_fitting_radius(profile, node)
     if values[-1] > largest:
-        raise InputError(f"the radius {values[-1] * 1e3:.1f} mm does not fit at node {node}: the "
-                         f"largest that fits is {largest * 1e3:.1f} mm")
+        raise InputError(
+            f"the radius {values[-1] * 1e3:.1f} mm does not fit at node {node}: the "
+            f"largest that fits is {largest * 1e3:.1f} mm"
+        )
     return values
 
 
-def position_sweep(profile, conditions=None, node=0, direction=(0.0, 0.0), points=11, *,
-                   corner=None, thickness=None, table=None, **run_options):
+def position_sweep(
+    profile,
+    conditions=None,
+    node=0,
+    direction=(0.0, 0.0),
+    points=11,
+    *,
+    corner=None,
+    thickness=None,
+    table=None,
+    **run_options,
+):
     """Cd and the verdicts as node ``node`` moves along ``direction``.
 
     ``direction`` (dx, dy) in m is the whole move: the points move the node by ``t * (dx, dy)``
@@ -410,18 +508,30 @@ def position_sweep(profile, conditions=None, node=0, direction=(0.0, 0.0), point
     try:
         dx, dy = (_length("the move's dx", direction[0]), _length("the move's dy", direction[1]))
     except (TypeError, IndexError):
-        raise InputError(f"direction is {direction!r}; give the move as (dx, dy) in metres") from None
+        raise InputError(
+            f"direction is {direction!r}; give the move as (dx, dy) in metres"
+        ) from None
     if dx == 0.0 and dy == 0.0:
         raise InputError("the move (dx, dy) is (0, 0); give a direction and distance in metres")
     watched = None if corner is None else _corner_to_sweep(profile, corner)
     n0 = profile.nodes[node]
     ts = np.linspace(0.0, 1.0, _count(points))
     positions = [(n0.x + t * dx, n0.y + t * dy) for t in ts]
-    specs = [PointSpec(profile.moved(node, x, y), conditions, thickness, table, watched)
-             for x, y in positions]
+    specs = [
+        PointSpec(profile.moved(node, x, y), conditions, thickness, table, watched)
+        for x, y in positions
+    ]
     results, stats = _run(specs, run_options)
-    return _table("displacement", ts * math.hypot(dx, dy), specs, results, stats,
-                  watched if watched is not None else node, "", positions=positions)
+    return _table(
+        "displacement",
+        ts * math.hypot(dx, dy),
+        specs,
+        results,
+        stats,
+        watched if watched is not None else node,
+        "",
+        positions=positions,
+    )
 
 
 def _speeds(speeds):
@@ -433,15 +543,25 @@ def _speeds(speeds):
     return values
 
 
-def speed_sweep(profile, conditions=None, speeds=(20.0, 40.0), *, corner=None, thickness=None,
-                table=None, **run_options):
+def speed_sweep(
+    profile,
+    conditions=None,
+    speeds=(20.0, 40.0),
+    *,
+    corner=None,
+    thickness=None,
+    table=None,
+    **run_options,
+):
     """Cd and the verdicts against the speed (m/s); ``corner`` as in :func:`position_sweep`.
     Each speed's conditions are checked before any point runs (a bad speed is refused)."""
     conditions = _check_profile(profile, conditions)
     values = _speeds(speeds)
     watched = None if corner is None else _corner_to_sweep(profile, corner)
-    specs = [PointSpec(profile, conditions.replace(speed=float(v)), thickness, table, watched)
-             for v in values]
+    specs = [
+        PointSpec(profile, conditions.replace(speed=float(v)), thickness, table, watched)
+        for v in values
+    ]
     results, stats = _run(specs, run_options)
     return _table("speed", values, specs, results, stats, watched, "")
 
@@ -461,8 +581,10 @@ class GridTable:
     def grid(self, name) -> np.ma.MaskedArray:
         """(speeds, radii) masked array of a per-point number ("cd", "cda", "force", ...)."""
         if name not in DRAG_FIELDS + ("smallest_attached",):
-            raise InputError(f"{name!r} is not a sweep number; give one of "
-                             f"{', '.join(DRAG_FIELDS + ('smallest_attached',))}")
+            raise InputError(
+                f"{name!r} is not a sweep number; give one of "
+                f"{', '.join(DRAG_FIELDS + ('smallest_attached',))}"
+            )
         return np.ma.vstack([getattr(row, name) for row in self.rows])
 
     @property
@@ -474,19 +596,52 @@ class GridTable:
         return self.stats.cancelled
 
 
-def radius_speed_grid(profile, conditions=None, corner=0, radii=None, speeds=(20.0, 40.0),
-                      points=15, *, thickness=None, table=None, search=True, **run_options):
+def radius_speed_grid(
+    profile,
+    conditions=None,
+    corner=0,
+    radii=None,
+    speeds=(20.0, 40.0),
+    points=15,
+    *,
+    thickness=None,
+    table=None,
+    search=True,
+    **run_options,
+):
     """Radius sweeps of ``corner`` at each of ``speeds`` (m/s), all points run together (one
     pool); the knee and the smallest attached radius per speed show how the speed moves them."""
     conditions = _check_profile(profile, conditions)
     node = _corner_to_sweep(profile, corner)
-    radii = radius_range(profile, node, points=points) if radii is None else _radii(profile, node, radii)
+    radii = (
+        radius_range(profile, node, points=points)
+        if radii is None
+        else _radii(profile, node, radii)
+    )
     speeds = _speeds(speeds)
-    specs = [PointSpec(profile.with_radius(node, float(r)), conditions.replace(speed=float(v)),
-                       thickness, table, node if search else None)
-             for v in speeds for r in radii]
+    specs = [
+        PointSpec(
+            profile.with_radius(node, float(r)),
+            conditions.replace(speed=float(v)),
+            thickness,
+            table,
+            node if search else None,
+        )
+        for v in speeds
+        for r in radii
+    ]
     results, stats = _run(specs, run_options)
     n = len(radii)
-    rows = tuple(_table("radius", radii, specs[k * n:(k + 1) * n], results[k * n:(k + 1) * n],
-                        stats, node, "") for k in range(len(speeds)))
+    rows = tuple(
+        _table(
+            "radius",
+            radii,
+            specs[k * n : (k + 1) * n],
+            results[k * n : (k + 1) * n],
+            stats,
+            node,
+            "",
+        )
+        for k in range(len(speeds))
+    )
     return GridTable(_frozen(np.array(radii, dtype=float)), _frozen(np.array(speeds)), rows, stats)

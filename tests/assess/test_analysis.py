@@ -3,6 +3,7 @@
 The physics is checked without the r/t tables where a table would make the check circular
 (solver verdicts and the smallest-attached-radius search never read a table).
 """
+
 import math
 import warnings
 
@@ -45,8 +46,20 @@ def test_every_sample_analyses_with_finite_numbers(sample_analyses, name):
     assert a.success, a.message
     d = a.drag
     # the breakdown adds up to the total (definition of the breakdown)
-    assert d.cd == pytest.approx(d.cd_friction + d.cd_pressure + d.cd_base + d.cd_corners, abs=1e-12)
-    for v in (d.cd, d.cl, d.cd_friction, d.cd_pressure, d.cd_base, d.cd_corners, d.cda, d.force, d.power):
+    assert d.cd == pytest.approx(
+        d.cd_friction + d.cd_pressure + d.cd_base + d.cd_corners, abs=1e-12
+    )
+    for v in (
+        d.cd,
+        d.cl,
+        d.cd_friction,
+        d.cd_pressure,
+        d.cd_base,
+        d.cd_corners,
+        d.cda,
+        d.force,
+        d.power,
+    ):
         assert _finite(v)
     assert d.cd_friction > 0 and d.cd_base > 0
     for c in a.corners:
@@ -64,7 +77,7 @@ def test_force_and_power_follow_from_cd(sample_analyses):
     a = sample_analyses["kestrel_hatch"]
     c = a.conditions
     area = c.reference_area(a.measures.height)
-    assert a.drag.force == pytest.approx(0.5 * c.rho * c.speed ** 2 * a.drag.cd * area, rel=1e-12)
+    assert a.drag.force == pytest.approx(0.5 * c.rho * c.speed**2 * a.drag.cd * area, rel=1e-12)
     assert a.drag.power == pytest.approx(a.drag.force * c.speed, rel=1e-12)
     assert a.drag.cda == pytest.approx(a.drag.cd * area, rel=1e-12)
 
@@ -168,8 +181,10 @@ def body_sweep(body_searches):
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
         sharp = analyze(_body(0.0), c).drag.cd
-        attached = {rh: analyze(_body(rh * BODY_H), c).drag.cd
-                    for rh in np.linspace(r_min / BODY_H + 0.005, 0.25, 5)}
+        attached = {
+            rh: analyze(_body(rh * BODY_H), c).drag.cd
+            for rh in np.linspace(r_min / BODY_H + 0.005, 0.25, 5)
+        }
     return sharp, attached
 
 
@@ -233,6 +248,6 @@ def test_digitised_outline_reports_its_rounded_corners_as_curvature_peaks():
     peaks = [c for c in a.corners if c.label.startswith("curvature peak")]
     assert len(peaks) == 2
     for c in peaks:
-        assert c.convex and c.x < 0.2                       # the front corners
-        assert c.radius == pytest.approx(0.1, rel=0.15)     # discrete curvature of a spline fit
+        assert c.convex and c.x < 0.2  # the front corners
+        assert c.radius == pytest.approx(0.1, rel=0.15)  # discrete curvature of a spline fit
         assert c.turning_angle_deg == pytest.approx(90.0, abs=15.0)

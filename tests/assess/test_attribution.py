@@ -11,13 +11,18 @@ import numpy as np
 import pytest
 
 from profilebench import analyze, load_project
-from profilebench.assess.corners import (CONCAVE_APPROACH_RATIO, CORNER_REACH_RATIO,
-                                         _arc_positions, all_spans, corner_regions)
+from profilebench.assess.corners import (
+    CONCAVE_APPROACH_RATIO,
+    CORNER_REACH_RATIO,
+    _arc_positions,
+    all_spans,
+    corner_regions,
+)
 from profilebench.assess.results import Verdict
 from profilebench.io.samples import sample_paths
 
-BONNET = 7          # the courier van's bonnet leading edge
-SCREEN_BASE = 5     # its windscreen base (concave)
+BONNET = 7  # the courier van's bonnet leading edge
+SCREEN_BASE = 5  # its windscreen base (concave)
 
 
 @pytest.fixture(scope="module")
@@ -75,7 +80,8 @@ def test_regions_end_within_the_reach_of_a_convex_arc_and_start_ahead_of_a_conca
     spans = all_spans(a.panelling, h)
     arcs = _arc_positions(a.panelling, a.flow, spans)
     for span, (k, lo, hi, _bounded), (k2, arc_lo, arc_hi) in zip(
-            spans, corner_regions(a.panelling, a.flow, spans), arcs):
+        spans, corner_regions(a.panelling, a.flow, spans), arcs
+    ):
         if k < 0:
             continue
         assert k == k2

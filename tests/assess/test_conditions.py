@@ -145,9 +145,19 @@ def test_density_and_viscosity_must_come_together_and_be_positive(kwargs, named)
     "conditions",
     [
         Conditions(),
-        Conditions(speed=41.7, altitude=1500.0, temperature_offset=-10.0, transition=0.35,
-                   frontal_area=2.3, model_scale=0.25, tunnel_speed=50.0, panels=400,
-                   base_pressure=-0.2, h_separation=2.0, ground=False),
+        Conditions(
+            speed=41.7,
+            altitude=1500.0,
+            temperature_offset=-10.0,
+            transition=0.35,
+            frontal_area=2.3,
+            model_scale=0.25,
+            tunnel_speed=50.0,
+            panels=400,
+            base_pressure=-0.2,
+            h_separation=2.0,
+            ground=False,
+        ),
         Conditions(density=1.19, kinematic_viscosity=1.52e-5, transition="turbulent", width=1.7),
     ],
 )

@@ -3,6 +3,7 @@
 These check the pipeline against itself (the same flow either way, the exact search against a
 fresh smallest-attached-radius search); the physics of the search is checked in test_analysis.py.
 """
+
 import numpy as np
 import pytest
 
@@ -34,7 +35,7 @@ def test_nearby_mode_reuses_the_search_and_marks_the_corner_provisional(van):
     moved = _nudged(profile, corner, 0.01)
     near = analyze(moved, cond, searches="nearby")
     assert near.success and near.provisional == (corner,)
-    assert near.radius_searches[0] is base.radius_searches[0]     # the cached search, not a new one
+    assert near.radius_searches[0] is base.radius_searches[0]  # the cached search, not a new one
     assert any(f"corner {corner}:" in w and "nearby outline" in w for w in near.warnings)
     exact = analyze(moved, cond)
     assert exact.provisional == () and not any("nearby outline" in w for w in exact.warnings)
@@ -44,8 +45,11 @@ def test_nearby_mode_reuses_the_search_and_marks_the_corner_provisional(van):
     # the exact mode's search is this outline's own
     fresh = smallest_attached_radius(moved, cond, corner)
     got = exact.radius_searches[0]
-    assert (got.status, got.radius, got.largest_fitting) == (fresh.status, fresh.radius,
-                                                             fresh.largest_fitting)
+    assert (got.status, got.radius, got.largest_fitting) == (
+        fresh.status,
+        fresh.radius,
+        fresh.largest_fitting,
+    )
 
 
 def test_nearby_mode_searches_when_the_outline_moved_too_far(van):
@@ -54,7 +58,7 @@ def test_nearby_mode_searches_when_the_outline_moved_too_far(van):
     h = base.measures.height
     far = analyze(_nudged(profile, corner, 1.5 * NEARBY_SHIFT_RATIO * h), cond, searches="nearby")
     assert far.success and [s.node for s in far.radius_searches] == [corner]
-    assert far.provisional == ()            # searched anew, not taken from the nearby outline
+    assert far.provisional == ()  # searched anew, not taken from the nearby outline
     assert far.radius_searches[0] is not base.radius_searches[0]
 
 

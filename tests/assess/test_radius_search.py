@@ -3,11 +3,15 @@
 These check the cache's bookkeeping against the search itself (a cached answer is the very
 search that a fresh call gives); the physics of the search is checked in test_analysis.py.
 """
+
 import pytest
 
 from profilebench.assess.analysis import analyze
-from profilebench.assess.radius_search import (SearchCache, cached_radius_search,
-                                               smallest_attached_radius)
+from profilebench.assess.radius_search import (
+    SearchCache,
+    cached_radius_search,
+    smallest_attached_radius,
+)
 from profilebench.assess.results import RadiusSearch, SearchStatus
 from sample_variants import bubble_van_project
 
@@ -29,10 +33,10 @@ def test_cache_forgets_the_least_recently_used_beyond_its_size(van):
     keys = [SearchCache.key(profile, cond.replace(speed=v), 1) for v in (20.0, 21.0, 22.0)]
     cache.put(keys[0], _fake(1, 0.1))
     cache.put(keys[1], _fake(1, 0.2))
-    assert cache.get(keys[0]).radius == 0.1          # now the most recent
+    assert cache.get(keys[0]).radius == 0.1  # now the most recent
     cache.put(keys[2], _fake(1, 0.3))
     assert len(cache) == 2
-    assert cache.get(keys[1]) is None                 # the least recently used went
+    assert cache.get(keys[1]) is None  # the least recently used went
     assert cache.get(keys[0]).radius == 0.1 and cache.get(keys[2]).radius == 0.3
     cache.clear()
     assert len(cache) == 0

@@ -70,9 +70,7 @@ def test_each_resource_table_is_reproduced_at_its_points(path):
 
 
 INTERVALS = [
-    (path, i)
-    for path in RESOURCE_FILES
-    for i in range(len(read_points_with_csv_module(path)) - 1)
+    (path, i) for path in RESOURCE_FILES for i in range(len(read_points_with_csv_module(path)) - 1)
 ]
 
 
@@ -119,7 +117,9 @@ def test_cd_rejects_bad_ratio(bad):
 def flat_tail_table(tmp_path, critical_line=""):
     # invented numbers shaped like the SAE 1962 tractor data (SAE Transactions vol. 70, 1962, quoted second-hand): drag falls, then
     # stays constant
-    text = GOOD_HEADER + critical_line + "r_over_t,cd\n0.0,0.88\n0.05,0.725\n0.1,0.562\n0.15,0.562\n"
+    text = (
+        GOOD_HEADER + critical_line + "r_over_t,cd\n0.0,0.88\n0.05,0.725\n0.1,0.562\n0.15,0.562\n"
+    )
     return load_table(write(tmp_path, text))
 
 
@@ -189,11 +189,20 @@ def test_select_table_needs_tables():
     "text, line, words",
     [
         # missing 'source' key
-        (GOOD_HEADER.replace("# source: invented numbers for a format test\n", "")
-         + "r_over_t,cd\n0,1\n0.1,0.8\n", 1, "source"),
+        (
+            GOOD_HEADER.replace("# source: invented numbers for a format test\n", "")
+            + "r_over_t,cd\n0,1\n0.1,0.8\n",
+            1,
+            "source",
+        ),
         # header line without a colon
-        ("# name test\n" + GOOD_HEADER[GOOD_HEADER.index("# source"):]
-         + "r_over_t,cd\n0,1\n0.1,0.8\n", 1, "key: value"),
+        (
+            "# name test\n"
+            + GOOD_HEADER[GOOD_HEADER.index("# source") :]
+            + "r_over_t,cd\n0,1\n0.1,0.8\n",
+            1,
+            "key: value",
+        ),
         # misspelt key
         (GOOD_HEADER + "# critcal_ratio: 0.1\nr_over_t,cd\n0,1\n0.1,0.8\n", 7, "critcal_ratio"),
         # wrong column row
@@ -211,11 +220,19 @@ def test_select_table_needs_tables():
         # one data row only
         (GOOD_HEADER + "r_over_t,cd\n0,1\n", 8, "at least 2"),
         # reynolds range upside down
-        (GOOD_HEADER.replace("reynolds_max: 1e7", "reynolds_max: 1e5")
-         + "r_over_t,cd\n0,1\n0.1,0.8\n", 4, "reynolds_min"),
+        (
+            GOOD_HEADER.replace("reynolds_max: 1e7", "reynolds_max: 1e5")
+            + "r_over_t,cd\n0,1\n0.1,0.8\n",
+            4,
+            "reynolds_min",
+        ),
         # non-numeric reynolds
-        (GOOD_HEADER.replace("reynolds_min: 1e6", "reynolds_min: high")
-         + "r_over_t,cd\n0,1\n0.1,0.8\n", 3, "reynolds_min"),
+        (
+            GOOD_HEADER.replace("reynolds_min: 1e6", "reynolds_min: high")
+            + "r_over_t,cd\n0,1\n0.1,0.8\n",
+            3,
+            "reynolds_min",
+        ),
         # critical ratio outside the data
         (GOOD_HEADER + "# critical_ratio: 0.5\nr_over_t,cd\n0,1\n0.1,0.8\n", 7, "critical_ratio"),
         # header line after the data
@@ -240,7 +257,9 @@ def test_missing_file_is_a_table_error(tmp_path):
 
 
 def test_good_user_table_loads_with_its_metadata(tmp_path):
-    t = load_table(write(tmp_path, GOOD_HEADER + "# notes: in-house\n\nr_over_t,cd\n0,1\n0.1,0.8\n"))
+    t = load_table(
+        write(tmp_path, GOOD_HEADER + "# notes: in-house\n\nr_over_t,cd\n0,1\n0.1,0.8\n")
+    )
     assert t.name == "test table" and t.notes == "in-house"
     assert (t.reynolds_min, t.reynolds_max) == (1e6, 1e7)
     assert t.thickness == "body height h"

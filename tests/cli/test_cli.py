@@ -71,33 +71,44 @@ def test_speed_and_ground_options_reach_the_conditions(fake):
     _, seen = fake
     assert cli.main(["analyse", SAMPLE, "--speed", "72", "--no-ground", "--transition", "0.4"]) == 0
     cond = seen["conditions"][-1]
-    assert cond.speed == pytest.approx(20.0)   # 72 km/h = 20 m/s (exact unit conversion)
+    assert cond.speed == pytest.approx(20.0)  # 72 km/h = 20 m/s (exact unit conversion)
     assert cond.ground is False and cond.transition == 0.4
 
 
 def test_outputs_written(fake, tmp_path, capsys):
     img, csv_, js = tmp_path / "r.png", tmp_path / "s.csv", tmp_path / "r.json"
-    assert cli.main(["analyse", SAMPLE, "--image", str(img), "--csv", str(csv_), "--json", str(js)]) == 0
+    assert (
+        cli.main(["analyse", SAMPLE, "--image", str(img), "--csv", str(csv_), "--json", str(js)])
+        == 0
+    )
     assert img.stat().st_size > 0
     assert len(csv_.read_text().splitlines()) == N + 1  # header + one row per station
     assert json.loads(js.read_text())["caution"] == CAUTION
 
 
 def test_failed_analysis_exits_1(monkeypatch, capsys):
-    monkeypatch.setattr(cli, "_analyse", lambda p, c, table=None: Analysis(
-        AnalysisStatus.INVISCID_FAILED, "singular panel system", p, c))
+    monkeypatch.setattr(
+        cli,
+        "_analyse",
+        lambda p, c, table=None: Analysis(
+            AnalysisStatus.INVISCID_FAILED, "singular panel system", p, c
+        ),
+    )
     assert cli.main(["analyse", SAMPLE]) == 1
     err = capsys.readouterr().err
     assert "singular panel system" in err and "Traceback" not in err
 
 
-@pytest.mark.parametrize("args, message", [
-    (["analyse", "no_such_file.json"], "no project file"),
-    (["analyse", SAMPLE, "--image", "out.bmp"], "unknown extension '.bmp'"),
-    (["analyse", SAMPLE, "--csv", "out.txt"], "must end in .csv"),
-    (["analyse", SAMPLE, "--speed", "-10"], "speed"),
-    (["analyse", SAMPLE, "--transition", "sometimes"], "--transition"),
-])
+@pytest.mark.parametrize(
+    "args, message",
+    [
+        (["analyse", "no_such_file.json"], "no project file"),
+        (["analyse", SAMPLE, "--image", "out.bmp"], "unknown extension '.bmp'"),
+        (["analyse", SAMPLE, "--csv", "out.txt"], "must end in .csv"),
+        (["analyse", SAMPLE, "--speed", "-10"], "speed"),
+        (["analyse", SAMPLE, "--transition", "sometimes"], "--transition"),
+    ],
+)
 def test_bad_input_exits_2(fake, capsys, args, message):
     assert cli.main(args) == 2
     err = capsys.readouterr().err
@@ -130,9 +141,14 @@ def test_compare_warns_when_cd_falls_but_force_rises(monkeypatch, capsys):
     # the variant: 10% lower Cd on a 25% larger frontal area -> CdA and force rise
     area = 1.25 * d.reference_area
     cd = 0.9 * d.cd
-    variant_drag = dataclasses.replace(d, cd=cd, reference_area=area, cda=cd * area,
-                                       force=d.force / d.cda * cd * area,
-                                       power=d.power / d.cda * cd * area)
+    variant_drag = dataclasses.replace(
+        d,
+        cd=cd,
+        reference_area=area,
+        cda=cd * area,
+        force=d.force / d.cda * cd * area,
+        power=d.power / d.cda * cd * area,
+    )
     variant = dataclasses.replace(base, drag=variant_drag)
     calls = iter([base, variant])
     monkeypatch.setattr(cli, "_analyse", lambda p, c, table=None: next(calls))
@@ -148,7 +164,9 @@ def test_compare_warns_when_cd_falls_but_force_rises(monkeypatch, capsys):
 
 def test_compare_with_failed_variant_exits_1(monkeypatch, capsys):
     base = fake_analysis()
-    failed = Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED, "march stalled", base.profile, base.conditions)
+    failed = Analysis(
+        AnalysisStatus.BOUNDARY_LAYER_FAILED, "march stalled", base.profile, base.conditions
+    )
     calls = iter([base, failed])
     monkeypatch.setattr(cli, "_analyse", lambda p, c, table=None: next(calls))
     assert cli.main(["compare", SAMPLE, SAMPLE]) == 1
@@ -185,7 +203,9 @@ def test_no_subcommand_starts_editor(monkeypatch):
 def _search(status, radius, message):
     from profilebench.assess.results import RadiusSearch
 
-    return lambda profile, cond, node: RadiusSearch(node, status, radius, 0.4, (0.0, 0.4), 1e-3, 7, message)
+    return lambda profile, cond, node: RadiusSearch(
+        node, status, radius, 0.4, (0.0, 0.4), 1e-3, 7, message
+    )
 
 
 def test_corners_smallest_prints_each_convex_corner(fake, monkeypatch, capsys):
@@ -193,20 +213,25 @@ def test_corners_smallest_prints_each_convex_corner(fake, monkeypatch, capsys):
     from profilebench.assess.results import SearchStatus
 
     base, _ = fake
-    monkeypatch.setattr(radius_search, "cached_radius_search", _search(SearchStatus.FOUND, 0.123, "found it"))
+    monkeypatch.setattr(
+        radius_search, "cached_radius_search", _search(SearchStatus.FOUND, 0.123, "found it")
+    )
     assert cli.main(["corners", SAMPLE, "--smallest"]) == 0
     out = capsys.readouterr().out
     section = out.split("Smallest radius")[1]
     rows = [l for l in section.splitlines() if "found it" in l]
     assert len(rows) == sum(c.convex for c in base.corners)
-    assert all("123.0" in r for r in rows)   # 0.123 m shown in mm
+    assert all("123.0" in r for r in rows)  # 0.123 m shown in mm
 
 
 def test_corners_smallest_failure_exits_1(fake, monkeypatch, capsys):
     import profilebench.assess.radius_search as radius_search
     from profilebench.assess.results import SearchStatus
 
-    monkeypatch.setattr(radius_search, "cached_radius_search",
-                        _search(SearchStatus.FAILED, None, "flow could not be solved"))
+    monkeypatch.setattr(
+        radius_search,
+        "cached_radius_search",
+        _search(SearchStatus.FAILED, None, "flow could not be solved"),
+    )
     assert cli.main(["corners", SAMPLE, "--smallest"]) == 1
     assert "flow could not be solved" in capsys.readouterr().err

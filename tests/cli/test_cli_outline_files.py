@@ -1,7 +1,6 @@
 """The command line with CSV outlines (analyse, corners, compare, import) and corners --smallest
 on outlines with smooth runs. In-process through main([...])."""
 
-
 import pytest
 
 from profilebench.cli import EXIT_BAD_INPUT, EXIT_OK, main
@@ -34,7 +33,10 @@ def test_the_same_outline_in_metres_gives_the_same_table(box_csv, tmp_path, caps
     mm_out = capsys.readouterr().out
     assert main(["analyse", str(metres), "--units", "m"]) == EXIT_OK
     m_out = capsys.readouterr().out
-    assert mm_out.replace("box.csv", "X").split("\n")[2:] == m_out.replace("box_m.csv", "X").split("\n")[2:]
+    assert (
+        mm_out.replace("box.csv", "X").split("\n")[2:]
+        == m_out.replace("box_m.csv", "X").split("\n")[2:]
+    )
 
 
 def test_import_writes_a_project_that_analyses_like_the_csv(box_csv, tmp_path, capsys):
@@ -51,8 +53,9 @@ def test_import_writes_a_project_that_analyses_like_the_csv(box_csv, tmp_path, c
 
 
 def test_import_refuses_an_outline_below_the_ground_and_writes_nothing(tmp_path, capsys):
-    low = _write_csv(tmp_path / "low.csv", [(0, -10), (0, 1500), (4000, 1500), (4000, -10),
-                                            (0, -10)])
+    low = _write_csv(
+        tmp_path / "low.csv", [(0, -10), (0, 1500), (4000, 1500), (4000, -10), (0, -10)]
+    )
     target = tmp_path / "low.json"
     assert main(["import", str(low), str(target)]) == EXIT_BAD_INPUT
     assert not target.exists()
@@ -60,7 +63,9 @@ def test_import_refuses_an_outline_below_the_ground_and_writes_nothing(tmp_path,
 
 
 def test_compare_takes_csv_outlines(box_csv, tmp_path, capsys):
-    other = _write_csv(tmp_path / "taller.csv", [(x, y * 1.05 if y > 1000 else y) for x, y in BOX_MM])
+    other = _write_csv(
+        tmp_path / "taller.csv", [(x, y * 1.05 if y > 1000 else y) for x, y in BOX_MM]
+    )
     assert main(["compare", str(box_csv), str(other)]) == EXIT_OK
     assert "delta Cd" in capsys.readouterr().out
 
@@ -78,13 +83,18 @@ def test_corners_smallest_lists_smooth_runs_instead_of_aborting(sample, capsys):
     assert smooth_peaks or "curvature peak" not in out
 
 
-@pytest.mark.parametrize("rows, expect", [
-    (["x_mm,y_mm", "0,300", "4000,300"], "at least 3"),
-    (["a,b", "0,300", "0,1500", "4000,1500", "4000,300"], None),
-    (["x_mm,y_mm", "0,300", "4000,1500", "4000,300", "0,1500"], "cross"),
-    (["x_mm,y_mm", "0,-10", "0,1500", "4000,1500", "4000,-10"], "ground"),
-])
-def test_outline_files_that_are_not_outlines_are_refused_with_a_message(tmp_path, capsys, rows, expect):
+@pytest.mark.parametrize(
+    "rows, expect",
+    [
+        (["x_mm,y_mm", "0,300", "4000,300"], "at least 3"),
+        (["a,b", "0,300", "0,1500", "4000,1500", "4000,300"], None),
+        (["x_mm,y_mm", "0,300", "4000,1500", "4000,300", "0,1500"], "cross"),
+        (["x_mm,y_mm", "0,-10", "0,1500", "4000,1500", "4000,-10"], "ground"),
+    ],
+)
+def test_outline_files_that_are_not_outlines_are_refused_with_a_message(
+    tmp_path, capsys, rows, expect
+):
     path = tmp_path / "bad.csv"
     path.write_text("\n".join(rows) + "\n")
     code = main(["analyse", str(path)])
@@ -102,19 +112,33 @@ def test_outline_files_that_are_not_outlines_are_refused_with_a_message(tmp_path
 # message saying what is wrong, and `import` writes nothing
 _BAD_OUTLINES = {
     "too few points": (["x_mm,y_mm", "0,300", "4000,300"], [], ["at least 3"]),
-    "a header without x and y": (["a,b,c", "0,300,1", "0,1500,1", "4000,1500,1", "4000,300,1"],
-                                 [], ["header", "'x'", "'y'"]),
-    "mixed units in the header": (["x_mm,y_m", "0,0.3", "0,1.5", "4000,1.5", "4000,0.3"], [],
-                                  ["both mm and m"]),
-    "units contradicting the header": (["x_mm,y_mm", "0,300", "0,1500", "4000,1500",
-                                        "4000,300"], ["--units", "m"], ["units='m'", "'mm'"]),
+    "a header without x and y": (
+        ["a,b,c", "0,300,1", "0,1500,1", "4000,1500,1", "4000,300,1"],
+        [],
+        ["header", "'x'", "'y'"],
+    ),
+    "mixed units in the header": (
+        ["x_mm,y_m", "0,0.3", "0,1.5", "4000,1.5", "4000,0.3"],
+        [],
+        ["both mm and m"],
+    ),
+    "units contradicting the header": (
+        ["x_mm,y_mm", "0,300", "0,1500", "4000,1500", "4000,300"],
+        ["--units", "m"],
+        ["units='m'", "'mm'"],
+    ),
     # the crossing named by its segments' points and where (the square's diagonals cross at
     # (2000, 900) mm)
-    "a self-crossing point list": (["x_mm,y_mm", "0,300", "4000,1500", "4000,300", "0,1500"], [],
-                                   ["cross", "point 1 to point 2", "point 3 to point 4",
-                                    "(2000.0, 900.0) mm"]),
-    "an outline below the ground": (["x_mm,y_mm", "0,-10", "0,1500", "4000,1500", "4000,-10"],
-                                    [], ["ground", "(0.0, -10.0) mm"]),
+    "a self-crossing point list": (
+        ["x_mm,y_mm", "0,300", "4000,1500", "4000,300", "0,1500"],
+        [],
+        ["cross", "point 1 to point 2", "point 3 to point 4", "(2000.0, 900.0) mm"],
+    ),
+    "an outline below the ground": (
+        ["x_mm,y_mm", "0,-10", "0,1500", "4000,1500", "4000,-10"],
+        [],
+        ["ground", "(0.0, -10.0) mm"],
+    ),
 }
 
 

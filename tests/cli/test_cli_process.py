@@ -15,8 +15,9 @@ from profilebench.io.samples import default_sample_path  # noqa: E402
 
 
 def _run(*args):
-    return subprocess.run([sys.executable, "-m", "profilebench", *args], capture_output=True,
-                          text=True, timeout=60)
+    return subprocess.run(
+        [sys.executable, "-m", "profilebench", *args], capture_output=True, text=True, timeout=60
+    )
 
 
 def test_analyse_sample_in_a_process(tmp_path):
@@ -47,8 +48,10 @@ def _bow_tie_project(tmp_path):
     project = load_project(default_sample_path())
     nodes = list(project.profile.nodes)
     nodes[1], nodes[2] = nodes[2], nodes[1]
-    crossed = dataclasses.replace(project.profile, nodes=tuple(
-        dataclasses.replace(n, radius=0.0, smooth=False) for n in nodes))
+    crossed = dataclasses.replace(
+        project.profile,
+        nodes=tuple(dataclasses.replace(n, radius=0.0, smooth=False) for n in nodes),
+    )
     path = tmp_path / "crossed.json"
     save_project(dataclasses.replace(project, profile=crossed, baseline=None), path)
     return path
@@ -89,9 +92,14 @@ def test_summary_numbers_equal_the_real_analysis(capsys):
     rows = summary_rows(capsys.readouterr().out)
     d = a.drag
     # each value equals the Analysis's within the rounding it is printed with
-    for key, value, tol in [("Cd", d.cd, 5e-5), ("friction", d.cd_friction, 5e-5),
-                            ("pressure", d.cd_pressure, 5e-5), ("base", d.cd_base, 5e-5),
-                            ("corners", d.cd_corners, 5e-5), ("Cl", d.cl, 5e-5)]:
+    for key, value, tol in [
+        ("Cd", d.cd, 5e-5),
+        ("friction", d.cd_friction, 5e-5),
+        ("pressure", d.cd_pressure, 5e-5),
+        ("base", d.cd_base, 5e-5),
+        ("corners", d.cd_corners, 5e-5),
+        ("Cl", d.cl, 5e-5),
+    ]:
         assert float(rows[key]) == pytest.approx(value, abs=tol), key
     if d.cda is not None:
         assert float(rows["CdA"]) == pytest.approx(d.cda, abs=5e-5)

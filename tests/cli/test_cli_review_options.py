@@ -76,12 +76,16 @@ def test_imported_outline_gets_cda_with_width(tmp_path, capsys):
     """A CSV outline has no area; --width gives CdA = Cd x width x h (real analysis)."""
     pts = tmp_path / "box.csv"
     # a 2000 x 500 mm box 50 mm above the ground, corners rounded by the fitter's tolerance
-    pts.write_text("x_mm,y_mm\n" + "\n".join(f"{x},{y}" for x, y in
-                   [(0, 50), (2000, 50), (2000, 550), (0, 550)]) + "\n")
+    pts.write_text(
+        "x_mm,y_mm\n"
+        + "\n".join(f"{x},{y}" for x, y in [(0, 50), (2000, 50), (2000, 550), (0, 550)])
+        + "\n"
+    )
     assert cli.main(["analyse", str(pts), "--width", "1.5", "--panels", "120"]) == cli.EXIT_OK
     out = capsys.readouterr().out
-    rows = {m.group(1).strip(): m.group(2) for m in
-            re.finditer(r"^(\S[^\n]*?)\s{2,}(\S+)", out, re.M)}
+    rows = {
+        m.group(1).strip(): m.group(2) for m in re.finditer(r"^(\S[^\n]*?)\s{2,}(\S+)", out, re.M)
+    }
     cd, h_mm, cda = float(rows["Cd"]), float(rows["reference height h"]), float(rows["CdA"])
     assert cda == pytest.approx(cd * 1.5 * h_mm / 1000, abs=1e-4)  # CdA = Cd A, A = width h
     assert rows["drag force"] != "n/a"
@@ -122,8 +126,11 @@ def test_conditions_differences_names_each_field():
     a = Conditions(speed=25.0)
     b = a.replace(speed=30.0, ground=False, transition=0.5, frontal_area=2.0)
     assert cli.conditions_differences(a, b) == [
-        "speed 90.0 km/h vs 108.0 km/h", "ground on vs off", "transition free vs at s = 0.5 m",
-        "frontal area none vs 2 m^2"]
+        "speed 90.0 km/h vs 108.0 km/h",
+        "ground on vs off",
+        "transition free vs at s = 0.5 m",
+        "frontal area none vs 2 m^2",
+    ]
 
 
 @pytest.fixture
@@ -141,8 +148,10 @@ def page_args(monkeypatch):
 
 
 def test_cp_min_reaches_the_page(fake, page_args, tmp_path, capsys):
-    assert cli.main(["analyse", SAMPLE, "--image", str(tmp_path / "p.png"),
-                     "--cp-min", "-2"]) == cli.EXIT_OK
+    assert (
+        cli.main(["analyse", SAMPLE, "--image", str(tmp_path / "p.png"), "--cp-min", "-2"])
+        == cli.EXIT_OK
+    )
     assert page_args["cp_min"] == -2.0
 
 
@@ -152,19 +161,22 @@ def test_default_cp_scale_on_every_page(fake, page_args, tmp_path, capsys):
 
 
 def test_bad_cp_min_before_any_work(fake, tmp_path, capsys):
-    assert cli.main(["analyse", SAMPLE, "--image", str(tmp_path / "p.png"),
-                     "--cp-min", "0.5"]) == cli.EXIT_BAD_INPUT
+    assert (
+        cli.main(["analyse", SAMPLE, "--image", str(tmp_path / "p.png"), "--cp-min", "0.5"])
+        == cli.EXIT_BAD_INPUT
+    )
     assert "Cp colour scale" in capsys.readouterr().err
     assert not fake and not (tmp_path / "p.png").exists()
 
 
 def test_baseline_analysed_for_the_page(fake, page_args, tmp_path, capsys):
     p = load_project(SAMPLE)
-    with_base = save_project(dataclasses.replace(p, baseline=p.profile.scaled(1.02)),
-                             tmp_path / "b.json")
+    with_base = save_project(
+        dataclasses.replace(p, baseline=p.profile.scaled(1.02)), tmp_path / "b.json"
+    )
     assert cli.main(["analyse", str(with_base), "--image", str(tmp_path / "p.png")]) == cli.EXIT_OK
     assert is_analysis(page_args["baseline"])
-    assert page_args["baseline"].conditions == fake[0]   # at the same conditions
+    assert page_args["baseline"].conditions == fake[0]  # at the same conditions
     assert len(fake) == 2
 
 
@@ -172,7 +184,7 @@ def test_shared_note_printed_once_and_run_block(fake, capsys):
     assert cli.main(["analyse", SAMPLE]) == cli.EXIT_OK
     out = capsys.readouterr().out
     assert out.count(REYNOLDS_NOTE) == 1
-    assert "Run: 120.0 km/h" in out   # the sample hatch's speed
+    assert "Run: 120.0 km/h" in out  # the sample hatch's speed
     assert "separation margin:" in out
 
 
@@ -180,8 +192,21 @@ def test_cli_image_mode_like_csv_and_json(fake, tmp_path, capsys):
     old = os.umask(0o022)
     try:
         files = [tmp_path / "p.png", tmp_path / "s.csv", tmp_path / "r.json"]
-        assert cli.main(["analyse", SAMPLE, "--image", str(files[0]), "--csv", str(files[1]),
-                         "--json", str(files[2])]) == cli.EXIT_OK
+        assert (
+            cli.main(
+                [
+                    "analyse",
+                    SAMPLE,
+                    "--image",
+                    str(files[0]),
+                    "--csv",
+                    str(files[1]),
+                    "--json",
+                    str(files[2]),
+                ]
+            )
+            == cli.EXIT_OK
+        )
     finally:
         os.umask(old)
     assert {stat.S_IMODE(f.stat().st_mode) for f in files} == {0o644}  # 0666 less umask 022
@@ -193,11 +218,16 @@ def test_force_rise_from_speed_not_blamed_on_the_area(monkeypatch, tmp_path, cap
     base = fake_analysis()
 
     def analyse(profile, conditions, table=None):
-        cd = 0.30 if conditions.speed < 26 else 0.28     # the variant (100 km/h) has the lower Cd
+        cd = 0.30 if conditions.speed < 26 else 0.28  # the variant (100 km/h) has the lower Cd
         area = 2.0
-        q = 0.5 * 1.225 * conditions.speed ** 2
-        drag = dataclasses.replace(base.drag, cd=cd, cda=cd * area, force=q * cd * area,
-                                   power=q * cd * area * conditions.speed)
+        q = 0.5 * 1.225 * conditions.speed**2
+        drag = dataclasses.replace(
+            base.drag,
+            cd=cd,
+            cda=cd * area,
+            force=q * cd * area,
+            power=q * cd * area * conditions.speed,
+        )
         return dataclasses.replace(base, conditions=conditions, profile=profile, drag=drag)
 
     monkeypatch.setattr(cli, "_analyse", analyse)

@@ -1,5 +1,6 @@
 """profilebench sweep: the table, the CSV and the chart of a radius, position and speed sweep
 and of a radius x speed grid; exit codes; bad input refused before any work."""
+
 import csv
 
 import pytest
@@ -31,8 +32,17 @@ def _run(capsys, *argv):
 
 def test_radius_sweep_table_csv_and_image(tmp_path, capsys):
     out_csv, out_png = tmp_path / "s.csv", tmp_path / "s.png"
-    code, out, err = _run(capsys, "--corner", "front upper edge", "--radius", "0:0.2:5",
-                          "--csv", str(out_csv), "--image", str(out_png))
+    code, out, err = _run(
+        capsys,
+        "--corner",
+        "front upper edge",
+        "--radius",
+        "0:0.2:5",
+        "--csv",
+        str(out_csv),
+        "--image",
+        str(out_png),
+    )
     assert code == 0, err
     assert "knee at" in out and "smallest attached radius of front upper edge" in out
     with open(out_csv, newline="") as fh:
@@ -52,13 +62,22 @@ def test_radius_sweep_table_csv_and_image(tmp_path, capsys):
 def test_radius_to_max_and_corner_by_node_number(capsys):
     code, out, _ = _run(capsys, "--corner", "3", "--radius", "0.1:max:2")
     assert code == 0
-    assert "399.6" in out     # 0.999 of the 400 mm that fit between the corners
+    assert "399.6" in out  # 0.999 of the 400 mm that fit between the corners
 
 
 def test_position_sweep_reports_a_failed_point_and_exits_1(tmp_path, capsys):
     out_csv, out_png = tmp_path / "p.csv", tmp_path / "p.png"
-    code, out, err = _run(capsys, "--position", "rear lower edge:-3:0:3", "--corner",
-                          "front upper edge", "--csv", str(out_csv), "--image", str(out_png))
+    code, out, err = _run(
+        capsys,
+        "--position",
+        "rear lower edge:-3:0:3",
+        "--corner",
+        "front upper edge",
+        "--csv",
+        str(out_csv),
+        "--image",
+        str(out_png),
+    )
     assert code == cli.EXIT_FAILED
     assert "sweep points did not succeed" in err
     with open(out_csv, newline="") as fh:
@@ -66,30 +85,34 @@ def test_position_sweep_reports_a_failed_point_and_exits_1(tmp_path, capsys):
     assert rows[0]["status"] == "success" and rows[-1]["status"] != "success"
     assert rows[-1]["cd"] == "" and rows[-1]["message"]
     assert "nan" not in out.lower() and "nan" not in out_csv.read_text().lower()
-    assert out_png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"   # written despite the failure
+    assert out_png.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"  # written despite the failure
 
 
 def test_speed_sweep_and_grid(capsys):
     code, out, _ = _run(capsys, "--speeds", "72:144:2")
     assert code == 0 and "speed (km/h)" in out and "144.0" in out
-    code, out, _ = _run(capsys, "--corner", "front upper edge", "--radius", "0:0.1:3",
-                        "--speeds", "72:108:2")
+    code, out, _ = _run(
+        capsys, "--corner", "front upper edge", "--radius", "0:0.1:3", "--speeds", "72:108:2"
+    )
     assert code == 0
     assert "speed 72.0 km/h" in out and "speed 108.0 km/h" in out
     assert "6 points: 6 analysed" in out
 
 
-@pytest.mark.parametrize("argv, message", [
-    (["--radius", "0:0.2:5"], "--radius needs --corner"),
-    (["--corner", "bonnet", "--radius", "0:0.2:5"], "no corner is called 'bonnet'"),
-    (["--corner", "front upper edge", "--radius", "0:0.2"], "give 3 values"),
-    (["--corner", "front upper edge", "--radius", "0:9:5"], "largest that fits"),
-    (["--corner", "front upper edge", "--radius", "0:x:5"], "'x' is not a number"),
-    (["--corner", "front upper edge", "--radius", "0:0.2:1"], "from 2 to 1000"),
-    (["--position", "rear lower edge:1:0:3", "--speeds", "72:144:2"], "not both"),
-    ([], "give what to sweep"),
-    (["--speeds", "72:144:2", "--image", "chart.bmp"], "unknown extension"),
-])
+@pytest.mark.parametrize(
+    "argv, message",
+    [
+        (["--radius", "0:0.2:5"], "--radius needs --corner"),
+        (["--corner", "bonnet", "--radius", "0:0.2:5"], "no corner is called 'bonnet'"),
+        (["--corner", "front upper edge", "--radius", "0:0.2"], "give 3 values"),
+        (["--corner", "front upper edge", "--radius", "0:9:5"], "largest that fits"),
+        (["--corner", "front upper edge", "--radius", "0:x:5"], "'x' is not a number"),
+        (["--corner", "front upper edge", "--radius", "0:0.2:1"], "from 2 to 1000"),
+        (["--position", "rear lower edge:1:0:3", "--speeds", "72:144:2"], "not both"),
+        ([], "give what to sweep"),
+        (["--speeds", "72:144:2", "--image", "chart.bmp"], "unknown extension"),
+    ],
+)
 def test_bad_input_exits_2_with_the_reason(argv, message, capsys):
     code, out, err = _run(capsys, *argv)
     assert code == cli.EXIT_BAD_INPUT

@@ -3,6 +3,7 @@
 The table here is invented data: this checks the mechanism (the table is read, used and named),
 not any physics.
 """
+
 from profilebench import cli
 from profilebench.io import sample_paths
 

@@ -30,7 +30,7 @@ CLOSE = ViewTransform(scale=1000.0, offset_x=50.0, offset_y=3000.0)
 
 def test_view_round_trip_and_y_flip():
     sx, sy = VIEW.to_screen(1.25, 0.5)
-    assert (sx, sy) == (175.0, 250.0)    # y up in the world is up (smaller row) on screen
+    assert (sx, sy) == (175.0, 250.0)  # y up in the world is up (smaller row) on screen
     assert VIEW.to_world(sx, sy) == pytest.approx((1.25, 0.5))
 
 
@@ -44,7 +44,9 @@ def test_zoom_keeps_the_point_under_the_cursor(factor):
 def test_fit_view_shows_all_of_the_bounds_at_true_aspect():
     v = fit_view((0.0, 0.0, 4.0, 1.7), 800, 400, margin=20)
     corners = [v.to_screen(x, y) for x in (0.0, 4.0) for y in (0.0, 1.7)]
-    assert all(20 - 1e-9 <= sx <= 780 + 1e-9 and 20 - 1e-9 <= sy <= 380 + 1e-9 for sx, sy in corners)
+    assert all(
+        20 - 1e-9 <= sx <= 780 + 1e-9 and 20 - 1e-9 <= sy <= 380 + 1e-9 for sx, sy in corners
+    )
     assert v.scale == pytest.approx(min(760 / 4.0, 360 / 1.7))
 
 
@@ -76,8 +78,10 @@ def test_miss_far_from_every_segment():
     assert hit_segment(BOX, VIEW, *VIEW.to_screen(2.0, 1.0)) is None
 
 
-@pytest.mark.parametrize("value, grid, expected", [(0.1234, 0.01, 0.12), (0.126, 0.01, 0.13),
-                                                   (-0.0049, 0.005, -0.005), (0.1234, None, 0.1234)])
+@pytest.mark.parametrize(
+    "value, grid, expected",
+    [(0.1234, 0.01, 0.12), (0.126, 0.01, 0.13), (-0.0049, 0.005, -0.005), (0.1234, None, 0.1234)],
+)
 def test_snap(value, grid, expected):
     assert snap(value, grid) == pytest.approx(expected)
 
@@ -91,7 +95,7 @@ def test_drag_snaps_to_grid():
     doc = Document(BOX, Conditions())
     sx, sy = VIEW.to_screen(*BOX.xy[1])
     drag = NodeDrag(doc.state, 1, VIEW, sx, sy, grid=0.05)
-    prof = drag.move(VIEW, sx + 7.0, sy - 12.0)          # +0.07 m, +0.12 m
+    prof = drag.move(VIEW, sx + 7.0, sy - 12.0)  # +0.07 m, +0.12 m
     assert prof.xy[1] == pytest.approx((4.05, 0.3))
 
 

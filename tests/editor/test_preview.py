@@ -20,7 +20,7 @@ def test_rounded_square_area_matches_closed_form(r):
     side = 1.0
     pts = preview_outline(_square(side, r), arc_points=200)
     # closed form: a square with four quarter-circle corners has area s^2 - (4 - pi) r^2
-    exact = side ** 2 - (4.0 - math.pi) * r ** 2
+    exact = side**2 - (4.0 - math.pi) * r**2
     assert Polygon(pts).area == pytest.approx(exact, rel=1e-4)
 
 
@@ -47,13 +47,13 @@ def test_built_outline_points_area_matches_closed_form(r):
     # closed form: a square with four quarter-circle corners has area s^2 - (4 - pi) r^2
     # (2000 samples: the chords lose well under 0.1 % of it)
     assert ok and message == ""
-    assert Polygon(pts).area == pytest.approx(1.0 - (4.0 - math.pi) * r ** 2, rel=1e-3)
+    assert Polygon(pts).area == pytest.approx(1.0 - (4.0 - math.pi) * r**2, rel=1e-3)
 
 
 def test_built_outline_points_of_a_too_large_radius_say_why_and_give_the_nodes():
     from profilebench.editor.preview import build_outline_points
 
-    prof = _square(1.0, 0.8)        # setback 0.8 m on 1 m sides: two fillets cannot share a side
+    prof = _square(1.0, 0.8)  # setback 0.8 m on 1 m sides: two fillets cannot share a side
     pts, ok, message = build_outline_points(prof)
     assert not ok and message
     np.testing.assert_array_equal(pts, np.asarray(prof.xy))

@@ -1,10 +1,15 @@
 """Underlay placement by two reference points, and parsing of typed entries (no Qt)."""
 
-
 import numpy as np
 import pytest
 
-from profilebench.editor.fields import format_mm, parse_length_mm, parse_number, parse_optional, parse_speed_kmh
+from profilebench.editor.fields import (
+    format_mm,
+    parse_length_mm,
+    parse_number,
+    parse_optional,
+    parse_speed_kmh,
+)
 from profilebench.editor.underlay import Underlay
 from profilebench.errors import InputError
 
@@ -13,14 +18,17 @@ def test_initial_placement_puts_the_bottom_edge_on_the_ground():
     u = Underlay.initial("sketch.png", 900, 300, length=4.5)
     assert u.to_world(0, 300) == pytest.approx((0.0, 0.0))
     assert u.to_world(900, 300) == pytest.approx((4.5, 0.0))
-    assert u.to_world(0, 0) == pytest.approx((0.0, 1.5))   # rows run down, y runs up
+    assert u.to_world(0, 0) == pytest.approx((0.0, 1.5))  # rows run down, y runs up
     assert u.pixel_size == pytest.approx(4.5 / 900)
 
 
-@pytest.mark.parametrize("px, m", [
-    (((120, 410), (780, 405)), ((0.6, 0.33), (3.2, 0.33))),   # two wheel centres
-    (((10, 10), (200, 300)), ((-1.0, 2.0), (0.5, 0.1))),
-])
+@pytest.mark.parametrize(
+    "px, m",
+    [
+        (((120, 410), (780, 405)), ((0.6, 0.33), (3.2, 0.33))),  # two wheel centres
+        (((10, 10), (200, 300)), ((-1.0, 2.0), (0.5, 0.1))),
+    ],
+)
 def test_two_point_placement_is_a_similarity(px, m):
     u = Underlay.initial("photo.jpg", 1000, 500).placed(px, m)
     assert u.to_world(*px[0]) == pytest.approx(m[0], abs=1e-12)
@@ -51,8 +59,16 @@ def test_speed_in_kmh():
     assert parse_speed_kmh("72,5") == pytest.approx(72.5 / 3.6)
 
 
-@pytest.mark.parametrize("text, match", [("", "empty"), ("abc", "not a number"), ("-5", "must be >"),
-                                         ("0", "must be >"), ("inf", "finite")])
+@pytest.mark.parametrize(
+    "text, match",
+    [
+        ("", "empty"),
+        ("abc", "not a number"),
+        ("-5", "must be >"),
+        ("0", "must be >"),
+        ("inf", "finite"),
+    ],
+)
 def test_bad_speed_entry_says_what_is_wrong(text, match):
     with pytest.raises(InputError, match=match):
         parse_speed_kmh(text)

@@ -65,8 +65,15 @@ def test_pressure_against_numerical_hydrostatic_integration():
         t = 288.15 - 0.0065 * h if h <= 11000.0 else 216.65
         return [-9.80665 * p[0] / (GAS_CONSTANT * t)]
 
-    sol = solve_ivp(rhs, (0.0, 18000.0), [101325.0], rtol=1e-11, atol=1e-8,
-                    t_eval=[0.0, 3000.0, 11000.0, 18000.0], max_step=500.0)
+    sol = solve_ivp(
+        rhs,
+        (0.0, 18000.0),
+        [101325.0],
+        rtol=1e-11,
+        atol=1e-8,
+        t_eval=[0.0, 3000.0, 11000.0, 18000.0],
+        max_step=500.0,
+    )
     ours = [standard_atmosphere(float(h)).pressure for h in sol.t]
     assert ours == pytest.approx(list(sol.y[0]), rel=1e-7)
 

@@ -75,8 +75,8 @@ def test_strongly_retarded_turbulent_flow_separates():
     assert 1.0 < sep.s < 2.0
     assert "H reached 2.4" in sep.detail
     assert bl.H[sep.index] == pytest.approx(2.4)
-    assert np.all(bl.regime[sep.index:] == Regime.SEPARATED)
-    assert np.all(bl.cf[sep.index:] == 0.0)
+    assert np.all(bl.regime[sep.index :] == Regime.SEPARATED)
+    assert np.all(bl.cf[sep.index :] == 0.0)
     assert bl.margin[sep.index - 1] < 0.2
 
 
@@ -118,7 +118,7 @@ def test_bubble_reattaches_at_moderate_reynolds_number():
     ls, ra = bl.events[0], bl.events[1]
     theta_sep = np.interp(ls.s, s, bl.theta)
     assert 0 < ra.s - ls.s <= BUBBLE_MAX_LENGTH_THETA * theta_sep
-    assert np.all(bl.regime[ls.index:ra.index] == Regime.SEPARATED)
+    assert np.all(bl.regime[ls.index : ra.index] == Regime.SEPARATED)
     assert bl.regime[ra.index] is Regime.TURBULENT
     assert bl.H[ra.index] <= 2.4 - BUBBLE_REATTACH_HYSTERESIS + 0.05
     # deceleration to zero speed at s = 1: the reattached layer separates later
@@ -161,8 +161,9 @@ def test_surface_ending_inside_a_bubble_is_separated_from_laminar_separation():
 @pytest.mark.parametrize("transition", ["free", "turbulent", 0.1])
 def test_sharp_edge_fixes_separation(transition):
     s = np.linspace(0.0, 1.0, 101)
-    bl = march_boundary_layer(s, np.ones_like(s), nu=NU, speed=SPEED, transition=transition,
-                              edges=(0.8, 0.505))
+    bl = march_boundary_layer(
+        s, np.ones_like(s), nu=NU, speed=SPEED, transition=transition, edges=(0.8, 0.505)
+    )
     sep = bl.separation
     assert sep.kind == "edge_separation"
     assert sep.s == pytest.approx(0.505)
@@ -201,8 +202,11 @@ def _check_finite(bl):
 
 
 @settings(max_examples=25, deadline=None)
-@given(seed=st.integers(0, 2**31 - 1), noise=st.floats(0.0, 0.005),
-       transition=st.sampled_from(["free", "turbulent"]))
+@given(
+    seed=st.integers(0, 2**31 - 1),
+    noise=st.floats(0.0, 0.005),
+    transition=st.sampled_from(["free", "turbulent"]),
+)
 def test_noisy_edge_speed_does_not_blow_up(seed, noise, transition):
     # 0.5% random noise: the size of panel-method station noise (common practice, no source)
     s, ue = _cylinder_surface()

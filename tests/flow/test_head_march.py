@@ -1,10 +1,16 @@
 """Head's turbulent march checked against scipy's adaptive integrator on the same equations."""
+
 import numpy as np
 import pytest
 from scipy.integrate import solve_ivp
 
-from profilebench.flow.head import (head_entrainment, head_h1, head_shape_factor,
-                                    ludwieg_tillmann_cf, march_head)
+from profilebench.flow.head import (
+    head_entrainment,
+    head_h1,
+    head_shape_factor,
+    ludwieg_tillmann_cf,
+    march_head,
+)
 
 NU_V = 1.46e-5 / 30.0  # nu / V for air at sea level (ISO 2533:1975 Standard Atmosphere) and 30 m/s
 
@@ -16,6 +22,7 @@ def _reference(s, ue, due, theta0, h0):
     d(theta H1)/ds = F(H1) - theta H1 Ue'/Ue, with the project's published correlation
     functions and the edge speed given as exact functions of s.
     """
+
     def rhs(x, y):
         th, big = y
         h1 = big / th

@@ -3,7 +3,12 @@
 import numpy as np
 import pytest
 
-from profilebench.errors import GroundContactError, InputError, ProfileBenchError, SelfIntersectionError
+from profilebench.errors import (
+    GroundContactError,
+    InputError,
+    ProfileBenchError,
+    SelfIntersectionError,
+)
 from profilebench.flow import (
     InviscidStatus,
     SplitStatus,
@@ -237,7 +242,10 @@ def test_joukowski_circulation(n, tol):
 
 def test_joukowski_circulation_converges():
     exact = 4.0 * np.pi * RADIUS * np.sin(BETA)
-    errs = [abs(solve_inviscid(joukowski(n)[0], kutta_node=0).circulation / exact - 1) for n in (100, 200, 400)]
+    errs = [
+        abs(solve_inviscid(joukowski(n)[0], kutta_node=0).circulation / exact - 1)
+        for n in (100, 200, 400)
+    ]
     assert errs[0] > errs[1] > errs[2]
 
 
@@ -347,7 +355,12 @@ TRIANGLE = [[0.0, 1.0], [1.0, 1.0], [0.5, 2.0]]
         ([[0.0, 1.0], [1.0, 1.0]], {}, InputError, "at least 3 points"),
         ([[0.0, 1.0], [np.nan, 1.0], [0.5, 2.0]], {}, InputError, "not finite"),
         ([[0.0, 1.0], [np.inf, 1.0], [0.5, 2.0]], {}, InputError, "not finite"),
-        ([[0.0, 1.0], [1.0, 1.0], [1.0, 1.0], [0.5, 2.0]], {}, InputError, "points 1 and 2 are repeated"),
+        (
+            [[0.0, 1.0], [1.0, 1.0], [1.0, 1.0], [0.5, 2.0]],
+            {},
+            InputError,
+            "points 1 and 2 are repeated",
+        ),
         (TRIANGLE + [[0.0, 1.0]], {}, InputError, "last point repeats the first"),
         ([[0.0, 1.0], [1.0, 1.0], [2.0, 1.0]], {}, InputError, "encloses no area"),
         ([["a", 1.0], [1.0, 1.0], [0.5, 2.0]], {}, InputError, "cannot be read as numbers"),

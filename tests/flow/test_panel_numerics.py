@@ -1,4 +1,5 @@
 """Influence coefficients of the panel method checked by direct numerical integration (scipy)."""
+
 import math
 
 import numpy as np
@@ -74,4 +75,3 @@ def test_vortex_influence_matches_quadrature(ground):
         own_t = -0.5 * sgn
         assert inf.vor_t[i] == pytest.approx(float(v @ t) + own_t, abs=1e-10)
         assert inf.vor_n[i] == pytest.approx(float(v @ nrm), abs=1e-10)
-

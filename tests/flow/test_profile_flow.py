@@ -30,16 +30,23 @@ def _every_other_point(pan):
     for span in pan.corners:
         i0, i1 = span.point_start, span.point_end
         if i1 >= i0:
-            keep[i0:i1 + 1] = True
+            keep[i0 : i1 + 1] = True
         else:
             keep[i0:] = True
-            keep[:i1 + 1] = True
+            keep[: i1 + 1] = True
     return np.flatnonzero(keep)
 
 
 def _flow(pts, closed_points=None):
-    return solve_profile_flow(pts, speed=SPEED, nu=NU, ground=True, reattach_length=2.5 * HEIGHT,
-                              wake_length=10.0 * HEIGHT, closed_points=closed_points)
+    return solve_profile_flow(
+        pts,
+        speed=SPEED,
+        nu=NU,
+        ground=True,
+        reattach_length=2.5 * HEIGHT,
+        wake_length=10.0 * HEIGHT,
+        closed_points=closed_points,
+    )
 
 
 def _pressure_drag(flow):
@@ -122,7 +129,7 @@ THWAITES_HOWARTH_SEPARATION = 0.123
 @pytest.mark.parametrize("beyond, restarted", [(0.0, False), (0.5, True)])
 def test_a_bubble_is_judged_on_the_closed_body_length_behind_it(beyond, restarted):
     s = np.linspace(1e-3, 0.9, 300)
-    ue = 1.0 - s   # L = 1 m
+    ue = 1.0 - s  # L = 1 m
     bl, restarts = march_surface(s, ue, 1.5e-5, 1.0, "free", 2.4, (), 1.0, beyond=beyond)
     lam = [e for e in bl.events if e.kind == "laminar_separation"]
     assert lam[0].s == pytest.approx(THWAITES_HOWARTH_SEPARATION, abs=0.002)  # Thwaites, above

@@ -47,7 +47,10 @@ def _falkner_skan(beta):
     sol = solve_bvp(
         lambda e, y: np.vstack([y[1], y[2], -y[0] * y[2] - beta * (1 - y[1] ** 2)]),
         lambda a, b: np.array([a[0], a[1], b[1] - 1.0]),
-        eta, y0, tol=1e-8, max_nodes=100000,
+        eta,
+        y0,
+        tol=1e-8,
+        max_nodes=100000,
     )
     assert sol.status == 0
     fp = sol.y[1]

@@ -1,4 +1,5 @@
 """Make the shared geometry test cases importable."""
+
 import os
 import sys
 

@@ -45,8 +45,9 @@ def test_the_fitted_box_analyses_like_the_box(box_fit):
     a, b = analyze(BOX, cond), analyze(box_fit.profile, cond)
     assert a.success and b.success
     assert b.drag.cd == pytest.approx(a.drag.cd, rel=0.01)
-    assert [c.verdict for c in b.corners] == [c.verdict for c in a.corners] or \
-        sorted(c.verdict.name for c in b.corners) == sorted(c.verdict.name for c in a.corners)
+    assert [c.verdict for c in b.corners] == [c.verdict for c in a.corners] or sorted(
+        c.verdict.name for c in b.corners
+    ) == sorted(c.verdict.name for c in a.corners)
 
 
 @pytest.mark.parametrize("reverse, start", [(True, 0), (False, 1234), (True, 2500)])
@@ -99,8 +100,11 @@ def test_too_few_points_are_refused():
 def test_points_that_cross_themselves_are_refused_with_where():
     bow = [(0.0, 1.0), (1.0, 2.0), (1.0, 1.0), (0.0, 2.0)]
     # the segments 1-2 and 3-4 of this bow tie cross at (0.5, 1.5) m
-    with pytest.raises(GeometryError, match=r"point 1 to point 2 crosses the segment from "
-                                            r"point 3 to point 4 at \(500\.0, 1500\.0\) mm"):
+    with pytest.raises(
+        GeometryError,
+        match=r"point 1 to point 2 crosses the segment from "
+        r"point 3 to point 4 at \(500\.0, 1500\.0\) mm",
+    ):
         fit_outline(bow)
 
 

@@ -1,4 +1,5 @@
 """Measures of the built outline against closed-form values; standard shapes."""
+
 import math
 
 import numpy as np
@@ -7,8 +8,17 @@ from scipy.integrate import quad
 from scipy.special import ellipe
 
 from profilebench.errors import InputError, ProfileBenchError
-from profilebench.geometry import (circle, circle_points, ellipse, ellipse_points, measure, naca4,
-                                   panelize, rounded_box, validate)
+from profilebench.geometry import (
+    circle,
+    circle_points,
+    ellipse,
+    ellipse_points,
+    measure,
+    naca4,
+    panelize,
+    rounded_box,
+    validate,
+)
 
 
 @pytest.mark.parametrize("r", [0.0, 0.05, 0.3, 0.7])
@@ -63,7 +73,9 @@ def test_exact_point_sets():
 
 def naca_thickness(x, t):
     # NACA 4-digit thickness, closed trailing edge (Abbott & von Doenhoff sec. 6.4 with -0.1036)
-    return 5 * t * (0.2969 * math.sqrt(x) - 0.1260 * x - 0.3516 * x**2 + 0.2843 * x**3 - 0.1036 * x**4)
+    return (
+        5 * t * (0.2969 * math.sqrt(x) - 0.1260 * x - 0.3516 * x**2 + 0.2843 * x**3 - 0.1036 * x**4)
+    )
 
 
 def test_naca0012_area_and_thickness():
@@ -90,17 +102,20 @@ def test_naca2412_camber_moves_centroid_up():
     assert tuple(pan.points[0]) == (naca4("2412").nodes[0].x, naca4("2412").nodes[0].y)
 
 
-@pytest.mark.parametrize("call, text", [
-    (lambda: naca4("24a2"), "four digits"),
-    (lambda: naca4("2012"), "position"),
-    (lambda: naca4("0000"), "zero thickness"),
-    (lambda: rounded_box(-1.0, 1.0), "positive"),
-    (lambda: rounded_box(1.0, 1.0, (0.1, 0.2)), "four"),
-    # 1 m sides, neighbours keeping 0.6 m: 1 - 0.6 = 0.4 m left (setback = r at 90 degrees)
-    (lambda: rounded_box(1.0, 1.0, 0.6), "largest radius that fits there is 400.0 mm"),
-    (lambda: circle(0.0), "positive"),
-    (lambda: ellipse_points(1.0, 1.0, 2), ">= 3"),
-])
+@pytest.mark.parametrize(
+    "call, text",
+    [
+        (lambda: naca4("24a2"), "four digits"),
+        (lambda: naca4("2012"), "position"),
+        (lambda: naca4("0000"), "zero thickness"),
+        (lambda: rounded_box(-1.0, 1.0), "positive"),
+        (lambda: rounded_box(1.0, 1.0, (0.1, 0.2)), "four"),
+        # 1 m sides, neighbours keeping 0.6 m: 1 - 0.6 = 0.4 m left (setback = r at 90 degrees)
+        (lambda: rounded_box(1.0, 1.0, 0.6), "largest radius that fits there is 400.0 mm"),
+        (lambda: circle(0.0), "positive"),
+        (lambda: ellipse_points(1.0, 1.0, 2), ">= 3"),
+    ],
+)
 def test_bad_shape_arguments(call, text):
     with pytest.raises(ProfileBenchError, match=text):
         call()

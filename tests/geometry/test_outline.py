@@ -1,4 +1,5 @@
 """Outline building: fillet radii measured on the built outline, radius-too-large errors."""
+
 import math
 
 import numpy as np
@@ -39,14 +40,18 @@ def test_line_line_fillet_radius_measured(r):
     for a in o.arcs:
         L = a.s_end - a.s_start
         # requirement: measured curvature radius within 1 % of the requested radius
-        assert fitted_radius(o, a.s_start + 0.1 * L, a.s_end - 0.1 * L) == pytest.approx(r, rel=0.01)
+        assert fitted_radius(o, a.s_start + 0.1 * L, a.s_end - 0.1 * L) == pytest.approx(
+            r, rel=0.01
+        )
         assert fd_radius(o, 0.5 * (a.s_start + a.s_end), 0.05 * L) == pytest.approx(r, rel=0.01)
 
 
 car_like = make_car_like
 
 
-@pytest.mark.parametrize("radii", [(0.1, 0.15, 0.05, 0.08), (0.02, 0.3, 0.2, 0.03), (0.2, 0.05, 0.01, 0.2)])
+@pytest.mark.parametrize(
+    "radii", [(0.1, 0.15, 0.05, 0.08), (0.02, 0.3, 0.2, 0.03), (0.2, 0.05, 0.01, 0.2)]
+)
 def test_fillets_next_to_splines_honour_radius(radii):
     prof = car_like(*radii)
     o = build_outline(prof)
@@ -55,8 +60,12 @@ def test_fillets_next_to_splines_honour_radius(radii):
     for a in o.arcs:
         L = a.s_end - a.s_start
         # requirement: measured curvature radius within 1 % of the requested radius
-        assert fitted_radius(o, a.s_start + 0.1 * L, a.s_end - 0.1 * L) == pytest.approx(a.radius, rel=0.01)
-        assert fd_radius(o, 0.5 * (a.s_start + a.s_end), 0.05 * L) == pytest.approx(a.radius, rel=0.01)
+        assert fitted_radius(o, a.s_start + 0.1 * L, a.s_end - 0.1 * L) == pytest.approx(
+            a.radius, rel=0.01
+        )
+        assert fd_radius(o, 0.5 * (a.s_start + a.s_end), 0.05 * L) == pytest.approx(
+            a.radius, rel=0.01
+        )
 
 
 @pytest.mark.parametrize("node", [0, 2, 4, 6])
@@ -141,7 +150,9 @@ def test_radius_too_large_next_to_spline(node):
     o = build_outline(base.with_radius(node, err.largest * (1 - 1e-6)))
     a = next(a for a in o.arcs if a.node == node)
     L = a.s_end - a.s_start
-    assert fitted_radius(o, a.s_start + 0.1 * L, a.s_end - 0.1 * L) == pytest.approx(err.largest, rel=0.01)
+    assert fitted_radius(o, a.s_start + 0.1 * L, a.s_end - 0.1 * L) == pytest.approx(
+        err.largest, rel=0.01
+    )
     with pytest.raises(RadiusTooLargeError):
         build_outline(base.with_radius(node, err.largest * 1.01))
 
@@ -177,7 +188,7 @@ def test_gentle_and_sharp_line_corners_set_back_r_tan_half_turn(turn_deg):
     d = r * math.tan(th / 2)
     assert np.hypot(*(p_start - corner)) == pytest.approx(d, rel=1e-9)
     assert np.hypot(*(p_end - corner)) == pytest.approx(d, rel=1e-9)
-    assert abs(p_start[1] - corner[1]) < 1e-12          # on the incoming line
+    assert abs(p_start[1] - corner[1]) < 1e-12  # on the incoming line
     assert (arc.s_end - arc.s_start) == pytest.approx(r * th, rel=1e-9)  # arc length r theta
 
 

@@ -1,4 +1,5 @@
 """Internals of outline building checked against scipy: spline coefficients and fillet solves."""
+
 import numpy as np
 import pytest
 from scipy.interpolate import CubicSpline
@@ -20,7 +21,9 @@ def test_spline_matches_scipy_not_a_knot(n):
     ref = CubicSpline(spl.knots, pts, axis=0, bc_type="not-a-knot")
     t = np.linspace(-0.1 * spl.T, 1.1 * spl.T, 97)  # includes extrapolation past both ends
     for nu in (0, 1, 2):
-        np.testing.assert_allclose(spl.eval(t, nu), ref(t, nu), rtol=0, atol=1e-12 * (1 + np.abs(ref(t, nu)).max()))
+        np.testing.assert_allclose(
+            spl.eval(t, nu), ref(t, nu), rtol=0, atol=1e-12 * (1 + np.abs(ref(t, nu)).max())
+        )
     for tk in (0.37 * spl.T, float(spl.knots[1])):
         p, d1, d2 = spl.pdd(tk)
         np.testing.assert_allclose([p, d1, d2], [ref(tk), ref(tk, 1), ref(tk, 2)], atol=1e-12)
@@ -82,11 +85,17 @@ def test_fillet_tangent_points_match_scipy_root(sample, node):
             out.append(curve.eval(t) + sig * r * nl)
         return out[0] - out[1]
 
-    sol = root(fun, [nearest_t(cin, p_start), nearest_t(cout, p_end)], method="hybr",
-               options={"xtol": 1e-13})
+    sol = root(
+        fun,
+        [nearest_t(cin, p_start), nearest_t(cout, p_end)],
+        method="hybr",
+        options={"xtol": 1e-13},
+    )
     # hybr may stop with "not making good progress" once the residual is at round-off
     assert np.max(np.abs(fun(sol.x))) < 1e-12 * max(cin.T, cout.T, r)
-    c_ref = cin.eval(sol.x[0]) + sig * r * (lambda d: np.array([-d[1], d[0]]) / np.hypot(*d))(cin.eval(sol.x[0], 1))
+    c_ref = cin.eval(sol.x[0]) + sig * r * (lambda d: np.array([-d[1], d[0]]) / np.hypot(*d))(
+        cin.eval(sol.x[0], 1)
+    )
     np.testing.assert_allclose(arc.centre, c_ref, atol=1e-9)
     np.testing.assert_allclose(p_start, cin.eval(sol.x[0]), atol=1e-9)
     np.testing.assert_allclose(p_end, cout.eval(sol.x[1]), atol=1e-9)

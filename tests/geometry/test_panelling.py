@@ -18,7 +18,9 @@ PROFILES = {
     "box_mixed": lambda: rounded_box(4.0, 1.4, (0.3, 0.0, 0.05, 0.0), clearance=0.15),
     "car": car_like,
     "naca2412": lambda: naca4("2412"),
-    "clockwise": lambda: Profile((Node(0, 0.1), Node(0, 1.0, 0.2), Node(3, 1.0, 0.1), Node(3, 0.1))),
+    "clockwise": lambda: Profile(
+        (Node(0, 0.1), Node(0, 1.0, 0.2), Node(3, 1.0, 0.1), Node(3, 0.1))
+    ),
 }
 
 
@@ -70,7 +72,7 @@ def test_clustering_toward_sharp_edges():
     assert chords[k - 1] < 0.5 * chords[mid]
     assert chords[pan.node_point[0]] < 0.5 * chords[mid]
     # growth away from the edge is smooth: neighbouring panels differ by less than 30 %
-    ratio = chords[pan.node_point[0] + 1:k] / chords[pan.node_point[0]:k - 1]
+    ratio = chords[pan.node_point[0] + 1 : k] / chords[pan.node_point[0] : k - 1]
     assert np.all((ratio > 0.7) & (ratio < 1.3))
 
 
@@ -83,7 +85,7 @@ def test_corner_spans_and_node_points():
     assert tail.radius == 0 and tail.s_start == tail.s_end and tail.centre is None
     nose = spans[0]
     # the fillet centre is one radius from its arc's panel points (circle geometry)
-    d = np.hypot(*(pan.points[nose.point_start:nose.point_end + 1] - nose.centre).T)
+    d = np.hypot(*(pan.points[nose.point_start : nose.point_end + 1] - nose.centre).T)
     assert d == pytest.approx(nose.radius, rel=1e-6)
     # the nose's node point is the point nearest the middle of its fillet
     mid = 0.5 * (nose.s_start + nose.s_end)

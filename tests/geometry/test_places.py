@@ -11,8 +11,9 @@ from profilebench.io import load_project, sample_paths
 
 
 def _unlabelled(profile):
-    return Profile(tuple(Node(n.x, n.y, n.radius, n.smooth) for n in profile.nodes),
-                   name=profile.name)
+    return Profile(
+        tuple(Node(n.x, n.y, n.radius, n.smooth) for n in profile.nodes), name=profile.name
+    )
 
 
 @pytest.fixture(scope="module")
@@ -22,7 +23,7 @@ def van():
 
 def test_the_van_corners_get_names_by_place(van):
     names = place_names(_unlabelled(van.profile))
-    assert names[5] == "windscreen base"          # the concave corner at the screen's foot
+    assert names[5] == "windscreen base"  # the concave corner at the screen's foot
     assert names[0] == "front lower corner"
     assert names[4] == "roof front edge" and names[3] == "roof rear edge"
     assert all(not van.profile.nodes[i].smooth for i in names)
@@ -49,5 +50,9 @@ def test_a_label_the_user_gave_wins(van):
 
 def test_a_box_s_four_corners():
     names = place_names(rounded_box(4.0, 1.8, 0.1, clearance=0.2))
-    assert sorted(names.values()) == ["front lower corner", "rear lower corner",
-                                      "roof front edge", "roof rear edge"]
+    assert sorted(names.values()) == [
+        "front lower corner",
+        "rear lower corner",
+        "roof front edge",
+        "roof rear edge",
+    ]

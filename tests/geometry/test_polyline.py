@@ -1,4 +1,5 @@
 """profilebench.geometry.polyline against shapely's own lengths, areas and orientation."""
+
 import numpy as np
 import pytest
 import shapely

@@ -31,12 +31,18 @@ def test_displaced_smooth_nodes_and_radii_are_fitted_back_onto_the_points():
     profile = _hatch()
     pts = build_outline(profile).sample(2000)
     # every smooth node 15 mm off and every radius 20 % large: the outline strays by centimetres
-    moved = Profile(tuple(Node(n.x, n.y + 0.015, 0.0, True) if n.smooth else
-                          Node(n.x, n.y, 1.2 * n.radius) for n in profile.nodes))
+    moved = Profile(
+        tuple(
+            Node(n.x, n.y + 0.015, 0.0, True) if n.smooth else Node(n.x, n.y, 1.2 * n.radius)
+            for n in profile.nodes
+        )
+    )
     before = float(np.max(np.abs(point_distances(moved, pts))))
     refined, dev = refine_profile(moved, pts, tolerance=0.001, max_added=0)
     assert before > 0.01
-    assert dev < 0.001 and float(np.max(np.abs(point_distances(refined, pts)))) == pytest.approx(dev)
+    assert dev < 0.001 and float(np.max(np.abs(point_distances(refined, pts)))) == pytest.approx(
+        dev
+    )
     assert [n.smooth for n in refined.nodes] == [n.smooth for n in profile.nodes]
     # the radii of the fillets that turn the outline by more than 30 degrees come back within
     # 10 %; one that turns little (the underbody's rear, 23 degrees; the windscreen base, 14)

@@ -1,18 +1,29 @@
 """Validity: each bad input gives a project error whose message says what to fix."""
+
 import numpy as np
 import pytest
 import shapely
 
-from profilebench.errors import (GeometryError, GroundContactError, RadiusTooLargeError,
-                                 SelfIntersectionError)
+from profilebench.errors import (
+    GeometryError,
+    GroundContactError,
+    RadiusTooLargeError,
+    SelfIntersectionError,
+)
 from profilebench.geometry import Node, Profile, circle, explain, naca4, rounded_box, validate
 
 from geometry_cases import make_car_like
 
 
-@pytest.mark.parametrize("make", [lambda: rounded_box(4, 1.4, 0.2, clearance=0.2), make_car_like,
-                                  lambda: naca4("2412").translated(0, 0.5),
-                                  lambda: circle(1.0, centre=(0, 1.5))])
+@pytest.mark.parametrize(
+    "make",
+    [
+        lambda: rounded_box(4, 1.4, 0.2, clearance=0.2),
+        make_car_like,
+        lambda: naca4("2412").translated(0, 0.5),
+        lambda: circle(1.0, centre=(0, 1.5)),
+    ],
+)
 def test_valid_profiles_have_no_problems(make):
     prof = make()
     assert explain(prof, ground=True) == []
@@ -45,13 +56,23 @@ def test_self_intersection_location():
     with pytest.raises(SelfIntersectionError) as exc:
         validate(prof)
     assert exc.value.location == pytest.approx(tuple(expected), abs=1e-9)
-    assert "(500.0, 500.0) mm" in str(exc.value) and "so the outline does not cross" in str(exc.value)
+    assert "(500.0, 500.0) mm" in str(exc.value) and "so the outline does not cross" in str(
+        exc.value
+    )
 
 
 def test_self_intersection_from_spline_overshoot():
     # the node polygon is simple but a spline through the smooth nodes loops across the line
-    prof = Profile((Node(0, 0), Node(2, 0), Node(2, 0.06, smooth=True), Node(0.3, 0.03, smooth=True),
-                    Node(0.3, 1, smooth=True), Node(0, 1)))
+    prof = Profile(
+        (
+            Node(0, 0),
+            Node(2, 0),
+            Node(2, 0.06, smooth=True),
+            Node(0.3, 0.03, smooth=True),
+            Node(0.3, 1, smooth=True),
+            Node(0, 1),
+        )
+    )
     assert shapely.is_valid(shapely.Polygon(prof.xy))  # shapely: the node polygon is simple
     with pytest.raises(SelfIntersectionError) as exc:
         validate(prof)
@@ -78,10 +99,13 @@ def test_radius_too_large_via_validate():
         validate(prof)
 
 
-@pytest.mark.parametrize("clearance, low_mm, remedy", [
-    (-0.05, -50.0, "raise the profile by more than 50.0 mm"),
-    (0.0, 0.0, "raise the profile clear of y = 0"),   # touching: no "by -0.0 mm"
-])
+@pytest.mark.parametrize(
+    "clearance, low_mm, remedy",
+    [
+        (-0.05, -50.0, "raise the profile by more than 50.0 mm"),
+        (0.0, 0.0, "raise the profile clear of y = 0"),  # touching: no "by -0.0 mm"
+    ],
+)
 def test_below_ground(clearance, low_mm, remedy):
     prof = rounded_box(4, 1.4, 0.2, clearance=clearance)
     assert explain(prof, ground=False) == []

@@ -40,26 +40,27 @@ def test_overlay_redrawn_off_the_gui_thread(window, qtbot, overlay_threads, chan
         window.resize(window.width() - 120, window.height() - 60)
     c.repaint()
     qtbot.waitUntil(lambda: c.up_to_date, timeout=ANALYSIS_TIMEOUT_MS)
-    assert c._overlay is not before            # new images arrived
-    assert overlay_threads and not any(overlay_threads)   # all drawn on a worker thread
+    assert c._overlay is not before  # new images arrived
+    assert overlay_threads and not any(overlay_threads)  # all drawn on a worker thread
 
 
 def test_first_overlay_drawn_off_the_gui_thread(window, qtbot, overlay_threads):
     c = window.canvas
-    c._overlay = None                         # as on the first analysis: no images yet
+    c._overlay = None  # as on the first analysis: no images yet
     c._overlay_requested = None
-    c.repaint()                               # paints without an overlay, asks the worker
+    c.repaint()  # paints without an overlay, asks the worker
     qtbot.waitUntil(lambda: c.up_to_date, timeout=ANALYSIS_TIMEOUT_MS)
     assert overlay_threads and not any(overlay_threads)
 
 
-@pytest.mark.parametrize("factor, shift", [(1.25, (0, 0)), (0.8, (0, 0)), (1.0, (35, -20)),
-                                           (1.5, (-12, 9))])
+@pytest.mark.parametrize(
+    "factor, shift", [(1.25, (0, 0)), (0.8, (0, 0)), (1.0, (35, -20)), (1.5, (-12, 9))]
+)
 def test_old_overlay_follows_the_view(window, qtbot, factor, shift):
     c = window.canvas
     qtbot.waitUntil(lambda: c.up_to_date, timeout=ANALYSIS_TIMEOUT_MS)
     old_view = c.view
-    c.overlay_runner.close(5000)              # keep the old images: nothing new arrives
+    c.overlay_runner.close(5000)  # keep the old images: nothing new arrives
     c.view = c.view.zoomed(factor, 300.0, 200.0).panned(*shift)
     under, over, mapping = c._overlay_images()
     assert under is c._overlay[2] and over is c._overlay[3]

@@ -71,7 +71,7 @@ def test_process_runner_reports_failure_and_goes_on(qtbot):
     assert failures == ["ValueError: math domain error"]
     with qtbot.waitSignal(runner.finished, timeout=20000):
         runner.request(6.25)
-    assert results == [2.5]          # 2.5 ** 2 = 6.25 exactly in binary floating point
+    assert results == [2.5]  # 2.5 ** 2 = 6.25 exactly in binary floating point
     assert runner.close(5000)
 
 
@@ -86,9 +86,9 @@ def test_plots_are_rendered_in_the_child_at_the_asked_size(window, qtbot):
 
 
 def test_a_job_that_does_not_pickle_fails_alone(child, qtbot):
-    ok, text = _collect(child, math.fsum, ([lambda: 0],), qtbot)   # a lambda does not pickle
+    ok, text = _collect(child, math.fsum, ([lambda: 0],), qtbot)  # a lambda does not pickle
     assert not ok and "pickle" in text.lower()
-    ok, value = _collect(child, math.fsum, ([0.5, 0.25],), qtbot)   # 0.75 exactly in binary
+    ok, value = _collect(child, math.fsum, ([0.5, 0.25],), qtbot)  # 0.75 exactly in binary
     assert ok and value == 0.75
 
 
@@ -99,7 +99,7 @@ def test_default_analysis_runs_in_the_child_and_matches_the_pipeline(qtbot):
 
     project = load_project(default_sample_path())
     runner = AnalysisRunner()
-    assert runner._child is not None            # the child process, not a thread
+    assert runner._child is not None  # the child process, not a thread
     got = []
     runner.finished.connect(lambda g, a, s: got.append(a))
     with qtbot.waitSignal(runner.finished, timeout=30000):
@@ -113,7 +113,7 @@ def test_default_analysis_runs_in_the_child_and_matches_the_pipeline(qtbot):
 def test_an_injected_analysis_runs_on_a_thread(qtbot):
     from profilebench.gui.worker import AnalysisRunner
 
-    runner = AnalysisRunner(analyze_fn=lambda p, c: (p, c))   # a lambda: cannot cross processes
+    runner = AnalysisRunner(analyze_fn=lambda p, c: (p, c))  # a lambda: cannot cross processes
     assert runner._child is None
     with qtbot.waitSignal(runner.finished, timeout=5000) as blocker:
         runner.request(1, 2)
@@ -131,13 +131,15 @@ def test_radius_search_from_the_window_matches_the_search_here(window, qtbot):
     # the same bisection called in this process (deterministic numerics) finds the same radius
     here = smallest_attached_radius(w.document.profile, w.document.conditions, node)
     assert got.status == here.status and got.solves == here.solves
-    assert (got.radius is None and here.radius is None) or got.radius == pytest.approx(here.radius, rel=1e-12)
+    assert (got.radius is None and here.radius is None) or got.radius == pytest.approx(
+        here.radius, rel=1e-12
+    )
 
 
 def test_the_reported_time_is_the_jobs_own_time_in_the_child(child, qtbot):
     import time
 
-    _collect(child, os.getpid, (), qtbot)          # the child started (its imports not counted)
+    _collect(child, os.getpid, (), qtbot)  # the child started (its imports not counted)
     got = []
     child.submit(time.sleep, (0.2,), lambda ok, p, seconds: got.append(seconds))
     qtbot.waitUntil(lambda: bool(got), timeout=20000)
@@ -156,6 +158,6 @@ def test_the_child_runs_at_a_lower_cpu_priority(child, qtbot):
 
 def test_a_result_that_does_not_pickle_fails_and_the_child_goes_on(child, qtbot):
     ok, text = _collect(child, __import__("importlib").import_module, ("math",), qtbot)
-    assert not ok and "pickle" in text.lower()           # a module object does not pickle
+    assert not ok and "pickle" in text.lower()  # a module object does not pickle
     ok, value = _collect(child, math.fsum, ([0.1] * 10,), qtbot)
-    assert ok and value == 1.0                            # math.fsum docs: exactly 1.0
+    assert ok and value == 1.0  # math.fsum docs: exactly 1.0

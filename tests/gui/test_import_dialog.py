@@ -54,7 +54,7 @@ def test_a_changed_tolerance_refits_and_the_newest_wins(qtbot, tmp_path):
     d = _dialog(qtbot, _box_csv(tmp_path / "box.csv"))
     first = d.preview
     d.tolerance.setValue(12.0)
-    d.tolerance.setValue(8.0)          # typed on: only the last value counts
+    d.tolerance.setValue(8.0)  # typed on: only the last value counts
     assert not d.ok_button.isEnabled()
     qtbot.waitUntil(lambda: not d.fitting and d.preview is not first, timeout=ANALYSIS_TIMEOUT_MS)
     assert d.preview.tolerance == pytest.approx(0.008)
@@ -67,12 +67,11 @@ def test_an_outline_that_gives_no_valid_profile_cannot_be_accepted(qtbot, tmp_pa
     d = _dialog(qtbot, bad)
     assert not d.preview.ok and not d.ok_button.isEnabled()
     assert "Cannot load" in d.status.text() and "cross" in d.status.text()
-    d.accept()                          # even forced, nothing is accepted
+    d.accept()  # even forced, nothing is accepted
     assert d.result() != QDialog.DialogCode.Accepted
 
 
-def test_the_editor_imports_through_the_dialog_and_cancel_changes_nothing(window, qtbot,
-                                                                          tmp_path):
+def test_the_editor_imports_through_the_dialog_and_cancel_changes_nothing(window, qtbot, tmp_path):
     w = window
     wait_current(qtbot, w)
     before = w.document.profile
@@ -113,5 +112,5 @@ def test_cancel_while_a_fit_runs_returns_at_once_and_drops_the_late_result(qtbot
     d.reject()
     assert time.perf_counter() - t0 < 1.0
     assert d.result() == QDialog.DialogCode.Rejected
-    qtbot.wait(1500)                    # the fit comes back meanwhile: nothing is shown
+    qtbot.wait(1500)  # the fit comes back meanwhile: nothing is shown
     assert d.preview is None

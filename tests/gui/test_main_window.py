@@ -1,6 +1,5 @@
 """The editor window driven like a user: real mouse events, typed entries, files (headless)."""
 
-
 import numpy as np
 import pytest
 from PySide6.QtCore import QPoint, Qt
@@ -52,17 +51,17 @@ def test_drag_a_node_with_the_mouse_then_undo(window, qtbot):
     before = w.document.profile
     old_cd = w.analysis.drag.cd
     start = c.screen_of_node(i)
-    end = start + type(start)(0, -25)          # 25 px up
+    end = start + type(start)(0, -25)  # 25 px up
     drag(qtbot, c, start, end, steps=12)
     moved = w.document.profile
     assert moved != before
     dy = (moved.nodes[i].y - before.nodes[i].y) * c.view.scale
-    assert dy == pytest.approx(25, abs=1.0)    # screen y runs down, so up is +y in metres
-    assert w.undo_stack.count() == 1           # the whole drag is one undo step
+    assert dy == pytest.approx(25, abs=1.0)  # screen y runs down, so up is +y in metres
+    assert w.undo_stack.count() == 1  # the whole drag is one undo step
     wait_current(qtbot, w)
     assert w.analysis.profile == moved and w.analysis.drag.cd != old_cd
     w.undo_stack.undo()
-    assert w.document.profile == before        # exact: the very same node values
+    assert w.document.profile == before  # exact: the very same node values
     assert w.document.profile.nodes[i] == before.nodes[i]
     wait_current(qtbot, w)
     assert w.analysis.drag.cd == pytest.approx(old_cd, rel=1e-12)
@@ -116,8 +115,9 @@ def test_save_then_open_gives_the_same_profile(window, qtbot, tmp_path):
     wait_current(qtbot, w)
 
 
-@pytest.mark.parametrize("suffix, magic", [(".png", b"\x89PNG\r\n\x1a\n"), (".svg", b"<?xml"),
-                                           (".pdf", b"%PDF")])
+@pytest.mark.parametrize(
+    "suffix, magic", [(".png", b"\x89PNG\r\n\x1a\n"), (".svg", b"<?xml"), (".pdf", b"%PDF")]
+)
 def test_export_writes_a_non_empty_image(window, tmp_path, suffix, magic):
     # file signatures: PNG (RFC 2083 / ISO 15948), SVG is XML, PDF (ISO 32000 header)
     path = tmp_path / f"view{suffix}"
@@ -149,7 +149,7 @@ def test_self_intersecting_drag_shows_a_message_and_keeps_the_app_alive(window, 
     # position of this drag shown while it went on (a superseded result, shown marked stale)
     assert w.analysis.success and w.analysis.profile != w.document.profile
     assert w.analysis is good or w.lagging_shown > 0
-    assert c.stale                      # ...and drawn marked stale
+    assert c.stale  # ...and drawn marked stale
     w.undo_stack.undo()
     wait_current(qtbot, w)
     assert not w.banner.isVisible() and not c.stale
@@ -197,8 +197,10 @@ def test_baseline_pinned_shows_deltas(window, qtbot):
     corner = next(c for c in w.analysis.corners if c.radius > 0)
     w.set_radius(corner.node, corner.radius * 0.5)
     wait_current(qtbot, w)
-    qtbot.waitUntil(lambda: w.baseline_analysis is not None and w.summary.value("ΔCd") is not None,
-                    timeout=ANALYSIS_TIMEOUT_MS)
+    qtbot.waitUntil(
+        lambda: w.baseline_analysis is not None and w.summary.value("ΔCd") is not None,
+        timeout=ANALYSIS_TIMEOUT_MS,
+    )
     delta = float(w.summary.value("ΔCd"))
     assert delta == pytest.approx(w.analysis.drag.cd - w.baseline_analysis.drag.cd, abs=1e-4)
 
@@ -208,7 +210,7 @@ def test_unsaved_changes_prompt_on_close(window):
     w.set_radius(w.analysis.corners[0].node, 0.04)
     asked = []
     w.ask_unsaved = lambda: asked.append(w.document.title) or "cancel"
-    assert not w.close()               # cancelled: the window stays
+    assert not w.close()  # cancelled: the window stays
     assert asked == [w.document.title] and asked[0].endswith("*") and w.isVisible()
     w.ask_unsaved = lambda: "discard"
     assert w.close()
@@ -217,9 +219,10 @@ def test_unsaved_changes_prompt_on_close(window):
 def test_a_long_drag_shows_superseded_results_marked_stale_then_the_final_one(window, qtbot):
     w = window
     c = w.canvas
-    seen = []   # (canvas stale, shown analysis is for the current outline) at each lagging result
+    seen = []  # (canvas stale, shown analysis is for the current outline) at each lagging result
     w.runner.lagging.connect(
-        lambda g, a, s: seen.append((c.stale, w.analysis_state == w.document.state)))
+        lambda g, a, s: seen.append((c.stale, w.analysis_state == w.document.state))
+    )
     i = _movable_node(w)
     start = c.screen_of_node(i)
     qtbot.mousePress(c, Qt.LeftButton, pos=_pt(start))
@@ -242,10 +245,12 @@ def test_a_long_drag_shows_superseded_results_marked_stale_then_the_final_one(wi
     assert w.lagging_shown >= 1
     wait_current(qtbot, w)
     assert not c.stale and w.analysis.profile == w.document.profile
-    assert w.undo_stack.count() == 1           # the whole drag is one undo step
+    assert w.undo_stack.count() == 1  # the whole drag is one undo step
 
 
-def test_drag_reuses_a_nearby_radius_search_and_the_final_outline_gets_its_own(window, qtbot, tmp_path):
+def test_drag_reuses_a_nearby_radius_search_and_the_final_outline_gets_its_own(
+    window, qtbot, tmp_path
+):
     from profilebench.assess.analysis import analyze
 
     from sample_variants import bubble_van_project
@@ -282,7 +287,7 @@ def test_a_superseded_result_newer_than_a_shown_failure_replaces_its_banner(wind
     # a valid position's analysis arrives after that failure, itself superseded by a newer edit
     w._requested[10_000] = state
     n = state.profile.nodes[0]
-    w.preview_profile(state.profile.moved(0, n.x, n.y + 0.001))      # the newer edit
+    w.preview_profile(state.profile.moved(0, n.x, n.y + 0.001))  # the newer edit
     w._analysis_lagging(10_000, good, 0.02)
     assert not w.banner.isVisible() and w.last_message == ""
     assert w.analysis is good and w.canvas.stale and 10_000 not in w._requested
@@ -298,12 +303,13 @@ def test_find_smallest_radius_takes_the_search_the_shown_analysis_ran(window, qt
     wait_current(qtbot, w)
     ran = w.analysis.radius_searches[0]
     requests = []
-    w.search_runner.request = lambda *args: requests.append(args)   # no child should be asked
+    w.search_runner.request = lambda *args: requests.append(args)  # no child should be asked
     w.find_smallest_radius(ran.node)
     assert w.searches[ran.node] is ran and requests == []
     assert "from the analysis shown" in w.corner_table.message.text()
     # another corner, which the analysis did not search, goes to the search child
-    other = next(i for i, n in enumerate(w.document.profile.nodes)
-                 if not n.smooth and i != ran.node)
+    other = next(
+        i for i, n in enumerate(w.document.profile.nodes) if not n.smooth and i != ran.node
+    )
     w.find_smallest_radius(other)
     assert len(requests) == 1 and w.searches[other] == "running"

@@ -46,8 +46,9 @@ def _expected_edit(node):
 
 def test_killed_editor_leaves_a_copy_that_a_new_window_restores_exactly(qtbot, settings, tmp_path):
     env = dict(os.environ, PROFILEBENCH_AUTOSAVE_MS="500")
-    child = subprocess.Popen([sys.executable, "-c", CHILD, str(tmp_path)], stdout=subprocess.PIPE,
-                             env=env, text=True)
+    child = subprocess.Popen(
+        [sys.executable, "-c", CHILD, str(tmp_path)], stdout=subprocess.PIPE, env=env, text=True
+    )
     try:
         node = int(child.stdout.readline())
         copy = tmp_path / "recovery" / f"recovery-{child.pid}.json"
@@ -70,9 +71,9 @@ def test_killed_editor_leaves_a_copy_that_a_new_window_restores_exactly(qtbot, s
     qtbot.addWidget(w)
     qtbot.waitUntil(lambda: bool(offered), timeout=5000)
     assert offered[0].pid == child.pid
-    assert w.document.profile == _expected_edit(node)     # exact, field by field
+    assert w.document.profile == _expected_edit(node)  # exact, field by field
     assert w.document.dirty and w.windowTitle().split(" —")[0].endswith("*")
-    assert not copy.exists()                              # taken over by this process
+    assert not copy.exists()  # taken over by this process
     for r in (w.runner, w.baseline_runner, w.search_runner):
         r.wait(ANALYSIS_TIMEOUT_MS)
 

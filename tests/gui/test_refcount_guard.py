@@ -35,11 +35,11 @@ def test_guard_gives_back_a_shortfall_when_it_is_needed(monkeypatch):
     given = guard.restore_none_refcount()
     after = sys.getrefcount(None)
     assert given == 3
-    assert after >= now + 3 - 1     # other code may drop a reference of its own meanwhile
+    assert after >= now + 3 - 1  # other code may drop a reference of its own meanwhile
     # no shortfall: nothing given back, and the baseline follows a rising count
     monkeypatch.setattr(guard, "_baseline", 0)
     assert guard.restore_none_refcount() == 0
-    assert abs(guard._baseline - sys.getrefcount(None)) <= 2   # None passes through the call
+    assert abs(guard._baseline - sys.getrefcount(None)) <= 2  # None passes through the call
 
 
 def test_guard_does_nothing_where_pyside_is_sound(monkeypatch):

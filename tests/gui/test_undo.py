@@ -14,8 +14,9 @@ from profilebench.errors import GeometryError, InputError, ProfileBenchError
 from profilebench.geometry.profile import Profile
 
 # A 4 m x 1.5 m box 0.2 m above the ground: invented test shape, counter-clockwise.
-BOX = Profile.from_points([(0.0, 0.2), (4.0, 0.2), (4.0, 1.7), (0.0, 1.7)], radii=[0, 0, 0.1, 0.2],
-                          name="box")
+BOX = Profile.from_points(
+    [(0.0, 0.2), (4.0, 0.2), (4.0, 1.7), (0.0, 1.7)], radii=[0, 0, 0.1, 0.2], name="box"
+)
 
 
 class History:
@@ -51,6 +52,7 @@ def fresh(qapp):
     def make():
         doc = Document(BOX, Conditions())
         return doc, History(doc)
+
     return make
 
 
@@ -102,7 +104,7 @@ def test_saved_state_makes_document_clean_and_title_marks_changes(tmp_path, fres
     assert doc.title.endswith(" *")
     doc.mark_saved(tmp_path / "a.json")
     assert not doc.dirty and doc.title == "a.json"
-    history.undo()                      # back to a state that was never saved
+    history.undo()  # back to a state that was never saved
     assert doc.dirty
 
 
@@ -129,14 +131,15 @@ def test_delete_below_three_nodes_is_refused_with_a_reason():
         commands.delete_node(doc.state, 0)
 
 
-@pytest.mark.parametrize("bad, error", [(-0.01, GeometryError), (float("nan"), InputError),
-                                        ("5", InputError)])
+@pytest.mark.parametrize(
+    "bad, error", [(-0.01, GeometryError), (float("nan"), InputError), ("5", InputError)]
+)
 def test_bad_radius_is_refused_not_clamped(bad, error, fresh):
     doc, _ = fresh()
     with pytest.raises(error) as info:
         commands.set_radius(doc.state, 0, bad)
     assert isinstance(info.value, ProfileBenchError)
-    assert doc.state.profile is BOX   # nothing changed
+    assert doc.state.profile is BOX  # nothing changed
 
 
 def test_insert_on_spline_segment_is_smooth():
@@ -144,7 +147,7 @@ def test_insert_on_spline_segment_is_smooth():
     doc = Document(prof, Conditions())
     edit = commands.insert_node(doc.state, 1, 2.0, 0.2)
     assert edit.after.profile.nodes[1].smooth
-    edit = commands.insert_node(doc.state, 3, 2.0, 1.7)   # between nodes 2 and 3, both corners
+    edit = commands.insert_node(doc.state, 3, 2.0, 1.7)  # between nodes 2 and 3, both corners
     assert not edit.after.profile.nodes[3].smooth
 
 
@@ -156,7 +159,7 @@ def test_whole_drag_is_one_undo_step_and_undo_is_exact(qapp):
     doc = Document(BOX, Conditions())
     history = History(doc)
     sx, sy = VIEW.to_screen(*BOX.xy[1])
-    drag = NodeDrag(doc.state, 1, VIEW, sx + 3, sy + 2)   # grabbed a little off the centre
+    drag = NodeDrag(doc.state, 1, VIEW, sx + 3, sy + 2)  # grabbed a little off the centre
     for k in range(1, 31):
         doc.preview_profile(drag.move(VIEW, sx + 3 + k, sy + 2 - k))
     history.push(drag.finish())

@@ -90,7 +90,7 @@ def test_cancelled_requests_are_never_delivered_even_as_lagging(qtbot):
     runner.lagging.connect(lambda g, result, s: got.append(result))
     runner.finished.connect(lambda g, result, s: got.append(result))
     runner.request(1)
-    runner.cancel_pending()     # e.g. another document was opened
+    runner.cancel_pending()  # e.g. another document was opened
     gate.set()
     qtbot.waitUntil(lambda: not runner.busy, timeout=5000)
     qtbot.wait(50)

@@ -29,12 +29,27 @@ FORMATS = {
     "comma with header m": ("x,y\n0,0.2\n4,0.2\n4,1.4\n0,1.4\n", "m", ",", False),
     "semicolon mm header": ("x_mm;y_mm\n0;200\n4000;200\n4000;1400\n0;1400\n", "mm", ";", False),
     "tab with unit header": ("x [m]\ty [m]\n0\t0.2\n4\t0.2\n4\t1.4\n0\t1.4\n", "m", "\t", False),
-    "decimal comma semicolons": ("X (m);Y (m)\n0,0;0,2\n4,0;0,2\n4,0;1,4\n0,0;1,4\n", "m", ";", True),
+    "decimal comma semicolons": (
+        "X (m);Y (m)\n0,0;0,2\n4,0;0,2\n4,0;1,4\n0,0;1,4\n",
+        "m",
+        ";",
+        True,
+    ),
     "no header, mm by extent": ("0,200\n4000,200\n4000,1400\n0,1400\n", "mm", ",", False),
     "no header, m by extent": ("0 0.2\n4 0.2\n4   1.4\n0 1.4\n", "m", " ", False),
-    "comments and blank lines": ("# digitised side view\n\nx,y  # metres\n\n0,0.2\n# skip\n4,0.2\n4,1.4\n\n0,1.4\n", "m", ",", False),
+    "comments and blank lines": (
+        "# digitised side view\n\nx,y  # metres\n\n0,0.2\n# skip\n4,0.2\n4,1.4\n\n0,1.4\n",
+        "m",
+        ",",
+        False,
+    ),
     "trailing separators": ("x;y;\n0;0.2;\n4;0.2;\n4;1.4;\n0;1.4;\n", "m", ";", False),
-    "three columns named": ("id,x_mm,y_mm\n1,0,200\n2,4000,200\n3,4000,1400\n4,0,1400\n", "mm", ",", False),
+    "three columns named": (
+        "id,x_mm,y_mm\n1,0,200\n2,4000,200\n3,4000,1400\n4,0,1400\n",
+        "mm",
+        ",",
+        False,
+    ),
     "y before x": ("y,x\n0.2,0\n0.2,4\n1.4,4\n1.4,0\n", "m", ",", False),
     "byte order mark": ("\ufeffx,y\n0,0.2\n4,0.2\n4,1.4\n0,1.4\n", "m", ",", False),
 }
@@ -188,23 +203,29 @@ def test_closing_and_repeated_points_are_dropped():
     np.testing.assert_array_equal(np.array(prof.xy), BOX_M)
 
 
-@pytest.mark.parametrize("bad,pattern", [
-    ([[0, 0], [1, 0]], "at least 3"),
-    ([[0, 0], [1, 0], [np.nan, 1]], "not finite"),
-    ([[0, 0, 0], [1, 0, 0], [1, 1, 0]], "shape"),
-    ([[0, 0], [0, 0], [0, 0], [0, 0]], "distinct"),
-])
+@pytest.mark.parametrize(
+    "bad,pattern",
+    [
+        ([[0, 0], [1, 0]], "at least 3"),
+        ([[0, 0], [1, 0], [np.nan, 1]], "not finite"),
+        ([[0, 0, 0], [1, 0, 0], [1, 1, 0]], "shape"),
+        ([[0, 0], [0, 0], [0, 0], [0, 0]], "distinct"),
+    ],
+)
 def test_profile_from_bad_points(bad, pattern):
     with pytest.raises(InputError, match=pattern):
         profile_from_points(bad)
 
 
-@pytest.mark.parametrize("kw,pattern", [
-    ({"simplify_tolerance": -1.0}, "simplify_tolerance"),
-    ({"simplify_tolerance": float("nan")}, "simplify_tolerance"),
-    ({"sharp_angle": 0.0}, "sharp_angle"),
-    ({"sharp_angle": 200.0}, "sharp_angle"),
-])
+@pytest.mark.parametrize(
+    "kw,pattern",
+    [
+        ({"simplify_tolerance": -1.0}, "simplify_tolerance"),
+        ({"simplify_tolerance": float("nan")}, "simplify_tolerance"),
+        ({"sharp_angle": 0.0}, "sharp_angle"),
+        ({"sharp_angle": 200.0}, "sharp_angle"),
+    ],
+)
 def test_profile_from_points_bad_options(kw, pattern):
     with pytest.raises(InputError, match=pattern):
         profile_from_points(_ellipse(100), **kw)

@@ -31,8 +31,12 @@ from profilebench.io import (
 
 def _box(name="box"):
     return Profile(
-        (Node(0.0, 0.1, 0.05, label="front lower"), Node(2.0, 0.1), Node(2.0, 0.6),
-         Node(0.0, 0.6, 0.05, label="front upper")),
+        (
+            Node(0.0, 0.1, 0.05, label="front lower"),
+            Node(2.0, 0.1),
+            Node(2.0, 0.6),
+            Node(0.0, 0.6, 0.05, label="front upper"),
+        ),
         name=name,
     )
 
@@ -70,16 +74,22 @@ def test_loading_never_modifies_the_file(tmp_path):
 
 
 # every coordinate a node may hold (profilebench.geometry.profile.MAX_COORDINATE)
-finite = st.floats(min_value=-MAX_COORDINATE, max_value=MAX_COORDINATE, allow_nan=False,
-                   allow_infinity=False)
+finite = st.floats(
+    min_value=-MAX_COORDINATE, max_value=MAX_COORDINATE, allow_nan=False, allow_infinity=False
+)
 radius = st.floats(min_value=0.0, max_value=10.0, allow_nan=False)
 
 
 @st.composite
 def nodes(draw):
     smooth = draw(st.booleans())
-    return Node(draw(finite), draw(finite), 0.0 if smooth else draw(radius), smooth,
-                draw(st.text(max_size=12)))
+    return Node(
+        draw(finite),
+        draw(finite),
+        0.0 if smooth else draw(radius),
+        smooth,
+        draw(st.text(max_size=12)),
+    )
 
 
 @st.composite
@@ -89,7 +99,9 @@ def profiles(draw):
     return Profile(tuple(ns), name=draw(st.text(max_size=20)), trailing_edge=te)
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(
+    max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture]
+)
 @given(profile=profiles(), baseline=st.one_of(st.none(), profiles()), notes=st.text(max_size=40))
 def test_random_projects_round_trip(tmp_path, profile, baseline, notes):
     # Exact float round trip: json writes repr(float), the shortest string that reads back to
@@ -122,27 +134,106 @@ CORRUPT = {
     "wrong units": (_mutate(lambda d: d.update(units="mm")), "units"),
     "profile not an object": (_mutate(lambda d: d.update(profile=[1, 2])), "profile"),
     "nodes not a list": (_mutate(lambda d: d["profile"].update(nodes={})), "profile.nodes"),
-    "too few nodes": (_mutate(lambda d: d["profile"]["nodes"].__delitem__(slice(2, None))), "profile.nodes"),
-    "radius a string": (_mutate(lambda d: d["profile"]["nodes"][3].update(radius="abc")), "profile.nodes[3].radius"),
+    "too few nodes": (
+        _mutate(lambda d: d["profile"]["nodes"].__delitem__(slice(2, None))),
+        "profile.nodes",
+    ),
+    "radius a string": (
+        _mutate(lambda d: d["profile"]["nodes"][3].update(radius="abc")),
+        "profile.nodes[3].radius",
+    ),
     "x a bool": (_mutate(lambda d: d["profile"]["nodes"][1].update(x=True)), "profile.nodes[1].x"),
     "y missing": (_mutate(lambda d: d["profile"]["nodes"][2].pop("y")), "profile.nodes[2].y"),
-    "negative radius": (_mutate(lambda d: d["profile"]["nodes"][0].update(radius=-0.1)), "profile.nodes[0].radius"),
-    "smooth with radius": (_mutate(lambda d: d["profile"]["nodes"][0].update(smooth=True)), "profile.nodes[0]"),
-    "smooth a string": (_mutate(lambda d: d["profile"]["nodes"][1].update(smooth="yes")), "profile.nodes[1].smooth"),
-    "label a number": (_mutate(lambda d: d["profile"]["nodes"][1].update(label=5)), "profile.nodes[1].label"),
-    "misspelt node key": (_mutate(lambda d: d["profile"]["nodes"][1].update(raduis=0.1)), "profile.nodes[1].raduis"),
-    "node not an object": (_mutate(lambda d: d["profile"]["nodes"].__setitem__(2, [1, 2])), "profile.nodes[2]"),
-    "trailing edge out of range": (_mutate(lambda d: d["profile"].update(trailing_edge=4)), "profile.trailing_edge"),
-    "trailing edge a float": (_mutate(lambda d: d["profile"].update(trailing_edge=1.0)), "profile.trailing_edge"),
+    "negative radius": (
+        _mutate(lambda d: d["profile"]["nodes"][0].update(radius=-0.1)),
+        "profile.nodes[0].radius",
+    ),
+    "smooth with radius": (
+        _mutate(lambda d: d["profile"]["nodes"][0].update(smooth=True)),
+        "profile.nodes[0]",
+    ),
+    "smooth a string": (
+        _mutate(lambda d: d["profile"]["nodes"][1].update(smooth="yes")),
+        "profile.nodes[1].smooth",
+    ),
+    "label a number": (
+        _mutate(lambda d: d["profile"]["nodes"][1].update(label=5)),
+        "profile.nodes[1].label",
+    ),
+    "misspelt node key": (
+        _mutate(lambda d: d["profile"]["nodes"][1].update(raduis=0.1)),
+        "profile.nodes[1].raduis",
+    ),
+    "node not an object": (
+        _mutate(lambda d: d["profile"]["nodes"].__setitem__(2, [1, 2])),
+        "profile.nodes[2]",
+    ),
+    "trailing edge out of range": (
+        _mutate(lambda d: d["profile"].update(trailing_edge=4)),
+        "profile.trailing_edge",
+    ),
+    "trailing edge a float": (
+        _mutate(lambda d: d["profile"].update(trailing_edge=1.0)),
+        "profile.trailing_edge",
+    ),
     "name a number": (_mutate(lambda d: d["profile"].update(name=3)), "profile.name"),
     "bad speed": (_mutate(lambda d: d["conditions"].update(speed=-5.0)), "conditions.speed"),
-    "unknown conditions key": (_mutate(lambda d: d["conditions"].update(sped=5.0)), "conditions.sped"),
+    "unknown conditions key": (
+        _mutate(lambda d: d["conditions"].update(sped=5.0)),
+        "conditions.sped",
+    ),
     "conditions a list": (_mutate(lambda d: d.update(conditions=[])), "conditions"),
-    "bad baseline node": (_mutate(lambda d: d.update(baseline={"nodes": [{"x": 0, "y": 1}] * 2 + [{"x": "a", "y": 1}]})), "baseline.nodes[2].x"),
-    "underlay opacity 2": (_mutate(lambda d: d.update(underlay={"path": "a.png", "points_px": [[0, 0], [1, 0]], "points_m": [[0, 0], [1, 0]], "opacity": 2.0})), "underlay.opacity"),
-    "underlay one point": (_mutate(lambda d: d.update(underlay={"path": "a.png", "points_px": [[0, 0]], "points_m": [[0, 0], [1, 0]]})), "underlay.points_px"),
-    "underlay same points": (_mutate(lambda d: d.update(underlay={"path": "a.png", "points_px": [[0, 0], [1, 0]], "points_m": [[1, 0], [1, 0]]})), "underlay.points_m"),
-    "underlay pixel not number": (_mutate(lambda d: d.update(underlay={"path": "a.png", "points_px": [[0, "q"], [1, 0]], "points_m": [[0, 0], [1, 0]]})), "underlay.points_px[0][1]"),
+    "bad baseline node": (
+        _mutate(
+            lambda d: d.update(baseline={"nodes": [{"x": 0, "y": 1}] * 2 + [{"x": "a", "y": 1}]})
+        ),
+        "baseline.nodes[2].x",
+    ),
+    "underlay opacity 2": (
+        _mutate(
+            lambda d: d.update(
+                underlay={
+                    "path": "a.png",
+                    "points_px": [[0, 0], [1, 0]],
+                    "points_m": [[0, 0], [1, 0]],
+                    "opacity": 2.0,
+                }
+            )
+        ),
+        "underlay.opacity",
+    ),
+    "underlay one point": (
+        _mutate(
+            lambda d: d.update(
+                underlay={"path": "a.png", "points_px": [[0, 0]], "points_m": [[0, 0], [1, 0]]}
+            )
+        ),
+        "underlay.points_px",
+    ),
+    "underlay same points": (
+        _mutate(
+            lambda d: d.update(
+                underlay={
+                    "path": "a.png",
+                    "points_px": [[0, 0], [1, 0]],
+                    "points_m": [[1, 0], [1, 0]],
+                }
+            )
+        ),
+        "underlay.points_m",
+    ),
+    "underlay pixel not number": (
+        _mutate(
+            lambda d: d.update(
+                underlay={
+                    "path": "a.png",
+                    "points_px": [[0, "q"], [1, 0]],
+                    "points_m": [[0, 0], [1, 0]],
+                }
+            )
+        ),
+        "underlay.points_px[0][1]",
+    ),
     "notes a list": (_mutate(lambda d: d.update(notes=["a"])), "notes"),
     "top level a list": ([1, 2, 3], "(top level)"),
 }
@@ -163,7 +254,10 @@ def test_bad_field_is_named_and_file_untouched(tmp_path, case):
 def test_message_example_from_the_format(tmp_path):
     data = _mutate(lambda d: d["profile"]["nodes"][3].update(radius="abc"))
     path = _write_json(tmp_path / "bad.json", data)
-    with pytest.raises(ProjectFileError, match=r'profile\.nodes\[3\]\.radius: expected a number in metres, got "abc"'):
+    with pytest.raises(
+        ProjectFileError,
+        match=r'profile\.nodes\[3\]\.radius: expected a number in metres, got "abc"',
+    ):
         load_project(path)
 
 
@@ -303,8 +397,10 @@ def test_underlay_resolves_inside_project_folder(tmp_path):
     assert resolve_underlay(_project(), project_path) is None
 
 
-@pytest.mark.parametrize("rel", ["../secret.png", "img/../../x.png", "/etc/passwd",
-                                 "C:\\images\\side.png", "..\\x.png", "."])
+@pytest.mark.parametrize(
+    "rel",
+    ["../secret.png", "img/../../x.png", "/etc/passwd", "C:\\images\\side.png", "..\\x.png", "."],
+)
 def test_underlay_escaping_or_absolute_is_refused(tmp_path, rel):
     with pytest.raises(ProjectFileError) as info:
         resolve_underlay(_with_underlay(rel), tmp_path / "p.json")

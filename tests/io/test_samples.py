@@ -17,8 +17,12 @@ def test_at_least_four_samples_and_default_among_them():
     names = {p.name for p in SAMPLES}
     assert len(names) >= 4
     assert default_sample_path() in SAMPLES
-    assert {"kestrel_courier_van.json", "kestrel_hatch.json", "kestrel_shuttle_minibus.json",
-            "kestrel_test_body.json"} <= names
+    assert {
+        "kestrel_courier_van.json",
+        "kestrel_hatch.json",
+        "kestrel_shuttle_minibus.json",
+        "kestrel_test_body.json",
+    } <= names
 
 
 @pytest.mark.parametrize("path", SAMPLES, ids=IDS)

@@ -43,8 +43,10 @@ def test_cp_curves_are_the_surface_values(cp_axes):
         assert cp.min() == pytest.approx(1 - (1 + B / A) ** 2, abs=2e-3)
 
 
-@pytest.mark.parametrize("kind", ["transition", "laminar_separation", "reattachment",
-                                  "turbulent_separation", "edge_separation"])
+@pytest.mark.parametrize(
+    "kind",
+    ["transition", "laminar_separation", "reattachment", "turbulent_separation", "edge_separation"],
+)
 def test_event_marker_sits_on_its_surface_curve(cp_axes, kind):
     a, ax, handles = cp_axes
     ev = next(e for e in a.events if e.kind == kind)
@@ -80,7 +82,9 @@ def test_boundary_layer_threshold_and_separated_stations_left_out():
 
 def test_failed_analysis_cannot_draw_cp():
     a = fake_analysis()
-    failed = Analysis(AnalysisStatus.INVISCID_FAILED, "singular panel system", a.profile, a.conditions)
+    failed = Analysis(
+        AnalysisStatus.INVISCID_FAILED, "singular panel system", a.profile, a.conditions
+    )
     with pytest.raises(InputError, match="singular panel system"):
         draw_cp(_fig().add_subplot(111), failed)
 
@@ -103,7 +107,7 @@ def test_boundary_layer_legends_off_the_data_and_labels_inside_the_figure():
     for ax in (ax_h, ax_cf):
         leg = ax.get_legend().get_window_extent(r)
         plot = ax.get_window_extent(r)
-        assert leg.x0 >= plot.x1          # right of the axes: it covers no curve
+        assert leg.x0 >= plot.x1  # right of the axes: it covers no curve
         label = ax.yaxis.label.get_window_extent(r)
         assert label.x0 >= 0 and label.y0 >= 0 and label.y1 <= fig.bbox.height  # not cut off
 
@@ -112,11 +116,15 @@ def test_shape_factor_axis_clipped_with_a_note():
     a = fake_analysis()
     bl = a.flow.upper.bl
     H = np.array(bl.H, float)
-    H[len(H) // 3] = 9.0                  # a spike, as a bubble's edge gives
-    spiky = dataclasses.replace(a, flow=dataclasses.replace(
-        a.flow, upper=dataclasses.replace(a.flow.upper, bl=dataclasses.replace(bl, H=H))))
+    H[len(H) // 3] = 9.0  # a spike, as a bubble's edge gives
+    spiky = dataclasses.replace(
+        a,
+        flow=dataclasses.replace(
+            a.flow, upper=dataclasses.replace(a.flow.upper, bl=dataclasses.replace(bl, H=H))
+        ),
+    )
     fig, ax_h, _ = _bl_figure(spiky)
-    assert ax_h.get_ylim() == (1.0, 4.0)   # laminar separation (Thwaites) at H about 3.5
+    assert ax_h.get_ylim() == (1.0, 4.0)  # laminar separation (Thwaites) at H about 3.5
     notes = [t.get_text() for t in ax_h.get_legend().get_texts() if "clipped" in t.get_text()]
     assert notes == ["H above 4 clipped\n(max 9.0)"]
 

@@ -51,7 +51,9 @@ def test_json_parses_and_holds_caution(analysis, tmp_path):
 
 def test_json_of_failed_analysis(tmp_path):
     a = fake_analysis()
-    failed = Analysis(AnalysisStatus.BOUNDARY_LAYER_FAILED, "march stalled", a.profile, a.conditions)
+    failed = Analysis(
+        AnalysisStatus.BOUNDARY_LAYER_FAILED, "march stalled", a.profile, a.conditions
+    )
     data = json.loads(write_results_json(failed, tmp_path / "r.json").read_text())
     assert data["summary"]["success"] is False and data["summary"]["message"] == "march stalled"
     with pytest.raises(InputError, match="march stalled"):

@@ -68,8 +68,11 @@ def _geometry(a, fig):
     leaders = [ln for ln in ax.lines if ln.get_gid() == LEADER_GID]
     front_x = float(np.min(o.x)) + FRONT_FRACTION * float(np.ptp(o.x))
     keep = o.x <= front_x
-    front = box(*ax.transData.transform([(float(np.min(o.x)), 0.0),
-                                         (front_x, float(np.max(o.y[keep])))]).ravel())
+    front = box(
+        *ax.transData.transform(
+            [(float(np.min(o.x)), 0.0), (front_x, float(np.max(o.y[keep])))]
+        ).ravel()
+    )
     return ax, boxes, body, hatched, leaders, front
 
 
@@ -80,7 +83,7 @@ def _check(a, fig):
         assert not b.intersects(body), f"label {i} covers the outline"
         for h in hatched:
             assert not b.intersects(h), f"label {i} sits on hatching"
-        for b2 in boxes[i + 1:]:
+        for b2 in boxes[i + 1 :]:
             assert not b.intersects(b2), "two labels overlap"
     # one leader per label that is not at its corner already (all are, at these sizes)
     assert len(leaders) == len(boxes)
@@ -95,8 +98,9 @@ def test_sample_labels_clear_of_each_other_outline_and_hatching(path):
     assert in_front == 0
 
 
-@pytest.mark.parametrize("path", [p for p in SAMPLES if "van" in p.stem or "hatch" in p.stem],
-                         ids=lambda p: p.stem)
+@pytest.mark.parametrize(
+    "path", [p for p in SAMPLES if "van" in p.stem or "hatch" in p.stem], ids=lambda p: p.stem
+)
 def test_imported_outline_labels_clear(path):
     a, fig = _imported_page(path)
     _check(a, fig)

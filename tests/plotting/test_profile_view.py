@@ -73,8 +73,8 @@ def test_cp_band_colours_follow_cp(drawn):
     # each outline segment carries the mean of its two end stations' Cp (numpy, independently)
     np.testing.assert_allclose(lc.get_array(), 0.5 * (cp + np.roll(cp, -1)))
     assert out["colorbar"].ax.get_ylabel().startswith("Cp")
-    assert lc.norm(1.0) == pytest.approx(1.0)   # Cp = 1 (stagnation) at the top of the scale
-    assert lc.norm(0.0) == pytest.approx(0.5)   # Cp = 0 in the middle of the diverging map
+    assert lc.norm(1.0) == pytest.approx(1.0)  # Cp = 1 (stagnation) at the top of the scale
+    assert lc.norm(0.0) == pytest.approx(0.5)  # Cp = 0 in the middle of the diverging map
 
 
 def test_ground_strip_drawn_below_zero(drawn):

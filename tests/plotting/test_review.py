@@ -25,7 +25,7 @@ def test_png_has_the_page_size(page, tmp_path):
 @pytest.mark.parametrize("name, magic", [("r.svg", b"<?xml"), ("r.pdf", b"%PDF")])
 def test_vector_formats(page, tmp_path, name, magic):
     out = save_figure(page, tmp_path / name)
-    assert out.read_bytes()[:len(magic)] == magic
+    assert out.read_bytes()[: len(magic)] == magic
 
 
 def test_caution_line_on_the_page(page):
@@ -33,13 +33,19 @@ def test_caution_line_on_the_page(page):
 
 
 def test_caution_wording():
-    assert CAUTION == ("Screening estimate: confirm by wind-tunnel test or validated CFD, under "
-                       "local vehicle codes and licensed engineering practice.")
+    assert CAUTION == (
+        "Screening estimate: confirm by wind-tunnel test or validated CFD, under "
+        "local vehicle codes and licensed engineering practice."
+    )
 
 
 def test_summary_table_shows_cd_and_force(page):
-    cells = [c.get_text().get_text() for ax in page.axes for t in ax.tables
-             for c in t.get_celld().values()]
+    cells = [
+        c.get_text().get_text()
+        for ax in page.axes
+        for t in ax.tables
+        for c in t.get_celld().values()
+    ]
     a = fake_analysis()
     assert f"{a.drag.cd:.4f}" in cells
     assert f"{a.drag.force:.2f}" in cells
@@ -61,7 +67,9 @@ def test_missing_folder_is_bad_input(page, tmp_path):
 
 def test_failed_analysis_still_gives_a_page(tmp_path):
     a = fake_analysis()
-    failed = Analysis(AnalysisStatus.INVALID_GEOMETRY, "outline crosses itself", a.profile, a.conditions)
+    failed = Analysis(
+        AnalysisStatus.INVALID_GEOMETRY, "outline crosses itself", a.profile, a.conditions
+    )
     fig = review_figure(failed)
     texts = [t.get_text() for ax in fig.axes for t in ax.texts]
     assert any("outline crosses itself" in t for t in texts)

@@ -13,7 +13,12 @@ import pytest
 import profilebench
 from fake_analysis import fake_analysis
 from profilebench.errors import InputError
-from profilebench.io.export import results_to_dict, run_record, write_results_json, write_surface_csv
+from profilebench.io.export import (
+    results_to_dict,
+    run_record,
+    write_results_json,
+    write_surface_csv,
+)
 from profilebench.plotting import draw_profile, review_figure, save_figure
 from profilebench.plotting.profile_view import BASELINE_GID, CP_FLOOR
 from profilebench.plotting.review import NOTES_GID, RUN_GID, new_figure
@@ -31,26 +36,53 @@ def _texts(fig, gid):
 
 
 def _cells(fig):
-    return [c.get_text().get_text() for ax in fig.axes for t in ax.tables
-            for c in t.get_celld().values()]
+    return [
+        c.get_text().get_text()
+        for ax in fig.axes
+        for t in ax.tables
+        for c in t.get_celld().values()
+    ]
 
 
 def test_run_block_states_every_condition_version_and_date():
-    a = _with_conditions(fake_analysis(), speed=25.0, altitude=1000.0, temperature_offset=5.0,
-                         transition=0.4, h_separation=2.2, base_pressure=-0.3, panels=180,
-                         model_scale=0.25, tunnel_speed=40.0)
+    a = _with_conditions(
+        fake_analysis(),
+        speed=25.0,
+        altitude=1000.0,
+        temperature_offset=5.0,
+        transition=0.4,
+        h_separation=2.2,
+        base_pressure=-0.3,
+        panels=180,
+        model_scale=0.25,
+        tunnel_speed=40.0,
+    )
     run = _texts(review_figure(a, created=WHEN), RUN_GID).replace("\n    ", " ")
-    for text in ("90.0 km/h",                     # 25 m/s x 3.6
-                 "ISO 2533 air at 1000 m, +5 K", "ground on", "transition forced at s = 0.4 m",
-                 "H = 2.2", "Cp_b = -0.3", "180 panels", "frontal area 2 m^2",
-                 "model scale 1:4 at 144.0 km/h", "r/t table: square sections",
-                 f"profilebench {profilebench.__version__}", "made 2026-12-02 12:30:00 UTC"):
+    for text in (
+        "90.0 km/h",  # 25 m/s x 3.6
+        "ISO 2533 air at 1000 m, +5 K",
+        "ground on",
+        "transition forced at s = 0.4 m",
+        "H = 2.2",
+        "Cp_b = -0.3",
+        "180 panels",
+        "frontal area 2 m^2",
+        "model scale 1:4 at 144.0 km/h",
+        "r/t table: square sections",
+        f"profilebench {profilebench.__version__}",
+        "made 2026-12-02 12:30:00 UTC",
+    ):
         assert text in run, text
 
 
 def test_run_block_for_given_air_and_free_air():
-    a = _with_conditions(fake_analysis(ground=False), density=1.1, kinematic_viscosity=1.6e-5,
-                         frontal_area=None, width=1.8)
+    a = _with_conditions(
+        fake_analysis(ground=False),
+        density=1.1,
+        kinematic_viscosity=1.6e-5,
+        frontal_area=None,
+        width=1.8,
+    )
     run = _texts(review_figure(a, created=WHEN), RUN_GID)
     assert "air given: rho 1.1 kg/m^3, nu 1.6e-05 m^2/s" in run
     assert "free air (no ground)" in run
@@ -76,7 +108,7 @@ def test_run_record_date_can_be_given():
 
 
 def _baseline_of(a, cd):
-    drag = dataclasses.replace(a.drag, cd=cd, cda=2.0 * cd, force=0.5 * 1.225 * 30 ** 2 * 2.0 * cd)
+    drag = dataclasses.replace(a.drag, cd=cd, cda=2.0 * cd, force=0.5 * 1.225 * 30**2 * 2.0 * cd)
     return dataclasses.replace(a, drag=drag, profile=a.profile.scaled(1.05))
 
 
@@ -114,8 +146,9 @@ def _cp_low(a, cp_low):
     inv = a.flow.inviscid
     cp = np.asarray(inv.cp, float)
     scaled = np.where(cp < 0, cp * cp_low / cp.min(), cp)
-    return dataclasses.replace(a, flow=dataclasses.replace(
-        a.flow, inviscid=dataclasses.replace(inv, cp=scaled)))
+    return dataclasses.replace(
+        a, flow=dataclasses.replace(a.flow, inviscid=dataclasses.replace(inv, cp=scaled))
+    )
 
 
 def test_cp_colour_scale_is_the_same_for_different_analyses():
@@ -142,8 +175,9 @@ def test_bad_cp_scale_is_an_input_error(bad):
 
 
 def _same_table_notes(a, verdict, disagreement):
-    corners = tuple(dataclasses.replace(c, table_verdict=verdict, disagreement=disagreement)
-                    for c in a.corners)
+    corners = tuple(
+        dataclasses.replace(c, table_verdict=verdict, disagreement=disagreement) for c in a.corners
+    )
     return dataclasses.replace(a, corners=corners)
 
 
@@ -152,7 +186,10 @@ def test_shared_corner_notes_said_once():
     reynolds = "the table's Reynolds range does not hold these conditions"
     a = _same_table_notes(fake_analysis(), verdict, reynolds)
     assert all(row[6] == "(see note)" for row in corner_rows(a))
-    assert corner_notes(a) == [f"table verdict, every corner: {verdict}", f"every corner: {reynolds}"]
+    assert corner_notes(a) == [
+        f"table verdict, every corner: {verdict}",
+        f"every corner: {reynolds}",
+    ]
     fig = review_figure(a)
     notes = _texts(fig, NOTES_GID).replace("\n", " ")
     assert notes.count(verdict) == 1 and notes.count(reynolds) == 1
@@ -160,7 +197,7 @@ def test_shared_corner_notes_said_once():
 
 
 def test_corner_notes_that_differ_stay_on_their_rows():
-    a = fake_analysis()   # its corners' table verdicts differ
+    a = fake_analysis()  # its corners' table verdicts differ
     assert [row[6] for row in corner_rows(a)] == [c.table_verdict for c in a.corners]
     assert corner_notes(a) == []
 
@@ -184,7 +221,9 @@ def test_legend_inside_the_page():
 
 def test_long_corner_table_fits_above_the_notes():
     a = fake_analysis()
-    many = tuple(dataclasses.replace(a.corners[k % 3], node=k, label=f"corner {k}") for k in range(40))
+    many = tuple(
+        dataclasses.replace(a.corners[k % 3], node=k, label=f"corner {k}") for k in range(40)
+    )
     fig = review_figure(dataclasses.replace(a, corners=many))
     fig.canvas.draw()
     r = fig.canvas.get_renderer()
@@ -194,8 +233,12 @@ def test_long_corner_table_fits_above_the_notes():
     shown = sum(1 for k in range(40) if f"corner {k}" in cells)
     assert more[0] == f"+ {40 - shown} more (CLI, JSON)"
     notes = next(t for t in fig.texts if t.get_gid() == NOTES_GID).get_window_extent(r)
-    table = next(t for ax in fig.axes for t in ax.tables
-                 if "corner 0" in [c.get_text().get_text() for c in t.get_celld().values()])
+    table = next(
+        t
+        for ax in fig.axes
+        for t in ax.tables
+        if "corner 0" in [c.get_text().get_text() for c in t.get_celld().values()]
+    )
     table = table.get_window_extent(r)
     assert table.y0 >= notes.y1
 
@@ -223,5 +266,10 @@ def test_image_replacing_a_file_keeps_its_mode(tmp_path):
 
 def test_json_written_has_the_run(tmp_path):
     data = json.loads(write_results_json(fake_analysis(), tmp_path / "r.json").read_text())
-    assert set(data["run"]) == {"conditions", "air", "tables", "profilebench_version", "created_utc"}
-
+    assert set(data["run"]) == {
+        "conditions",
+        "air",
+        "tables",
+        "profilebench_version",
+        "created_utc",
+    }

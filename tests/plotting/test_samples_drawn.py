@@ -14,7 +14,12 @@ from profilebench.io.export import CAUTION, write_results_json, write_surface_cs
 from profilebench.io.project import load_project  # noqa: E402
 from profilebench.io.samples import sample_paths  # noqa: E402
 from profilebench.plotting import (  # noqa: E402
-    EVENT_STYLES, draw_boundary_layer, draw_cp, draw_profile, review_figure, save_figure,
+    EVENT_STYLES,
+    draw_boundary_layer,
+    draw_cp,
+    draw_profile,
+    review_figure,
+    save_figure,
 )
 from profilebench.plotting.labels import LABEL_GID  # noqa: E402
 from profilebench.plotting.review import PAGE_DPI, PAGE_SIZE  # noqa: E402
@@ -45,7 +50,10 @@ def test_review_page_of_each_sample(path, tmp_path):
     out = save_figure(page(path), tmp_path / "r.png")
     assert out.stat().st_size > 10_000
     # the PNG as read back by matplotlib has the page's pixel size
-    assert mpimg.imread(out).shape[:2] == (round(PAGE_SIZE[1] * PAGE_DPI), round(PAGE_SIZE[0] * PAGE_DPI))
+    assert mpimg.imread(out).shape[:2] == (
+        round(PAGE_SIZE[1] * PAGE_DPI),
+        round(PAGE_SIZE[0] * PAGE_DPI),
+    )
 
 
 @pytest.mark.parametrize("path", SAMPLES, ids=[p.stem for p in SAMPLES])
@@ -77,7 +85,7 @@ def test_export_of_each_sample(path, tmp_path):
     _, a = analysed(path)
     with open(write_surface_csv(a, tmp_path / "s.csv"), newline="") as fh:
         rows = list(csv.DictReader(fh))
-    assert len(rows) == len(a.flow.inviscid.x)   # one row per panel station
+    assert len(rows) == len(a.flow.inviscid.x)  # one row per panel station
     data = json.loads(write_results_json(a, tmp_path / "r.json").read_text())
     assert data["caution"] == CAUTION
     assert data["summary"]["cd"] == pytest.approx(a.drag.cd, rel=1e-15)
@@ -96,7 +104,11 @@ def test_corner_labels_of_each_sample_do_not_overlap(path):
     frame = ax.get_window_extent(r)
     for i, b in enumerate(boxes):
         tol = 2.0  # px: a label may touch the frame, not leave it
-        assert (frame.x0 - tol <= b.x0 and b.x1 <= frame.x1 + tol
-                and frame.y0 - tol <= b.y0 and b.y1 <= frame.y1 + tol)
-        for b2 in boxes[i + 1:]:
+        assert (
+            frame.x0 - tol <= b.x0
+            and b.x1 <= frame.x1 + tol
+            and frame.y0 - tol <= b.y0
+            and b.y1 <= frame.y1 + tol
+        )
+        for b2 in boxes[i + 1 :]:
             assert not b.overlaps(b2)

@@ -12,4 +12,3 @@ from profilebench.io.samples import default_sample_path
 def sample_dict():
     """A fresh parsed copy of the default sample project file (a known-good project)."""
     return json.loads(Path(default_sample_path()).read_text(encoding="utf-8"))
-

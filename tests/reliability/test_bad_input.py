@@ -16,14 +16,22 @@ import shapely.geometry
 import profilebench
 from profilebench import Conditions, Node, Profile, analyze, load_project
 from profilebench.cli import main
-from profilebench.errors import ConditionsError, GeometryError, InputError, ProfileBenchError, ProjectFileError
+from profilebench.errors import (
+    ConditionsError,
+    GeometryError,
+    InputError,
+    ProfileBenchError,
+    ProjectFileError,
+)
 from profilebench.io import MAX_PROJECT_BYTES, read_points_csv
 
 from reliability_helpers import write_json
 
 # words that tell the user what to do (common practice, no source)
-FIX_WORDS = r"\b(give|use|move|delete|remove|add|reduce|raise|turn|choose|check|restore|re-save|" \
-            r"upgrade|fix|set|convert|reorder|pick|keep|lower|increase|must be)\b"
+FIX_WORDS = (
+    r"\b(give|use|move|delete|remove|add|reduce|raise|turn|choose|check|restore|re-save|"
+    r"upgrade|fix|set|convert|reorder|pick|keep|lower|increase|must be)\b"
+)
 
 
 def _says(message: str, *what: str) -> None:
@@ -47,6 +55,7 @@ def _failed(profile, conditions=None):
 
 # --- outlines -------------------------------------------------------------------------------
 
+
 def test_self_intersecting_outline():
     pts = [(0.0, 0.2), (2.0, 1.2), (2.0, 0.2), (0.0, 1.2)]  # a bow tie
     # shapely (GEOS) independently finds the polygon invalid, crossing at (1.0, 0.7)
@@ -68,10 +77,14 @@ def test_too_few_nodes(n):
     _says(msg, f"{n} node", "at least 3")
 
 
-@pytest.mark.parametrize("pts", [
-    [(0.0, 0.2), (1.0, 0.2), (2.0, 0.2)],                 # collinear
-    [(0.0, 0.2), (1.0, 0.7), (2.0, 1.2), (3.0, 1.7)],     # collinear, sloping
-], ids=["flat", "sloping"])
+@pytest.mark.parametrize(
+    "pts",
+    [
+        [(0.0, 0.2), (1.0, 0.2), (2.0, 0.2)],  # collinear
+        [(0.0, 0.2), (1.0, 0.7), (2.0, 1.2), (3.0, 1.7)],  # collinear, sloping
+    ],
+    ids=["flat", "sloping"],
+)
 def test_zero_area_collinear_outline(pts):
     assert shapely.geometry.Polygon(pts).area == 0.0  # shapely: the polygon encloses no area
     msg = _failed(Profile.from_points(pts))
@@ -120,40 +133,48 @@ def test_non_finite_node_values(field, value):
 
 # --- conditions -------------------------------------------------------------------------------
 
-@pytest.mark.parametrize("kwargs, what", [
-    (dict(speed=0.0), "speed"),
-    (dict(speed=-10.0), "speed"),
-    (dict(speed=math.nan), "speed"),
-    (dict(speed=math.inf), "speed"),
-    # 150 m/s is about Mach 0.44 at sea level (ISO 2533 a0 = 340.294 m/s): beyond incompressible
-    (dict(speed=200.0), "speed"),
-    (dict(density=1.225, kinematic_viscosity=0.0), "kinematic_viscosity"),
-    (dict(density=1.225, kinematic_viscosity=-1.5e-5), "kinematic_viscosity"),
-    (dict(density=1.225, kinematic_viscosity=math.nan), "kinematic_viscosity"),
-    (dict(density=0.0, kinematic_viscosity=1.5e-5), "density"),
-    (dict(density=1.225), "kinematic_viscosity"),
-    # ISO 2533 tabulates from -2000 m (from memory); 20 km is the top of its first two layers
-    (dict(altitude=-5000.0), "altitude"),
-    (dict(altitude=1e6), "altitude"),
-    (dict(altitude=math.nan), "altitude"),
-    # ISO 2533 sea-level temperature 288.15 K: an offset of -400 K is below absolute zero
-    (dict(temperature_offset=-400.0), "temperature"),
-    (dict(h_separation=3.5), "h_separation"),
-    (dict(transition="laminar"), "transition"),
-    (dict(transition=-1.0), "transition"),
-    (dict(speed="30"), "speed"),
-    (dict(ground="yes"), "ground"),
-    (dict(model_scale=0.0), "model_scale"),
-    (dict(base_pressure=-3.0), "base_pressure"),
-], ids=lambda v: v if isinstance(v, str) else None)
+
+@pytest.mark.parametrize(
+    "kwargs, what",
+    [
+        (dict(speed=0.0), "speed"),
+        (dict(speed=-10.0), "speed"),
+        (dict(speed=math.nan), "speed"),
+        (dict(speed=math.inf), "speed"),
+        # 150 m/s is about Mach 0.44 at sea level (ISO 2533 a0 = 340.294 m/s): beyond incompressible
+        (dict(speed=200.0), "speed"),
+        (dict(density=1.225, kinematic_viscosity=0.0), "kinematic_viscosity"),
+        (dict(density=1.225, kinematic_viscosity=-1.5e-5), "kinematic_viscosity"),
+        (dict(density=1.225, kinematic_viscosity=math.nan), "kinematic_viscosity"),
+        (dict(density=0.0, kinematic_viscosity=1.5e-5), "density"),
+        (dict(density=1.225), "kinematic_viscosity"),
+        # ISO 2533 tabulates from -2000 m (from memory); 20 km is the top of its first two layers
+        (dict(altitude=-5000.0), "altitude"),
+        (dict(altitude=1e6), "altitude"),
+        (dict(altitude=math.nan), "altitude"),
+        # ISO 2533 sea-level temperature 288.15 K: an offset of -400 K is below absolute zero
+        (dict(temperature_offset=-400.0), "temperature"),
+        (dict(h_separation=3.5), "h_separation"),
+        (dict(transition="laminar"), "transition"),
+        (dict(transition=-1.0), "transition"),
+        (dict(speed="30"), "speed"),
+        (dict(ground="yes"), "ground"),
+        (dict(model_scale=0.0), "model_scale"),
+        (dict(base_pressure=-3.0), "base_pressure"),
+    ],
+    ids=lambda v: v if isinstance(v, str) else None,
+)
 def test_absurd_conditions(kwargs, what):
     with pytest.raises(ConditionsError) as info:
         Conditions(**kwargs)
     _says(str(info.value), what)
 
 
-@pytest.mark.parametrize("panels", [0, 10, 39, 2001, 100000, 250.0, True],
-                         ids=["0", "10", "39", "2001", "1e5", "float", "bool"])
+@pytest.mark.parametrize(
+    "panels",
+    [0, 10, 39, 2001, 100000, 250.0, True],
+    ids=["0", "10", "39", "2001", "1e5", "float", "bool"],
+)
 def test_panel_counts_too_small_or_too_large(panels):
     with pytest.raises(ConditionsError) as info:
         Conditions(panels=panels)
@@ -167,8 +188,9 @@ def test_bad_reference_thickness(thickness):
     assert "thickness" in str(info.value) and "positive length in metres" in str(info.value)
 
 
-@pytest.mark.parametrize("profile, conditions", [("box.json", None), (BOX, None),
-                                                 (None, {"speed": 30})])
+@pytest.mark.parametrize(
+    "profile, conditions", [("box.json", None), (BOX, None), (None, {"speed": 30})]
+)
 def test_wrong_types_to_analyze(profile, conditions):
     prof = Profile.from_points(BOX) if profile is None else profile
     with pytest.raises(InputError) as info:
@@ -178,8 +200,10 @@ def test_wrong_types_to_analyze(profile, conditions):
 
 # --- project files ----------------------------------------------------------------------------
 
+
 def test_truncated_project(tmp_path, sample_dict):
     import json
+
     text = json.dumps(sample_dict, indent=2)
     path = tmp_path / "cut.json"
     path.write_text(text[: len(text) // 2], encoding="utf-8")
@@ -196,16 +220,25 @@ def test_project_of_a_newer_version(tmp_path, sample_dict):
     assert info.value.path == "version"
 
 
-@pytest.mark.parametrize("where, value, json_path, expected", [
-    (("profile", "nodes", 0, "x"), "abc", "profile.nodes[0].x", "expected a number"),
-    (("profile", "nodes", 0, "smooth"), "yes", "profile.nodes[0].smooth", "expected true or false"),
-    (("profile", "nodes"), {"x": 1}, "profile.nodes", "expected a list"),
-    (("profile", "trailing_edge"), 1.5, "profile.trailing_edge", "expected a node index"),
-    (("profile", "name"), 7, "profile.name", "expected a string"),
-    (("conditions", "speed"), "fast", "conditions.speed", "must be a number"),
-    (("conditions", "panels"), 3, "conditions.panels", "outside the allowed range"),
-    (("notes",), ["a"], "notes", "expected a string"),
-], ids=lambda v: v if isinstance(v, str) and "." in v else None)
+@pytest.mark.parametrize(
+    "where, value, json_path, expected",
+    [
+        (("profile", "nodes", 0, "x"), "abc", "profile.nodes[0].x", "expected a number"),
+        (
+            ("profile", "nodes", 0, "smooth"),
+            "yes",
+            "profile.nodes[0].smooth",
+            "expected true or false",
+        ),
+        (("profile", "nodes"), {"x": 1}, "profile.nodes", "expected a list"),
+        (("profile", "trailing_edge"), 1.5, "profile.trailing_edge", "expected a node index"),
+        (("profile", "name"), 7, "profile.name", "expected a string"),
+        (("conditions", "speed"), "fast", "conditions.speed", "must be a number"),
+        (("conditions", "panels"), 3, "conditions.panels", "outside the allowed range"),
+        (("notes",), ["a"], "notes", "expected a string"),
+    ],
+    ids=lambda v: v if isinstance(v, str) and "." in v else None,
+)
 def test_project_with_wrong_types(tmp_path, sample_dict, where, value, json_path, expected):
     d = sample_dict
     for key in where[:-1]:
@@ -219,9 +252,18 @@ def test_project_with_wrong_types(tmp_path, sample_dict, where, value, json_path
     assert expected in msg
 
 
-@pytest.mark.parametrize("where", [("profile",), ("conditions",), ("format",), ("version",),
-                                   ("profile", "nodes"), ("profile", "nodes", 2, "y")],
-                         ids=lambda w: ".".join(map(str, w)))
+@pytest.mark.parametrize(
+    "where",
+    [
+        ("profile",),
+        ("conditions",),
+        ("format",),
+        ("version",),
+        ("profile", "nodes"),
+        ("profile", "nodes", 2, "y"),
+    ],
+    ids=lambda w: ".".join(map(str, w)),
+)
 def test_project_with_missing_fields(tmp_path, sample_dict, where):
     d = sample_dict
     for key in where[:-1]:
@@ -235,8 +277,11 @@ def test_project_with_missing_fields(tmp_path, sample_dict, where):
     assert re.search(r"\badd\b|expected", msg)  # the remedy: add the field / what is expected
 
 
-@pytest.mark.parametrize("text", ["hello, this is not JSON", "x,y\n0,0.2\n", "{'format': 1}"],
-                         ids=["prose", "csv", "python dict"])
+@pytest.mark.parametrize(
+    "text",
+    ["hello, this is not JSON", "x,y\n0,0.2\n", "{'format': 1}"],
+    ids=["prose", "csv", "python dict"],
+)
 def test_project_that_is_not_json(tmp_path, text):
     path = tmp_path / "p.json"
     path.write_text(text, encoding="utf-8")
@@ -245,8 +290,9 @@ def test_project_that_is_not_json(tmp_path, text):
     _says(str(info.value), "not valid json")
 
 
-@pytest.mark.parametrize("content", [b"\x89PNG\r\n\x1a\n\x00\x00\x00\rIHDR", b"\xff\xfe\x00\x01"],
-                         ids=["png", "binary"])
+@pytest.mark.parametrize(
+    "content", [b"\x89PNG\r\n\x1a\n\x00\x00\x00\rIHDR", b"\xff\xfe\x00\x01"], ids=["png", "binary"]
+)
 def test_project_that_is_binary(tmp_path, content):
     path = tmp_path / "p.json"
     path.write_bytes(content)
@@ -297,16 +343,21 @@ def test_project_path_not_a_file(tmp_path, make):
 EXPECTED_M = [[0.0, 0.2], [2.0, 0.2], [2.0, 1.2]]
 
 
-@pytest.mark.parametrize("text, units", [
-    ("x,y\n0,0.2\n2,0.2\n2,1.2\n", "auto"),                     # header, commas
-    ("x;y\n0;0,2\n2;0,2\n2;1,2\n", "auto"),                     # semicolons, decimal commas
-    ("x_mm,y_mm\n0,200\n2000,200\n2000,1200\n", "auto"),        # mm from the header
-    ("0 200\n2000 200\n2000 1200\n", "auto"),                   # mm from the extent
-    ("0\t200\n2000\t200\n2000\t1200\n", "mm"),                  # tabs, asked for mm
-    ("\n0,0.2\n\n2,0.2 # a comment\n\n2,1.2\n\n", "m"),         # blank lines, comments
-], ids=["header-commas", "semicolons", "mm-header", "mm-extent", "tabs-mm", "blank-lines"])
+@pytest.mark.parametrize(
+    "text, units",
+    [
+        ("x,y\n0,0.2\n2,0.2\n2,1.2\n", "auto"),  # header, commas
+        ("x;y\n0;0,2\n2;0,2\n2;1,2\n", "auto"),  # semicolons, decimal commas
+        ("x_mm,y_mm\n0,200\n2000,200\n2000,1200\n", "auto"),  # mm from the header
+        ("0 200\n2000 200\n2000 1200\n", "auto"),  # mm from the extent
+        ("0\t200\n2000\t200\n2000\t1200\n", "mm"),  # tabs, asked for mm
+        ("\n0,0.2\n\n2,0.2 # a comment\n\n2,1.2\n\n", "m"),  # blank lines, comments
+    ],
+    ids=["header-commas", "semicolons", "mm-header", "mm-extent", "tabs-mm", "blank-lines"],
+)
 def test_csv_variants_read_the_same_points(tmp_path, text, units):
     import numpy as np
+
     path = tmp_path / "pts.csv"
     path.write_text(text, encoding="utf-8")
     pts = read_points_csv(path, units=units)
@@ -314,11 +365,15 @@ def test_csv_variants_read_the_same_points(tmp_path, text, units):
     np.testing.assert_allclose(pts, EXPECTED_M, atol=1e-12)
 
 
-@pytest.mark.parametrize("text, what", [
-    ("0,0.2\n2,nan\n2,1.2\n", "not a finite number"),
-    ("0,0.2\n2,0.2\n", "at least 3"),
-    ("x_mm,y_mm\n0,200\n2000,200\n2000,1200\n", "says 'mm'"),  # read with units="m"
-], ids=["nan", "two points", "unit clash"])
+@pytest.mark.parametrize(
+    "text, what",
+    [
+        ("0,0.2\n2,nan\n2,1.2\n", "not a finite number"),
+        ("0,0.2\n2,0.2\n", "at least 3"),
+        ("x_mm,y_mm\n0,200\n2000,200\n2000,1200\n", "says 'mm'"),  # read with units="m"
+    ],
+    ids=["nan", "two points", "unit clash"],
+)
 def test_csv_bad_content_with_remedy(tmp_path, text, what):
     path = tmp_path / "pts.csv"
     path.write_text(text, encoding="utf-8")
@@ -329,11 +384,15 @@ def test_csv_bad_content_with_remedy(tmp_path, text, what):
     assert re.search(FIX_WORDS + r"|needs at least", msg.lower())
 
 
-@pytest.mark.parametrize("text, what", [
-    ("0,0.2\n2,abc\n2,1.2\n", "line 2, column 2"),
-    ("0,0.2\n2,0.2,5\n2,1.2\n", "line 2"),
-    ("# only a comment\n\n", "no points"),
-], ids=["non-numeric", "three columns", "no points"])
+@pytest.mark.parametrize(
+    "text, what",
+    [
+        ("0,0.2\n2,abc\n2,1.2\n", "line 2, column 2"),
+        ("0,0.2\n2,0.2,5\n2,1.2\n", "line 2"),
+        ("# only a comment\n\n", "no points"),
+    ],
+    ids=["non-numeric", "three columns", "no points"],
+)
 def test_csv_bad_content_without_remedy(tmp_path, text, what):
     path = tmp_path / "pts.csv"
     path.write_text(text, encoding="utf-8")
@@ -352,17 +411,34 @@ def test_csv_bad_units_argument(tmp_path):
 
 # --- the command line: exit code 2, message on stderr, no traceback ---------------------------
 
-@pytest.mark.parametrize("mutate, args, words", [
-    (lambda d: d.update(version=2), [], ["version 2", "upgrade"]),
-    (lambda d: d["conditions"].update(speed=-1.0), [], ["conditions.speed", "give a value"]),
-    (lambda d: d["profile"]["nodes"][0].update(x="abc"), [], ["profile.nodes[0].x", "expected a number"]),
-    (None, ["--speed", "0"], ["speed", "give a value"]),
-    (None, ["--panels", "5"], ["panels", "give a panel count"]),
-    (None, ["--h-separation", "9"], ["h_separation", "give a value"]),
-    (None, ["--transition", "sometimes"], ["--transition", "give 'free'"]),
-    (None, ["--altitude", "99999"], ["altitude", "give a value"]),
-], ids=["version", "speed in file", "type in file", "speed 0", "panels 5", "H 9", "transition",
-        "altitude"])
+
+@pytest.mark.parametrize(
+    "mutate, args, words",
+    [
+        (lambda d: d.update(version=2), [], ["version 2", "upgrade"]),
+        (lambda d: d["conditions"].update(speed=-1.0), [], ["conditions.speed", "give a value"]),
+        (
+            lambda d: d["profile"]["nodes"][0].update(x="abc"),
+            [],
+            ["profile.nodes[0].x", "expected a number"],
+        ),
+        (None, ["--speed", "0"], ["speed", "give a value"]),
+        (None, ["--panels", "5"], ["panels", "give a panel count"]),
+        (None, ["--h-separation", "9"], ["h_separation", "give a value"]),
+        (None, ["--transition", "sometimes"], ["--transition", "give 'free'"]),
+        (None, ["--altitude", "99999"], ["altitude", "give a value"]),
+    ],
+    ids=[
+        "version",
+        "speed in file",
+        "type in file",
+        "speed 0",
+        "panels 5",
+        "H 9",
+        "transition",
+        "altitude",
+    ],
+)
 def test_cli_bad_input_exits_2(tmp_path, sample_dict, capsys, mutate, args, words):
     if mutate is not None:
         mutate(sample_dict)

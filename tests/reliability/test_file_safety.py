@@ -44,6 +44,7 @@ def _age(paths, seconds=FRESH_TMP_SECONDS + 10):
 
 # --- links --------------------------------------------------------------------------------------
 
+
 def test_a_save_onto_a_symlink_writes_its_target_and_keeps_the_link(tmp_path, base):
     real = tmp_path / "real" / "p.json"
     real.parent.mkdir()
@@ -53,7 +54,7 @@ def test_a_save_onto_a_symlink_writes_its_target_and_keeps_the_link(tmp_path, ba
     save_project(_newer(base), link)
     assert link.is_symlink() and os.readlink(link) == str(real)
     assert load_project(real).notes == "a newer version"
-    assert sorted(p.name for p in real.parent.iterdir()) == ["p.json"]   # no temporary left
+    assert sorted(p.name for p in real.parent.iterdir()) == ["p.json"]  # no temporary left
 
 
 def test_a_save_onto_a_link_to_a_file_not_yet_written_creates_it(tmp_path, base):
@@ -86,6 +87,7 @@ def test_a_save_onto_a_hard_link_updates_every_link(tmp_path, base):
 
 # --- temporary files of a killed writer ---------------------------------------------------------
 
+
 def _killed_while_saving(target: Path, delay: float):
     kill_while_saving(SAVING_LOOP, default_sample_path(), target, delay)
 
@@ -99,7 +101,7 @@ def test_temporaries_of_a_killed_writer_are_removed_at_the_next_save(tmp_path, b
     # hand-made ones too, so that the cleaning is tested whatever the kills left
     for name in (".project.json.abcdefgh.tmp", ".project.json.zz_9zz_9.tmp"):
         (tmp_path / name).write_text("half a project")
-    other = tmp_path / ".other.json.abcdefgh.tmp"          # another file's: not touched
+    other = tmp_path / ".other.json.abcdefgh.tmp"  # another file's: not touched
     other.write_text("x")
     _age(tmp_path.glob(".*.tmp"))
     save_project(base, target)
@@ -111,31 +113,31 @@ def test_a_temporary_of_a_save_in_progress_or_just_created_is_kept(tmp_path, bas
     fcntl = pytest.importorskip("fcntl")
     busy = tmp_path / ".p.json.inprogrs.tmp"
     fd = os.open(busy, os.O_CREAT | os.O_WRONLY)
-    fcntl.flock(fd, fcntl.LOCK_EX)               # as a live writer holds its temporary file
-    _age([busy])                                 # old, but locked: a long save in progress
+    fcntl.flock(fd, fcntl.LOCK_EX)  # as a live writer holds its temporary file
+    _age([busy])  # old, but locked: a long save in progress
     try:
         # a second process tries to clean it: the lock is another open file description's
         save_project(base, tmp_path / "p.json")
         assert busy.exists()
     finally:
         os.close(fd)
-    save_project(base, tmp_path / "p.json")      # the writer is gone: now it is stale
+    save_project(base, tmp_path / "p.json")  # the writer is gone: now it is stale
     assert not busy.exists()
-    fresh = tmp_path / ".p.json.justmade.tmp"    # created a moment ago, not locked yet
+    fresh = tmp_path / ".p.json.justmade.tmp"  # created a moment ago, not locked yet
     fresh.write_text("")
     save_project(base, tmp_path / "p.json")
     assert fresh.exists()
 
 
 def test_a_name_near_the_file_system_limit_still_saves(tmp_path, base):
-    target = tmp_path / ("n" * 245 + ".json")     # 250 bytes: the temporary's name is shortened
+    target = tmp_path / ("n" * 245 + ".json")  # 250 bytes: the temporary's name is shortened
     save_project(base, target)
     assert load_project(target) == base
 
 
 # --- recovery folders ---------------------------------------------------------------------------
 
-DEAD_PIDS = (999_999_001, 999_999_002)   # above Linux's largest pid (2**22): never running
+DEAD_PIDS = (999_999_001, 999_999_002)  # above Linux's largest pid (2**22): never running
 
 
 def _copy(folder: Path, pid: int, data: bytes | None, mtime: float, origin: bytes | None = None):
@@ -152,9 +154,9 @@ def test_a_corrupt_newest_copy_does_not_hide_an_older_good_one(tmp_path):
     good = Path(default_sample_path()).read_bytes()
     old, new = DEAD_PIDS
     _copy(tmp_path, old, good, time.time() - 100)
-    _copy(tmp_path, new, good[: len(good) // 2], time.time())     # truncated by a crash
+    _copy(tmp_path, new, good[: len(good) // 2], time.time())  # truncated by a crash
     copies = recovery.left_behind(tmp_path)
-    assert [c.pid for c in copies] == [new, old]                   # newest first
+    assert [c.pid for c in copies] == [new, old]  # newest first
     aside = recovery.set_aside(tmp_path, copies[0])
     assert aside.name == f"damaged-{new}.json" and aside.read_bytes() == good[: len(good) // 2]
     assert [c.pid for c in recovery.left_behind(tmp_path)] == [old]
@@ -162,14 +164,14 @@ def test_a_corrupt_newest_copy_does_not_hide_an_older_good_one(tmp_path):
 
 def test_a_sidecar_that_is_not_utf8_is_read_as_the_path_it_names(tmp_path):
     good = Path(default_sample_path()).read_bytes()
-    origin = b"/home/k\xe9strel/van.json"                          # Latin-1 bytes of a path
+    origin = b"/home/k\xe9strel/van.json"  # Latin-1 bytes of a path
     _copy(tmp_path, DEAD_PIDS[0], good, time.time(), origin=origin)
     (copy,) = recovery.left_behind(tmp_path)
     assert os.fsencode(copy.origin) == origin
 
 
 def test_a_non_utf8_origin_round_trips_through_write_recovery(tmp_path, base):
-    origin = os.fsdecode(b"/tmp/k\xe9strel.json")                  # surrogateescape on POSIX
+    origin = os.fsdecode(b"/tmp/k\xe9strel.json")  # surrogateescape on POSIX
     doc = Document(base.profile, base.conditions, path=origin)
     recovery.write_recovery(tmp_path, doc)
     sidecar = recovery.recovery_file(tmp_path).with_suffix(".origin")
@@ -189,7 +191,7 @@ def test_links_that_lead_nowhere_and_odd_names_are_skipped(tmp_path):
 
 def test_a_file_in_place_of_the_recovery_folder_is_reported(tmp_path, base):
     folder = tmp_path / "recovery"
-    folder.write_text("a file, not a folder")     # fails for root too (no permission bits)
+    folder.write_text("a file, not a folder")  # fails for root too (no permission bits)
     doc = Document(base.profile, base.conditions)
     with pytest.raises(ProjectFileError, match="recovery folder"):
         recovery.write_recovery(folder, doc)
@@ -198,16 +200,20 @@ def test_a_file_in_place_of_the_recovery_folder_is_reported(tmp_path, base):
 
 # --- children: an isolated import path ----------------------------------------------------------
 
+
 def test_a_child_never_imports_a_module_from_the_current_folder(tmp_path, monkeypatch):
     marker = tmp_path / "executed"
     (tmp_path / "numpy.py").write_text(f"open({str(marker)!r}, 'w').close()\n")
     monkeypatch.chdir(tmp_path)
-    monkeypatch.setattr(sys, "path", ["", *sys.path])   # as a parent started from that folder
+    monkeypatch.setattr(sys, "path", ["", *sys.path])  # as a parent started from that folder
     child = ChildProcess()
     done, got = threading.Event(), []
     try:
-        child.submit(import_modules, ("numpy",), lambda ok, payload, s: (got.append((ok, payload)),
-                                                                        done.set()))
+        child.submit(
+            import_modules,
+            ("numpy",),
+            lambda ok, payload, s: (got.append((ok, payload)), done.set()),
+        )
         assert done.wait(60), "the child gave no answer within 60 s"
     finally:
         child.close()
@@ -223,7 +229,7 @@ def test_an_image_saved_onto_a_link_writes_its_target_and_cleans_stale_temporari
     real = tmp_path / "real.png"
     link = tmp_path / "view.png"
     link.symlink_to(real)
-    stale = tmp_path / ".real.png.abcdefgh.tmp"        # left by a killed export of that file
+    stale = tmp_path / ".real.png.abcdefgh.tmp"  # left by a killed export of that file
     stale.write_bytes(b"half an image")
     _age([stale])
     fig = Figure(figsize=(1, 1))
@@ -236,7 +242,7 @@ def test_an_image_saved_onto_a_link_writes_its_target_and_cleans_stale_temporari
 def test_a_recovery_folder_name_no_folder_can_have_is_reported(base):
     doc = Document(base.profile, base.conditions)
     with pytest.raises(ProjectFileError, match="recovery folder"):
-        recovery.write_recovery("/tmp/re\0covery", doc)       # a NUL, as a bad setting may hold
+        recovery.write_recovery("/tmp/re\0covery", doc)  # a NUL, as a bad setting may hold
     assert recovery.left_behind("/tmp/re\0covery") == []
     assert recovery.remove_recovery("/tmp/re\0covery") is False
 

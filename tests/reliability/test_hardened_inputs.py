@@ -27,7 +27,7 @@ from profilebench.io.samples import default_sample_path
 
 from reliability_helpers import write_json
 
-PANELS = "60"     # a quick analysis; these tests are about the ways in, not the numbers
+PANELS = "60"  # a quick analysis; these tests are about the ways in, not the numbers
 
 
 def _no_traceback(capsys):
@@ -37,6 +37,7 @@ def _no_traceback(capsys):
 
 
 # --- numbers no field can use ---------------------------------------------------------------
+
 
 def _with_text_number(tmp_path, sample_dict, where, digits):
     """The sample with one field replaced by a whole number of ``digits`` digits (as text: Python
@@ -52,33 +53,43 @@ def _with_text_number(tmp_path, sample_dict, where, digits):
     return path
 
 
-@pytest.mark.parametrize("where, digits, named", [
-    (("profile", "nodes", 0, "x"), 5000, "profile.nodes[0].x"),
-    (("notes",), 5000, "notes"),
-    (("conditions", "speed"), 400, "conditions.speed"),
-    (("conditions", "transition"), 400, "conditions.transition"),
-    (("profile", "trailing_edge"), 400, "profile.trailing_edge"),
-], ids=["node-x-5000", "notes-5000", "speed-400", "transition-400", "trailing-edge-400"])
-def test_a_number_of_hundreds_of_digits_is_refused_by_field(tmp_path, sample_dict, where, digits,
-                                                           named, capsys):
+@pytest.mark.parametrize(
+    "where, digits, named",
+    [
+        (("profile", "nodes", 0, "x"), 5000, "profile.nodes[0].x"),
+        (("notes",), 5000, "notes"),
+        (("conditions", "speed"), 400, "conditions.speed"),
+        (("conditions", "transition"), 400, "conditions.transition"),
+        (("profile", "trailing_edge"), 400, "profile.trailing_edge"),
+    ],
+    ids=["node-x-5000", "notes-5000", "speed-400", "transition-400", "trailing-edge-400"],
+)
+def test_a_number_of_hundreds_of_digits_is_refused_by_field(
+    tmp_path, sample_dict, where, digits, named, capsys
+):
     path = _with_text_number(tmp_path, sample_dict, where, digits)
     with pytest.raises(ProjectFileError) as info:
         load_project(path)
     assert info.value.path == named and f"{digits} digits" in str(info.value)
     assert main(["analyse", str(path), "--panels", PANELS]) == cli.EXIT_BAD_INPUT
     err = _no_traceback(capsys)
-    assert named in err and "9" * 30 not in err          # the number is not echoed in full
+    assert named in err and "9" * 30 not in err  # the number is not echoed in full
 
 
-@pytest.mark.parametrize("where, value, named", [
-    (("conditions", "temperature_offset"), 1e308, "temperature_offset"),
-    (("profile", "nodes", 0, "x"), 1e308, "node x"),
-    (("profile", "nodes", 2, "radius"), 1e308, "node radius"),
-    (("conditions", "frontal_area"), 1e308, "frontal_area"),
-    (("conditions", "width"), 1e308, "width"),
-], ids=["temperature-offset", "node-x", "radius", "frontal-area", "width"])
-def test_a_finite_but_absurd_value_is_refused_naming_its_field(tmp_path, sample_dict, where,
-                                                               value, named, capsys):
+@pytest.mark.parametrize(
+    "where, value, named",
+    [
+        (("conditions", "temperature_offset"), 1e308, "temperature_offset"),
+        (("profile", "nodes", 0, "x"), 1e308, "node x"),
+        (("profile", "nodes", 2, "radius"), 1e308, "node radius"),
+        (("conditions", "frontal_area"), 1e308, "frontal_area"),
+        (("conditions", "width"), 1e308, "width"),
+    ],
+    ids=["temperature-offset", "node-x", "radius", "frontal-area", "width"],
+)
+def test_a_finite_but_absurd_value_is_refused_naming_its_field(
+    tmp_path, sample_dict, where, value, named, capsys
+):
     d = sample_dict
     *keys, last = where
     for k in keys:
@@ -118,7 +129,7 @@ def test_a_long_csv_cell_is_not_echoed_in_full(tmp_path):
 
 @pytest.mark.parametrize("option", ["--panels", "--speed"])
 def test_a_command_line_number_that_no_field_can_use(option, capsys):
-    value = "9" * 400 if option == "--panels" else "1e400"     # 1e400 reads as inf (IEEE 754)
+    value = "9" * 400 if option == "--panels" else "1e400"  # 1e400 reads as inf (IEEE 754)
     code = main(["analyse", str(default_sample_path()), option, value])
     assert code == cli.EXIT_BAD_INPUT
     err = _no_traceback(capsys)
@@ -127,14 +138,16 @@ def test_a_command_line_number_that_no_field_can_use(option, capsys):
 
 # --- text no file or terminal can hold --------------------------------------------------------
 
-@pytest.mark.parametrize("where", [("profile", "nodes", 0, "label"), ("profile", "name"),
-                                   ("notes",)])
+
+@pytest.mark.parametrize(
+    "where", [("profile", "nodes", 0, "label"), ("profile", "name"), ("notes",)]
+)
 def test_a_lone_surrogate_is_refused_naming_the_field(tmp_path, sample_dict, where, capsys):
     d = sample_dict
     *keys, last = where
     for k in keys:
         d = d[k]
-    d[last] = "front \ud800 corner"          # json.dumps writes it as the escape \ud800
+    d[last] = "front \ud800 corner"  # json.dumps writes it as the escape \ud800
     path = write_json(tmp_path, "p.json", sample_dict)
     with pytest.raises(ProjectFileError) as info:
         load_project(path)
@@ -158,11 +171,12 @@ def test_terminal_escapes_in_labels_are_printed_as_text(tmp_path, sample_dict, c
 
 # --- output paths -----------------------------------------------------------------------------
 
+
 def _outputs_cases(tmp_path):
     (tmp_path / "a_file").write_text("not a folder")
     return {
         "file-as-folder": str(tmp_path / "a_file" / "out.{ext}"),
-        "proc": "/proc/profilebench-out.{ext}",            # the kernel refuses new files there
+        "proc": "/proc/profilebench-out.{ext}",  # the kernel refuses new files there
         "name-300": str(tmp_path / ("n" * 296 + ".{ext}")),  # over the 255-byte name limit
         "empty": "",
     }
@@ -170,8 +184,9 @@ def _outputs_cases(tmp_path):
 
 @pytest.mark.parametrize("case", ["file-as-folder", "proc", "name-300", "empty"])
 @pytest.mark.parametrize("option, ext", [("--json", "json"), ("--csv", "csv"), ("--image", "png")])
-def test_an_output_that_cannot_be_written_is_refused_before_any_work(tmp_path, case, option, ext,
-                                                                     monkeypatch, capsys):
+def test_an_output_that_cannot_be_written_is_refused_before_any_work(
+    tmp_path, case, option, ext, monkeypatch, capsys
+):
     target = _outputs_cases(tmp_path)[case].format(ext=ext)
     analysed = []
     monkeypatch.setattr(cli, "_analyse", lambda *a, **k: analysed.append(a))
@@ -179,7 +194,7 @@ def test_an_output_that_cannot_be_written_is_refused_before_any_work(tmp_path, c
     assert code == cli.EXIT_BAD_INPUT
     err = _no_traceback(capsys)
     assert option in err or "cannot" in err
-    assert not analysed                                   # refused before the analysis
+    assert not analysed  # refused before the analysis
 
 
 @pytest.mark.parametrize("option", ["--json", "--csv"])
@@ -187,7 +202,7 @@ def test_an_output_that_cannot_be_written_is_refused_before_any_work(tmp_path, c
 def test_an_output_that_is_an_input_is_refused(tmp_path, option, how, capsys):
     ext = option[2:]
     project = tmp_path / f"in.{ext}"
-    if ext == "csv":   # a CSV outline is an input too: the sample's nodes as points
+    if ext == "csv":  # a CSV outline is an input too: the sample's nodes as points
         nodes = load_project(default_sample_path()).profile.nodes
         project.write_text("x,y\n" + "".join(f"{n.x},{n.y}\n" for n in nodes), encoding="utf-8")
     else:
@@ -209,20 +224,34 @@ def test_an_output_that_is_an_input_is_refused(tmp_path, option, how, capsys):
 def test_an_output_that_is_the_table_is_refused(tmp_path, capsys):
     table = tmp_path / "t.json"
     table.write_text("{}")
-    code = main(["analyse", str(default_sample_path()), "--table", str(table), "--json",
-                 str(table)])
+    code = main(
+        ["analyse", str(default_sample_path()), "--table", str(table), "--json", str(table)]
+    )
     assert code == cli.EXIT_BAD_INPUT
     assert "input" in _no_traceback(capsys) and table.read_text() == "{}"
 
 
 # --- a closed pipe and Ctrl-C -----------------------------------------------------------------
 
+
 def test_a_reader_that_stops_early_cuts_only_the_printed_text(tmp_path):
     out = tmp_path / "r.json"
-    proc = subprocess.Popen([sys.executable, "-m", "profilebench", "analyse",
-                             str(default_sample_path()), "--panels", PANELS, "--json", str(out)],
-                            stdout=subprocess.PIPE, stderr=subprocess.PIPE)
-    proc.stdout.close()          # as `| head -0` does: every write to stdout meets EPIPE
+    proc = subprocess.Popen(
+        [
+            sys.executable,
+            "-m",
+            "profilebench",
+            "analyse",
+            str(default_sample_path()),
+            "--panels",
+            PANELS,
+            "--json",
+            str(out),
+        ],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+    )
+    proc.stdout.close()  # as `| head -0` does: every write to stdout meets EPIPE
     _, err = proc.communicate(timeout=120)
     assert b"Traceback" not in err and b"BrokenPipe" not in err, err.decode()
     assert proc.returncode == cli.EXIT_OK
@@ -236,14 +265,15 @@ def test_ctrl_c_prints_one_line_and_exits_130(monkeypatch, capsys):
     monkeypatch.setattr(cli, "_analyse", interrupted)
     try:
         code = main(["analyse", str(default_sample_path())])
-    except KeyboardInterrupt:     # caught here, or pytest would take it as the user's Ctrl-C
+    except KeyboardInterrupt:  # caught here, or pytest would take it as the user's Ctrl-C
         pytest.fail("KeyboardInterrupt escaped main()")
-    assert code == 130            # 128 + SIGINT (2), as POSIX shells report it
+    assert code == 130  # 128 + SIGINT (2), as POSIX shells report it
     err = _no_traceback(capsys)
     assert "interrupted" in err and len(err.strip().splitlines()) == 1
 
 
 # --- tables: bounded reading ------------------------------------------------------------------
+
 
 @pytest.mark.parametrize("device", ["/dev/zero", "/dev/urandom"])
 def test_a_device_as_table_is_refused_without_reading(device):
@@ -256,18 +286,21 @@ def test_a_device_as_table_is_refused_without_reading(device):
 def test_a_pipe_as_table_is_refused_without_waiting(tmp_path):
     fifo = tmp_path / "table.csv"
     os.mkfifo(fifo)
-    code = ("import sys\nfrom profilebench.assess.tables import load_table\n"
-            "try:\n    load_table(sys.argv[1])\nexcept Exception as e:\n"
-            "    print(type(e).__name__, e)\n")
+    code = (
+        "import sys\nfrom profilebench.assess.tables import load_table\n"
+        "try:\n    load_table(sys.argv[1])\nexcept Exception as e:\n"
+        "    print(type(e).__name__, e)\n"
+    )
     # a child process, so that a reader that waits for a writer cannot hang the suite
-    done = subprocess.run([sys.executable, "-c", code, str(fifo)], capture_output=True,
-                          text=True, timeout=60)
+    done = subprocess.run(
+        [sys.executable, "-c", code, str(fifo)], capture_output=True, text=True, timeout=60
+    )
     assert done.stdout.startswith("TableError") and "not a regular file" in done.stdout
 
 
 def test_an_oversized_table_is_refused_before_reading(tmp_path):
     path = tmp_path / "t.csv"
-    with open(path, "wb") as fh:          # sparse: no disk used
+    with open(path, "wb") as fh:  # sparse: no disk used
         fh.truncate(MAX_TABLE_BYTES + 1)
     with pytest.raises(TableError, match="limit"):
         load_table(path)
@@ -275,13 +308,17 @@ def test_an_oversized_table_is_refused_before_reading(tmp_path):
 
 # --- node counts and links --------------------------------------------------------------------
 
+
 def _circle_nodes(n):
-    return [{"x": 1.0 + math.cos(2 * math.pi * k / n), "y": 1.5 + math.sin(2 * math.pi * k / n)}
-            for k in range(n)]
+    return [
+        {"x": 1.0 + math.cos(2 * math.pi * k / n), "y": 1.5 + math.sin(2 * math.pi * k / n)}
+        for k in range(n)
+    ]
 
 
-def test_one_node_over_the_limit_is_refused_before_any_node_is_built(tmp_path, sample_dict,
-                                                                    monkeypatch):
+def test_one_node_over_the_limit_is_refused_before_any_node_is_built(
+    tmp_path, sample_dict, monkeypatch
+):
     sample_dict["profile"]["nodes"] = _circle_nodes(MAX_NODES + 1)
     sample_dict["profile"]["trailing_edge"] = None
     path = write_json(tmp_path, "p.json", sample_dict)
@@ -295,15 +332,16 @@ def test_one_node_over_the_limit_is_refused_before_any_node_is_built(tmp_path, s
 
 def test_a_million_nodes_are_refused_quickly(tmp_path, sample_dict):
     sample_dict["profile"]["nodes"] = []
-    text = json.dumps(sample_dict).replace('"nodes": []', '"nodes": ['
-                                           + ",".join(['{"x":1.5,"y":0.5}'] * 10**6) + "]")
+    text = json.dumps(sample_dict).replace(
+        '"nodes": []', '"nodes": [' + ",".join(['{"x":1.5,"y":0.5}'] * 10**6) + "]"
+    )
     path = tmp_path / "p.json"
     path.write_text(text, encoding="utf-8")
-    assert path.stat().st_size < MAX_PROJECT_BYTES          # under the size limit
+    assert path.stat().st_size < MAX_PROJECT_BYTES  # under the size limit
     t0 = time.perf_counter()
     with pytest.raises(ProjectFileError, match="JSON objects"):
         load_project(path)
-    assert time.perf_counter() - t0 < 5.0                   # was 100 s before the limit
+    assert time.perf_counter() - t0 < 5.0  # was 100 s before the limit
 
 
 @pytest.mark.parametrize("kind", ["loop", "dangling"])
@@ -322,11 +360,18 @@ def test_a_broken_link_says_what_it_is(tmp_path, kind):
     assert ("symbolic links" in message) if kind == "loop" else ("gone.json" in message)
 
 
-@pytest.mark.parametrize("make", [
-    lambda: Conditions(speed=10**400), lambda: Conditions(transition=10**400),
-    lambda: Conditions(width=10**400), lambda: Conditions(panels=10**400),
-    lambda: Node(10**400, 0.5), lambda: Node(0.5, -(10**400)),
-], ids=["speed", "transition", "width", "panels", "node-x", "node-y"])
+@pytest.mark.parametrize(
+    "make",
+    [
+        lambda: Conditions(speed=10**400),
+        lambda: Conditions(transition=10**400),
+        lambda: Conditions(width=10**400),
+        lambda: Conditions(panels=10**400),
+        lambda: Node(10**400, 0.5),
+        lambda: Node(0.5, -(10**400)),
+    ],
+    ids=["speed", "transition", "width", "panels", "node-x", "node-y"],
+)
 def test_a_python_int_beyond_any_float_is_refused_in_the_api(make):
     # float(10**400) raises OverflowError (IEEE 754 doubles end near 1.8e308)
     with pytest.raises(ProfileBenchError) as info:
@@ -349,7 +394,7 @@ def test_import_checks_its_project_file_before_fitting(tmp_path, monkeypatch, ca
     monkeypatch.setattr(cli, "_import_csv", lambda *a, **k: fitted.append(a))
     code = main(["import", str(outline), "/proc/profilebench-p.json"])  # no new files in /proc
     assert code == cli.EXIT_BAD_INPUT and "/proc" in _no_traceback(capsys)
-    assert not fitted                             # refused before the (slow) fit
+    assert not fitted  # refused before the (slow) fit
 
 
 def test_an_underlay_path_through_a_loop_of_links_is_refused(tmp_path):
@@ -358,9 +403,12 @@ def test_an_underlay_path_through_a_loop_of_links_is_refused(tmp_path):
     (tmp_path / "a.png").symlink_to(tmp_path / "b.png")
     (tmp_path / "b.png").symlink_to(tmp_path / "a.png")
     base = load_project(default_sample_path())
-    project = Project(base.profile, base.conditions,
-                      underlay=Underlay("a.png", ((0, 0), (100, 0)), ((0.0, 0.0), (1.0, 0.0))))
-    with pytest.raises(ProjectFileError) as info:   # Python < 3.13 raised RuntimeError here
+    project = Project(
+        base.profile,
+        base.conditions,
+        underlay=Underlay("a.png", ((0, 0), (100, 0)), ((0.0, 0.0), (1.0, 0.0))),
+    )
+    with pytest.raises(ProjectFileError) as info:  # Python < 3.13 raised RuntimeError here
         resolve_underlay(project, tmp_path / "p.json")
     assert info.value.path == "underlay.path"
 
@@ -376,8 +424,11 @@ def test_a_point_file_too_dense_to_fit_is_refused_before_the_fit(tmp_path):
     from profilebench.io.points import MAX_POINTS
 
     n = MAX_POINTS + 1
-    rows = "".join(f"{2 + 2 * math.cos(2 * math.pi * k / n):.6f},"
-                   f"{0.9 + 0.7 * math.sin(2 * math.pi * k / n):.6f}\n" for k in range(n))
+    rows = "".join(
+        f"{2 + 2 * math.cos(2 * math.pi * k / n):.6f},"
+        f"{0.9 + 0.7 * math.sin(2 * math.pi * k / n):.6f}\n"
+        for k in range(n)
+    )
     path = tmp_path / "dense.csv"
     path.write_text("x,y\n" + rows, encoding="utf-8")
     with pytest.raises(ProjectFileError) as info:

@@ -26,9 +26,13 @@ from profilebench.errors import InputError
 from profilebench.geometry import rounded_box
 from profilebench.io.samples import sample_paths
 
-SETTINGS = dict(deadline=None, derandomize=True, database=None,
-                phases=(Phase.explicit, Phase.reuse, Phase.generate),
-                suppress_health_check=[HealthCheck.too_slow])
+SETTINGS = dict(
+    deadline=None,
+    derandomize=True,
+    database=None,
+    phases=(Phase.explicit, Phase.reuse, Phase.generate),
+    suppress_health_check=[HealthCheck.too_slow],
+)
 
 DEFAULT = Conditions().panels
 SAMPLES = {p.stem: load_project(p) for p in sample_paths()}
@@ -42,8 +46,14 @@ def _reordered(profile, start, reverse):
         idx = idx[::-1]
     idx = idx[start:] + idx[:start]
     te = profile.trailing_edge
-    return (Profile(tuple(profile.nodes[i] for i in idx), name=profile.name,
-                    trailing_edge=None if te is None else idx.index(te)), idx)
+    return (
+        Profile(
+            tuple(profile.nodes[i] for i in idx),
+            name=profile.name,
+            trailing_edge=None if te is None else idx.index(te),
+        ),
+        idx,
+    )
 
 
 def _verdicts(analysis, original=None):
@@ -69,15 +79,16 @@ def _converges(profile, conditions, n=DEFAULT):
 # measured on this code: the courier van sits on two solution branches (its underbody layer
 # separates at s = 4.51 or 4.60 m depending on the closed-body pass), 0.2604 at 250 panels and
 # 0.2553 / 0.2535 at 500 / 1000: 2.7 %
-KNOWN_UNCONVERGED_SAMPLES = {"kestrel_courier_van": "two branches of the underbody separation: "
-                                                    "0.2604 / 0.2553 / 0.2535 (2.7 %)"}
+KNOWN_UNCONVERGED_SAMPLES = {
+    "kestrel_courier_van": "two branches of the underbody separation: "
+    "0.2604 / 0.2553 / 0.2535 (2.7 %)"
+}
 
 
 @pytest.mark.parametrize("name", sorted(SAMPLES))
 def test_sample_cd_and_verdicts_hold_at_two_and_four_times_the_panels(name, request):
     if name in KNOWN_UNCONVERGED_SAMPLES:
-        request.applymarker(pytest.mark.xfail(strict=True,
-                                              reason=KNOWN_UNCONVERGED_SAMPLES[name]))
+        request.applymarker(pytest.mark.xfail(strict=True, reason=KNOWN_UNCONVERGED_SAMPLES[name]))
     project = SAMPLES[name]
     cds, verdicts = _converges(project.profile, project.conditions)
     assert verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
@@ -99,17 +110,23 @@ BOXES = [
     pytest.param((4.0, 1.6, 0.2, 0.2, 25.0), id="box-4.0x1.6-r0.2"),
     pytest.param((2.0, 0.5, 0.1, 0.05, 30.0), id="box-2.0x0.5-r0.1"),
     pytest.param((5.0, 2.5, (0.3, 0.25, 0.25, 0.3), 0.3, 30.0), id="box-5.0x2.5-r0.25-0.3"),
-    pytest.param((4.5, 1.8, (0.4, 0.2, 0.2, 0.4), 0.25, 35.0), id="box-4.5x1.8-r0.2-0.4",
-                 marks=pytest.mark.xfail(strict=True, reason="measured 0.2831 / 0.2865 / "
-                                         "0.2891: 2.1 %, a slow drift with the panels")),
+    pytest.param(
+        (4.5, 1.8, (0.4, 0.2, 0.2, 0.4), 0.25, 35.0),
+        id="box-4.5x1.8-r0.2-0.4",
+        marks=pytest.mark.xfail(
+            strict=True,
+            reason="measured 0.2831 / 0.2865 / 0.2891: 2.1 %, a slow drift with the panels",
+        ),
+    ),
 ]
 
 
 @pytest.mark.parametrize("box", BOXES)
 def test_rounded_box_family_converges(box):
     length, height, radius, clearance, speed = box
-    cds, verdicts = _converges(rounded_box(length, height, radius, clearance=clearance),
-                               Conditions(speed=speed))
+    cds, verdicts = _converges(
+        rounded_box(length, height, radius, clearance=clearance), Conditions(speed=speed)
+    )
     assert verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
     assert abs(cds[1] - cds[0]) <= 0.02 * cds[0] and abs(cds[2] - cds[0]) <= 0.02 * cds[0]
 
@@ -118,9 +135,12 @@ def _search(profile, speed, node, panels):
     return smallest_attached_radius(profile, Conditions(speed=speed, panels=panels), node)
 
 
-@pytest.mark.xfail(strict=True, reason="measured: 77.9 mm at 250 panels against 94.5 and 95.3 "
-                                       "mm at 500 and 1000; the post-bubble turbulent layer "
-                                       "reaches H = 2.4 only when the corner is panelled finer")
+@pytest.mark.xfail(
+    strict=True,
+    reason="measured: 77.9 mm at 250 panels against 94.5 and 95.3 "
+    "mm at 500 and 1000; the post-bubble turbulent layer "
+    "reaches H = 2.4 only when the corner is panelled finer",
+)
 def test_smallest_attached_radius_holds_at_two_and_four_times_the_panels():
     box = rounded_box(4.0, 1.6, 0.05, clearance=0.2)
     found = [_search(box, 25.0, 3, n) for n in (DEFAULT, 2 * DEFAULT, 4 * DEFAULT)]
@@ -139,6 +159,7 @@ def test_smallest_attached_radius_holds_from_twice_the_panels_on():
 
 
 # --- invariance ---------------------------------------------------------------------------------
+
 
 @pytest.mark.parametrize("name", sorted(SAMPLES))
 def test_sample_is_the_same_from_every_start_node_and_both_directions(name):
@@ -167,10 +188,12 @@ def test_rounded_box_given_clockwise_gives_the_same_answer():
     assert other.drag.cd == pytest.approx(base.drag.cd, rel=0.005)
     assert _verdicts(other, idx) == _verdicts(base)
     assert sum(c.delta_cd for c in other.corners) == pytest.approx(
-        sum(c.delta_cd for c in base.corners), abs=1e-9)
+        sum(c.delta_cd for c in base.corners), abs=1e-9
+    )
 
 
 # --- plausibility and failures ------------------------------------------------------------------
+
 
 def test_a_negative_cd_is_a_failed_analysis_not_a_success():
     # the test body with a Kutta condition at its rear upper edge gave Cd -36 as "success"
@@ -192,7 +215,7 @@ def test_a_section_reynolds_number_below_the_methods_range_is_refused(speed):
 
 def test_the_reynolds_floor_is_where_it_says():
     body = SAMPLES["kestrel_test_body"]
-    length = 2.0   # the test body's length (m), its larger extent
+    length = 2.0  # the test body's length (m), its larger extent
     v_floor = RE_MIN * body.conditions.nu / length
     assert analyze(body.profile, body.conditions.replace(speed=1.01 * v_floor)).status is not None
     with pytest.raises(InputError):
@@ -223,6 +246,7 @@ def test_thin_sharp_box_near_the_ground_is_plausible_or_failed():
 
 
 # --- property tests ------------------------------------------------------------------------------
+
 
 @st.composite
 def boxes(draw):
@@ -266,10 +290,17 @@ def _random_boxes(seed, count):
     out = []
     for _ in range(count):
         height = rng.uniform(1.2, 2.5)
-        out.append((rounded_box(rng.uniform(3.0, 6.0), height,
-                                tuple(float(r) for r in rng.uniform(0.1, 0.35, 4) * height),
-                                clearance=rng.uniform(0.1, 0.35)),
-                    Conditions(speed=rng.uniform(20.0, 40.0))))
+        out.append(
+            (
+                rounded_box(
+                    rng.uniform(3.0, 6.0),
+                    height,
+                    tuple(float(r) for r in rng.uniform(0.1, 0.35, 4) * height),
+                    clearance=rng.uniform(0.1, 0.35),
+                ),
+                Conditions(speed=rng.uniform(20.0, 40.0)),
+            )
+        )
     return out
 
 
@@ -277,8 +308,12 @@ def _converged_share(cases):
     good = 0
     for profile, cond in cases:
         a, b = analyze(profile, cond), analyze(profile, cond.replace(panels=2 * cond.panels))
-        if (a.success and b.success and _verdicts(a) == _verdicts(b)
-                and abs(b.drag.cd - a.drag.cd) <= 0.02 * a.drag.cd):
+        if (
+            a.success
+            and b.success
+            and _verdicts(a) == _verdicts(b)
+            and abs(b.drag.cd - a.drag.cd) <= 0.02 * a.drag.cd
+        ):
             good += 1
     return good / len(cases)
 
@@ -288,8 +323,11 @@ def random_box_share():
     return _converged_share(_random_boxes(2026, 20))
 
 
-@pytest.mark.xfail(strict=True, reason="measured: 90 % of these 20 random rounded boxes (83 % "
-                                       "of 30 others) converge from 250 to 500 panels, not 95 %")
+@pytest.mark.xfail(
+    strict=True,
+    reason="measured: 90 % of these 20 random rounded boxes (83 % "
+    "of 30 others) converge from 250 to 500 panels, not 95 %",
+)
 def test_random_rounded_boxes_converge_on_95_percent(random_box_share):
     assert random_box_share >= 0.95
 
@@ -307,8 +345,9 @@ def test_command_line_reports_an_implausible_result_as_a_failure(tmp_path, capsy
     from profilebench.io import save_project
 
     body = SAMPLES["kestrel_test_body"]
-    kutta = dataclasses.replace(body, profile=Profile(body.profile.nodes, name="kutta",
-                                                      trailing_edge=2))
+    kutta = dataclasses.replace(
+        body, profile=Profile(body.profile.nodes, name="kutta", trailing_edge=2)
+    )
     path = save_project(kutta, tmp_path / "kutta.json")
     assert main(["analyse", str(path)]) == 1
     assert "implausible result" in capsys.readouterr().err

@@ -27,9 +27,13 @@ from profilebench.geometry import rounded_box
 from profilebench.io.samples import sample_paths
 
 # no shrinking phase: a failure is reported as found, which keeps a failing run bounded too
-SETTINGS = dict(deadline=None, derandomize=True, database=None,
-                phases=(Phase.explicit, Phase.reuse, Phase.generate),
-                suppress_health_check=[HealthCheck.too_slow])
+SETTINGS = dict(
+    deadline=None,
+    derandomize=True,
+    database=None,
+    phases=(Phase.explicit, Phase.reuse, Phase.generate),
+    suppress_health_check=[HealthCheck.too_slow],
+)
 
 
 SAMPLES = [load_project(p).profile for p in sample_paths()]
@@ -43,9 +47,11 @@ def event(text):
     if currently_in_test_context():
         _hypothesis_event(text)
 
+
 def conditions(max_panels=160):
-    transition = st.one_of(st.sampled_from(["free", "turbulent"]),
-                           st.floats(0.0, 3.0, allow_nan=False))
+    transition = st.one_of(
+        st.sampled_from(["free", "turbulent"]), st.floats(0.0, 3.0, allow_nan=False)
+    )
     return st.builds(
         Conditions,
         speed=st.floats(1.0, 150.0),
@@ -107,6 +113,7 @@ def random_polygons(draw):
 
 # --- the invariant ----------------------------------------------------------------------------
 
+
 def _finite(value, what):
     arr = np.asarray(value, dtype=float)
     assert np.all(np.isfinite(arr)), f"{what} is not finite: {value!r}"
@@ -125,15 +132,24 @@ def check_contract(profile, cond):
         event(a.status.name)
         return a.status.name
     d = a.drag
-    for name in ("cd_friction", "cd_pressure", "cd_base", "cd_corners", "cd", "cl",
-                 "reference_height", "base_pressure"):
+    for name in (
+        "cd_friction",
+        "cd_pressure",
+        "cd_base",
+        "cd_corners",
+        "cd",
+        "cl",
+        "reference_height",
+        "base_pressure",
+    ):
         _finite(getattr(d, name), f"drag.{name}")
     for name in ("cda", "force", "power", "reference_area"):
         if getattr(d, name) is not None:
             _finite(getattr(d, name), f"drag.{name}")
     # Cd is the sum of its breakdown (DragBreakdown's definition)
-    assert d.cd == pytest.approx(d.cd_friction + d.cd_pressure + d.cd_base + d.cd_corners,
-                                 rel=1e-9, abs=1e-12)
+    assert d.cd == pytest.approx(
+        d.cd_friction + d.cd_pressure + d.cd_base + d.cd_corners, rel=1e-9, abs=1e-12
+    )
     for c in a.corners:
         for name in ("radius", "turning_angle_deg", "thickness", "r_over_t", "margin", "delta_cd"):
             _finite(getattr(c, name), f"corner {c.node} {name}")
@@ -145,8 +161,9 @@ def check_contract(profile, cond):
     # Bernoulli, Cp = 1 - (Ue/V)^2 (incompressible potential flow), where the flow is attached
     # (separated stations carry the base-pressure model instead)
     attached = ~np.asarray(a.flow.separated, dtype=bool)
-    np.testing.assert_allclose(np.asarray(inv.cp)[attached],
-                               1.0 - np.asarray(inv.ue)[attached] ** 2, atol=1e-9)
+    np.testing.assert_allclose(
+        np.asarray(inv.cp)[attached], 1.0 - np.asarray(inv.ue)[attached] ** 2, atol=1e-9
+    )
     for sfl in a.flow.surfaces:
         for name in ("theta", "H", "cf", "margin"):
             _finite(getattr(sfl.bl, name), f"{sfl.name} bl.{name}")
@@ -158,6 +175,7 @@ def check_contract(profile, cond):
 
 
 # --- properties -------------------------------------------------------------------------------
+
 
 @settings(max_examples=120, **SETTINGS)
 @given(profile=boxes(), cond=conditions())
@@ -185,10 +203,16 @@ def test_random_invalid_or_odd_outlines(data, cond):
 
 
 @settings(max_examples=40, **SETTINGS)
-@given(speed=st.one_of(st.floats(allow_nan=True, allow_infinity=True), st.integers(),
-                       st.text(max_size=3), st.none()),
-       altitude=st.floats(allow_nan=True, allow_infinity=True),
-       panels=st.one_of(st.integers(-10, 5000), st.floats(allow_nan=True)))
+@given(
+    speed=st.one_of(
+        st.floats(allow_nan=True, allow_infinity=True),
+        st.integers(),
+        st.text(max_size=3),
+        st.none(),
+    ),
+    altitude=st.floats(allow_nan=True, allow_infinity=True),
+    panels=st.one_of(st.integers(-10, 5000), st.floats(allow_nan=True)),
+)
 def test_random_conditions_never_escape(speed, altitude, panels):
     try:
         cond = Conditions(speed=speed, altitude=altitude, panels=panels)
@@ -203,30 +227,67 @@ def test_random_conditions_never_escape(speed, altitude, panels):
 
 # --- bugs found by the properties above, pinned as explicit cases -----------------------------
 
+
 @pytest.mark.parametrize("tiny", [1e-103, 1e-300])
 def test_tiny_corner_radius_is_a_sharp_edge_or_a_clear_message(tiny):
     prof = rounded_box(4.722, 0.567, radius=(0.0, 0.01, 0.0731, tiny), clearance=0.5)
-    a = analyze(prof, Conditions(speed=112.1, altitude=11917.0, transition="turbulent",
-                                 h_separation=1.846, panels=55))
+    a = analyze(
+        prof,
+        Conditions(
+            speed=112.1, altitude=11917.0, transition="turbulent", h_separation=1.846, panels=55
+        ),
+    )
     # the analysis' own contract (analyze's docstring): an invalid outline comes back as a status
     assert a.success or (a.status is AnalysisStatus.INVALID_GEOMETRY and "radius" in a.message)
 
 
-@pytest.mark.parametrize("radii, length, height, clearance, cond", [
-    ((0.0, 0.1, 0.0, 0.0), 2.789555367539794, 0.3, 0.5270299852303418,
-     dict(speed=1.0, transition="turbulent", h_separation=2.79, panels=79)),
-    ((0.12379948415042767, 0.246, 0.024263697569133005, 0.42417163588687296), 1.721913490878506,
-     0.99999, 0.2918619901253975,
-     dict(speed=72.87576395345694, altitude=1.1, transition=0.0, h_separation=2.790866776263034,
-          panels=138)),
-], ids=["math domain error", "complex cf"])
+@pytest.mark.parametrize(
+    "radii, length, height, clearance, cond",
+    [
+        (
+            (0.0, 0.1, 0.0, 0.0),
+            2.789555367539794,
+            0.3,
+            0.5270299852303418,
+            dict(speed=1.0, transition="turbulent", h_separation=2.79, panels=79),
+        ),
+        (
+            (0.12379948415042767, 0.246, 0.024263697569133005, 0.42417163588687296),
+            1.721913490878506,
+            0.99999,
+            0.2918619901253975,
+            dict(
+                speed=72.87576395345694,
+                altitude=1.1,
+                transition=0.0,
+                h_separation=2.790866776263034,
+                panels=138,
+            ),
+        ),
+    ],
+    ids=["math domain error", "complex cf"],
+)
 def test_turbulent_march_on_rounded_boxes(radii, length, height, clearance, cond):
     prof = rounded_box(length, height, radius=radii, clearance=clearance)
     check_contract(prof, Conditions(**cond))
 
 
 def test_turbulent_march_on_a_thin_triangle():
-    prof = Profile.from_points([(0.8069631560214272, 0.018), (1.8904076501746494, 0.5333065870447395),
-                                (1.4153327274567773e-23, 0.4541604604272891)])
-    check_contract(prof, Conditions(speed=1.5, altitude=2.61, ground=False, transition="turbulent",
-                                    h_separation=2.2898000352053085, panels=40))
+    prof = Profile.from_points(
+        [
+            (0.8069631560214272, 0.018),
+            (1.8904076501746494, 0.5333065870447395),
+            (1.4153327274567773e-23, 0.4541604604272891),
+        ]
+    )
+    check_contract(
+        prof,
+        Conditions(
+            speed=1.5,
+            altitude=2.61,
+            ground=False,
+            transition="turbulent",
+            h_separation=2.2898000352053085,
+            panels=40,
+        ),
+    )

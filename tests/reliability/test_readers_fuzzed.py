@@ -22,20 +22,28 @@ from profilebench.errors import ProfileBenchError
 from profilebench.io import Project, import_points_csv, load_project, project_to_dict
 from profilebench.io.samples import default_sample_path
 
-SECONDS = 5.0                  # per read (common practice, no source)
-PEAK_BYTES = 64 * 2**20        # per read, Python and numpy allocations (tracemalloc)
-FUZZ = settings(max_examples=25, deadline=None,
-                suppress_health_check=[HealthCheck.function_scoped_fixture,
-                                       HealthCheck.too_slow])
+SECONDS = 5.0  # per read (common practice, no source)
+PEAK_BYTES = 64 * 2**20  # per read, Python and numpy allocations (tracemalloc)
+FUZZ = settings(
+    max_examples=25,
+    deadline=None,
+    suppress_health_check=[HealthCheck.function_scoped_fixture, HealthCheck.too_slow],
+)
 
 SAMPLE = json.loads(Path(default_sample_path()).read_text(encoding="utf-8"))
 
 json_values = st.recursive(
-    st.none() | st.booleans() | st.integers() | st.floats() | st.text(max_size=20)
+    st.none()
+    | st.booleans()
+    | st.integers()
+    | st.floats()
+    | st.text(max_size=20)
     | st.integers(min_value=10**20, max_value=10**400),
-    lambda inner: st.lists(inner, max_size=5) | st.dictionaries(st.text(max_size=8), inner,
-                                                                max_size=5),
-    max_leaves=20)
+    lambda inner: (
+        st.lists(inner, max_size=5) | st.dictionaries(st.text(max_size=8), inner, max_size=5)
+    ),
+    max_leaves=20,
+)
 
 
 def _paths(value, prefix=()):
@@ -83,7 +91,7 @@ def _read_checked(reader, path: Path, files=None):
     assert seconds < SECONDS and peak < PEAK_BYTES, (seconds, peak)
     assert _state(files) == before
     if isinstance(result, ProfileBenchError):
-        assert str(result).strip()             # says something
+        assert str(result).strip()  # says something
     return result
 
 
@@ -100,6 +108,7 @@ def _write(tmp_path_factory, data: bytes, name: str) -> Path:
 
 # --- project files ----------------------------------------------------------------------------
 
+
 @FUZZ
 @given(data=st.binary(max_size=2000))
 def test_project_reader_on_random_bytes(tmp_path_factory, data):
@@ -111,7 +120,7 @@ def test_project_reader_on_random_bytes(tmp_path_factory, data):
 @FUZZ
 @given(value=json_values)
 def test_project_reader_on_random_json(tmp_path_factory, value):
-    text = json.dumps(value)           # NaN and Infinity written as such: not JSON, refused
+    text = json.dumps(value)  # NaN and Infinity written as such: not JSON, refused
     result = _read_checked(load_project, _write(tmp_path_factory, text.encode(), "p.json"))
     if not isinstance(result, ProfileBenchError):
         _valid_project(result)
@@ -133,14 +142,22 @@ def test_project_reader_on_the_sample_with_one_random_field(tmp_path_factory, wh
 
 # --- point files ------------------------------------------------------------------------------
 
-cells = st.one_of(st.floats(width=64).map(repr), st.integers().map(str),
-                  st.text(alphabet="0123456789.,;e-+ \t#xy", max_size=12))
+cells = st.one_of(
+    st.floats(width=64).map(repr),
+    st.integers().map(str),
+    st.text(alphabet="0123456789.,;e-+ \t#xy", max_size=12),
+)
 
 
 @FUZZ
-@given(data=st.one_of(st.binary(max_size=2000),
-                      st.lists(st.lists(cells, min_size=1, max_size=3).map(",".join),
-                               max_size=12).map(lambda rows: "\n".join(rows).encode())))
+@given(
+    data=st.one_of(
+        st.binary(max_size=2000),
+        st.lists(st.lists(cells, min_size=1, max_size=3).map(",".join), max_size=12).map(
+            lambda rows: "\n".join(rows).encode()
+        ),
+    )
+)
 def test_point_reader_on_random_bytes_and_rows(tmp_path_factory, data):
     result = _read_checked(import_points_csv, _write(tmp_path_factory, data, "outline.csv"))
     if not isinstance(result, ProfileBenchError):
@@ -151,14 +168,21 @@ def test_point_reader_on_random_bytes_and_rows(tmp_path_factory, data):
 
 # --- r/t tables -------------------------------------------------------------------------------
 
-TABLE_HEAD = ("# name: fuzz\n# source: generated\n# reynolds_min: 1e4\n# reynolds_max: 1e6\n"
-              "# thickness: h\n# quantity: Cd\nr_over_t,cd\n")
+TABLE_HEAD = (
+    "# name: fuzz\n# source: generated\n# reynolds_min: 1e4\n# reynolds_max: 1e6\n"
+    "# thickness: h\n# quantity: Cd\nr_over_t,cd\n"
+)
 
 
 @FUZZ
-@given(data=st.one_of(st.binary(max_size=2000),
-                      st.lists(st.lists(cells, min_size=1, max_size=3).map(",".join),
-                               max_size=8).map(lambda rows: (TABLE_HEAD + "\n".join(rows)).encode())))
+@given(
+    data=st.one_of(
+        st.binary(max_size=2000),
+        st.lists(st.lists(cells, min_size=1, max_size=3).map(",".join), max_size=8).map(
+            lambda rows: (TABLE_HEAD + "\n".join(rows)).encode()
+        ),
+    )
+)
 def test_table_reader_on_random_bytes_and_rows(tmp_path_factory, data):
     result = _read_checked(load_table, _write(tmp_path_factory, data, "table.csv"))
     if not isinstance(result, ProfileBenchError):
@@ -168,18 +192,19 @@ def test_table_reader_on_random_bytes_and_rows(tmp_path_factory, data):
 
 # --- recovery folders -------------------------------------------------------------------------
 
+
 @FUZZ
 @given(copy_bytes=st.binary(max_size=500), origin=st.binary(max_size=200))
 def test_recovery_reader_on_random_copies_and_sidecars(tmp_path_factory, copy_bytes, origin):
     folder = tmp_path_factory.mktemp("recovery")
-    pid = 999_999_021                            # above Linux's largest pid: never running
+    pid = 999_999_021  # above Linux's largest pid: never running
     files = [folder / f"recovery-{pid}.json", folder / f"recovery-{pid}.origin"]
     files[0].write_bytes(copy_bytes)
     files[1].write_bytes(origin)
-    copies = _read_checked(recovery.left_behind, folder, files)    # the folder's reader
+    copies = _read_checked(recovery.left_behind, folder, files)  # the folder's reader
     assert [c.pid for c in copies] == [pid]
     assert copies[0].origin is None or isinstance(copies[0].origin, Path)
-    result = _read_checked(load_project, copies[0].path)          # what the editor reads next
+    result = _read_checked(load_project, copies[0].path)  # what the editor reads next
     if not isinstance(result, ProfileBenchError):
         _valid_project(result)
 

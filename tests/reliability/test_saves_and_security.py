@@ -77,6 +77,7 @@ def test_save_into_a_missing_folder(tmp_path):
 
 # --- project files are data only --------------------------------------------------------------
 
+
 class _Payload:
     def __reduce__(self):
         return (os.system, (f"touch {MARKER}",))
@@ -128,9 +129,11 @@ def test_code_in_a_conditions_field_is_refused(tmp_path, sample_dict):
     assert not marker.exists()
 
 
-@pytest.mark.parametrize("text", ["[" * 200000 + "]" * 200000,
-                                  '{"a": ' * 100000 + "1" + "}" * 100000],
-                         ids=["lists", "objects"])
+@pytest.mark.parametrize(
+    "text",
+    ["[" * 200000 + "]" * 200000, '{"a": ' * 100000 + "1" + "}" * 100000],
+    ids=["lists", "objects"],
+)
 def test_extremely_deep_nesting_is_refused(tmp_path, text):
     path = tmp_path / "p.json"
     path.write_text(text, encoding="utf-8")
@@ -141,10 +144,14 @@ def test_extremely_deep_nesting_is_refused(tmp_path, text):
 
 # --- underlay paths ---------------------------------------------------------------------------
 
+
 def _with_underlay(rel):
     base = load_project(default_sample_path())
-    return Project(base.profile, base.conditions,
-                   underlay=Underlay(rel, ((0, 0), (100, 0)), ((0.0, 0.0), (1.0, 0.0))))
+    return Project(
+        base.profile,
+        base.conditions,
+        underlay=Underlay(rel, ((0, 0), (100, 0)), ((0.0, 0.0), (1.0, 0.0))),
+    )
 
 
 @pytest.mark.parametrize("rel", ["img/photo.png", "./photo.png", "img\\photo.png"])
@@ -156,9 +163,17 @@ def test_underlay_inside_the_folder_resolves_relative_to_the_project(tmp_path, r
     assert got.name == "photo.png"
 
 
-@pytest.mark.parametrize("rel", ["../photo.png", "img/../../photo.png", "/etc/passwd",
-                                 "C:\\Windows\\photo.png", "\\\\server\\share\\photo.png",
-                                 "..\\photo.png"])
+@pytest.mark.parametrize(
+    "rel",
+    [
+        "../photo.png",
+        "img/../../photo.png",
+        "/etc/passwd",
+        "C:\\Windows\\photo.png",
+        "\\\\server\\share\\photo.png",
+        "..\\photo.png",
+    ],
+)
 def test_underlay_outside_the_folder_is_refused(tmp_path, rel):
     with pytest.raises(ProjectFileError) as info:
         resolve_underlay(_with_underlay(rel), tmp_path / "p.json")
@@ -177,8 +192,11 @@ def test_underlay_link_pointing_outside_is_refused(tmp_path):
 
 
 def test_underlay_from_a_loaded_file_is_checked(tmp_path, sample_dict):
-    sample_dict["underlay"] = {"path": "../../etc/passwd", "points_px": [[0, 0], [10, 0]],
-                               "points_m": [[0, 0], [1, 0]]}
+    sample_dict["underlay"] = {
+        "path": "../../etc/passwd",
+        "points_px": [[0, 0], [10, 0]],
+        "points_m": [[0, 0], [1, 0]],
+    }
     project_path = write_json(tmp_path, "p.json", sample_dict)
     project = load_project(project_path)  # loading is fine: the path is data
     with pytest.raises(ProjectFileError):
@@ -186,6 +204,7 @@ def test_underlay_from_a_loaded_file_is_checked(tmp_path, sample_dict):
 
 
 # --- exports go only where asked --------------------------------------------------------------
+
 
 def _tree(root: Path):
     return sorted(str(p.relative_to(root)) for p in root.rglob("*"))
@@ -199,8 +218,18 @@ def test_exports_written_only_where_asked(tmp_path, monkeypatch, capsys):
     project.write_bytes(Path(default_sample_path()).read_bytes())
     monkeypatch.chdir(work)
     before = _tree(tmp_path)
-    code = main(["analyse", str(project), "--csv", str(out / "s.csv"), "--json",
-                 str(out / "r.json"), "--panels", "120"])
+    code = main(
+        [
+            "analyse",
+            str(project),
+            "--csv",
+            str(out / "s.csv"),
+            "--json",
+            str(out / "r.json"),
+            "--panels",
+            "120",
+        ]
+    )
     assert code == 0, capsys.readouterr().err
     after = _tree(tmp_path)
     assert sorted(set(after) - set(before)) == ["out/r.json", "out/s.csv"]

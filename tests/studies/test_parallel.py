@@ -1,5 +1,6 @@
 """Running a study on processes: the serial answer, progress, cancellation leaving no child
 process, a lost worker reported, and the cache making a repeat instant."""
+
 import os
 import threading
 
@@ -57,10 +58,19 @@ def no_new_children():
 
 @pytest.mark.parametrize("start_method", ["fork", "spawn"])
 def test_workers_give_the_serial_answer(start_method, no_new_children):
-    serial = radius_sweep(BODY, COND, 3, radii=RADII[:2], workers=1, search=False,
-                          cache=PointCache())
-    parallel = radius_sweep(BODY, COND, 3, radii=RADII[:2], workers=2, search=False,
-                            cache=PointCache(), start_method=start_method)
+    serial = radius_sweep(
+        BODY, COND, 3, radii=RADII[:2], workers=1, search=False, cache=PointCache()
+    )
+    parallel = radius_sweep(
+        BODY,
+        COND,
+        3,
+        radii=RADII[:2],
+        workers=2,
+        search=False,
+        cache=PointCache(),
+        start_method=start_method,
+    )
     assert parallel.stats.computed == 2
     assert parallel.cd.tolist() == serial.cd.tolist()
     assert parallel.status == serial.status
@@ -68,8 +78,16 @@ def test_workers_give_the_serial_answer(start_method, no_new_children):
 
 def test_progress_reports_each_point_as_it_finishes():
     seen = []
-    radius_sweep(BODY, COND, 3, radii=RADII, workers=2, search=False, cache=PointCache(),
-                 progress=lambda done, total, i, r: seen.append((done, total, i, r.status)))
+    radius_sweep(
+        BODY,
+        COND,
+        3,
+        radii=RADII,
+        workers=2,
+        search=False,
+        cache=PointCache(),
+        progress=lambda done, total, i, r: seen.append((done, total, i, r.status)),
+    )
     assert [d for d, _, _, _ in seen] == [1, 2, 3, 4]
     assert sorted(i for _, _, i, _ in seen) == [0, 1, 2, 3]
     assert {t for _, t, _, _ in seen} == {4}
@@ -80,10 +98,19 @@ def test_cancelled_sweep_leaves_no_child_process(no_new_children):
     radii = [0.01 * k for k in range(12)]
 
     def progress(done, total, i, result):
-        stop.set()   # cancel as soon as the first point is in
+        stop.set()  # cancel as soon as the first point is in
 
-    table = radius_sweep(BODY, COND, 3, radii=radii, workers=2, search=False, cache=PointCache(),
-                         progress=progress, cancel=stop)
+    table = radius_sweep(
+        BODY,
+        COND,
+        3,
+        radii=radii,
+        workers=2,
+        search=False,
+        cache=PointCache(),
+        progress=progress,
+        cancel=stop,
+    )
     assert table.cancelled
     assert PointStatus.CANCELLED in table.status
     assert table.stats.computed < len(radii)
@@ -91,9 +118,17 @@ def test_cancelled_sweep_leaves_no_child_process(no_new_children):
 
 def test_cancel_may_be_a_callable_and_a_serial_run_stops_between_points():
     calls = []
-    table = radius_sweep(BODY, COND, 3, radii=RADII, workers=1, search=False, cache=PointCache(),
-                         cancel=lambda: len(calls) >= 1,
-                         progress=lambda *a: calls.append(a))
+    table = radius_sweep(
+        BODY,
+        COND,
+        3,
+        radii=RADII,
+        workers=1,
+        search=False,
+        cache=PointCache(),
+        cancel=lambda: len(calls) >= 1,
+        progress=lambda *a: calls.append(a),
+    )
     assert table.status[0] is PointStatus.SUCCESS
     assert table.status[1:] == (PointStatus.CANCELLED,) * 3
     assert table.stats.computed == 1
@@ -135,5 +170,13 @@ def test_an_interrupt_mid_sweep_shuts_the_pool_down(no_new_children):
         raise KeyboardInterrupt
 
     with pytest.raises(KeyboardInterrupt):
-        radius_sweep(BODY, COND, 3, radii=RADII, workers=2, search=False, cache=PointCache(),
-                     progress=progress)
+        radius_sweep(
+            BODY,
+            COND,
+            3,
+            radii=RADII,
+            workers=2,
+            search=False,
+            cache=PointCache(),
+            progress=progress,
+        )

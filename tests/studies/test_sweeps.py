@@ -1,5 +1,6 @@
 """Sweeps: the knee against the solver's own smallest attached radius, the tables (read-only,
 no NaN, failed points kept), and the inputs refused."""
+
 import math
 
 import numpy as np
@@ -12,8 +13,15 @@ from profilebench.assess.radius_search import SearchCache, cached_radius_search
 from profilebench.assess.results import Verdict
 from profilebench.errors import GeometryError, InputError
 from profilebench.geometry.shapes import rounded_box
-from profilebench.studies import (PointCache, PointStatus, find_knee, position_sweep,
-                                  radius_speed_grid, radius_sweep, speed_sweep)
+from profilebench.studies import (
+    PointCache,
+    PointStatus,
+    find_knee,
+    position_sweep,
+    radius_speed_grid,
+    radius_sweep,
+    speed_sweep,
+)
 
 PANELS = 150
 # the Kestrel test body as rounded_box builds it: 2.0 m x 0.5 m, 50 mm above the ground, front
@@ -47,11 +55,10 @@ def test_sweep_points_are_the_analyses_of_the_variants():
         assert table.cd[i] == pytest.approx(a.drag.cd, rel=1e-12)
         assert table.cda[i] == pytest.approx(a.drag.cda, rel=1e-12)
         # Cd = friction + pressure + base + corners (the breakdown's own sum, DragBreakdown)
-        parts = (table.cd_friction[i] + table.cd_pressure[i] + table.cd_base[i]
-                 + table.cd_corners[i])
+        parts = table.cd_friction[i] + table.cd_pressure[i] + table.cd_base[i] + table.cd_corners[i]
         assert table.cd[i] == pytest.approx(parts, rel=1e-9)
         # F = 1/2 rho V^2 CdA and P = F V (definitions of drag force and power)
-        q = 0.5 * COND.rho * COND.speed ** 2
+        q = 0.5 * COND.rho * COND.speed**2
         assert table.force[i] == pytest.approx(q * a.drag.cda, rel=1e-9)
         assert table.power[i] == pytest.approx(table.force[i] * COND.speed, rel=1e-9)
         j = table.corner_nodes.index(FRONT_TOP)
@@ -59,8 +66,9 @@ def test_sweep_points_are_the_analyses_of_the_variants():
 
 
 def test_table_arrays_are_read_only():
-    table = radius_sweep(BODY, COND, FRONT_TOP, radii=[0.0, 0.05], workers=1, search=False,
-                         cache=PointCache())
+    table = radius_sweep(
+        BODY, COND, FRONT_TOP, radii=[0.0, 0.05], workers=1, search=False, cache=PointCache()
+    )
     for arr in (table.values, table.cd, table.margins, table.verdicts):
         with pytest.raises(ValueError):
             arr[0] = 1.0
@@ -71,8 +79,9 @@ def test_table_arrays_are_read_only():
 def test_a_failed_point_keeps_its_status_and_has_no_number():
     # moving the rear bottom node 3 m forward carries it in front of the nose: the outline then
     # crosses itself (an invalid outline, a failed analysis, not a fatal error)
-    table = position_sweep(BODY, COND, node=1, direction=(-3.0, 0.0), points=3, workers=1,
-                           cache=PointCache())
+    table = position_sweep(
+        BODY, COND, node=1, direction=(-3.0, 0.0), points=3, workers=1, cache=PointCache()
+    )
     assert table.status[0] is PointStatus.SUCCESS
     assert table.status[-1] is not PointStatus.SUCCESS
     assert table.messages[-1]
@@ -95,8 +104,15 @@ def test_speed_sweep_runs_each_speed():
 
 
 def test_grid_has_one_radius_sweep_per_speed():
-    grid = radius_speed_grid(BODY, COND, FRONT_TOP, radii=[0.0, 0.05, 0.1], speeds=[25.0, 35.0],
-                             workers=1, cache=PointCache())
+    grid = radius_speed_grid(
+        BODY,
+        COND,
+        FRONT_TOP,
+        radii=[0.0, 0.05, 0.1],
+        speeds=[25.0, 35.0],
+        workers=1,
+        cache=PointCache(),
+    )
     assert grid.grid("cd").shape == (2, 3)
     assert len(grid.knees) == 2
     assert grid.rows[1].conditions[0].speed == 35.0
@@ -127,11 +143,14 @@ def test_knee_leaves_out_masked_points():
     assert knee.radius == 0.06 and "1 failed" in knee.message
 
 
-@pytest.mark.parametrize("cd, n_sep, why", [
-    ([0.7, 0.6, 0.5], 3, "separates at every swept radius"),
-    ([0.231, 0.232, 0.230], 0, "at or below the smallest swept radius"),
-    ([0.40, 0.30, 0.25, 0.20], 0, "keeps changing"),
-])
+@pytest.mark.parametrize(
+    "cd, n_sep, why",
+    [
+        ([0.7, 0.6, 0.5], 3, "separates at every swept radius"),
+        ([0.231, 0.232, 0.230], 0, "at or below the smallest swept radius"),
+        ([0.40, 0.30, 0.25, 0.20], 0, "keeps changing"),
+    ],
+)
 def test_no_knee_says_why(cd, n_sep, why):
     radii = np.linspace(0.0, 0.1, len(cd))
     knee = find_knee(radii, np.ma.array(cd), _verdicts(n_sep, len(cd)))
@@ -140,8 +159,9 @@ def test_no_knee_says_why(cd, n_sep, why):
 
 
 def test_default_range_runs_from_sharp_to_the_largest_that_fits():
-    table = radius_sweep(BODY, COND, FRONT_TOP, points=2, workers=1, search=False,
-                         cache=PointCache())
+    table = radius_sweep(
+        BODY, COND, FRONT_TOP, points=2, workers=1, search=False, cache=PointCache()
+    )
     assert table.values[0] == 0.0
     assert table.values[-1] == pytest.approx(largest_fitting_radius(BODY, FRONT_TOP), rel=2e-3)
     assert table.values[-1] < largest_fitting_radius(BODY, FRONT_TOP)
