@@ -30,6 +30,7 @@ from PySide6.QtWidgets import (
 
 from profilebench.editor import commands, recovery
 from profilebench.editor.document import CAUTION, Document
+from profilebench.editor.controller import AnalysisRequests, SearchBook, same_analysis
 from profilebench.editor.fields import parse_number
 from profilebench.editor.underlay import Underlay
 from profilebench.errors import InputError, ProfileBenchError
@@ -56,14 +57,6 @@ AUTOSAVE_MS = 60000  # default interval of the recovery copy
 AUTOSAVE_ENV = "PROFILEBENCH_AUTOSAVE_MS"
 LONG_WORK_MS = 600  # work running longer shows the status bar's busy bar and Cancel
 PLOT_INTERVAL_MS = 200  # plots are rendered at most this often, and not during a drag
-
-
-def _same_analysis(a, b) -> bool:
-    """Do document states ``a`` and ``b`` have the same analysis? Only the profile and the
-    conditions enter it: pinning a baseline, an underlay or the selection leave it current."""
-    return (
-        a is not None and b is not None and a.profile == b.profile and a.conditions == b.conditions
-    )
 
 
 BANNER_ERROR = "background: #fde2d8; color: #7a1f00; padding: 4px; border: 1px solid #e0a080;"
@@ -139,11 +132,10 @@ class MainWindow(QMainWindow):
         self.last_message = ""
         self.last_seconds = None
         self.baseline_analysis = None
-        self.searches: dict = {}
-        self._search_node = None
+        self.searches = SearchBook()  # each corner's radius search: running, or its result
         self.results_received = 0
         self.lagging_shown = 0  # superseded analyses shown during a drag (marked stale)
-        self._requested: dict = {}  # analysis generation -> the document state it is for
+        self._requested = AnalysisRequests()  # generation -> the document state it is for
 
         self.canvas = ProfileCanvas()
         self.banner = QLabel("")
@@ -339,8 +331,8 @@ class MainWindow(QMainWindow):
         self.analysis = None
         self.analysis_state = None
         self.baseline_analysis = None
-        self.searches = {}
-        self._requested = {}  # an analysis still running for the old document is not shown
+        self.searches.clear()
+        self._requested.clear()  # an analysis still running for the old document is not shown
         self.canvas._fitted = False
         self.canvas.set_analysis(None, False)
         self.conditions_panel.set_conditions(document.conditions)
@@ -583,7 +575,7 @@ class MainWindow(QMainWindow):
         sel = self.document.selection.node
         self.canvas.set_state(state, sel)
         self.canvas.set_stale(
-            self.analysis_state is not None and not _same_analysis(self.analysis_state, state)
+            self.analysis_state is not None and not same_analysis(self.analysis_state, state)
         )
         if prev is None or prev.conditions != state.conditions or force:
             self.conditions_panel.set_conditions(state.conditions)
@@ -595,7 +587,7 @@ class MainWindow(QMainWindow):
             or prev.profile != state.profile
             or prev.conditions != state.conditions
         ):
-            self.searches = {}
+            self.searches.clear()
             # during a drag a corner bubble's smallest attached radius comes from a nearby
             # outline's search (provisional) instead of a fresh search of ~10 solves
             self._request_analysis(state, "nearby" if self.canvas.dragging else "run")
@@ -627,7 +619,7 @@ class MainWindow(QMainWindow):
 
     def _request_analysis(self, state, searches):
         generation = self.runner.request(state.profile, state.conditions, searches)
-        self._requested[generation] = state
+        self._requested.sent(generation, state)
         if not self.canvas.dragging and not self._progress_timer.isActive():
             self._progress_timer.start(LONG_WORK_MS)
 
@@ -640,15 +632,15 @@ class MainWindow(QMainWindow):
     def _cancel_work(self, kind):
         if kind == "search":
             self.search_runner.cancel_pending()  # its result is never shown
-            self.searches.pop(self._search_node, None)
+            self.searches.drop_running()
             self.corner_table.message.setText("search cancelled")
             if self.analysis is not None:
                 self.corner_table.set_rows(
-                    self.analysis, self.searches, self.document.selection.node
+                    self.analysis, self.searches.as_rows(), self.document.selection.node
                 )
         else:
             self.runner.cancel_pending()
-            self._requested = {}
+            self._requested.clear()
             self.canvas.set_stale(self.analysis is not None)
             self._show_banner(
                 "analysis cancelled: the results shown are for an earlier outline "
@@ -702,7 +694,7 @@ class MainWindow(QMainWindow):
             and a.provisional
             and not self.canvas.dragging
             and not self.runner.busy
-            and _same_analysis(self.analysis_state, self.document.state)
+            and same_analysis(self.analysis_state, self.document.state)
         ):
             self._request_analysis(self.document.state, "run")
             self.statusBar().showMessage(
@@ -712,10 +704,7 @@ class MainWindow(QMainWindow):
 
     def _forget_requests(self, upto):
         """Drop the remembered states of requests up to generation ``upto``; return its state."""
-        state = self._requested.get(upto)
-        for g in [g for g in self._requested if g <= upto]:
-            del self._requested[g]
-        return state
+        return self._requested.forget(upto)
 
     def _analysis_lagging(self, generation, analysis, seconds):
         """A result for an edit a newer edit has superseded (during a drag): shown marked stale.
@@ -731,7 +720,7 @@ class MainWindow(QMainWindow):
         # a failure shown earlier was for an older outline than this one: _show_analysis hides
         # its banner
         self._show_analysis(
-            analysis, state, seconds, stale=not _same_analysis(state, self.document.state)
+            analysis, state, seconds, stale=not same_analysis(state, self.document.state)
         )
         self.statusBar().showMessage(
             f"Cd {analysis.drag.cd:.4f} for an earlier position "
@@ -747,7 +736,7 @@ class MainWindow(QMainWindow):
         self.analysis_state = state
         self.last_seconds = seconds
         self.canvas.set_analysis(analysis, stale=stale)
-        self.corner_table.set_rows(analysis, self.searches, self.document.selection.node)
+        self.corner_table.set_rows(analysis, self.searches.as_rows(), self.document.selection.node)
         self.summary.set_analysis(analysis, self._comparison(), seconds, stale=stale)
 
     def _analysis_finished(self, generation, analysis, seconds):
@@ -832,7 +821,7 @@ class MainWindow(QMainWindow):
         return (
             not self.runner.busy
             and self.analysis is not None
-            and _same_analysis(self.analysis_state, self.document.state)
+            and same_analysis(self.analysis_state, self.document.state)
         )
 
     # ------------------------------------------------------------------ corner radius search
@@ -840,54 +829,46 @@ class MainWindow(QMainWindow):
         if self.document.profile.nodes[node].smooth:
             self.corner_table.message.setText(f"node {node} is smooth; make it a corner first")
             return
-        done = self._search_in_analysis(node)
+        done = SearchBook.from_analysis(
+            self.analysis, self.analysis_state, self.document.state, node
+        )
         if done is not None:
-            self.searches[node] = done
+            self.searches.put(node, done)
             self.corner_table.message.setText(f"{done.message} (from the analysis shown)")
-            self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+            self.corner_table.set_rows(
+                self.analysis, self.searches.as_rows(), self.document.selection.node
+            )
             return
-        self.searches[node] = "running"
-        self._search_node = node
-        self._search_state = self.document.state
+        self.searches.start(node, self.document.state)
         self.search_runner.request(self.document.profile, self.document.conditions, node)
         self.corner_table.message.setText(f"searching the smallest attached radius at node {node}…")
         self.progress.start("search", f"searching the smallest attached radius at node {node}…")
         if self.analysis is not None:
-            self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
-
-    def _search_in_analysis(self, node):
-        """The search of ``node`` that the shown analysis ran for this very outline, or None
-        (none ran, the analysis is of an earlier outline, or its search was a nearby one's)."""
-        a = self.analysis
-        if (
-            a is None
-            or self.analysis_state != self.document.state
-            or node in getattr(a, "provisional", ())
-        ):
-            return None
-        return next((r for r in getattr(a, "radius_searches", ()) if r.node == node), None)
+            self.corner_table.set_rows(
+                self.analysis, self.searches.as_rows(), self.document.selection.node
+            )
 
     def _search_finished(self, generation, result, seconds):
         self.progress.finish("search")
-        if not _same_analysis(self._search_state, self.document.state):
+        if not self.searches.finish(result, self.document.state):
             self.corner_table.message.setText("the profile changed during the search; search again")
-            self.searches.pop(self._search_node, None)
         else:
-            self.searches[self._search_node] = result
             self.corner_table.message.setText(
                 f"{result.message} ({result.solves} solves, {seconds:.1f} s)"
             )
         if self.analysis is not None:
-            self.corner_table.set_rows(self.analysis, self.searches, self.document.selection.node)
+            self.corner_table.set_rows(
+                self.analysis, self.searches.as_rows(), self.document.selection.node
+            )
 
     def _search_failed(self, generation, message):
         self.progress.finish("search")
-        self.searches.pop(self._search_node, None)
+        self.searches.drop_running()
         self.corner_table.message.setText(f"search failed (logged): {message}")
 
     def apply_smallest_radius(self, node, margin_text):
-        search = self.searches.get(node)
-        if search is None or search == "running" or getattr(search, "radius", None) is None:
+        search = self.searches.result(node)
+        if search is None:
             self.corner_table.message.setText(
                 "find the smallest attached radius of this corner first"
             )

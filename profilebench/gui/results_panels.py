@@ -25,6 +25,7 @@ from PySide6.QtWidgets import (
     QWidget,
 )
 
+from profilebench.editor.controller import SearchRunning
 from profilebench.gui.plot_render import render_plot_rgba, warm_up
 from profilebench.gui.worker import ProcessTaskRunner
 
@@ -176,7 +177,7 @@ class CornerTable(QWidget):
                 search = searches.get(c.node)
                 if search is None:
                     found = ""
-                elif search == "running":
+                elif isinstance(search, SearchRunning):
                     found = "searching…"
                 elif getattr(search, "radius", None) is not None:
                     found = f"{search.radius * 1000:.0f}"

@@ -285,7 +285,7 @@ def test_a_superseded_result_newer_than_a_shown_failure_replaces_its_banner(wind
     good = w.analysis
     w._show_banner("Analysis not updated (invalid_geometry): an older outline crossed itself", True)
     # a valid position's analysis arrives after that failure, itself superseded by a newer edit
-    w._requested[10_000] = state
+    w._requested.sent(10_000, state)
     n = state.profile.nodes[0]
     w.preview_profile(state.profile.moved(0, n.x, n.y + 0.001))  # the newer edit
     w._analysis_lagging(10_000, good, 0.02)
@@ -294,6 +294,7 @@ def test_a_superseded_result_newer_than_a_shown_failure_replaces_its_banner(wind
 
 
 def test_find_smallest_radius_takes_the_search_the_shown_analysis_ran(window, qtbot, tmp_path):
+    from profilebench.editor.controller import SearchRunning
     from sample_variants import bubble_van_project
     from profilebench.io import save_project
 
@@ -305,11 +306,11 @@ def test_find_smallest_radius_takes_the_search_the_shown_analysis_ran(window, qt
     requests = []
     w.search_runner.request = lambda *args: requests.append(args)  # no child should be asked
     w.find_smallest_radius(ran.node)
-    assert w.searches[ran.node] is ran and requests == []
+    assert w.searches.get(ran.node) is ran and requests == []
     assert "from the analysis shown" in w.corner_table.message.text()
     # another corner, which the analysis did not search, goes to the search child
     other = next(
         i for i, n in enumerate(w.document.profile.nodes) if not n.smooth and i != ran.node
     )
     w.find_smallest_radius(other)
-    assert len(requests) == 1 and w.searches[other] == "running"
+    assert len(requests) == 1 and isinstance(w.searches.get(other), SearchRunning)

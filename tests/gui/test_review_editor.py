@@ -148,11 +148,11 @@ def test_search_shows_a_busy_bar_that_cancels(window, qtbot):
     assert w.progress.bar.maximum() == 0  # busy mode: no fraction is claimed
     qtbot.mouseClick(w.progress.cancel_button, Qt.LeftButton)
     assert not w.progress.isVisible()
-    assert corner.node not in w.searches
+    assert w.searches.get(corner.node) is None
     assert w.corner_table.message.text() == "search cancelled"
     qtbot.waitUntil(lambda: not w.search_runner.busy, timeout=ANALYSIS_TIMEOUT_MS)
     qtbot.wait(50)
-    assert corner.node not in w.searches  # its result was not shown
+    assert w.searches.get(corner.node) is None  # its result was not shown
 
 
 def test_long_analysis_shows_the_busy_bar_and_cancel_marks_stale(window, qtbot):
