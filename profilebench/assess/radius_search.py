@@ -11,8 +11,6 @@ not searched again.
 from __future__ import annotations
 
 import math
-import threading
-from collections import OrderedDict
 
 from profilebench.assess.corners import (
     all_spans,
@@ -23,6 +21,7 @@ from profilebench.assess.corners import (
 from profilebench.assess.results import RadiusSearch, SearchStatus, Verdict
 from profilebench.assess.solve import solve_flow
 from profilebench.errors import GeometryError, ProfileBenchError
+from profilebench.lru import LruCache
 from profilebench.geometry import measure, panelize, validate
 
 __all__ = [
@@ -143,7 +142,7 @@ def _key_nodes(profile, node):
     )
 
 
-class SearchCache:
+class SearchCache(LruCache):
     """Smallest-attached-radius searches remembered by what they depend on (thread-safe, LRU).
 
     The key is the profile's nodes (the searched corner's own radius left out: changing only
@@ -152,46 +151,18 @@ class SearchCache:
     """
 
     def __init__(self, size=128):
-        if not isinstance(size, int) or isinstance(size, bool) or size < 1:
-            raise ValueError(f"size must be a positive whole number of searches, got {size!r}")
-        self.size = size
-        self._items: OrderedDict[tuple, RadiusSearch] = OrderedDict()
-        self._lock = threading.Lock()
+        super().__init__(size, "searches")
 
     @staticmethod
     def key(profile, conditions, node, thickness=None):
         return (_key_nodes(profile, node), profile.trailing_edge, conditions, node, thickness)
-
-    def __len__(self):
-        with self._lock:
-            return len(self._items)
-
-    def clear(self):
-        with self._lock:
-            self._items.clear()
-
-    def get(self, key):
-        """The search stored under ``key``, or None (a hit becomes the most recent)."""
-        with self._lock:
-            hit = self._items.get(key)
-            if hit is not None:
-                self._items.move_to_end(key)
-            return hit
-
-    def put(self, key, search):
-        with self._lock:
-            self._items[key] = search
-            self._items.move_to_end(key)
-            while len(self._items) > self.size:
-                self._items.popitem(last=False)
 
     def nearby(self, profile, conditions, node, thickness=None, within=0.0):
         """A stored search of ``node`` on an outline whose nodes all lie within ``within`` m of
         this profile's (otherwise the same radii, smooth flags, trailing edge, conditions and
         thickness): ``(search, shift)`` with the smallest largest node shift, or None."""
         here = _key_nodes(profile, node)
-        with self._lock:
-            items = list(self._items.items())
+        items = self.items()
         best, best_shift = None, None
         for (key_nodes, te, cond, k_node, k_thick), result in items:
             if (

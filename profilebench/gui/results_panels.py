@@ -30,7 +30,12 @@ from profilebench.gui.plot_render import render_plot_rgba, warm_up
 from profilebench.gui.worker import ProcessTaskRunner
 
 from profilebench.plotting import summary_rows
-from profilebench.plotting.summary import MARGIN_DEFINITION, corner_notes, corner_rows
+from profilebench.plotting.summary import (
+    CORNER_COLUMNS,
+    MARGIN_DEFINITION,
+    corner_notes,
+    corner_rows,
+)
 
 __all__ = [
     "CornerTable",
@@ -77,14 +82,9 @@ def set_table_cells(table: QTableWidget, rows, style=None) -> int:
     return changed
 
 
-CORNER_HEADER = (
-    "corner",
-    "r (mm)",
-    "t (mm)",
-    "r/t",
-    "solver verdict",
-    "sep. margin",
-    "table verdict",
+# the page's corner columns up to the table verdict (one definition of their names), then the
+# editor's own: the searched radius and the correction
+CORNER_HEADER = CORNER_COLUMNS[: CORNER_COLUMNS.index("table verdict") + 1] + (
     "smallest r (mm)",
     "ΔCd",
 )

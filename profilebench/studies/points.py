@@ -10,15 +10,14 @@ the methods' Reynolds range, say) comes back as the status "refused", an unexpec
 
 from __future__ import annotations
 
-import threading
 import time
-from collections import OrderedDict
 from dataclasses import dataclass
 
 from profilebench.assess.conditions import Conditions
 from profilebench.assess.results import AnalysisStatus, RadiusSearch, Verdict
 from profilebench.enums import TextEnum
 from profilebench.errors import ProfileBenchError
+from profilebench.lru import LruCache
 from profilebench.geometry.profile import Profile
 
 __all__ = [
@@ -164,42 +163,20 @@ def analyse_point(spec: PointSpec) -> PointResult:
         )
 
 
-class PointCache:
+class PointCache(LruCache):
     """Point results remembered by :meth:`PointSpec.key` (thread-safe, least recently used
     dropped first). Results of cancelled points and of lost workers are not stored."""
 
     def __init__(self, size=4096):
-        if not isinstance(size, int) or isinstance(size, bool) or size < 1:
-            raise ValueError(f"size must be a positive whole number of points, got {size!r}")
-        self.size = size
-        self._items: OrderedDict[tuple, PointResult] = OrderedDict()
-        self._lock = threading.Lock()
-
-    def __len__(self):
-        with self._lock:
-            return len(self._items)
-
-    def clear(self):
-        with self._lock:
-            self._items.clear()
+        super().__init__(size, "points")
 
     def get(self, key):
-        if key is None:
-            return None
-        with self._lock:
-            hit = self._items.get(key)
-            if hit is not None:
-                self._items.move_to_end(key)
-            return hit
+        return None if key is None else super().get(key)
 
     def put(self, key, result):
         if key is None or result.status in (PointStatus.CANCELLED, PointStatus.WORKER_LOST):
             return
-        with self._lock:
-            self._items[key] = result
-            self._items.move_to_end(key)
-            while len(self._items) > self.size:
-                self._items.popitem(last=False)
+        super().put(key, result)
 
 
 #: the cache the studies of a process share unless given another

@@ -413,6 +413,16 @@ def _run(specs, run_options):
     return run_points(specs, **run_options)
 
 
+def _radius_setup(profile, conditions, corner, radii, points):
+    """(conditions, node, radii) of a radius sweep: the checked conditions, the swept corner's
+    node and the radii (given, or ``points`` from sharp to the largest that fits)."""
+    conditions = _check_profile(profile, conditions)
+    node = _corner_to_sweep(profile, corner)
+    if radii is None:
+        return conditions, node, radius_range(profile, node, points=points)
+    return conditions, node, _radii(profile, node, radii)
+
+
 def radius_sweep(
     profile,
     conditions=None,
@@ -446,13 +456,7 @@ def radius_sweep(
     SweepTable
         With its :class:`Knee`.
     """
-    conditions = _check_profile(profile, conditions)
-    node = _corner_to_sweep(profile, corner)
-    radii = (
-        radius_range(profile, node, points=points)
-        if radii is None
-        else _radii(profile, node, radii)
-    )
+    conditions, node, radii = _radius_setup(profile, conditions, corner, radii, points)
     specs = [
         PointSpec(
             profile.with_radius(node, float(r)),
@@ -611,13 +615,7 @@ def radius_speed_grid(
 ):
     """Radius sweeps of ``corner`` at each of ``speeds`` (m/s), all points run together (one
     pool); the knee and the smallest attached radius per speed show how the speed moves them."""
-    conditions = _check_profile(profile, conditions)
-    node = _corner_to_sweep(profile, corner)
-    radii = (
-        radius_range(profile, node, points=points)
-        if radii is None
-        else _radii(profile, node, radii)
-    )
+    conditions, node, radii = _radius_setup(profile, conditions, corner, radii, points)
     speeds = _speeds(speeds)
     specs = [
         PointSpec(

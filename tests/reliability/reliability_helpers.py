@@ -7,6 +7,18 @@ import sys
 import time
 from pathlib import Path
 
+from hypothesis import HealthCheck, Phase
+
+# hypothesis settings of the property tests: repeatable (derandomized, no example database) and
+# no shrinking phase, so a failure is reported as found and a failing run stays bounded too
+SETTINGS = dict(
+    deadline=None,
+    derandomize=True,
+    database=None,
+    phases=(Phase.explicit, Phase.reuse, Phase.generate),
+    suppress_health_check=[HealthCheck.too_slow],
+)
+
 
 def write_json(folder: Path, name: str, data) -> Path:
     """Write ``data`` as JSON to ``folder / name``; return the path."""

@@ -171,7 +171,8 @@ def test_a_sidecar_that_is_not_utf8_is_read_as_the_path_it_names(tmp_path):
 
 
 def test_a_non_utf8_origin_round_trips_through_write_recovery(tmp_path, base):
-    origin = os.fsdecode(b"/tmp/k\xe9strel.json")  # surrogateescape on POSIX
+    # a name that is not UTF-8 (surrogateescape on POSIX), inside the test's own folder
+    origin = os.path.join(str(tmp_path), os.fsdecode(b"k\xe9strel.json"))
     doc = Document(base.profile, base.conditions, path=origin)
     recovery.write_recovery(tmp_path, doc)
     sidecar = recovery.recovery_file(tmp_path).with_suffix(".origin")
@@ -239,12 +240,13 @@ def test_an_image_saved_onto_a_link_writes_its_target_and_cleans_stale_temporari
     assert not stale.exists()
 
 
-def test_a_recovery_folder_name_no_folder_can_have_is_reported(base):
+def test_a_recovery_folder_name_no_folder_can_have_is_reported(base, tmp_path):
     doc = Document(base.profile, base.conditions)
+    bad = str(tmp_path) + "/re\0covery"  # a NUL, as a bad setting may hold
     with pytest.raises(ProjectFileError, match="recovery folder"):
-        recovery.write_recovery("/tmp/re\0covery", doc)  # a NUL, as a bad setting may hold
-    assert recovery.left_behind("/tmp/re\0covery") == []
-    assert recovery.remove_recovery("/tmp/re\0covery") is False
+        recovery.write_recovery(bad, doc)
+    assert recovery.left_behind(bad) == []
+    assert recovery.remove_recovery(bad) is False
 
 
 CONCURRENT = """

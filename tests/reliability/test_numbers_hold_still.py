@@ -15,7 +15,8 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from hypothesis import HealthCheck, Phase, given, settings
+from hypothesis import given, settings
+from reliability_helpers import SETTINGS
 from hypothesis import strategies as st
 
 from profilebench import Conditions, Profile, analyze, load_project
@@ -26,13 +27,6 @@ from profilebench.errors import InputError
 from profilebench.geometry import rounded_box
 from profilebench.io.samples import sample_paths
 
-SETTINGS = dict(
-    deadline=None,
-    derandomize=True,
-    database=None,
-    phases=(Phase.explicit, Phase.reuse, Phase.generate),
-    suppress_health_check=[HealthCheck.too_slow],
-)
 
 DEFAULT = Conditions().panels
 SAMPLES = {p.stem: load_project(p) for p in sample_paths()}

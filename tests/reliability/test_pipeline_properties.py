@@ -15,7 +15,8 @@ from dataclasses import replace
 
 import numpy as np
 import pytest
-from hypothesis import HealthCheck, Phase, given, settings
+from hypothesis import given, settings
+from reliability_helpers import SETTINGS
 from hypothesis import event as _hypothesis_event
 from hypothesis.control import currently_in_test_context
 from hypothesis import strategies as st
@@ -25,15 +26,6 @@ from profilebench.assess.results import AnalysisStatus
 from profilebench.errors import ProfileBenchError
 from profilebench.geometry import rounded_box
 from profilebench.io.samples import sample_paths
-
-# no shrinking phase: a failure is reported as found, which keeps a failing run bounded too
-SETTINGS = dict(
-    deadline=None,
-    derandomize=True,
-    database=None,
-    phases=(Phase.explicit, Phase.reuse, Phase.generate),
-    suppress_health_check=[HealthCheck.too_slow],
-)
 
 
 SAMPLES = [load_project(p).profile for p in sample_paths()]
