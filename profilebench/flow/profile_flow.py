@@ -412,12 +412,9 @@ def _wake_outline(pts, j_l, j_u, d, wake_length):
     n_close = max(6, int(math.ceil(abs(yu - yl) / max_step)))
     ys = yu + (yl - yu) * np.arange(1, n_close) / n_close
     close = np.column_stack([np.full(n_close - 1, x_end), ys])
-    lower = (
-        np.column_stack([xs_l[::-1], np.full(len(xs_l), yl)])[:-1]
-        if len(xs_l) > 1
-        else np.empty((0, 2))
-    )
-    lower = np.vstack([[x_end, yl], lower[1:]]) if len(lower) else np.array([[x_end, yl]])
+    # from the closing face back to the first wake point behind the lower separation point
+    # (the separation point itself is the body's first point)
+    lower = np.column_stack([xs_l[::-1], np.full(len(xs_l), yl)])
     return np.vstack([body, upper, close, lower]), m
 
 

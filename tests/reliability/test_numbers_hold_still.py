@@ -104,14 +104,9 @@ BOXES = [
     pytest.param((4.0, 1.6, 0.2, 0.2, 25.0), id="box-4.0x1.6-r0.2"),
     pytest.param((2.0, 0.5, 0.1, 0.05, 30.0), id="box-2.0x0.5-r0.1"),
     pytest.param((5.0, 2.5, (0.3, 0.25, 0.25, 0.3), 0.3, 30.0), id="box-5.0x2.5-r0.25-0.3"),
-    pytest.param(
-        (4.5, 1.8, (0.4, 0.2, 0.2, 0.4), 0.25, 35.0),
-        id="box-4.5x1.8-r0.2-0.4",
-        marks=pytest.mark.xfail(
-            strict=True,
-            reason="measured 0.2831 / 0.2865 / 0.2891: 2.1 %, a slow drift with the panels",
-        ),
-    ),
+    # 0.2839 / 0.2869 / 0.2892 (1.9 %): a slow drift with the panels, within the rule since the
+    # wake body's first panel behind the lower separation point is no longer dropped
+    pytest.param((4.5, 1.8, (0.4, 0.2, 0.2, 0.4), 0.25, 35.0), id="box-4.5x1.8-r0.2-0.4"),
 ]
 
 
