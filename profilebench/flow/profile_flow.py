@@ -575,7 +575,12 @@ def _separation_xy(sfl, s_at):
 
 
 class _WakeSkipped(Exception):
-    """The wake body could not be built or solved (the message says why)."""
+    """The wake body could not be built or solved (the message says why); ``ground``: because
+    it would touch the ground."""
+
+    def __init__(self, message, ground=False):
+        super().__init__(message)
+        self.ground = ground
 
 
 def _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax):
@@ -583,7 +588,7 @@ def _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax):
     ``relax`` = (upper, lower) in m; raises _WakeSkipped when the wake cannot be used."""
     new_pts, m = _wake_outline(moved, j_l, j_u, d, wake_length, relax[0], relax[1])
     if ground and float(new_pts[:, 1].min()) <= 0.0:
-        raise _WakeSkipped("the wake would touch the ground")
+        raise _WakeSkipped("the wake would touch the ground", ground=True)
     try:
         import shapely
 
@@ -604,20 +609,36 @@ def _free_streamline_wake(moved, j_l, j_u, d, wake_length, ground, weight, base_
     _departure_weight; 0: the side leaves downstream and is not searched). A secant on log(L / h)
     per side drives the Cp of the last body panel before the edge to ``base_pressure`` (see
     _DEPARTURE_START). Returns (points, m, solution, (L_upper, L_lower) in m, a note for the
-    message). A wake that cannot be built at some length ends the search at the best one found
-    so far; with none, at L = 0 (the layer leaves downstream) and the note says so.
+    message). A layer heading down whose wake would touch the ground is shortened (L / e) and
+    the search goes on; a wake that cannot be built for another reason ends the search at the
+    best one found so far; with none, at L = 0 (the layer leaves downstream) and the note says
+    so.
     """
     free = [w > 0.0 for w in weight]
     lo, hi = (math.log(v) for v in _DEPARTURE_RANGE)
     rho = np.full(2, math.log(_DEPARTURE_START))
     tried = []  # (rho, g, solution)
     best = None
-    for _ in range(_DEPARTURE_SOLVES):
+    n = len(moved)
+    heading_down = (
+        _departure_angle(moved[j_u] - moved[(j_u - d) % n]) < 0.0,
+        _departure_angle(moved[j_l] - moved[(j_l + d) % n]) < 0.0,
+    )
+    shorten = np.array([f and down for f, down in zip(free, heading_down)])
+    solves = 0
+    while solves < _DEPARTURE_SOLVES:
         relax = tuple(float(math.exp(r) * height) if f else 0.0 for r, f in zip(rho, free))
         try:
             sol = _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax)
-        except _WakeSkipped:
+        except _WakeSkipped as exc:
+            # a layer heading down that reaches the ground turns toward the stream sooner: its
+            # length is shortened (by a factor e) and the search goes on from there
+            if exc.ground and shorten.any() and np.all(rho[shorten] > lo):
+                rho = np.where(shorten, np.maximum(rho - 1.0, lo), rho)
+                solves += 1
+                continue
             break
+        solves += 1
         cp = np.asarray(sol[2].cp)
         m = sol[1]
         g = np.where(free, np.array([cp[m - 2], cp[0]]) - base_pressure, 0.0)

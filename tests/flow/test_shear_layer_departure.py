@@ -93,3 +93,19 @@ def test_vehicle_samples_keep_layers_that_leave_along_the_stream(path):
     project = load_project(path)
     a = analyze(project.profile, project.conditions)
     assert a.success and a.flow.departure == (0.0, 0.0)
+
+
+def test_a_layer_heading_for_the_ground_turns_toward_the_stream_before_it():
+    # a sharp cube 0.1 m above a slip ground: the lower layer leaves the front lower edge heading
+    # down; its relaxation length is shortened until the wake clears the ground (measured:
+    # 0.017 h against the upper layer's 0.33 h), instead of the layers leaving downstream
+    cube = rounded_box(1.0, 1.0, 0.0, clearance=0.1)
+    cond = Conditions(speed=30.0, base_pressure=-1.4)
+    a, b = analyze(cube, cond), analyze(cube, cond.replace(panels=500))
+    assert a.success and b.success
+    upper, lower = a.flow.departure
+    assert 0.0 < lower < upper
+    assert float(np.min(a.flow.wake_points[:, 1])) > 0.0
+    assert b.drag.cd == pytest.approx(a.drag.cd, rel=0.02)
+    other = analyze(Profile(tuple(cube.nodes[::-1]), name="reversed"), cond)
+    assert other.drag.cd == pytest.approx(a.drag.cd, rel=0.005)
