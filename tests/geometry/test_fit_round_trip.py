@@ -51,9 +51,22 @@ def _round_trip_failures(profile, conditions, seed=0, cd_rel=0.01):
         where = f"({c.x * 1e3:.0f}, {c.y * 1e3:.0f}) mm"
         if abs(got.radius - c.radius) > 0.10 * c.radius + 1e-12:
             failures.append(f"r {c.radius * 1e3:.0f} -> {got.radius * 1e3:.1f} mm at {where}")
-        if got.verdict != c.verdict:
+        if got.verdict != c.verdict and not _flips_with_radius(profile, conditions, c, got):
             failures.append(f"{c.verdict.name} -> {got.verdict.name} at {where}")
     return failures
+
+
+def _flips_with_radius(profile, conditions, corner, got):
+    """True when the original outline, with only this corner's radius set to the fitted one,
+    already gives the fitted verdict: the corner sits at its critical radius, where a radius
+    error well inside the 10 % flips the verdict whatever the fit does (measured: a front lower
+    fillet of 103.5 mm fitted at 105.2 mm, attached at 105.2 and a bubble at 103.5)."""
+    node = profile.nodes[corner.node] if corner.node < len(profile.nodes) else None
+    if node is None or node.smooth or node.radius <= 0.0 or got.radius <= 0.0:
+        return False
+    moved = analyze(profile.with_radius(corner.node, got.radius), conditions)
+    same = [k for k in moved.corners if k.node == corner.node]
+    return moved.success and bool(same) and same[0].verdict == got.verdict
 
 
 # measured with this fit (5 mm tolerance, noise seed 0). The underbody's rear fillets turn the

@@ -309,21 +309,24 @@ def _converged_share(cases):
 
 @pytest.fixture(scope="module")
 def random_box_share():
-    return _converged_share(_random_boxes(2026, 20))
+    return _converged_share(_random_boxes(2026, 20) + _random_boxes(7, 30))
 
 
 @pytest.mark.xfail(
     strict=True,
-    reason="measured: 90 % of these 20 random rounded boxes (83 % "
-    "of 30 others) converge from 250 to 500 panels, not 95 %",
+    reason="measured: 47 of these 50 random rounded boxes (94 %; 38 of 40 others, 95 %) "
+    "converge from 250 to 500 panels, not 95 %: Thwaites' lambda behind the front lower "
+    "fillet's tangent point deepens with the panels (-0.077 at 250, -0.098 at 1000 on one) and "
+    "the layer separates laminar (a bubble, then turbulent) only at the finer count",
 )
 def test_random_rounded_boxes_converge_on_95_percent(random_box_share):
     assert random_box_share >= 0.95
 
 
 def test_random_rounded_boxes_converge_on_most(random_box_share):
-    # where it stands today (a floor against regressions, below the 95 % the rules ask for)
-    assert random_box_share >= 0.7
+    # where it stands today (a floor against regressions, below the 95 % the rules ask for);
+    # it was 90 % of the first 20 before the laminar separation test looked between stations
+    assert random_box_share >= 0.9
 
 
 def test_command_line_reports_an_implausible_result_as_a_failure(tmp_path, capsys):
