@@ -13,7 +13,8 @@ The march combines
 Edge-speed slope. Panel methods give edge speeds with small station-to-station noise, which raw
 differences turn into large errors in dUe/ds. The slope (and, for the turbulent march, the
 value) at each station comes from a local least-squares quadratic through the 7 nearest
-stations (one-sided near the ends, never across the first sharp edge). The quadratic is exact
+stations, or with a fit length through every station within it and at least the 5 nearest
+(one-sided near the ends, never across the first sharp edge). The quadratic is exact
 for linear and quadratic edge speeds. Thwaites' integral itself uses the given ue, integrated
 exactly for ue piecewise linear between stations.
 
@@ -113,6 +114,11 @@ SEPARATION_KINDS = (
     EventKind.EDGE_SEPARATION,
 )
 _FIT_HALF_WIDTH = 3
+# with a window of physical length, the fewest stations either side of a station: the length
+# decides wherever the stations are not coarse (at 250 panels the 7 nearest stations reached
+# past 0.06 h behind a fillet's tangent point and smoothed the adverse gradient there more than
+# at 500: a rounded box's smallest attached front radius came out 78 mm against 94.5 mm)
+_FIT_MIN_HALF_WIDTH = 2
 # laminar separation between stations: a local minimum of lambda at the stations within this
 # share of the criterion is looked at between its neighbours, at this many points per interval
 _NEAR_MISS = 0.3
@@ -322,9 +328,9 @@ def _check_inputs(s, ue, nu, speed, transition, h_separation, edges):
 def _local_quadratic_fit(s, ue, n_fit, fit_length=0.0):
     """Value and slope of a least-squares quadratic through the stations near each station.
 
-    The window of station i holds the 7 nearest stations and, with ``fit_length`` > 0, every
-    station within ``fit_length`` (m) of s[i] as well: a window of physical length, so that the
-    slope does not sharpen as the stations are refined. (The inviscid edge speed has a
+    The window of station i holds the 7 nearest stations; with ``fit_length`` > 0 it holds every
+    station within ``fit_length`` (m) of s[i] and at least the 5 nearest: a window of physical
+    length, so that the slope does not sharpen as the stations are refined. (The inviscid edge speed has a
     logarithmic slope singularity where the outline's curvature jumps, at a fillet's tangent
     points; a window of a fixed number of stations resolves it more and more as the panels are
     refined, and the laminar separation test on Thwaites' lambda then flips with the panel
@@ -335,7 +341,8 @@ def _local_quadratic_fit(s, ue, n_fit, fit_length=0.0):
     u_fit = np.empty(n)
     d_fit = np.empty(n)
     m = n_fit
-    w = min(2 * _FIT_HALF_WIDTH + 1, m)
+    half = _FIT_MIN_HALF_WIDTH if fit_length > 0.0 else _FIT_HALF_WIDTH
+    w = min(2 * half + 1, m)
     if w < 3:
         # one or two stations before the edge: straight line
         slope = (ue[1] - ue[0]) / (s[1] - s[0])
@@ -343,7 +350,7 @@ def _local_quadratic_fit(s, ue, n_fit, fit_length=0.0):
         d_fit[:] = slope
         return u_fit, d_fit
     centre = np.arange(m)
-    lo = np.clip(centre - _FIT_HALF_WIDTH, 0, m - w)
+    lo = np.clip(centre - half, 0, m - w)
     hi = lo + w - 1
     if fit_length > 0.0:
         sm = s[:m]
@@ -388,15 +395,16 @@ def _quadratic_value_and_slope(x, y, wt):
 
 def _slope_at(s, ue, n_fit, fit_length, x):
     """Slope of the fit of :func:`_local_quadratic_fit` centred at arc lengths ``x`` (m) between
-    the stations: the same window (the 7 nearest stations and every station within
+    the stations: the same window (the nearest stations and every station within
     ``fit_length``), so that at a station it is that station's slope."""
     m = n_fit
-    w = min(2 * _FIT_HALF_WIDTH + 1, m)
+    half = _FIT_MIN_HALF_WIDTH if fit_length > 0.0 else _FIT_HALF_WIDTH
+    w = min(2 * half + 1, m)
     sm = s[:m]
     j = np.clip(np.searchsorted(sm, x, side="right") - 1, 0, m - 2)
     frac = (x - sm[j]) / (sm[j + 1] - sm[j])
     nearest = j + (frac >= 0.5)
-    lo = np.clip(nearest - _FIT_HALF_WIDTH, 0, m - w)
+    lo = np.clip(nearest - half, 0, m - w)
     hi = lo + w - 1
     if fit_length > 0.0:
         lo = np.minimum(lo, np.searchsorted(sm, x - fit_length, side="left"))

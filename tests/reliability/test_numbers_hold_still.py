@@ -124,27 +124,16 @@ def _search(profile, speed, node, panels):
     return smallest_attached_radius(profile, Conditions(speed=speed, panels=panels), node)
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="measured: 77.9 mm at 250 panels against 94.5 and 95.3 "
-    "mm at 500 and 1000; the post-bubble turbulent layer "
-    "reaches H = 2.4 only when the corner is panelled finer",
-)
 def test_smallest_attached_radius_holds_at_two_and_four_times_the_panels():
+    # the search's tolerance plus 2 % (the rule). Measured: 93.0 / 94.5 / 95.3 mm at
+    # 250 / 500 / 1000 panels (77.9 mm at 250 while the edge-speed fit took at least the 7
+    # nearest stations, wider than 0.06 h behind the tangent point at 250 panels)
     box = rounded_box(4.0, 1.6, 0.05, clearance=0.2)
     found = [_search(box, 25.0, 3, n) for n in (DEFAULT, 2 * DEFAULT, 4 * DEFAULT)]
+    assert all(f.status.name == "FOUND" for f in found)
     r0 = found[0].radius
     for f in found[1:]:
         assert abs(f.radius - r0) <= found[0].tolerance + 0.02 * r0
-
-
-def test_smallest_attached_radius_holds_from_twice_the_panels_on():
-    # where it does hold today: between 2x and 4x the default count (tolerance of the search
-    # plus 2 %, the rule)
-    box = rounded_box(4.0, 1.6, 0.05, clearance=0.2)
-    a, b = (_search(box, 25.0, 3, n) for n in (2 * DEFAULT, 4 * DEFAULT))
-    assert a.status.name == b.status.name == "FOUND"
-    assert abs(a.radius - b.radius) <= a.tolerance + 0.02 * a.radius
 
 
 # --- invariance ---------------------------------------------------------------------------------
