@@ -52,7 +52,7 @@ def warm_up() -> bool:
     return True
 
 
-def render_sweep_rgba(table, width_px: int, height_px: int, dpi: float = 90.0):
+def render_sweep_rgba(table, width_px: int, height_px: int, dpi: float = 90.0, title=None):
     """Draw the chart of a study's :class:`~profilebench.studies.SweepTable` with Agg
     (:func:`profilebench.plotting.sweep_chart.sweep_figure`, resized to ``width_px`` x
     ``height_px``) and find where its points landed.
@@ -69,7 +69,7 @@ def render_sweep_rgba(table, width_px: int, height_px: int, dpi: float = 90.0):
 
     from profilebench.plotting.sweep_chart import axis_scale, sweep_figure
 
-    fig = sweep_figure(table, width_in=max(width_px, 200) / dpi)
+    fig = sweep_figure(table, title=title, width_in=max(width_px, 200) / dpi)
     fig.set_dpi(dpi)
     fig.set_size_inches(max(width_px, 200) / dpi, max(height_px, 150) / dpi)
     agg = FigureCanvasAgg(fig)

@@ -45,6 +45,7 @@ from PySide6.QtWidgets import (
 from profilebench import studies
 from profilebench.editor.fields import parse_number
 from profilebench.errors import InputError, ProfileBenchError
+from profilebench.gui.child_process import CHILD_NICENESS
 from profilebench.gui.plot_render import render_sweep_rgba, warm_up
 from profilebench.gui.results_panels import PlotView, row_table, set_table_cells
 from profilebench.gui.worker import ProcessTaskRunner
@@ -128,7 +129,12 @@ def _run_points(run: StudyRun, cache, relay: _Relay):
     payload, error = None, ""
     try:
         payload = studies.run_points(
-            run.plan.specs, workers=run.workers, progress=progress, cancel=run.cancel, cache=cache
+            run.plan.specs,
+            workers=run.workers,
+            progress=progress,
+            cancel=run.cancel,
+            cache=cache,
+            niceness=CHILD_NICENESS,  # as the editor's other background processes
         )
     except Exception as exc:  # shown in the panel and logged; the editor goes on
         log.exception("the study failed in the background")
@@ -213,8 +219,10 @@ class StudyPanel(QWidget):
             render_sweep_rgba, self, warm_up=warm_up, child="plots", start=False
         )
         self.renderer.finished.connect(self._chart_rendered)
-        self.renderer.failed.connect(lambda g, m: self._chart_text(f"chart failed (logged): {m}"))
+        self.renderer.failed.connect(self._chart_failed)
+        # one chart drawn at a time, so that each is shown (a newer request would supersede it)
         self._requests: dict = {}  # render generation -> the table it draws
+        self._draw_due = False  # points came (or the chart was resized) while one was drawn
         self._last_draw = 0.0
         self._redraw_timer = QTimer(self)
         self._redraw_timer.setSingleShot(True)
@@ -345,7 +353,7 @@ class StudyPanel(QWidget):
         """The editor selected ``node`` (-1 or None: nothing): the corner list follows it."""
         if node is None or node < 0:
             return
-        self._look()  # the list is of the editor's outline
+        self._refresh()  # the list is of the editor's outline
         k = self.corner.findData(int(node))
         if k >= 0:
             self.corner.setCurrentIndex(k)
@@ -360,13 +368,18 @@ class StudyPanel(QWidget):
         self._list_corners(state.profile)
         self._update_note(state)
 
-    def _look(self):
+    def _refresh(self):
+        """Look at the editor's document now (it may have been replaced without an edit)."""
         if self.state_source() is not self._seen_state:
             self.document_changed()
 
+    def _look(self):  # the watch: only while the panel is shown (a hidden one looks when shown)
+        if self.isVisible():
+            self._refresh()
+
     def showEvent(self, event):
         super().showEvent(event)
-        self._look()
+        self._refresh()
 
     def _list_corners(self, profile):
         from profilebench.geometry.places import place_names
@@ -491,7 +504,7 @@ class StudyPanel(QWidget):
         if self.running:
             self._say("a study is running; cancel it first", error=True)
             return False
-        self._look()
+        self._refresh()
         state = self.state_source()
         try:
             plan = self.plan(state)
@@ -512,8 +525,7 @@ class StudyPanel(QWidget):
         )
         self.run_record = run
         self.table = None
-        self.renderer.cancel_pending()
-        self._requests = {}
+        self._requests = {}  # a chart of an earlier run still being drawn is not shown
         self.drawn_table = None
         self.points_px = ()
         self.chart.setPixmap(QPixmap())
@@ -626,17 +638,41 @@ class StudyPanel(QWidget):
         if len(table) < 2:
             self.chart.setText(f"{len(table)} point done; the chart starts with the second")
             return
+        if self.renderer.busy:  # one chart drawn at a time: the next when it is done
+            self._draw_due = True
+            return
         self._last_draw = time.perf_counter()
-        if self.running:
+        title = None
+        if self.running:  # said in the title: the knee of the points so far may still move
             self.partial_draws += 1
+            corner = (
+                f", corner {table.corner_label} (node {table.corner})"
+                if table.corner is not None
+                else ""
+            )
+            title = (
+                f"{table.parameter} sweep{corner}: {len(table)} of "
+                f"{len(self.run_record.results)} points so far"
+            )
         ratio = self.chart.devicePixelRatioF()
         w, h = self.chart.width(), self.chart.height()
         generation = self.renderer.request(
-            _lean(table), int(w * ratio), int(h * ratio), 90.0 * ratio
+            _lean(table), int(w * ratio), int(h * ratio), 90.0 * ratio, title
         )
-        self._requests = {generation: (table, ratio)}  # only the newest is ever delivered
+        self._requests = {generation: (table, ratio)}
+
+    def _drawn(self):
+        """A chart came back: the newest points are drawn next if they came meanwhile."""
+        if self._draw_due:
+            self._draw_due = False
+            self._redraw_timer.start(20)
+
+    def _chart_failed(self, generation, message):
+        self._chart_text(f"chart failed (logged): {message}")
+        self._drawn()
 
     def _chart_rendered(self, generation, result, seconds):
+        self._drawn()
         drawn = self._requests.pop(generation, None)
         if drawn is None:  # a chart of an earlier run
             return
@@ -659,34 +695,27 @@ class StudyPanel(QWidget):
         if self.table is not None:
             self._redraw_timer.start(150)
 
-    def point_at(self, x, y):
-        """The index of the point whose marker is within :data:`PICK_PX` of (x, y) (px of the
-        chart widget) in the image shown, or None."""
+    def markers(self) -> tuple:
+        """(index, x, y) of every point's marker (Cd first, then CdA) in px of the chart
+        widget, in the image shown (the image is centred in the widget)."""
         pixmap = self.chart.pixmap()
-        if pixmap is None or pixmap.isNull() or not self.points_px:
-            return None
+        if pixmap is None or pixmap.isNull():
+            return ()
         size = pixmap.deviceIndependentSize()
         ox = (self.chart.width() - size.width()) / 2.0
         oy = (self.chart.height() - size.height()) / 2.0
-        best, where = None, PICK_PX
-        for i, px, py in self.points_px:
-            d = math.hypot(px + ox - x, py + oy - y)
-            if d <= where:
-                best, where = i, d
-        return best
+        return tuple((i, px + ox, py + oy) for i, px, py in self.points_px)
+
+    def point_at(self, x, y):
+        """The index of the point whose marker is nearest (x, y) (px of the chart widget),
+        within :data:`PICK_PX`, or None."""
+        near = [(math.hypot(px - x, py - y), i) for i, px, py in self.markers()]
+        near = [(d, i) for d, i in near if d <= PICK_PX]
+        return min(near)[1] if near else None
 
     def chart_position(self, index):
         """Where (px of the chart widget) the Cd marker of point ``index`` is drawn, or None."""
-        pixmap = self.chart.pixmap()
-        if pixmap is None or pixmap.isNull():
-            return None
-        size = pixmap.deviceIndependentSize()
-        ox = (self.chart.width() - size.width()) / 2.0
-        oy = (self.chart.height() - size.height()) / 2.0
-        for i, px, py in self.points_px:
-            if i == index:
-                return px + ox, py + oy
-        return None
+        return next(((x, y) for i, x, y in self.markers() if i == index), None)
 
     def _chart_clicked(self, x, y):
         i = self.point_at(x, y)
