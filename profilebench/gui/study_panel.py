@@ -554,7 +554,7 @@ class StudyPanel(QWidget):
             return
         r.cancel.set()
         self.cancel_button.setEnabled(False)
-        self._say(f"cancelling: waiting for the points being analysed… ({self._counts(r)})")
+        self._status()
 
     def _point_arrived(self, number, index, result):
         r = self.run_record
@@ -578,7 +578,7 @@ class StudyPanel(QWidget):
         self.bar.setValue(r.done)
         self.run_button.setEnabled(True)
         self.cancel_button.setEnabled(False)
-        self.export_button.setEnabled(self.table is not None)
+        self.export_button.setEnabled(r.stats is not None)
         self._status()
         self._show_rows()
         self._schedule_draw(now=True)
@@ -598,7 +598,12 @@ class StudyPanel(QWidget):
             self._say(f"study failed (logged): {r.error}", error=True)
             return
         if r.stats is None:
-            self._say(f"running: {self._counts(r)}")
+            what = (
+                "cancelling: waiting for the points being analysed…"
+                if r.cancel.is_set()
+                else "running:"
+            )
+            self._say(f"{what} {self._counts(r)}")
             return
         what = "cancelled" if r.stats.cancelled else "done"
         knee, tail = self.table.knee, ""
@@ -789,7 +794,8 @@ class StudyPanel(QWidget):
         from profilebench.plotting import save_figure
         from profilebench.plotting.sweep_chart import sweep_figure
 
-        if self.table is None or self.running:
+        r = self.run_record
+        if self.table is None or r is None or r.stats is None:
             self._say("nothing to export yet: run a study to its end", error=True)
             return False
         try:

@@ -33,8 +33,11 @@ def axis_scale(parameter):
 
 
 def _band_kind(verdict):
+    """The band of a point's verdict: a kind of VERDICT_BANDS, None for no band."""
     if verdict is None:
         return "failed"
+    if isinstance(verdict, _Unwatched):
+        return None
     name = getattr(verdict, "name", "")
     if name == "ATTACHED":
         return "attached"
@@ -56,6 +59,8 @@ def _shade(ax, x, verdicts, seen):
     edges = _edges(x)
     for i, v in enumerate(verdicts):
         kind = _band_kind(v)
+        if kind is None:
+            continue
         colour, text = VERDICT_BANDS[kind]
         ax.axvspan(
             edges[i],
@@ -108,8 +113,9 @@ def sweep_figure(table, title=None, width_in=8.0):
     )
     axes = fig.subplots(2 if has_cda else 1, 1, sharex=True, squeeze=False)[:, 0]
     verdicts = table.corner_verdicts() if table.corner is not None else (None,) * len(table)
-    if table.corner is None:  # no watched corner: shade the failed points only
-        verdicts = tuple(None if not ok else _Unwatched() for ok in table.ok)
+    # a successful point without the watched corner's verdict (no corner watched, or a smooth
+    # node moved) is not shaded; a failed point is hatched
+    verdicts = tuple(_Unwatched() if v is None and ok else v for v, ok in zip(verdicts, table.ok))
     seen = set()
     for k, (ax, name, label) in enumerate(
         zip(axes, ("cd", "cda"), ("Cd (on frontal height)", "CdA (m^2)"))
@@ -149,7 +155,7 @@ def sweep_figure(table, title=None, width_in=8.0):
 
 
 class _Unwatched:
-    """A stand-in verdict for a point of a sweep without a watched corner."""
+    """A stand-in verdict for a successful point without the watched corner's verdict."""
 
     name = "UNWATCHED"
     separated = False
