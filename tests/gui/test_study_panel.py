@@ -206,3 +206,14 @@ def test_the_exported_chart_carries_the_caution(window, panel, qtbot, tmp_path):
     svg = out.read_text()
     assert CAUTION.split()[0] in svg and "corner radius (mm)" in svg
     assert CAUTION[:40].split(",")[0] in svg
+
+
+def test_closing_the_window_stops_a_running_study(panel, qtbot):
+    p = panel
+    p.cache = PointCache()
+    p.points.setValue(24)
+    assert p.run()
+    assert p.shutdown(ANALYSIS_TIMEOUT_MS)  # what the window's shutdown calls
+    assert not p.run_record.thread.is_alive()
+    qtbot.waitUntil(lambda: not p.running, timeout=ANALYSIS_TIMEOUT_MS)
+    assert p.run_record.stats.cancelled and p.run_record.done < 24
