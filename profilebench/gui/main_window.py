@@ -336,7 +336,7 @@ class MainWindow(QMainWindow):
         self._docks["Drag summary"].raise_()
         menu = self.menuBar().addMenu("&Study")
         self._action(menu, "Open study panel", self.show_study_panel, "Ctrl+Shift+Y")
-        self._action(menu, "Run study", self.study_panel.run)
+        self._action(menu, "Run study", lambda: (self.show_study_panel(), self.study_panel.run()))
         self._action(menu, "Cancel study", self.study_panel.cancel)
         self.canvas.node_selected.connect(self.study_panel.follow_node)
         self.corner_table.node_selected.connect(self.study_panel.follow_node)
