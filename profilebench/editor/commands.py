@@ -29,6 +29,7 @@ __all__ = [
     "clear_baseline",
     "replace_profile",
     "import_profile",
+    "load_variant",
     "set_underlay",
 ]
 
@@ -146,6 +147,14 @@ def import_profile(state: DocumentState, profile, text: str) -> Edit:
     """Replace the profile by an imported one: the old baseline was pinned for the old outline,
     so it goes too (one undoable edit brings both back)."""
     return Edit(text, state, replace(state, profile=profile, baseline=None))
+
+
+def load_variant(state: DocumentState, profile, conditions, text: str) -> Edit:
+    """Replace the profile and the conditions by a variant a study analysed (a point of a
+    sweep): the outline and the conditions of that point, in one undoable edit."""
+    if profile is None or conditions is None:
+        raise InputError("the study point has no variant to load; run the study again")
+    return Edit(text, state, replace(state, profile=profile, conditions=conditions))
 
 
 def set_underlay(state: DocumentState, underlay, text: str = "Change underlay") -> Edit:

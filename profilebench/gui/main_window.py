@@ -185,6 +185,7 @@ class MainWindow(QMainWindow):
         self._progress_timer.timeout.connect(self._long_analysis)
         self._connect()
         self._build_menus()
+        self._add_study_panel()
         self._load_cp_scale()
         self.statusBar().showMessage("ready")
         self.resize(1500, 950)
@@ -320,6 +321,38 @@ class MainWindow(QMainWindow):
         )
         self.grid_spacing = 0.01
         self._refresh_recent()
+
+    # ------------------------------------------------------------------ study dock
+    # Everything the window does for the study panel is here (and its shutdown in shutdown());
+    # the panel's logic is in profilebench/gui/study_panel.py.
+    def _add_study_panel(self):
+        from profilebench.gui.study_panel import StudyPanel
+
+        self.study_panel = StudyPanel(lambda: self.document.state if self.document else None)
+        self._dock("Study", self.study_panel, Qt.RightDockWidgetArea)
+        dock = self._docks["Study"]
+        dock.setFeatures(dock.features() | QDockWidget.DockWidgetClosable)
+        self.tabifyDockWidget(self._docks["Drag summary"], dock)
+        self._docks["Drag summary"].raise_()
+        menu = self.menuBar().addMenu("&Study")
+        self._action(menu, "Open study panel", self.show_study_panel, "Ctrl+Shift+Y")
+        self._action(menu, "Run study", lambda: (self.show_study_panel(), self.study_panel.run()))
+        self._action(menu, "Cancel study", self.study_panel.cancel)
+        self.canvas.node_selected.connect(self.study_panel.follow_node)
+        self.corner_table.node_selected.connect(self.study_panel.follow_node)
+        self.undo_stack.indexChanged.connect(self.study_panel.document_changed)
+        self.study_panel.variant_chosen.connect(
+            lambda profile, conditions, text: self._try(
+                lambda: commands.load_variant(self.document.state, profile, conditions, text)
+            )
+        )
+
+    def show_study_panel(self):
+        """Show the study dock in front, wide enough for its chart."""
+        dock = self._docks["Study"]
+        dock.show()
+        dock.raise_()
+        self.resizeDocks([dock], [max(dock.width(), 620)], Qt.Horizontal)
 
     # ------------------------------------------------------------------ document
     def _install(self, document):
@@ -1251,6 +1284,7 @@ class MainWindow(QMainWindow):
             ok = r.close(msecs) and ok
         ok = self.canvas.shutdown(msecs) and ok
         ok = self.plots.shutdown(msecs) and ok
+        ok = self.study_panel.shutdown(msecs) and ok  # the study dock (see _add_study_panel)
         if not ok:
             log.warning("a background job was still running when the window closed")
         return ok

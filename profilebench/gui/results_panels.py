@@ -44,6 +44,8 @@ __all__ = [
     "CORNER_HEADER",
     "LIFT_NOTE",
     "render_plot",
+    "PlotView",
+    "row_table",
     "set_table_cells",
 ]
 
@@ -80,6 +82,18 @@ def set_table_cells(table: QTableWidget, rows, style=None) -> int:
     finally:
         table.setUpdatesEnabled(True)
     return changed
+
+
+def row_table(header) -> QTableWidget:
+    """A read-only table of the columns ``header`` whose rows are selected one whole row at a
+    time, without row numbers."""
+    table = QTableWidget(0, len(header))
+    table.setHorizontalHeaderLabels(header)
+    table.setSelectionBehavior(QAbstractItemView.SelectRows)
+    table.setSelectionMode(QAbstractItemView.SingleSelection)
+    table.setEditTriggers(QAbstractItemView.NoEditTriggers)
+    table.verticalHeader().setVisible(False)
+    return table
 
 
 # the page's corner columns up to the table verdict (one definition of their names), then the
@@ -120,12 +134,7 @@ class CornerTable(QWidget):
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.table = QTableWidget(0, len(CORNER_HEADER))
-        self.table.setHorizontalHeaderLabels(CORNER_HEADER)
-        self.table.setSelectionBehavior(QAbstractItemView.SelectRows)
-        self.table.setSelectionMode(QAbstractItemView.SingleSelection)
-        self.table.setEditTriggers(QAbstractItemView.NoEditTriggers)
-        self.table.verticalHeader().setVisible(False)
+        self.table = row_table(CORNER_HEADER)
         self.table.horizontalHeader().setSectionResizeMode(QHeaderView.Interactive)
         self.table.setTextElideMode(Qt.ElideRight)
         for k, tip in CORNER_TIPS.items():
@@ -342,7 +351,9 @@ def _to_image(rendered) -> QImage:
     return QImage(rgba, w, h, 4 * w, QImage.Format_RGBA8888).copy()
 
 
-class _PlotView(QLabel):
+class PlotView(QLabel):
+    """A plot image on white, centred, that takes the room its layout gives it."""
+
     def __init__(self):
         super().__init__()
         self.setAlignment(Qt.AlignCenter)
@@ -365,7 +376,7 @@ class PlotPanel(QTabWidget):
 
     def __init__(self, parent=None):
         super().__init__(parent)
-        self.views = {"cp": _PlotView(), "bl": _PlotView()}
+        self.views = {"cp": PlotView(), "bl": PlotView()}
         self.addTab(self.views["cp"], "Pressure")
         self.addTab(self.views["bl"], "Boundary layer")
         self._analysis = None

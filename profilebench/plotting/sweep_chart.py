@@ -33,8 +33,11 @@ def axis_scale(parameter):
 
 
 def _band_kind(verdict):
+    """The band of a point's verdict: a kind of VERDICT_BANDS, None for no band."""
     if verdict is None:
         return "failed"
+    if isinstance(verdict, _Unwatched):
+        return None
     name = getattr(verdict, "name", "")
     if name == "ATTACHED":
         return "attached"
@@ -56,6 +59,8 @@ def _shade(ax, x, verdicts, seen):
     edges = _edges(x)
     for i, v in enumerate(verdicts):
         kind = _band_kind(v)
+        if kind is None:
+            continue
         colour, text = VERDICT_BANDS[kind]
         ax.axvspan(
             edges[i],
@@ -90,21 +95,27 @@ def _marks(ax, table, scale, legend):
         )
 
 
-def sweep_figure(table, title=None):
+def sweep_figure(table, title=None, width_in=8.0):
     """A matplotlib Figure (Agg, no pyplot) of a one-parameter sweep: Cd above, CdA below (when
     the conditions give a frontal area or width), the watched corner's verdict per point shaded
     along the axis, the knee and the smallest attached radius as vertical lines, failed points
-    hatched grey, and the caution."""
+    hatched grey, and the caution. ``width_in`` (inches) is the figure's width; the title's
+    lines are wrapped to it."""
     from matplotlib.figure import Figure
 
     scale, xlabel = axis_scale(table.parameter)
     x = np.asarray(table.values) * scale
     has_cda = table.cda.count() > 0
-    fig = Figure(figsize=(8.0, 6.4 if has_cda else 4.4), dpi=110, layout="constrained")
+    fig = Figure(
+        figsize=(width_in, (6.4 if has_cda else 4.4) * width_in / 8.0),
+        dpi=110,
+        layout="constrained",
+    )
     axes = fig.subplots(2 if has_cda else 1, 1, sharex=True, squeeze=False)[:, 0]
     verdicts = table.corner_verdicts() if table.corner is not None else (None,) * len(table)
-    if table.corner is None:  # no watched corner: shade the failed points only
-        verdicts = tuple(None if not ok else _Unwatched() for ok in table.ok)
+    # a successful point without the watched corner's verdict (no corner watched, or a smooth
+    # node moved) is not shaded; a failed point is hatched
+    verdicts = tuple(_Unwatched() if v is None and ok else v for v, ok in zip(verdicts, table.ok))
     seen = set()
     for k, (ax, name, label) in enumerate(
         zip(axes, ("cd", "cda"), ("Cd (on frontal height)", "CdA (m^2)"))
@@ -133,7 +144,8 @@ def sweep_figure(table, title=None):
     if knee is not None:
         import textwrap
 
-        head += "\n" + "\n".join(textwrap.wrap(knee.message, 120))
+        # about 15 characters of the 8 pt title to an inch
+        head += "\n" + "\n".join(textwrap.wrap(knee.message, max(40, int(15 * width_in))))
     axes[0].set_title(head, fontsize=8)
     failed = len(table.failed)
     foot = f"{failed} of {len(table)} points did not succeed (hatched). " if failed else ""
@@ -143,7 +155,7 @@ def sweep_figure(table, title=None):
 
 
 class _Unwatched:
-    """A stand-in verdict for a point of a sweep without a watched corner."""
+    """A stand-in verdict for a successful point without the watched corner's verdict."""
 
     name = "UNWATCHED"
     separated = False

@@ -9,13 +9,17 @@ from profilebench.studies.runner import RunStats, default_workers, run_points
 from profilebench.studies.sweep import (
     GridTable,
     Knee,
+    SweepPlan,
     SweepTable,
     corner_node,
     find_knee,
+    position_plan,
     position_sweep,
+    radius_plan,
     radius_range,
     radius_speed_grid,
     radius_sweep,
+    speed_plan,
     speed_sweep,
 )
 
@@ -30,6 +34,7 @@ __all__ = [
     "run_points",
     "GridTable",
     "Knee",
+    "SweepPlan",
     "SweepTable",
     "corner_node",
     "find_knee",
@@ -38,4 +43,7 @@ __all__ = [
     "radius_speed_grid",
     "radius_sweep",
     "speed_sweep",
+    "radius_plan",
+    "position_plan",
+    "speed_plan",
 ]

@@ -96,7 +96,9 @@ def _check_workers(workers):
     return workers
 
 
-def run_points(specs, workers=None, progress=None, cancel=None, cache=None, start_method=None):
+def run_points(
+    specs, workers=None, progress=None, cancel=None, cache=None, start_method=None, niceness=0
+):
     """Results of ``specs`` (a sequence of PointSpec), in their order, and the :class:`RunStats`.
 
     Parameters
@@ -113,9 +115,15 @@ def run_points(specs, workers=None, progress=None, cancel=None, cache=None, star
         Default :data:`POINT_CACHE`.
     start_method : {"fork", "forkserver", "spawn"}, optional
         How worker processes start (see :func:`_context`).
+    niceness : int, optional
+        POSIX niceness increment of the worker processes (0: this process's priority); the
+        editor runs them below its own, so that its window is scheduled first. Ignored where
+        the platform has no ``os.nice``.
     """
     specs = list(specs)
     workers = _check_workers(workers)
+    if isinstance(niceness, bool) or not isinstance(niceness, int) or not 0 <= niceness <= 19:
+        raise InputError(f"niceness is {niceness!r}; give a whole number from 0 to 19")
     cache = POINT_CACHE if cache is None else cache
     if not isinstance(cache, PointCache):
         raise InputError(f"cache must be a PointCache, got {type(cache).__name__}")
@@ -161,6 +169,7 @@ def run_points(specs, workers=None, progress=None, cancel=None, cache=None, star
             report,
             cancelled,
             _context(start_method),
+            niceness,
         )
     computed = 0
     for i in todo:
@@ -172,9 +181,23 @@ def run_points(specs, workers=None, progress=None, cancel=None, cache=None, star
     return results, stats
 
 
-def _run_parallel(specs, keys, todo, workers, cache, report, cancelled, context):
+def _lower_priority(increment):
+    """A worker's start: its niceness raised by ``increment`` (where the platform has it)."""
+    if increment and hasattr(os, "nice"):
+        try:
+            os.nice(increment)
+        except OSError:
+            pass
+
+
+def _run_parallel(specs, keys, todo, workers, cache, report, cancelled, context, niceness=0):
     """Run ``todo`` on a process pool; True if cancelled."""
-    pool = cf.ProcessPoolExecutor(max_workers=workers, mp_context=context)
+    pool = cf.ProcessPoolExecutor(
+        max_workers=workers,
+        mp_context=context,
+        initializer=_lower_priority,
+        initargs=(niceness,),
+    )
     stop = False
     futures, pending = {}, set()
     try:

@@ -40,6 +40,10 @@ __all__ = [
     "speed_sweep",
     "radius_speed_grid",
     "ATTACHED_VERDICTS",
+    "SweepPlan",
+    "radius_plan",
+    "position_plan",
+    "speed_plan",
 ]
 
 #: Cd within this fraction of its attached value counts as settled (the issue's 2%)
@@ -409,8 +413,58 @@ def radius_range(profile, node, start=0.0, stop=None, points=15):
 # --- the sweeps -------------------------------------------------------------------------------
 
 
-def _run(specs, run_options):
-    return run_points(specs, **run_options)
+@dataclass(frozen=True)
+class SweepPlan:
+    """The points of a one-parameter sweep before they run: what :func:`radius_plan`,
+    :func:`position_plan` and :func:`speed_plan` return, and what the sweeps run.
+
+    ``values`` (SI units) and ``specs`` (one :class:`PointSpec` per point) in sweep order;
+    ``corner`` the swept or watched corner's node; ``positions`` the moved node's (x, y) (m) of
+    a position sweep. :meth:`run` runs every point; a caller that runs the points itself (the
+    editor, to show them as they arrive) builds the table with :meth:`table` and, on the way,
+    :meth:`table_so_far`.
+    """
+
+    parameter: str
+    values: np.ndarray
+    specs: tuple
+    corner: int | None
+    positions: tuple | None = None
+
+    def __len__(self):
+        return len(self.specs)
+
+    def run(self, **run_options) -> SweepTable:
+        """Run the points (``workers``, ``progress``, ``cancel``, ``cache``, ``start_method`` of
+        :func:`profilebench.studies.runner.run_points`) and return their table."""
+        results, stats = run_points(self.specs, **run_options)
+        return self.table(results, stats)
+
+    def table(self, results, stats) -> SweepTable:
+        """The :class:`SweepTable` of ``results`` (one :class:`PointResult` per point)."""
+        return self._table_of(range(len(self.specs)), results, stats)
+
+    def table_so_far(self, results, stats) -> SweepTable | None:
+        """The table of the points finished so far (``results[i]`` None: not yet), in sweep
+        order; None while none has."""
+        done = [i for i, r in enumerate(results) if r is not None]
+        return self._table_of(done, results, stats) if done else None
+
+    def _table_of(self, indices, results, stats):
+        indices = list(indices)
+        if len(results) != len(self.specs):
+            raise InputError(f"give one result per point ({len(self.specs)}), got {len(results)}")
+        positions = None if self.positions is None else [self.positions[i] for i in indices]
+        return _table(
+            self.parameter,
+            [self.values[i] for i in indices],
+            [self.specs[i] for i in indices],
+            [results[i] for i in indices],
+            stats,
+            self.corner,
+            "",
+            positions=positions,
+        )
 
 
 def _radius_setup(profile, conditions, corner, radii, points):
@@ -456,8 +510,25 @@ def radius_sweep(
     SweepTable
         With its :class:`Knee`.
     """
+    return radius_plan(
+        profile, conditions, corner, radii, points, thickness=thickness, table=table, search=search
+    ).run(**run_options)
+
+
+def radius_plan(
+    profile,
+    conditions=None,
+    corner=0,
+    radii=None,
+    points=15,
+    *,
+    thickness=None,
+    table=None,
+    search=True,
+) -> SweepPlan:
+    """The :class:`SweepPlan` of :func:`radius_sweep` (same arguments but the run options)."""
     conditions, node, radii = _radius_setup(profile, conditions, corner, radii, points)
-    specs = [
+    specs = tuple(
         PointSpec(
             profile.with_radius(node, float(r)),
             conditions,
@@ -466,9 +537,8 @@ def radius_sweep(
             node if search else None,
         )
         for r in radii
-    ]
-    results, stats = _run(specs, run_options)
-    return _table("radius", radii, specs, results, stats, node, "")
+    )
+    return SweepPlan("radius", _frozen(np.array(radii, dtype=float)), specs, node)
 
 
 def _radii(profile, node, radii):
@@ -507,6 +577,30 @@ def position_sweep(
     is the corner watched: its verdict bands, and its smallest attached radius searched at each
     point (about ten solves a point).
     """
+    return position_plan(
+        profile,
+        conditions,
+        node,
+        direction,
+        points,
+        corner=corner,
+        thickness=thickness,
+        table=table,
+    ).run(**run_options)
+
+
+def position_plan(
+    profile,
+    conditions=None,
+    node=0,
+    direction=(0.0, 0.0),
+    points=11,
+    *,
+    corner=None,
+    thickness=None,
+    table=None,
+) -> SweepPlan:
+    """The :class:`SweepPlan` of :func:`position_sweep` (same arguments but the run options)."""
     conditions = _check_profile(profile, conditions)
     node = corner_node(profile, node)
     try:
@@ -521,20 +615,16 @@ def position_sweep(
     n0 = profile.nodes[node]
     ts = np.linspace(0.0, 1.0, _count(points))
     positions = [(n0.x + t * dx, n0.y + t * dy) for t in ts]
-    specs = [
+    specs = tuple(
         PointSpec(profile.moved(node, x, y), conditions, thickness, table, watched)
         for x, y in positions
-    ]
-    results, stats = _run(specs, run_options)
-    return _table(
+    )
+    return SweepPlan(
         "displacement",
-        ts * math.hypot(dx, dy),
+        _frozen(ts * math.hypot(dx, dy)),
         specs,
-        results,
-        stats,
         watched if watched is not None else node,
-        "",
-        positions=positions,
+        tuple(positions),
     )
 
 
@@ -559,15 +649,23 @@ def speed_sweep(
 ):
     """Cd and the verdicts against the speed (m/s); ``corner`` as in :func:`position_sweep`.
     Each speed's conditions are checked before any point runs (a bad speed is refused)."""
+    return speed_plan(
+        profile, conditions, speeds, corner=corner, thickness=thickness, table=table
+    ).run(**run_options)
+
+
+def speed_plan(
+    profile, conditions=None, speeds=(20.0, 40.0), *, corner=None, thickness=None, table=None
+) -> SweepPlan:
+    """The :class:`SweepPlan` of :func:`speed_sweep` (same arguments but the run options)."""
     conditions = _check_profile(profile, conditions)
     values = _speeds(speeds)
     watched = None if corner is None else _corner_to_sweep(profile, corner)
-    specs = [
+    specs = tuple(
         PointSpec(profile, conditions.replace(speed=float(v)), thickness, table, watched)
         for v in values
-    ]
-    results, stats = _run(specs, run_options)
-    return _table("speed", values, specs, results, stats, watched, "")
+    )
+    return SweepPlan("speed", _frozen(values), specs, watched)
 
 
 @dataclass(frozen=True)
@@ -628,7 +726,7 @@ def radius_speed_grid(
         for v in speeds
         for r in radii
     ]
-    results, stats = _run(specs, run_options)
+    results, stats = run_points(specs, **run_options)
     n = len(radii)
     rows = tuple(
         _table(

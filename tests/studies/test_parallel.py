@@ -8,6 +8,7 @@ import pytest
 
 import profilebench.studies.runner as runner
 from profilebench.assess.conditions import Conditions
+from profilebench.errors import InputError
 from profilebench.geometry.shapes import rounded_box
 from profilebench.studies import PointCache, PointStatus, radius_sweep
 from profilebench.studies.points import PointSpec
@@ -180,3 +181,26 @@ def test_an_interrupt_mid_sweep_shuts_the_pool_down(no_new_children):
             cache=PointCache(),
             progress=progress,
         )
+
+
+@pytest.mark.skipif(not hasattr(os, "nice"), reason="POSIX niceness")
+def test_workers_run_at_the_niceness_asked(no_new_children):
+    """The pool's workers start through runner._lower_priority (as _run_parallel makes them):
+    their niceness is this process's plus the increment (POSIX nice(2): os.nice(0) reads it)."""
+    import concurrent.futures as cf
+    import multiprocessing
+
+    mine = os.nice(0)
+    with cf.ProcessPoolExecutor(
+        1,
+        mp_context=multiprocessing.get_context("fork"),
+        initializer=runner._lower_priority,
+        initargs=(3,),
+    ) as pool:
+        assert pool.submit(os.nice, 0).result() == min(mine + 3, 19)
+
+
+@pytest.mark.parametrize("bad", [-1, 20, 2.5, True])
+def test_a_bad_niceness_is_refused(bad):
+    with pytest.raises(InputError, match="niceness"):
+        run_points([], niceness=bad)

@@ -183,3 +183,26 @@ def test_bad_inputs_are_refused_before_any_work():
     smooth = BODY.with_smooth(FRONT_TOP, True)
     with pytest.raises(GeometryError, match="smooth"):
         radius_sweep(smooth, COND, FRONT_TOP, workers=1)
+
+
+def test_a_plan_run_point_by_point_gives_the_sweep_and_its_points_so_far():
+    """The editor runs a plan's points itself and builds the table as they arrive: the finished
+    table is the sweep's, and the table so far holds the points done, in sweep order."""
+    from profilebench.studies import radius_plan, run_points
+
+    body = rounded_box(2.0, 0.5, radius=(0.1, 0.0, 0.0, 0.1), clearance=0.05, name="plan body")
+    cond = Conditions(speed=30.0, ground=True, width=1.0, panels=120)
+    radii = [0.0, 0.05, 0.1]
+    plan = radius_plan(body, cond, 3, radii=radii, search=False)
+    assert len(plan) == 3 and plan.values.tolist() == radii and plan.corner == 3
+    results, stats = run_points(plan.specs, workers=1, cache=PointCache())
+    direct = radius_sweep(body, cond, 3, radii=radii, search=False, workers=1, cache=PointCache())
+    table = plan.table(results, stats)
+    assert table.cd.tolist() == direct.cd.tolist() and table.knee == direct.knee
+    so_far = plan.table_so_far([results[0], None, results[2]], stats)
+    assert so_far.values.tolist() == [0.0, 0.1]
+    assert so_far.cd.tolist() == [direct.cd[0], direct.cd[2]]
+    assert so_far.profiles == (plan.specs[0].profile, plan.specs[2].profile)
+    assert plan.table_so_far([None] * 3, stats) is None
+    with pytest.raises(InputError):
+        plan.table(results[:2], stats)
