@@ -66,13 +66,20 @@ class _SearchFailed(Exception):
     pass
 
 
-def smallest_attached_radius(profile, conditions, node, thickness=None, tolerance=None):
+def smallest_attached_radius(profile, conditions, node, thickness=None, tolerance=None, start=None):
     """The smallest radius (m) at ``node`` that keeps the flow attached round that corner.
 
     The corner's radius is varied and the flow re-solved (inviscid and boundary layer) at each
     try; bisection on the solver's verdict (attached or a reattaching laminar bubble counts as
     attached). Tolerance: 1 mm or 1% of the radius, whichever is larger. Returns a
     :class:`RadiusSearch`; "none within the largest radius that fits" is a valid answer.
+
+    ``start``: a (separated, attached) bracket to try first, for example the answer on a nearby
+    outline (:func:`cached_radius_search` passes one). Both ends are solved; where the verdicts
+    confirm it the bisection starts there (two solves when it is still within the tolerance),
+    else the bracket widens, doubling, toward 0 or the largest radius that fits. With a verdict
+    that changes once between 0 and the largest radius, the answer is the one a search without
+    ``start`` finds, within the tolerance.
     """
     if profile.nodes[node].smooth:
         raise GeometryError(f"node {node} is smooth, not a corner; make it a corner first")
@@ -88,29 +95,19 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
         return not v.separated
 
     try:
-        if attached(0.0):
-            return RadiusSearch(
-                node,
-                SearchStatus.ALWAYS_ATTACHED,
-                0.0,
-                r_max,
-                (0.0, 0.0),
-                0.0,
-                solves,
-                "attached even as a sharp edge",
-            )
-        if not attached(r_max):
-            return RadiusSearch(
-                node,
-                SearchStatus.NONE_FITS,
-                None,
-                r_max,
-                (r_max, r_max),
-                0.0,
-                solves,
-                f"separated even at the largest radius that fits, {r_max * 1e3:.0f} mm",
-            )
-        lo, hi = 0.0, r_max
+        bracket = None if start is None else _widened(start, r_max, attached)
+        if bracket == "always":
+            return _always_attached(node, r_max, solves)
+        if bracket == "none":
+            return _none_fits(node, r_max, solves)
+        if bracket is not None:
+            lo, hi = bracket
+        elif attached(0.0):
+            return _always_attached(node, r_max, solves)
+        elif not attached(r_max):
+            return _none_fits(node, r_max, solves)
+        else:
+            lo, hi = 0.0, r_max
         while hi - lo > max(1e-3, 0.01 * hi):
             mid = 0.5 * (lo + hi)
             if attached(mid):
@@ -132,6 +129,62 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
         solves,
         f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)",
     )
+
+
+def _always_attached(node, r_max, solves):
+    return RadiusSearch(
+        node,
+        SearchStatus.ALWAYS_ATTACHED,
+        0.0,
+        r_max,
+        (0.0, 0.0),
+        0.0,
+        solves,
+        "attached even as a sharp edge",
+    )
+
+
+def _none_fits(node, r_max, solves):
+    return RadiusSearch(
+        node,
+        SearchStatus.NONE_FITS,
+        None,
+        r_max,
+        (r_max, r_max),
+        0.0,
+        solves,
+        f"separated even at the largest radius that fits, {r_max * 1e3:.0f} mm",
+    )
+
+
+def _widened(start, r_max, attached):
+    """A (separated, attached) bracket from the hint ``start``, checked by solving its ends and
+    widened by doubling until the verdicts bound the answer: (lo, hi), "always" (attached at
+    r = 0), "none" (separated at the largest radius that fits), or None for a hint that is no
+    bracket at all."""
+    try:
+        lo, hi = (float(v) for v in start)
+    except (TypeError, ValueError):
+        return None
+    if not (math.isfinite(lo) and math.isfinite(hi)) or not 0.0 <= lo < hi:
+        return None
+    hi = min(hi, r_max)
+    if lo >= hi:
+        return None
+    width = max(hi - lo, 1e-3)
+    if attached(hi):
+        while lo > 0.0 and attached(lo):
+            hi, lo = lo, max(0.0, lo - width)
+            width *= 2.0
+        if lo == 0.0 and attached(0.0):
+            return "always"
+        return lo, hi
+    while hi < r_max:
+        lo, hi = hi, min(r_max, hi + width)
+        width *= 2.0
+        if attached(hi):
+            return lo, hi
+    return "none"
 
 
 def _key_nodes(profile, node):
@@ -186,13 +239,21 @@ SEARCH_CACHE = SearchCache()
 
 
 def cached_radius_search(profile, conditions, node, thickness=None, cache=None):
-    """:func:`smallest_attached_radius`, remembered in ``cache`` (default :data:`SEARCH_CACHE`)."""
+    """:func:`smallest_attached_radius`, remembered in ``cache`` (default :data:`SEARCH_CACHE`),
+    started from the bracket found on the nearest outline in the cache that differs only in its
+    nodes' positions and this corner's radius."""
     cache = SEARCH_CACHE if cache is None else cache
     key = SearchCache.key(profile, conditions, node, thickness)
     hit = cache.get(key)
     if hit is not None:
         return hit
-    result = smallest_attached_radius(profile, conditions, node, thickness=thickness)
+    # the answer on the nearest outline searched before (the same corners and conditions) as
+    # the first bracket to try: the search checks it, so it only saves solves
+    near = cache.nearby(profile, conditions, node, thickness=thickness, within=math.inf)
+    start = None
+    if near is not None and near[0].status is SearchStatus.FOUND:
+        start = near[0].bracket
+    result = smallest_attached_radius(profile, conditions, node, thickness=thickness, start=start)
     cache.put(key, result)
     return result
 
