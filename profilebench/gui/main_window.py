@@ -29,9 +29,10 @@ from PySide6.QtWidgets import (
 )
 
 from profilebench.editor import commands, recovery
-from profilebench.editor.document import CAUTION, Document
-from profilebench.editor.controller import AnalysisRequests, SearchBook, same_analysis
+from profilebench.editor.document import CAUTION
+from profilebench.editor.controller import ResultsController, failure_text
 from profilebench.editor.fields import parse_number
+from profilebench.editor.project_file import document_of, project_of
 from profilebench.editor.underlay import Underlay
 from profilebench.errors import InputError, ProfileBenchError
 from profilebench.gui.canvas import ProfileCanvas
@@ -127,15 +128,10 @@ class MainWindow(QMainWindow):
         self.baseline_runner = AnalysisRunner(self, analyze_fn)
         self.search_runner = ProcessTaskRunner(_search, self, child="search")
         self.document = None
-        self.analysis = None  # last good analysis (may be stale)
-        self.analysis_state = None  # the document state it was computed for
+        self._shown_state = None  # the document state the views show
+        # what is shown of the analyses and searches, and which state each request is for
+        self.results = ResultsController()
         self.last_message = ""
-        self.last_seconds = None
-        self.baseline_analysis = None
-        self.searches = SearchBook()  # each corner's radius search: running, or its result
-        self.results_received = 0
-        self.lagging_shown = 0  # superseded analyses shown during a drag (marked stale)
-        self._requested = AnalysisRequests()  # generation -> the document state it is for
 
         self.canvas = ProfileCanvas()
         self.banner = QLabel("")
@@ -208,6 +204,19 @@ class MainWindow(QMainWindow):
         self._autosave_timer.start()
         QTimer.singleShot(0, self._tell_startup_problems)  # after the caller could set report_error
         QTimer.singleShot(0, self.offer_recovery)  # after the caller could set ask_recover
+
+    # the shown results, as the controller keeps them
+    analysis = property(lambda self: self.results.analysis, doc="last good analysis (may be stale)")
+    analysis_state = property(
+        lambda self: self.results.analysis_state, doc="the document state it was computed for"
+    )
+    last_seconds = property(lambda self: self.results.seconds)
+    baseline_analysis = property(lambda self: self.results.baseline_analysis)
+    searches = property(lambda self: self.results.searches, doc="each corner's radius search")
+    results_received = property(lambda self: self.results.results_received)
+    lagging_shown = property(
+        lambda self: self.results.lagging_shown, doc="superseded analyses shown (marked stale)"
+    )
 
     def _tell_startup_problems(self):
         if self.startup_problems:
@@ -328,11 +337,7 @@ class MainWindow(QMainWindow):
         self.document = document
         document.subscribe(self._state_changed)
         self.undo_stack.clear()
-        self.analysis = None
-        self.analysis_state = None
-        self.baseline_analysis = None
-        self.searches.clear()
-        self._requested.clear()  # an analysis still running for the old document is not shown
+        self.results.reset()  # an analysis still running for the old document is not shown
         self.canvas._fitted = False
         self.canvas.set_analysis(None, False)
         self.conditions_panel.set_conditions(document.conditions)
@@ -346,54 +351,29 @@ class MainWindow(QMainWindow):
         from profilebench.io import default_sample_path, load_project
 
         project = load_project(default_sample_path())
-        self._install(Document(project.profile, project.conditions))
+        self._install(document_of(project))
         return True
 
     def open_file(self, path) -> bool:
         """Open a project file; a bad file shows its message and changes nothing."""
-        from profilebench.io import load_project, resolve_underlay
+        from profilebench.io import load_project
 
         try:
-            project = load_project(path)
-            underlay = None
-            if project.underlay is not None:
-                image = resolve_underlay(project, path)
-                underlay = self._underlay_from_image(image)
-                u = project.underlay
-                underlay = underlay.placed(u.points_px, u.points_m).with_opacity(u.opacity)
+            document = document_of(load_project(path), path, self._underlay_from_image)
         except ProfileBenchError as exc:
             self._show_banner(f"cannot open {path}: {exc}", True)
             return False
-        self._install(
-            Document(
-                project.profile,
-                project.conditions,
-                path=path,
-                baseline=project.baseline,
-                underlay=underlay,
-            )
-        )
+        self._install(document)
         self._add_recent(path)
         return True
 
     def save_to(self, path) -> bool:
         """Save the project to ``path`` (atomic); the message of a failure is shown."""
-        from profilebench.io import Project, save_project
-        from profilebench.io import Underlay as FileUnderlay
-        from profilebench.io import underlay_relative_path
+        from profilebench.io import save_project
 
         doc = self.document
         try:
-            file_underlay = None
-            if doc.underlay is not None:
-                u = doc.underlay
-                file_underlay = FileUnderlay(
-                    underlay_relative_path(u.path, path), u.points_px, u.points_m, u.opacity
-                )
-            project = Project(
-                doc.profile, doc.conditions, baseline=doc.baseline, underlay=file_underlay
-            )
-            save_project(project, path)
+            save_project(project_of(doc, path), path)
         except ProfileBenchError as exc:
             self._show_banner(f"not saved: {exc}", True)
             self.statusBar().showMessage(f"NOT SAVED: {exc}")
@@ -570,13 +550,11 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ state -> views
     def _state_changed(self, state, force=False):
-        prev = getattr(self, "_shown_state", None)
+        prev = self._shown_state
         self._shown_state = state
         sel = self.document.selection.node
         self.canvas.set_state(state, sel)
-        self.canvas.set_stale(
-            self.analysis_state is not None and not same_analysis(self.analysis_state, state)
-        )
+        self.canvas.set_stale(self.results.is_stale(state))
         if prev is None or prev.conditions != state.conditions or force:
             self.conditions_panel.set_conditions(state.conditions)
         if not self.canvas.dragging:
@@ -593,14 +571,14 @@ class MainWindow(QMainWindow):
             self._request_analysis(state, "nearby" if self.canvas.dragging else "run")
             self.statusBar().showMessage("analysing…")
         if state.baseline is None:
-            self.baseline_analysis = None
+            self.results.baseline_arrived(None)
         elif (
             force
             or prev is None
             or prev.baseline != state.baseline
             or prev.conditions != state.conditions
         ):
-            self.baseline_analysis = None
+            self.results.baseline_arrived(None)
             self.baseline_runner.request(state.baseline, state.conditions)
         self._update_title()
 
@@ -619,7 +597,7 @@ class MainWindow(QMainWindow):
 
     def _request_analysis(self, state, searches):
         generation = self.runner.request(state.profile, state.conditions, searches)
-        self._requested.sent(generation, state)
+        self.results.sent(generation, state)
         if not self.canvas.dragging and not self._progress_timer.isActive():
             self._progress_timer.start(LONG_WORK_MS)
 
@@ -634,13 +612,10 @@ class MainWindow(QMainWindow):
             self.search_runner.cancel_pending()  # its result is never shown
             self.searches.drop_running()
             self.corner_table.message.setText("search cancelled")
-            if self.analysis is not None:
-                self.corner_table.set_rows(
-                    self.analysis, self.searches.as_rows(), self.document.selection.node
-                )
+            self._show_corner_rows()
         else:
             self.runner.cancel_pending()
-            self._requested.clear()
+            self.results.cancelled()
             self.canvas.set_stale(self.analysis is not None)
             self._show_banner(
                 "analysis cancelled: the results shown are for an earlier outline "
@@ -688,23 +663,14 @@ class MainWindow(QMainWindow):
         """After a drag: a shown analysis of the current outline with provisional corner
         corrections is redone with the searches run (the drag's last result would otherwise
         keep a nearby outline's smallest attached radius)."""
-        a = self.analysis
-        if (
-            a is not None
-            and a.provisional
-            and not self.canvas.dragging
-            and not self.runner.busy
-            and same_analysis(self.analysis_state, self.document.state)
+        if self.results.needs_refinement(
+            self.document.state, self.canvas.dragging, self.runner.busy
         ):
             self._request_analysis(self.document.state, "run")
             self.statusBar().showMessage(
                 "searching the smallest attached radius of the corner "
                 "bubbles for the final outline…"
             )
-
-    def _forget_requests(self, upto):
-        """Drop the remembered states of requests up to generation ``upto``; return its state."""
-        return self._requested.forget(upto)
 
     def _analysis_lagging(self, generation, analysis, seconds):
         """A result for an edit a newer edit has superseded (during a drag): shown marked stale.
@@ -713,41 +679,37 @@ class MainWindow(QMainWindow):
         canvas greys it and says it is for an earlier outline. A failed one is not shown: the
         newest request's own result, or its failure, will say what is wrong.
         """
-        state = self._forget_requests(generation)
-        if state is None or analysis is None or not getattr(analysis, "success", False):
+        stale = self.results.lagging_arrived(generation, analysis, seconds, self.document.state)
+        if stale is None:
             return
-        self.lagging_shown += 1
-        # a failure shown earlier was for an older outline than this one: _show_analysis hides
-        # its banner
-        self._show_analysis(
-            analysis, state, seconds, stale=not same_analysis(state, self.document.state)
-        )
+        # a failure shown earlier was for an older outline than this one: its banner goes
+        self._show_analysis(stale)
         self.statusBar().showMessage(
             f"Cd {analysis.drag.cd:.4f} for an earlier position "
             f"(solve {seconds * 1000:.0f} ms); the newest edit is being "
             "analysed"
         )
 
-    def _show_analysis(self, analysis, state, seconds, stale):
-        """Put a successful ``analysis`` of document state ``state`` on every view."""
+    def _show_analysis(self, stale):
+        """Put the controller's analysis on every view."""
         self.banner.hide()
         self.last_message = ""
-        self.analysis = analysis
-        self.analysis_state = state
-        self.last_seconds = seconds
+        analysis = self.analysis
         self.canvas.set_analysis(analysis, stale=stale)
-        self.corner_table.set_rows(analysis, self.searches.as_rows(), self.document.selection.node)
-        self.summary.set_analysis(analysis, self._comparison(), seconds, stale=stale)
+        self._show_corner_rows()
+        self.summary.set_analysis(analysis, self._comparison(), self.last_seconds, stale=stale)
+
+    def _show_corner_rows(self):
+        if self.analysis is not None:
+            self.corner_table.set_rows(
+                self.analysis, self.searches.as_rows(), self.document.selection.node
+            )
 
     def _analysis_finished(self, generation, analysis, seconds):
-        self.results_received += 1
         if not self.runner.busy:
             self.progress.finish("analysis")
-        self._forget_requests(generation)
-        state = self._shown_state
-        if analysis is None or not getattr(analysis, "success", False):
-            msg = getattr(analysis, "message", "no result")
-            status = getattr(getattr(analysis, "status", None), "value", "failed")
+        if not self.results.finished_arrived(generation, analysis, seconds, self._shown_state):
+            status, msg = failure_text(analysis)
             self._show_banner(f"Analysis not updated ({status}): {msg}", True)
             self.statusBar().showMessage(f"{status}: {msg}")
             self.canvas.set_stale(self.analysis is not None)
@@ -755,7 +717,7 @@ class MainWindow(QMainWindow):
                 self.analysis, self._comparison(), self.last_seconds, stale=True
             )
             return
-        self._show_analysis(analysis, state, seconds, stale=False)
+        self._show_analysis(stale=False)
         self._schedule_plots()
         d = analysis.drag
         self.statusBar().showMessage(f"Cd {d.cd:.4f}   solve {seconds * 1000:.0f} ms")
@@ -788,10 +750,9 @@ class MainWindow(QMainWindow):
                 self.plots.clear(str(exc))
 
     def _analysis_failed(self, generation, message):
-        self.results_received += 1
         if not self.runner.busy:
             self.progress.finish("analysis")
-        self._forget_requests(generation)
+        self.results.failed_arrived(generation)
         self._show_banner(
             f"Analysis error (logged; last good result kept, marked stale): {message}", True
         )
@@ -799,7 +760,7 @@ class MainWindow(QMainWindow):
         self.statusBar().showMessage("analysis error: " + message)
 
     def _baseline_finished(self, generation, analysis, seconds):
-        self.baseline_analysis = analysis if getattr(analysis, "success", False) else None
+        self.results.baseline_arrived(analysis)
         if self.analysis is not None:
             self.summary.set_analysis(
                 self.analysis, self._comparison(), self.last_seconds, stale=self.canvas.stale
@@ -818,35 +779,23 @@ class MainWindow(QMainWindow):
     @property
     def results_current(self) -> bool:
         """True when the shown analysis is for the document's current state."""
-        return (
-            not self.runner.busy
-            and self.analysis is not None
-            and same_analysis(self.analysis_state, self.document.state)
-        )
+        return self.results.is_current(self.document.state, self.runner.busy)
 
     # ------------------------------------------------------------------ corner radius search
     def find_smallest_radius(self, node):
-        if self.document.profile.nodes[node].smooth:
-            self.corner_table.message.setText(f"node {node} is smooth; make it a corner first")
+        try:
+            done = self.results.begin_search(node, self.document.state)
+        except ProfileBenchError as exc:
+            self.corner_table.message.setText(str(exc))
             return
-        done = SearchBook.from_analysis(
-            self.analysis, self.analysis_state, self.document.state, node
-        )
         if done is not None:
-            self.searches.put(node, done)
             self.corner_table.message.setText(f"{done.message} (from the analysis shown)")
-            self.corner_table.set_rows(
-                self.analysis, self.searches.as_rows(), self.document.selection.node
-            )
-            return
-        self.searches.start(node, self.document.state)
-        self.search_runner.request(self.document.profile, self.document.conditions, node)
-        self.corner_table.message.setText(f"searching the smallest attached radius at node {node}…")
-        self.progress.start("search", f"searching the smallest attached radius at node {node}…")
-        if self.analysis is not None:
-            self.corner_table.set_rows(
-                self.analysis, self.searches.as_rows(), self.document.selection.node
-            )
+        else:
+            self.search_runner.request(self.document.profile, self.document.conditions, node)
+            text = f"searching the smallest attached radius at node {node}…"
+            self.corner_table.message.setText(text)
+            self.progress.start("search", text)
+        self._show_corner_rows()
 
     def _search_finished(self, generation, result, seconds):
         self.progress.finish("search")
@@ -856,10 +805,7 @@ class MainWindow(QMainWindow):
             self.corner_table.message.setText(
                 f"{result.message} ({result.solves} solves, {seconds:.1f} s)"
             )
-        if self.analysis is not None:
-            self.corner_table.set_rows(
-                self.analysis, self.searches.as_rows(), self.document.selection.node
-            )
+        self._show_corner_rows()
 
     def _search_failed(self, generation, message):
         self.progress.finish("search")
@@ -867,21 +813,8 @@ class MainWindow(QMainWindow):
         self.corner_table.message.setText(f"search failed (logged): {message}")
 
     def apply_smallest_radius(self, node, margin_text):
-        search = self.searches.result(node)
-        if search is None:
-            self.corner_table.message.setText(
-                "find the smallest attached radius of this corner first"
-            )
-            return
         try:
-            margin = parse_number(margin_text, "margin", "%", 0.0)
-            r = search.radius * (1.0 + margin / 100.0)
-            if r > search.largest_fitting:
-                raise InputError(
-                    f"{search.radius * 1000:.0f} mm + {margin:g}% = {r * 1000:.0f} mm does not fit; "
-                    f"the largest radius that fits is {search.largest_fitting * 1000:.0f} mm: "
-                    "choose a smaller margin"
-                )
+            r = self.results.margin_radius(node, margin_text)
         except ProfileBenchError as exc:
             self.corner_table.message.setText(str(exc))
             return
@@ -1185,9 +1118,7 @@ class MainWindow(QMainWindow):
         copy = copies[0]
         restored = False
         if self.ask_recover(copy):
-            doc = Document(
-                project.profile, project.conditions, path=copy.origin, baseline=project.baseline
-            )
+            doc = document_of(project, copy.origin)  # a recovery copy keeps no underlay
             doc.mark_unsaved()
             self._install(doc)
             restored = True
