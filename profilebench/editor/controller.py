@@ -23,6 +23,7 @@ __all__ = [
     "ResultsController",
     "failure_text",
     "radius_with_margin",
+    "plot_wait_ms",
 ]
 
 
@@ -167,6 +168,18 @@ def radius_with_margin(search: RadiusSearch, margin_text: str) -> float:
             "choose a smaller margin"
         )
     return r
+
+
+def plot_wait_ms(since_last_s: float, dragging: bool, interval_ms: int) -> int | None:
+    """How long (ms) to wait before rendering the plots, or None to render them now.
+
+    Now when no drag runs and the last render is at least ``interval_ms`` old; else when that
+    interval is over (at least 20 ms on), or a whole interval during a drag (then asked again).
+    """
+    wait = interval_ms - 1000.0 * since_last_s
+    if dragging:
+        return interval_ms
+    return None if wait <= 0 else max(int(wait), 20)
 
 
 class ResultsController:

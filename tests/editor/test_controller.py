@@ -15,6 +15,7 @@ from profilebench.editor.controller import (
     SearchBook,
     SearchRunning,
     failure_text,
+    plot_wait_ms,
     radius_with_margin,
     same_analysis,
 )
@@ -239,3 +240,19 @@ def test_a_failed_analysis_is_told_by_its_status_and_message():
         "the outline crosses itself",
     )
     assert failure_text(None) == ("failed", "no result")
+
+
+@pytest.mark.parametrize(
+    "since_last_s, dragging, wait",
+    [
+        (0.5, False, None),  # idle and the last render old: now
+        (0.2, False, None),  # exactly one interval ago
+        (0.05, False, 150),  # the rest of the interval
+        (0.195, False, 20),  # never sooner than 20 ms on
+        (0.5, True, 200),  # during a drag: asked again a whole interval on
+        (0.0, True, 200),
+    ],
+)
+def test_plots_render_at_most_once_an_interval_and_not_during_a_drag(since_last_s, dragging, wait):
+    # the rule of this editor (no source): a 200 ms interval, a 20 ms floor
+    assert plot_wait_ms(since_last_s, dragging, 200) == wait
