@@ -24,6 +24,7 @@ __all__ = [
     "failure_text",
     "radius_with_margin",
     "plot_wait_ms",
+    "StateChange",
 ]
 
 
@@ -182,6 +183,20 @@ def plot_wait_ms(since_last_s: float, dragging: bool, interval_ms: int) -> int |
     return None if wait <= 0 else max(int(wait), 20)
 
 
+@dataclass(frozen=True)
+class StateChange:
+    """What a new document state asks of the window.
+
+    ``conditions``: the conditions panel shows the new conditions; ``analysis``: the outline
+    or the conditions changed, so the state is analysed again; ``baseline``: the pinned
+    baseline is analysed again (it or the conditions changed).
+    """
+
+    conditions: bool
+    analysis: bool
+    baseline: bool
+
+
 class ResultsController:
     """What the editor shows of its background work, decided without Qt.
 
@@ -225,6 +240,21 @@ class ResultsController:
         self.requests.clear()
 
     # ---------------------------------------------------------------- analyses
+    def state_changed(self, prev, state, force: bool = False) -> StateChange:
+        """The document went from state ``prev`` (None: nothing shown yet) to ``state``;
+        ``force`` (a document installed) counts everything as changed. The radius searches
+        of an earlier outline or conditions are dropped, and the baseline's analysis when the
+        baseline or the conditions changed."""
+        fresh = force or prev is None
+        conditions = fresh or prev.conditions != state.conditions
+        analysis = conditions or prev.profile != state.profile
+        baseline = state.baseline is not None and (conditions or prev.baseline != state.baseline)
+        if analysis:
+            self.searches.clear()
+        if baseline or state.baseline is None:
+            self.baseline_analysis = None
+        return StateChange(conditions, analysis, baseline)
+
     def sent(self, generation: int, state) -> None:
         """Analysis request ``generation`` was made for document state ``state``."""
         self.requests.sent(generation, state)

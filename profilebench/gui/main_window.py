@@ -33,8 +33,9 @@ from profilebench.editor.recovery import AUTOSAVE_ENV
 from profilebench.editor.underlay import Underlay
 from profilebench.errors import ProfileBenchError
 from profilebench.gui.canvas import ProfileCanvas
-from profilebench.gui import menus, outline_import
+from profilebench.gui import exports, menus, outline_import, questions
 from profilebench.gui.conditions_panel import ConditionsPanel
+from profilebench.gui.corner_search import CornerSearch
 from profilebench.gui.node_panel import NodePanel
 from profilebench.gui.plot_schedule import PlotSchedule
 from profilebench.gui.recent_files import RecentFiles
@@ -155,6 +156,7 @@ class MainWindow(QMainWindow):
         self._progress_timer.timeout.connect(self._long_analysis)
         self.grid_spacing = 0.01  # snapping grid (m) when on
         self.underlay_picking = UnderlayPicking(self)
+        self.corner_search = CornerSearch(self)
         self._connect()
         self._build_menus()
         self._load_cp_scale()
@@ -239,8 +241,6 @@ class MainWindow(QMainWindow):
         self.baseline_runner.failed.connect(
             lambda g, m: self._show_banner(f"baseline analysis failed: {m}", True)
         )
-        self.search_runner.finished.connect(self._search_finished)
-        self.search_runner.failed.connect(self._search_failed)
         self.progress.cancelled.connect(self._cancel_work)
         self.undo_stack.cleanChanged.connect(self._clean_changed)
 
@@ -334,36 +334,10 @@ class MainWindow(QMainWindow):
 
     def export_image(self, path) -> bool:
         """Write the annotated view (review page) as PNG, SVG or PDF via profilebench.plotting."""
-        from profilebench.io.atomic import check_writable
-        from profilebench.plotting import review_figure, save_figure
-
-        if self.analysis is None:
-            self._show_banner("nothing to export yet: no successful analysis", True)
-            return False
-        try:
-            check_writable(path)  # a folder that refuses files: a message, not an OSError
-            baseline = self.baseline_analysis or self.document.baseline
-            fig = review_figure(self.analysis, baseline=baseline, cp_min=self.canvas.cp_min)
-            save_figure(fig, path)
-        except ProfileBenchError as exc:
-            self._show_banner(f"export failed: {exc}", True)
-            return False
-        self.statusBar().showMessage(f"exported {path}", 5000)
-        return True
+        return exports.export_image(self, path)
 
     def export_surface_csv(self, path) -> bool:
-        from profilebench.io.export import write_surface_csv
-
-        if self.analysis is None:
-            self._show_banner("nothing to export yet: no successful analysis", True)
-            return False
-        try:
-            write_surface_csv(self.analysis, path)
-        except ProfileBenchError as exc:
-            self._show_banner(f"export failed: {exc}", True)
-            return False
-        self.statusBar().showMessage(f"exported {path}", 5000)
-        return True
+        return exports.export_surface_csv(self, path)
 
     # ------------------------------------------------------------------ edits
     def push(self, edit) -> bool:
@@ -427,35 +401,21 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ state -> views
     def _state_changed(self, state, force=False):
-        prev = self._shown_state
+        change = self.results.state_changed(self._shown_state, state, force)
         self._shown_state = state
         sel = self.document.selection.node
         self.canvas.set_state(state, sel)
         self.canvas.set_stale(self.results.is_stale(state))
-        if prev is None or prev.conditions != state.conditions or force:
+        if change.conditions:
             self.conditions_panel.set_conditions(state.conditions)
         if not self.canvas.dragging:
             self.node_panel.set_node(state.profile, sel)
-        if (
-            force
-            or prev is None
-            or prev.profile != state.profile
-            or prev.conditions != state.conditions
-        ):
-            self.searches.clear()
+        if change.analysis:
             # during a drag a corner bubble's smallest attached radius comes from a nearby
             # outline's search (provisional) instead of a fresh search of ~10 solves
             self._request_analysis(state, "nearby" if self.canvas.dragging else "run")
             self.statusBar().showMessage("analysing…")
-        if state.baseline is None:
-            self.results.baseline_arrived(None)
-        elif (
-            force
-            or prev is None
-            or prev.baseline != state.baseline
-            or prev.conditions != state.conditions
-        ):
-            self.results.baseline_arrived(None)
+        if change.baseline:
             self.baseline_runner.request(state.baseline, state.conditions)
         self._update_title()
 
@@ -486,10 +446,7 @@ class MainWindow(QMainWindow):
 
     def _cancel_work(self, kind):
         if kind == "search":
-            self.search_runner.cancel_pending()  # its result is never shown
-            self.searches.drop_running()
-            self.corner_table.message.setText("search cancelled")
-            self._show_corner_rows()
+            self.corner_search.cancel()
         else:
             self.runner.cancel_pending()
             self.results.cancelled()
@@ -619,65 +576,22 @@ class MainWindow(QMainWindow):
 
     # ------------------------------------------------------------------ corner radius search
     def find_smallest_radius(self, node):
-        try:
-            done = self.results.begin_search(node, self.document.state)
-        except ProfileBenchError as exc:
-            self.corner_table.message.setText(str(exc))
-            return
-        if done is not None:
-            self.corner_table.message.setText(f"{done.message} (from the analysis shown)")
-        else:
-            self.search_runner.request(self.document.profile, self.document.conditions, node)
-            text = f"searching the smallest attached radius at node {node}…"
-            self.corner_table.message.setText(text)
-            self.progress.start("search", text)
-        self._show_corner_rows()
-
-    def _search_finished(self, generation, result, seconds):
-        self.progress.finish("search")
-        if not self.searches.finish(result, self.document.state):
-            self.corner_table.message.setText("the profile changed during the search; search again")
-        else:
-            self.corner_table.message.setText(
-                f"{result.message} ({result.solves} solves, {seconds:.1f} s)"
-            )
-        self._show_corner_rows()
-
-    def _search_failed(self, generation, message):
-        self.progress.finish("search")
-        self.searches.drop_running()
-        self.corner_table.message.setText(f"search failed (logged): {message}")
+        self.corner_search.find(node)
 
     def apply_smallest_radius(self, node, margin_text):
-        try:
-            r = self.results.margin_radius(node, margin_text)
-        except ProfileBenchError as exc:
-            self.corner_table.message.setText(str(exc))
-            return
-        self.set_radius(node, r)
+        self.corner_search.apply(node, margin_text)
 
     # ------------------------------------------------------------------ underlay
     def _underlay_from_image(self, path) -> Underlay:
         return underlay_from_image(path, self.document.profile if self.document else None)
 
     def load_underlay(self, path) -> bool:
-        try:
-            u = self._underlay_from_image(path)
-        except ProfileBenchError as exc:
-            self._show_banner(str(exc), True)
-            return False
-        return self._try(lambda: commands.set_underlay(self.document.state, u, "Load underlay"))
+        """Put the image at ``path`` under the profile (an undoable edit)."""
+        return self.underlay_picking.load(path)
 
     def place_underlay(self, points_px, points_m) -> bool:
-        u = self.document.underlay
-        if u is None:
-            self._show_banner("load an underlay image first", True)
-            return False
-        return self._try(
-            lambda: commands.set_underlay(
-                self.document.state, u.placed(points_px, points_m), "Place underlay"
-            )
-        )
+        """Place the underlay so image pixels ``points_px`` land on ``points_m`` (m)."""
+        return self.underlay_picking.place(points_px, points_m)
 
     def start_underlay_picking(self):
         """Place the underlay by two points clicked on it (profilebench.gui.underlay_picking)."""
@@ -703,15 +617,7 @@ class MainWindow(QMainWindow):
 
     def ask_recover(self, copy) -> bool:
         """Ask whether to restore the recovery copy ``copy`` (a dialog; tests replace it)."""
-        where = str(copy.origin) if copy.origin is not None else "an untitled project"
-        answer = QMessageBox.question(
-            self,
-            "Recover unsaved work",
-            f"The editor did not close normally last time. Restore the unsaved changes to {where}?",
-            QMessageBox.Yes | QMessageBox.No,
-            QMessageBox.Yes,
-        )
-        return answer == QMessageBox.Yes
+        return questions.ask_recover(self, copy)
 
     def report_error(self, title: str, text: str) -> None:
         """Tell the user about a failure that needs attention (a dialog; tests replace it)."""
@@ -720,16 +626,7 @@ class MainWindow(QMainWindow):
     # ------------------------------------------------------------------ closing
     def ask_unsaved(self) -> str:
         """Ask whether to save unsaved changes: "save", "discard" or "cancel" (a dialog)."""
-        answer = QMessageBox.question(
-            self,
-            "Unsaved changes",
-            f"Save the changes to {self.document.title.rstrip(' *')}?",
-            QMessageBox.Save | QMessageBox.Discard | QMessageBox.Cancel,
-            QMessageBox.Save,
-        )
-        if answer == QMessageBox.Save:
-            return "save"
-        return "discard" if answer == QMessageBox.Discard else "cancel"
+        return questions.ask_unsaved(self)
 
     def confirm_discard(self) -> bool:
         """True when there are no unsaved changes or the user saves or discards them."""

@@ -12,6 +12,7 @@ from pathlib import Path
 from PySide6.QtGui import QImageReader
 from PySide6.QtWidgets import QInputDialog
 
+from profilebench.editor import commands
 from profilebench.editor.fields import parse_point_mm
 from profilebench.editor.underlay import Underlay
 from profilebench.errors import InputError, ProfileBenchError
@@ -44,12 +45,35 @@ def underlay_from_image(path, profile=None) -> Underlay:
 
 
 class UnderlayPicking:
-    """Two clicks on the underlay, then the profile position of each: the window's
-    ``place_underlay`` gets the pixels and the positions."""
+    """The window's underlay: loaded from an image, placed by two point pairs, or by two
+    clicks on it and the profile position of each (asked in a dialog)."""
 
     def __init__(self, window):
         self.window = window
         self.picks: list[tuple[float, float]] = []
+
+    def load(self, path) -> bool:
+        """Put the image at ``path`` under the profile (an undoable edit)."""
+        w = self.window
+        try:
+            u = w._underlay_from_image(path)
+        except ProfileBenchError as exc:
+            w._show_banner(str(exc), True)
+            return False
+        return w._try(lambda: commands.set_underlay(w.document.state, u, "Load underlay"))
+
+    def place(self, points_px, points_m) -> bool:
+        """Place the underlay so image pixels ``points_px`` land on ``points_m`` (m)."""
+        w = self.window
+        u = w.document.underlay
+        if u is None:
+            w._show_banner("load an underlay image first", True)
+            return False
+        return w._try(
+            lambda: commands.set_underlay(
+                w.document.state, u.placed(points_px, points_m), "Place underlay"
+            )
+        )
 
     def start(self) -> None:
         w = self.window
@@ -85,4 +109,4 @@ class UnderlayPicking:
             except ProfileBenchError as exc:
                 w._show_banner(str(exc), True)
                 return
-        w.place_underlay(self.picks, points_m)
+        self.place(self.picks, points_m)

@@ -14,6 +14,7 @@ from profilebench.editor.controller import (
     ResultsController,
     SearchBook,
     SearchRunning,
+    StateChange,
     failure_text,
     plot_wait_ms,
     radius_with_margin,
@@ -256,3 +257,28 @@ def test_a_failed_analysis_is_told_by_its_status_and_message():
 def test_plots_render_at_most_once_an_interval_and_not_during_a_drag(since_last_s, dragging, wait):
     # the rule of this editor (no source): a 200 ms interval, a 20 ms floor
     assert plot_wait_ms(since_last_s, dragging, 200) == wait
+
+
+def test_what_a_new_state_asks_for():
+    s0, moved = _states()
+    rc = ResultsController()
+    assert rc.state_changed(None, s0) == StateChange(True, True, False)  # nothing shown yet
+    rc.searches.put(2, _found(2, 0.05))
+    pinned = commands.pin_baseline(s0).after
+    assert rc.state_changed(s0, pinned) == StateChange(False, False, True)
+    assert rc.searches.get(2) is not None  # pinning changes neither outline nor conditions
+    rc.baseline_arrived(_analysis(pinned))
+    selected_only = pinned  # the same state again (a selection, say): nothing to do
+    assert rc.state_changed(pinned, selected_only) == StateChange(False, False, False)
+    assert rc.baseline_analysis is not None
+    moved_pinned = commands.move_node(pinned, 1, 4.1, 0.25).after
+    assert rc.state_changed(pinned, moved_pinned) == StateChange(False, True, False)
+    assert rc.searches.get(2) is None and rc.baseline_analysis is not None
+    faster = commands.set_conditions(moved_pinned, s0.conditions.replace(speed=40.0)).after
+    assert rc.state_changed(moved_pinned, faster) == StateChange(True, True, True)
+    assert rc.baseline_analysis is None  # for the old conditions
+    rc.baseline_arrived(_analysis(pinned))
+    cleared = commands.clear_baseline(faster).after
+    assert rc.state_changed(faster, cleared) == StateChange(False, False, False)
+    assert rc.baseline_analysis is None
+    assert rc.state_changed(cleared, cleared, force=True) == StateChange(True, True, False)
