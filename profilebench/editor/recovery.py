@@ -120,7 +120,7 @@ def write_recovery(folder, document) -> Path:
     try:
         folder.mkdir(parents=True, exist_ok=True)
     except (OSError, ValueError) as exc:  # ValueError: a NUL in the configured folder
-        reason = getattr(exc, "strerror", None) or str(exc)
+        reason = getattr(exc, "strerror", None) or str(exc)  # a ValueError has no strerror
         raise ProjectFileError(
             f"cannot create the recovery folder {folder}: {reason}; "
             "choose another recovery folder in the settings"
@@ -161,6 +161,7 @@ def _alive(pid: int) -> bool:
 def _origin_of(path: Path) -> Path | None:
     """The origin named by the sidecar of ``path``; None when there is none or it is unusable."""
     try:
+        # O_NONBLOCK is POSIX only: a FIFO named like the sidecar must not block the open
         fd = os.open(_origin_file(path), os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
     except OSError:
         return None

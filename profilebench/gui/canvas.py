@@ -16,7 +16,6 @@ import math
 import time
 
 import numpy as np
-import shapely
 from PySide6.QtCore import QPointF, QRectF, Qt, QThreadPool, Signal
 from PySide6.QtGui import (
     QBrush,
@@ -383,6 +382,7 @@ class ProfileCanvas(OverlayDrawing, QWidget):
         if self._difference is None or self._difference[0] != key:
             polys = []
             try:
+                import shapely
                 from shapely.geometry import Polygon
 
                 diff = Polygon(bpts).buffer(0).symmetric_difference(Polygon(current_pts).buffer(0))

@@ -1,9 +1,13 @@
-"""The main window: canvas in the middle, panels docked round it, menus, undo stack, workers.
+"""The main window: canvas in the middle, panels docked round it, undo stack, workers.
 
 The window holds an :class:`profilebench.editor.Document` and a QUndoStack of
 :class:`~profilebench.gui.undo.EditCommand`; every user action becomes an editor edit. Analyses
 run on a :class:`~profilebench.gui.worker.AnalysisRunner`; the newest result is shown, a failed
-one is reported in the banner while the last good result stays on screen marked stale.
+one is reported in the banner while the last good result stays on screen marked stale. Which
+result is shown, and when, is decided by the Qt-free
+:class:`~profilebench.editor.controller.ResultsController`; the window wires signals to it and
+shows what it holds. The menus (:mod:`profilebench.gui.menus`) and the other parts of the
+window's work live in modules of their own.
 """
 
 from __future__ import annotations

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from profilebench.assess.results import Verdict
 from profilebench.plotting.style import CAUTION, OKABE_ITO, SEPARATED_COLOUR
 
 __all__ = ["sweep_figure", "grid_figure", "VERDICT_BANDS", "axis_scale"]
@@ -35,14 +36,13 @@ def axis_scale(parameter):
 def _band_kind(verdict):
     if verdict is None:
         return "failed"
-    name = getattr(verdict, "name", "")
-    if name == "ATTACHED":
+    if verdict is Verdict.ATTACHED:
         return "attached"
-    if name == "BUBBLE_REATTACHES":
+    if verdict is Verdict.BUBBLE_REATTACHES:
         return "bubble"
-    if getattr(verdict, "separated", False):
+    if isinstance(verdict, Verdict) and verdict.separated:
         return "separated"
-    return "other"
+    return "other"  # another verdict, or a point without a watched corner (_Unwatched)
 
 
 def _edges(x):
@@ -70,7 +70,7 @@ def _shade(ax, x, verdicts, seen):
 
 
 def _marks(ax, table, scale, legend):
-    knee = getattr(table, "knee", None)
+    knee = table.knee
     if knee is not None and knee.found:
         ax.axvline(
             knee.radius * scale,
@@ -106,11 +106,10 @@ def sweep_figure(table, title=None):
     if table.corner is None:  # no watched corner: shade the failed points only
         verdicts = tuple(None if not ok else _Unwatched() for ok in table.ok)
     seen = set()
-    for k, (ax, name, label) in enumerate(
-        zip(axes, ("cd", "cda"), ("Cd (on frontal height)", "CdA (m^2)"))
+    for k, (ax, name, y, label) in enumerate(
+        zip(axes, ("cd", "cda"), (table.cd, table.cda), ("Cd (on frontal height)", "CdA (m^2)"))
     ):
         _shade(ax, x, verdicts, seen if k == 0 else set(VERDICT_BANDS))
-        y = getattr(table, name)
         ax.plot(
             x,
             y,
@@ -129,7 +128,7 @@ def sweep_figure(table, title=None):
     axes[0].legend(fontsize=7, loc="best")
     corner = f"{table.corner_label} (node {table.corner})" if table.corner is not None else ""
     head = title or f"{table.parameter} sweep" + (f", corner {corner}" if corner else "")
-    knee = getattr(table, "knee", None)
+    knee = table.knee
     if knee is not None:
         import textwrap
 
