@@ -10,22 +10,21 @@ def _entry(w, menu, text):
     return next(a for a in w.menus[menu].actions() if a.text() == text)
 
 
-@pytest.mark.parametrize(
-    "text, name, start",
-    [
-        ("Export surface data (CSV)…", "surface.csv", b"surface,s,x,y"),
-        ("Export annotated view (PNG/SVG/PDF)…", "view.png", b"\x89PNG"),
-    ],
-)
-def test_an_export_entry_writes_the_file_chosen(
-    window, qtbot, tmp_path, monkeypatch, text, name, start
-):
+def test_the_file_entries_hand_their_own_file_on(window, qtbot, tmp_path, monkeypatch):
     w = window
     wait_current(qtbot, w)
-    target = tmp_path / name
+    target = tmp_path / "surface.csv"
     monkeypatch.setattr(QFileDialog, "getSaveFileName", lambda *a, **k: (str(target), ""))
-    _entry(w, "File", text).trigger()
-    assert target.read_bytes().startswith(start)
+    _entry(w, "File", "Export surface data (CSV)…").trigger()
+    assert target.read_text().startswith("surface,s,x,y")
+    missing = tmp_path / "no_such_points.csv"
+    monkeypatch.setattr(QFileDialog, "getOpenFileName", lambda *a, **k: (str(missing), ""))
+    _entry(w, "File", "Import point outline (CSV)…").trigger()  # reaches the import, not an export
+    assert w.last_message.startswith(f"cannot import {missing}")
+    monkeypatch.setattr(QFileDialog, "getOpenFileName", lambda *a, **k: ("", ""))  # cancelled
+    before = w.document.state
+    _entry(w, "Underlay", "Load image…").trigger()
+    assert w.document.state is before
 
 
 def test_save_as_and_the_recent_files(window, tmp_path, monkeypatch):
