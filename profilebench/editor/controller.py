@@ -13,7 +13,7 @@ from dataclasses import dataclass
 
 from profilebench.assess.results import Analysis, RadiusSearch
 from profilebench.editor.fields import parse_number
-from profilebench.errors import InputError
+from profilebench.errors import InputError, ProfileBenchError
 
 __all__ = [
     "same_analysis",
@@ -319,6 +319,18 @@ class ResultsController:
     def baseline_arrived(self, analysis: Analysis | None) -> None:
         """The baseline's analysis: kept when it succeeded."""
         self.baseline_analysis = analysis if analysis is not None and analysis.success else None
+
+    def comparison(self):
+        """The shown analysis against the baseline's (:func:`profilebench.assess.compare`),
+        or None: either is missing, or they cannot be compared."""
+        if self.analysis is None or self.baseline_analysis is None:
+            return None
+        from profilebench.assess.compare import compare
+
+        try:
+            return compare(self.baseline_analysis, self.analysis)
+        except ProfileBenchError:
+            return None
 
     # ---------------------------------------------------------------- radius searches
     def begin_search(self, node: int, state):

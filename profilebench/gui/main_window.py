@@ -520,7 +520,9 @@ class MainWindow(QMainWindow):
         analysis = self.analysis
         self.canvas.set_analysis(analysis, stale=stale)
         self._show_corner_rows()
-        self.summary.set_analysis(analysis, self._comparison(), self.last_seconds, stale=stale)
+        self.summary.set_analysis(
+            analysis, self.results.comparison(), self.last_seconds, stale=stale
+        )
 
     def _show_corner_rows(self):
         if self.analysis is not None:
@@ -537,7 +539,7 @@ class MainWindow(QMainWindow):
             self.statusBar().showMessage(f"{status}: {msg}")
             self.canvas.set_stale(self.analysis is not None)
             self.summary.set_analysis(
-                self.analysis, self._comparison(), self.last_seconds, stale=True
+                self.analysis, self.results.comparison(), self.last_seconds, stale=True
             )
             return
         self._show_analysis(stale=False)
@@ -560,18 +562,8 @@ class MainWindow(QMainWindow):
         self.results.baseline_arrived(analysis)
         if self.analysis is not None:
             self.summary.set_analysis(
-                self.analysis, self._comparison(), self.last_seconds, stale=self.canvas.stale
+                self.analysis, self.results.comparison(), self.last_seconds, stale=self.canvas.stale
             )
-
-    def _comparison(self):
-        if self.analysis is None or self.baseline_analysis is None:
-            return None
-        from profilebench.assess.compare import compare
-
-        try:
-            return compare(self.baseline_analysis, self.analysis)
-        except ProfileBenchError:
-            return None
 
     @property
     def results_current(self) -> bool:

@@ -282,3 +282,20 @@ def test_what_a_new_state_asks_for():
     assert rc.state_changed(faster, cleared) == StateChange(False, False, False)
     assert rc.baseline_analysis is None
     assert rc.state_changed(cleared, cleared, force=True) == StateChange(True, True, False)
+
+
+def test_the_comparison_needs_both_analyses():
+    from profilebench.assess.analysis import analyze
+
+    s0, moved = _states()
+    rc = ResultsController()
+    assert rc.comparison() is None
+    cond = Conditions(panels=120)  # few panels: the comparison's arithmetic is the point
+    base, variant = analyze(BOX, cond), analyze(moved.profile, cond)
+    rc.sent(1, moved)
+    rc.finished_arrived(1, variant, 0.02, moved)
+    assert rc.comparison() is None  # no baseline yet
+    rc.baseline_arrived(base)
+    c = rc.comparison()
+    # delta = variant - baseline (profilebench.assess.compare's definition)
+    assert c.delta_cd == pytest.approx(variant.drag.cd - base.drag.cd, rel=1e-12)
