@@ -299,3 +299,22 @@ def test_the_comparison_needs_both_analyses():
     c = rc.comparison()
     # delta = variant - baseline (profilebench.assess.compare's definition)
     assert c.delta_cd == pytest.approx(variant.drag.cd - base.drag.cd, rel=1e-12)
+
+
+def test_every_editor_module_imports_with_qt_unavailable():
+    """The editor's model runs without Qt: each module is imported in a fresh interpreter in
+    which importing PySide6 fails."""
+    import subprocess
+    import sys
+
+    code = (
+        "import sys, pkgutil, importlib\n"
+        "sys.modules['PySide6'] = None  # any import of it raises ImportError\n"
+        "import profilebench.editor as e\n"
+        "for m in pkgutil.iter_modules(e.__path__):\n"
+        "    importlib.import_module('profilebench.editor.' + m.name)\n"
+        "print(sorted(n for n in sys.modules if n.startswith('profilebench.editor.')))\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert "profilebench.editor.controller" in out.stdout
+    assert "profilebench.editor.project_file" in out.stdout
