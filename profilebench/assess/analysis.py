@@ -137,7 +137,7 @@ def _events(flow):
         for e in sfl.bl.events:
             x = float(np.interp(e.s, s_arr, sf.x))
             y = float(np.interp(e.s, s_arr, sf.y))
-            kind, detail = FlowEventKind(e.kind), str(getattr(e, "detail", ""))
+            kind, detail = FlowEventKind(e.kind), str(e.detail)
             if kind in SEPARATION_KINDS and any(abs(float(e.s) - r) <= 1e-9 for r in restarts):
                 detail = (
                     f"{kind.replace('_', ' ')}: {detail}; the layer reattaches behind it "

@@ -55,8 +55,8 @@ def compare(a, b):
     reference area (Conditions.frontal_area or width).
     """
     for name, an in (("baseline", a), ("variant", b)):
-        if an is None or not getattr(an, "success", False):
-            msg = getattr(an, "message", "no analysis")
+        if an is None or not an.success:
+            msg = "no analysis" if an is None else an.message
             raise InputError(
                 f"the {name} analysis did not succeed ({msg}); fix it before comparing"
             )

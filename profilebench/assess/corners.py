@@ -266,12 +266,12 @@ def _verdict(bl, region_lo, region_hi, convex, restarts, bounded=True, edges=())
         if e.kind is EventKind.LAMINAR_SEPARATION:
             verdict = Verdict.LAMINAR_SEPARATION
         elif e.kind is EventKind.TURBULENT_SEPARATION:
-            burst = "burst" in str(getattr(e, "detail", ""))
+            burst = "burst" in e.detail
             verdict = Verdict.LAMINAR_SEPARATION if burst else Verdict.TURBULENT_SEPARATION
         else:
             verdict = Verdict.EDGE_SEPARATION
         detail = f"{verdict.value} at s = {float(e.s) * 1e3:.0f} mm"
-        if getattr(e, "detail", ""):
+        if e.detail:
             detail += f" ({e.detail})"
         if bubble is not None:
             detail += f", after a laminar bubble at s = {float(bubble[0].s) * 1e3:.0f} mm"

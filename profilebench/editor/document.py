@@ -116,9 +116,5 @@ class Document:
     @property
     def title(self) -> str:
         """A window title: the file name (or the profile name) with a star when unsaved."""
-        name = (
-            self.path.name
-            if self.path is not None
-            else (getattr(self.profile, "name", "") or "untitled")
-        )
+        name = self.path.name if self.path is not None else (self.profile.name or "untitled")
         return f"{name}{' *' if self.dirty else ''}"

@@ -11,7 +11,14 @@ import math
 
 from profilebench.errors import InputError, excerpt
 
-__all__ = ["parse_number", "parse_length_mm", "parse_speed_kmh", "parse_optional", "format_mm"]
+__all__ = [
+    "parse_number",
+    "parse_length_mm",
+    "parse_point_mm",
+    "parse_speed_kmh",
+    "parse_optional",
+    "format_mm",
+]
 
 
 def parse_number(
@@ -50,6 +57,15 @@ def parse_length_mm(
 ) -> float:
     """A length typed in millimetres, returned in metres."""
     return parse_number(text, name, "mm", minimum_mm, None, exclusive) / 1000.0
+
+
+def parse_point_mm(text: str, name: str = "coordinate") -> tuple[float, float]:
+    """A position typed as "x, y" (or "x; y") in millimetres, returned as (x, y) in metres."""
+    parts = (text or "").replace(";", ",").split(",")
+    if len(parts) != 2:
+        raise InputError(f"{excerpt((text or '').strip())}: type two numbers 'x, y' in mm")
+    x, y = (parse_number(p, name, "mm") / 1000.0 for p in parts)
+    return (x, y)
 
 
 def parse_speed_kmh(text: str, name: str = "speed") -> float:

@@ -19,7 +19,7 @@ import stat
 from dataclasses import dataclass
 from pathlib import Path
 
-from profilebench.errors import ProjectFileError
+from profilebench.errors import InputError, ProjectFileError
 
 __all__ = [
     "RecoveryCopy",
@@ -28,12 +28,66 @@ __all__ = [
     "remove_recovery",
     "left_behind",
     "set_aside",
+    "AUTOSAVE_MS",
+    "AUTOSAVE_MAX_MS",
+    "AUTOSAVE_ENV",
+    "interval_ms",
+    "autosave_interval",
 ]
 
 PREFIX = "recovery-"
 DAMAGED_PREFIX = "damaged-"
 #: longest sidecar read (bytes): it holds one path
 MAX_ORIGIN_BYTES = 64 * 1024
+
+
+AUTOSAVE_MS = 60000  # default interval of the recovery copy
+AUTOSAVE_ENV = "PROFILEBENCH_AUTOSAVE_MS"
+#: longest autosave interval (ms): a day (a QTimer holds at most 2**31 - 1 ms, about 24.8 days)
+AUTOSAVE_MAX_MS = 24 * 3600 * 1000
+
+
+def interval_ms(name, value) -> int:
+    """An autosave interval from a setting or the environment: whole ms, 100 ms to a day."""
+    try:
+        ms = float(value)
+    except (TypeError, ValueError):
+        raise InputError(
+            f"{name} = {str(value)[:40]!r} is not a number; give the autosave "
+            "interval in milliseconds, e.g. 60000"
+        ) from None
+    if not 100 <= ms <= AUTOSAVE_MAX_MS:  # also refuses NaN and infinity
+        raise InputError(
+            f"{name} = {str(value)[:40]!r} ms is outside 100 ms to "
+            f"{AUTOSAVE_MAX_MS} ms (a day); give an interval in that range"
+        )
+    return int(ms)
+
+
+def autosave_interval(given, environment=None, setting=None) -> tuple[int, list[str]]:
+    """The autosave interval (ms) and what was wrong on the way: the first of ``given`` (an
+    argument), ``environment`` (the variable AUTOSAVE_ENV) and ``setting`` (the setting
+    ``autosave_ms``) that is set, else AUTOSAVE_MS.
+
+    A bad ``given`` raises InputError; a bad environment variable or setting is told in the
+    returned problems and the next source, or the default, is used.
+    """
+    sources = [
+        ("autosave_ms argument", given),
+        (AUTOSAVE_ENV, environment),
+        ("setting autosave_ms", setting),
+    ]
+    problems = []
+    for k, (name, value) in enumerate(sources):
+        if value is None or value == "":
+            continue
+        try:
+            return interval_ms(name, value), problems
+        except InputError as exc:
+            if k == 0:  # the caller's own argument
+                raise
+            problems.append(f"{exc}; the autosave interval is {AUTOSAVE_MS} ms instead")
+    return AUTOSAVE_MS, problems
 
 
 @dataclass(frozen=True)
@@ -59,20 +113,21 @@ def write_recovery(folder, document) -> Path:
 
     Raises :class:`ProjectFileError` (with the reason) when the folder cannot be written.
     """
-    from profilebench.io import Project, atomic_write_text, save_project
+    from profilebench.editor.project_file import project_of
+    from profilebench.io import atomic_write_text, save_project
 
     folder = Path(folder)
     try:
         folder.mkdir(parents=True, exist_ok=True)
     except (OSError, ValueError) as exc:  # ValueError: a NUL in the configured folder
-        reason = getattr(exc, "strerror", None) or str(exc)
+        reason = getattr(exc, "strerror", None) or str(exc)  # a ValueError has no strerror
         raise ProjectFileError(
             f"cannot create the recovery folder {folder}: {reason}; "
             "choose another recovery folder in the settings"
         ) from exc
     path = recovery_file(folder)
     # the underlay is not kept in the recovery copy (its path is relative to the project file)
-    save_project(Project(document.profile, document.conditions, baseline=document.baseline), path)
+    save_project(project_of(document), path)
     origin = "" if document.path is None else str(Path(document.path).resolve())
     # a path is bytes on POSIX: one that is not UTF-8 is kept as it is (surrogateescape)
     atomic_write_text(_origin_file(path), lambda fh: fh.write(origin), errors="surrogateescape")
@@ -106,6 +161,7 @@ def _alive(pid: int) -> bool:
 def _origin_of(path: Path) -> Path | None:
     """The origin named by the sidecar of ``path``; None when there is none or it is unusable."""
     try:
+        # O_NONBLOCK is POSIX only: a FIFO named like the sidecar must not block the open
         fd = os.open(_origin_file(path), os.O_RDONLY | getattr(os, "O_NONBLOCK", 0))
     except OSError:
         return None

@@ -114,7 +114,7 @@ class ProfileFlow:
 
     status: FlowStatus
     message: str
-    inviscid: object
+    inviscid: InviscidSolution
     upper: SurfaceFlow | None = None
     lower: SurfaceFlow | None = None
     separated: np.ndarray | None = None  # bool over the inviscid stations

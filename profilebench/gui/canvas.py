@@ -16,21 +16,14 @@ import math
 import time
 
 import numpy as np
-from matplotlib import colormaps
-from matplotlib.colors import TwoSlopeNorm
-from PySide6.QtCore import QLineF, QPointF, QRectF, Qt, QThreadPool, Signal
+from PySide6.QtCore import QPointF, QRectF, Qt, QThreadPool, Signal
 from PySide6.QtGui import (
     QBrush,
     QColor,
-    QFont,
     QFontMetricsF,
-    QImage,
-    QLinearGradient,
     QPainter,
-    QPainterPath,
     QPen,
     QPixmap,
-    QPolygonF,
     QTransform,
 )
 from PySide6.QtWidgets import QSizePolicy, QWidget
@@ -47,26 +40,24 @@ from profilebench.editor.preview import build_outline_points, preview_outline
 from profilebench.editor.preview import warm_up as _warm_up_outline
 from profilebench.editor.view import ViewTransform, fit_view
 from profilebench.errors import ProfileBenchError
+from profilebench.gui.canvas_overlay import (
+    OverlayDrawing,
+    OverlayScene,
+    cached,
+    overlay_job,
+    qcolor,
+    remember,
+)
 from profilebench.gui.refcount_guard import restore_none_refcount
 from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
-from profilebench.plotting.labels import FRONT_FRACTION, place_boxes
-from profilebench.plotting.profile_view import CP_FLOOR, bubbles, check_cp_min, corner_label
+from profilebench.plotting.profile_view import CP_FLOOR, check_cp_min
 from profilebench.plotting.style import (
     BASELINE_COLOUR,
-    BUBBLE_STYLE,
-    CP_COLORMAP,
-    EVENT_STYLES,
     OKABE_ITO,
-    SEPARATED_COLOUR,
 )
 
 __all__ = ["ProfileCanvas", "outline_points"]
 
-_CMAP = colormaps[CP_COLORMAP]
-_CP_BINS = 64  # the Cp band is drawn with this many pen colours
-#: a label over the front end costs this many px of leader on the canvas (less than on the
-#: page: the canvas has no room in front of the nose, and long leaders cross the drawing)
-CANVAS_FRONT_COST = 150.0
 #: the scale bar's length is 1, 2 or 5 x 10^k mm, as near this many pixels as those allow
 SCALE_BAR_PX = 110.0
 
@@ -88,74 +79,21 @@ def _length_text(metres: float) -> str:
     return f"{mm / 1000.0:g} m" if mm >= 1000.0 else f"{mm:g} mm"
 
 
-def _remember(cache: dict, profile, result):
-    if len(cache) > 8:
-        cache.clear()
-    cache[id(profile)] = (profile, result)
-
-
-def _cached(cache: dict, profile):
-    hit = cache.get(id(profile))
-    return hit[1] if hit is not None and hit[0] is profile else None
-
-
 def outline_points(profile, cache: dict):
     """Points (m) of the built outline of ``profile`` (arcs and splines), or its nodes.
 
     Built at once on the calling thread (for rare calls: fitting the view, the baseline).
     Returns (points, ok, message): ``ok`` False with the reason when the outline cannot be built.
     """
-    hit = _cached(cache, profile)
+    hit = cached(cache, profile)
     if hit is not None:
         return hit
     result = build_outline_points(profile)
-    _remember(cache, profile, result)
+    remember(cache, profile, result)
     return result
 
 
-def _new_layer(width: int, height: int, dpr: float) -> QImage:
-    img = QImage(
-        max(1, round(width * dpr)), max(1, round(height * dpr)), QImage.Format_ARGB32_Premultiplied
-    )
-    img.setDevicePixelRatio(dpr)
-    img.fill(Qt.transparent)
-    return img
-
-
-def _render_overlay(scene):
-    """(under, over) QImages of the analysis overlay of ``scene`` (safe on a worker thread:
-    QPainter on a QImage is allowed off the GUI thread)."""
-    alpha = 0.35 if scene.stale else 1.0
-    under = _new_layer(scene.width(), scene.height(), scene.devicePixelRatioF())
-    over = _new_layer(scene.width(), scene.height(), scene.devicePixelRatioF())
-    qp = QPainter(under)
-    qp.setRenderHint(QPainter.Antialiasing, True)
-    qp.setFont(scene.font())
-    scene._draw_separated(qp, alpha)
-    scene._draw_cp(qp, alpha)
-    qp.end()
-    qp = QPainter(over)
-    qp.setRenderHint(QPainter.Antialiasing, True)
-    qp.setFont(scene.font())
-    scene._draw_events(qp, alpha)
-    scene._draw_corner_labels(qp, alpha)
-    qp.setFont(scene.font())
-    scene._draw_legend(qp)
-    qp.end()
-    return under, over
-
-
-def _overlay_job(key, analysis, scene):
-    return key, analysis, _render_overlay(scene)
-
-
-def _qcolor(hex_colour: str, alpha: float = 1.0) -> QColor:
-    c = QColor(hex_colour)
-    c.setAlphaF(alpha)
-    return c
-
-
-class ProfileCanvas(QWidget):
+class ProfileCanvas(OverlayDrawing, QWidget):
     """Draws the document's profile and turns mouse gestures into edits.
 
     Signals
@@ -225,7 +163,7 @@ class ProfileCanvas(QWidget):
         self._outline_pool = QThreadPool(self)  # the overlay drawing's thread
         self._outline_pool.setMaxThreadCount(1)
         self._overlay_requested = None
-        self.overlay_runner = TaskRunner(_overlay_job, self, pool=self._outline_pool)
+        self.overlay_runner = TaskRunner(overlay_job, self, pool=self._outline_pool)
         self.overlay_runner.finished.connect(self._overlay_drawn)
 
     # ----------------------------------------------------------------- model in
@@ -255,7 +193,7 @@ class ProfileCanvas(QWidget):
         if self.state is None:
             return None, False, "", False
         prof = self.state.profile
-        hit = _cached(self._outline_cache, prof)
+        hit = cached(self._outline_cache, prof)
         if hit is not None:
             return (*hit, True)
         if self._outline_requested is not prof:
@@ -271,7 +209,7 @@ class ProfileCanvas(QWidget):
         profile = self._outline_requests.pop(generation, None)
         if profile is None:
             return
-        _remember(self._outline_cache, profile, result)
+        remember(self._outline_cache, profile, result)
         if self.state is not None and self.state.profile is profile:
             self.update()
 
@@ -385,15 +323,6 @@ class ProfileCanvas(QWidget):
         return self._drag is not None
 
     # ----------------------------------------------------------------- painting helpers
-    def _poly(self, pts, close=True) -> QPolygonF:
-        v = self.view
-        sx = v.offset_x + v.scale * pts[:, 0]
-        sy = v.offset_y - v.scale * pts[:, 1]
-        points = [QPointF(a, b) for a, b in zip(sx.tolist(), sy.tolist())]
-        if close and points:
-            points.append(QPointF(points[0]))  # a Python list: QPolygonF.append leaks a
-        return QPolygonF(points)  # reference to None in PySide 6.12
-
     def _set_underlay_pixmap(self, underlay):
         if underlay is None:
             self._underlay_pixmap = None
@@ -404,7 +333,7 @@ class ProfileCanvas(QWidget):
             self._underlay_path = underlay.path
 
     def _draw_underlay(self, qp: QPainter):
-        u = getattr(self.state, "underlay", None)
+        u = self.state.underlay
         self._set_underlay_pixmap(u)
         if u is None or self._underlay_pixmap is None or self._underlay_pixmap.isNull():
             return
@@ -435,7 +364,7 @@ class ProfileCanvas(QWidget):
             qp.drawLine(QPointF(0, sy), QPointF(self.width(), sy))
 
     def _draw_ground(self, qp: QPainter):
-        if not getattr(self.state.conditions, "ground", False):
+        if not self.state.conditions.ground:
             return
         _, sy = self.view.to_screen(0, 0)
         qp.fillRect(QRectF(0, sy, self.width(), 14), QBrush(QColor(90, 90, 90), Qt.BDiagPattern))
@@ -445,7 +374,7 @@ class ProfileCanvas(QWidget):
         qp.drawText(QPointF(6, sy + 26), "ground (moving belt), y = 0")
 
     def _draw_baseline(self, qp: QPainter, current_pts):
-        base = getattr(self.state, "baseline", None)
+        base = self.state.baseline
         if base is None:
             return
         bpts, _, _ = outline_points(base, self._outline_cache)
@@ -453,22 +382,24 @@ class ProfileCanvas(QWidget):
         if self._difference is None or self._difference[0] != key:
             polys = []
             try:
+                import shapely
                 from shapely.geometry import Polygon
 
                 diff = Polygon(bpts).buffer(0).symmetric_difference(Polygon(current_pts).buffer(0))
-                geoms = getattr(diff, "geoms", [diff])
                 polys = [
-                    np.asarray(g.exterior.coords) for g in geoms if not g.is_empty and g.area > 0
+                    np.asarray(g.exterior.coords)
+                    for g in shapely.get_parts(diff)  # a polygon, or several
+                    if not g.is_empty and g.area > 0
                 ]
             except Exception:  # a self-crossing outline mid-drag: outlines still show
                 polys = []
             self._difference = (key, polys)
         # a light fill under a dense hatch, edged: visible on the Cp band and at small changes
-        fill = QBrush(_qcolor(OKABE_ITO["reddish_purple"], 0.30))
-        hatch = QBrush(_qcolor(OKABE_ITO["reddish_purple"], 1.0), Qt.FDiagPattern)
+        fill = QBrush(qcolor(OKABE_ITO["reddish_purple"], 0.30))
+        hatch = QBrush(qcolor(OKABE_ITO["reddish_purple"], 1.0), Qt.FDiagPattern)
         for poly in self._difference[1]:
             shape = self._poly(poly)
-            qp.setPen(QPen(_qcolor(OKABE_ITO["reddish_purple"], 0.9), 1.0))
+            qp.setPen(QPen(qcolor(OKABE_ITO["reddish_purple"], 0.9), 1.0))
             qp.setBrush(fill)
             qp.drawPolygon(shape)
             qp.setPen(Qt.NoPen)
@@ -479,254 +410,10 @@ class ProfileCanvas(QWidget):
         qp.setBrush(Qt.NoBrush)
         qp.drawPolyline(self._poly(bpts))
 
-    def _stations(self):
-        a = self.analysis
-        flow = getattr(a, "flow", None)
-        inv = getattr(flow, "inviscid", None)
-        if inv is None:
-            return None
-        return np.column_stack([np.asarray(inv.x, float), np.asarray(inv.y, float)]), np.asarray(
-            inv.cp, float
-        )
-
-    def _outward(self, pts):
-        """Unit outward normals at ``pts`` (world), from central differences."""
-        t = np.roll(pts, -1, axis=0) - np.roll(pts, 1, axis=0)
-        t /= np.maximum(np.hypot(t[:, 0], t[:, 1]), 1e-12)[:, None]
-        x, y = pts[:, 0], pts[:, 1]
-        area2 = float(np.dot(x, np.roll(y, -1)) - np.dot(np.roll(x, -1), y))
-        n = np.column_stack([t[:, 1], -t[:, 0]])
-        return n if area2 > 0 else -n  # counter-clockwise: the tangent turned clockwise
-
-    def _cp_norm(self, cp):
-        # one fixed scale (as on the review page), so that outlines compare by colour
-        return TwoSlopeNorm(vmin=float(self.cp_min), vcenter=0.0, vmax=1.0)
-
     def set_cp_min(self, cp_min: float):
         """Set the Cp colour scale's lowest value (InputError outside the allowed range)."""
         self.cp_min = check_cp_min(cp_min)
         self.update()
-
-    def _draw_cp(self, qp: QPainter, alpha: float):
-        st = self._stations()
-        if st is None or not self.show_cp:
-            return
-        pts, cp = st
-        norm = self._cp_norm(cp)
-        seg_cp = 0.5 * (cp + np.roll(cp, -1))
-        level = np.clip(np.asarray(norm(seg_cp), float), 0.0, 1.0)
-        bins = np.minimum((level * _CP_BINS).astype(int), _CP_BINS - 1)
-        v = self.view
-        sx = (v.offset_x + v.scale * pts[:, 0]).tolist()
-        sy = (v.offset_y - v.scale * pts[:, 1]).tolist()
-        n = len(pts)
-        for b in np.unique(bins).tolist():
-            r, g, bl, _ = _CMAP((b + 0.5) / _CP_BINS)
-            qp.setPen(QPen(QColor.fromRgbF(r, g, bl, alpha), 7, Qt.SolidLine, Qt.RoundCap))
-            lines = [
-                QLineF(sx[i], sy[i], sx[(i + 1) % n], sy[(i + 1) % n])
-                for i in np.flatnonzero(bins == b).tolist()
-            ]
-            qp.drawLines(lines)
-        if self.cp_offset_curve:
-            # offset curve: -Cp outward (suction drawn outside the body), 40 px per unit Cp
-            off = pts + self._outward(pts) * (-cp)[:, None] * (40.0 / self.view.scale)
-            qp.setPen(QPen(_qcolor(OKABE_ITO["blue"], alpha), 1.2))
-            qp.drawPolyline(self._poly(off))
-
-    def _draw_separated(self, qp: QPainter, alpha: float):
-        a = self.analysis
-        mask = getattr(getattr(a, "flow", None), "separated", None)
-        st = self._stations()
-        if mask is None or st is None:
-            return
-        mask = np.asarray(mask, bool)
-        pts = st[0]
-        if mask.shape[0] != len(pts) or not mask.any():
-            return
-        off = pts + self._outward(pts) * (22.0 / self.view.scale)
-        qp.setPen(Qt.NoPen)
-        qp.setBrush(QBrush(_qcolor(SEPARATED_COLOUR, 0.35 * alpha)))
-        n = len(pts)
-        # one band polygon per run of separated stations (not one quad per station)
-        idx = np.flatnonzero(mask)
-        breaks = np.flatnonzero(np.diff(idx) > 1)
-        for run in np.split(idx, breaks + 1):
-            ends = np.append(run, (run[-1] + 1) % n)
-            band = np.vstack([pts[ends], off[ends][::-1]])
-            qp.drawPolygon(self._poly(band))
-
-    def _marker_path(self, marker: str, size: float) -> QPainterPath:
-        h = size / 2
-        path = QPainterPath()
-        if marker == "o":
-            path.addEllipse(QPointF(0, 0), h, h)
-        elif marker == "^":
-            path.addPolygon(
-                QPolygonF(
-                    [QPointF(0, -h), QPointF(h, h * 0.8), QPointF(-h, h * 0.8), QPointF(0, -h)]
-                )
-            )
-        elif marker == "v":
-            path.addPolygon(
-                QPolygonF(
-                    [QPointF(0, h), QPointF(h, -h * 0.8), QPointF(-h, -h * 0.8), QPointF(0, h)]
-                )
-            )
-        elif marker == "D":
-            path.addPolygon(
-                QPolygonF(
-                    [
-                        QPointF(0, -h),
-                        QPointF(h * 0.75, 0),
-                        QPointF(0, h),
-                        QPointF(-h * 0.75, 0),
-                        QPointF(0, -h),
-                    ]
-                )
-            )
-        elif marker == "s":
-            path.addRect(QRectF(-h * 0.85, -h * 0.85, 1.7 * h, 1.7 * h))
-        elif marker == "P":
-            w = h / 3
-            path.addRect(QRectF(-w, -h, 2 * w, 2 * h))
-            path.addRect(QRectF(-h, -w, 2 * h, 2 * w))
-            path.setFillRule(Qt.WindingFill)
-            path = path.simplified()
-        elif marker == "X":
-            w = h / 3
-            t = QTransform().rotate(45)
-            plus = QPainterPath()
-            plus.addRect(QRectF(-w, -h * 1.2, 2 * w, 2.4 * h))
-            plus.addRect(QRectF(-h * 1.2, -w, 2.4 * h, 2 * w))
-            plus.setFillRule(Qt.WindingFill)
-            path = t.map(plus.simplified())
-        else:
-            path.addEllipse(QPointF(0, 0), h, h)
-        return path
-
-    def _draw_marker(self, qp: QPainter, kind: str, at: QPointF, alpha: float = 1.0, size=None):
-        st = EVENT_STYLES[kind]
-        path = self._marker_path(st.marker, (size or st.size) * 1.35)
-        qp.save()
-        qp.translate(at)
-        qp.setPen(QPen(_qcolor(st.edge, alpha), 1.0))
-        qp.setBrush(QBrush(_qcolor(st.face, alpha)))
-        qp.drawPath(path)
-        qp.restore()
-
-    def _draw_events(self, qp: QPainter, alpha: float):
-        a = self.analysis
-        events = tuple(getattr(a, "events", ()) or ())
-        if not events:
-            return
-        for sep, rea in bubbles(events):
-            pen = QPen(_qcolor(BUBBLE_STYLE["color"], 0.85 * alpha), 6, Qt.SolidLine, Qt.RoundCap)
-            qp.setPen(pen)
-            qp.drawLine(
-                QPointF(*self.view.to_screen(sep.x, sep.y)),
-                QPointF(*self.view.to_screen(rea.x, rea.y)),
-            )
-        for e in events:
-            if e.kind in EVENT_STYLES:
-                self._draw_marker(qp, e.kind, QPointF(*self.view.to_screen(e.x, e.y)), alpha)
-
-    def _label_obstacles(self):
-        """(outline, hatched polygons, ground polygons, markers) in screen px for the labels."""
-        st = self._stations()
-        if st is None:
-            return None
-        pts = st[0]
-        v = self.view
-        to_px = lambda xy: np.column_stack(
-            [
-                v.offset_x + v.scale * xy[:, 0],  # noqa: E731
-                v.offset_y - v.scale * xy[:, 1],
-            ]
-        )
-        outline = to_px(pts)
-        hatched = []
-        mask = getattr(getattr(self.analysis, "flow", None), "separated", None)
-        if mask is not None and len(mask) == len(pts) and np.any(mask):
-            off = pts + self._outward(pts) * (22.0 / v.scale)
-            idx = np.flatnonzero(np.asarray(mask, bool))
-            n = len(pts)
-            for run in np.split(idx, np.flatnonzero(np.diff(idx) > 1) + 1):
-                ends = np.append(run, (run[-1] + 1) % n)
-                hatched.append(to_px(np.vstack([pts[ends], off[ends][::-1]])))
-        ground = []
-        if getattr(self.state.conditions, "ground", False):
-            _, sy = v.to_screen(0, 0)
-            # the hatched strip and its caption below it
-            ground.append(
-                np.array(
-                    [(0, sy - 2), (self.width(), sy - 2), (self.width(), sy + 30), (0, sy + 30)],
-                    float,
-                )
-            )
-        events = tuple(getattr(self.analysis, "events", ()) or ())
-        markers = np.array([v.to_screen(e.x, e.y) for e in events], float).reshape(-1, 2)
-        return outline, hatched, ground, markers
-
-    def _draw_corner_labels(self, qp: QPainter, alpha: float):
-        """Corner labels placed as on the review page (profilebench.plotting.labels): outside
-        the outline, off the ground and the separated-flow band, clear of each other and of
-        the front 30 % where there is room, each with a leader line to its corner."""
-        corners = getattr(self.analysis, "corners", ()) or ()
-        self._label_rects = []
-        if not corners:
-            return
-        font = QFont(self.font())
-        font.setPointSizeF(max(font.pointSizeF() - 1, 7))
-        qp.setFont(font)
-        fm = QFontMetricsF(font)
-        texts = [corner_label(c) for c in corners]
-        sizes = []
-        for text in texts:
-            lines = text.splitlines() or [text]
-            sizes.append(
-                (max(fm.horizontalAdvance(t) for t in lines) + 8, fm.height() * len(lines) + 4)
-            )
-        anchors = np.array([self.view.to_screen(c.x, c.y) for c in corners], float)
-        obstacles = self._label_obstacles()
-        if obstacles is None:
-            return
-        outline, hatched, ground, markers = obstacles
-        xmin, xmax = float(outline[:, 0].min()), float(outline[:, 0].max())
-        front_x = xmin + FRONT_FRACTION * (xmax - xmin)
-        near = outline[outline[:, 0] <= front_x]
-        front = (
-            xmin - 10.0,
-            float(near[:, 1].min()) - 10.0,
-            front_x,
-            float(near[:, 1].max()) + 10.0,
-        )
-        # on the canvas a lower corner's label may sit below the thin ground strip, its leader
-        # crossing the strip (the page keeps leaders off its deep ground band)
-        placed, _, _ = place_boxes(
-            (0.0, 0.0, float(self.width()), float(self.height())),
-            sizes,
-            anchors,
-            outline_px=outline,
-            hatched_px=hatched + ground,
-            markers_px=markers,
-            front_px=front,
-            front_cost=CANVAS_FRONT_COST,
-        )
-        for c, text, (sx, sy), (box, end) in zip(corners, texts, anchors, placed):
-            rect = QRectF(QPointF(box[0], box[1]), QPointF(box[2], box[3]))
-            self._label_rects.append(QRectF(rect))
-            sep = getattr(c.verdict, "separated", False)
-            colour = QColor(OKABE_ITO["vermillion"]) if sep else QColor(OKABE_ITO["bluish_green"])
-            if c.node == self.selected:
-                colour = QColor(OKABE_ITO["blue"])
-            qp.setPen(QPen(_qcolor("#606060", 0.7 * alpha), 0.8))
-            qp.drawLine(QPointF(sx, sy), QPointF(float(end[0]), float(end[1])))
-            qp.setPen(QPen(colour, 1.6 if c.node == self.selected else 1.0))
-            qp.setBrush(QColor(255, 255, 255, int(225 * alpha)))
-            qp.drawRoundedRect(rect, 3, 3)
-            qp.setPen(QColor(20, 20, 20, int(255 * alpha)))
-            qp.drawText(rect, Qt.AlignCenter, text)
 
     def _draw_nodes(self, qp: QPainter):
         prof = self.state.profile
@@ -810,82 +497,6 @@ class ProfileCanvas(QWidget):
         qp.drawText(QPointF(14 + bar_px + 8, y + fm.ascent() / 2 - 1), bar_text)
         self.scale_bar = (bar_m, bar_px)
 
-    def _draw_legend(self, qp: QPainter):
-        st = self._stations()
-        fm = QFontMetricsF(self.font())
-        rows = []
-        events = tuple(getattr(self.analysis, "events", ()) or ())
-        kinds = [k for k in EVENT_STYLES if any(e.kind == k for e in events)]
-        if bubbles(events):
-            kinds.append("bubble")
-        if getattr(getattr(self.analysis, "flow", None), "separated", None) is not None and np.any(
-            self.analysis.flow.separated
-        ):
-            kinds.append("separated")
-        if getattr(self.state, "baseline", None) is not None:
-            kinds += ["baseline", "difference"]
-        labels = {k: EVENT_STYLES[k].label for k in EVENT_STYLES}
-        labels.update(
-            bubble="laminar bubble",
-            separated="separated flow",
-            baseline="baseline outline",
-            difference="change from baseline",
-        )
-        rows = [(k, labels[k]) for k in kinds]
-        width = (
-            max([fm.horizontalAdvance(t) for _, t in rows] + [fm.horizontalAdvance("Cp  -2.0")])
-            + 44
-        )
-        bar_h = 120 if (st is not None and self.show_cp) else 0
-        height = len(rows) * (fm.height() + 3) + bar_h + 16
-        x0, y0 = self._legend_position(width, height)
-        qp.setPen(QColor(180, 180, 180))
-        qp.setBrush(QColor(255, 255, 255, 225))
-        qp.drawRect(QRectF(x0, y0, width, height))
-        y = y0 + 8
-        if bar_h:
-            cp = st[1]
-            norm = self._cp_norm(cp)
-            top, bottom = norm.vmin, 1.0
-            grad = QLinearGradient(0, y, 0, y + bar_h - 18)
-            for f in np.linspace(0, 1, 9):
-                r, g, b, _ = _CMAP(norm(top + (bottom - top) * f))
-                grad.setColorAt(f, QColor.fromRgbF(r, g, b))
-            head = fm.height() + fm.ascent() / 2 + 2  # room for the title above the top tick
-            bar = QRectF(x0 + 10, y + head, 14, bar_h - 12 - head)
-            grad.setStart(0, bar.top())
-            grad.setFinalStop(0, bar.bottom())
-            qp.setPen(QColor(20, 20, 20))
-            qp.drawText(QPointF(x0 + 8, y + fm.ascent()), "Cp on the outline")
-            qp.setBrush(QBrush(grad))
-            qp.drawRect(bar)
-            for value in (top, 0.0, 1.0):
-                f = (value - top) / (bottom - top)
-                ty = bar.top() + f * bar.height()
-                qp.drawText(QPointF(bar.right() + 6, ty + fm.ascent() / 2 - 1), f"{value:+.1f}")
-            y += bar_h
-        for kind, text in rows:
-            cy = y + fm.height() / 2
-            if kind in EVENT_STYLES:
-                self._draw_marker(qp, kind, QPointF(x0 + 17, cy), size=7)
-            elif kind == "bubble":
-                qp.setPen(QPen(QColor(BUBBLE_STYLE["color"]), 5, Qt.SolidLine, Qt.RoundCap))
-                qp.drawLine(QPointF(x0 + 10, cy), QPointF(x0 + 24, cy))
-            elif kind == "separated":
-                qp.fillRect(QRectF(x0 + 10, cy - 5, 14, 10), _qcolor(SEPARATED_COLOUR, 0.45))
-            elif kind == "baseline":
-                qp.setPen(QPen(QColor(BASELINE_COLOUR), 1.6, Qt.DashLine))
-                qp.drawLine(QPointF(x0 + 8, cy), QPointF(x0 + 26, cy))
-            elif kind == "difference":
-                swatch = QRectF(x0 + 10, cy - 5, 14, 10)
-                qp.fillRect(swatch, _qcolor(OKABE_ITO["reddish_purple"], 0.30))
-                qp.fillRect(
-                    swatch, QBrush(_qcolor(OKABE_ITO["reddish_purple"], 1.0), Qt.FDiagPattern)
-                )
-            qp.setPen(QColor(20, 20, 20))
-            qp.drawText(QPointF(x0 + 34, y + fm.ascent()), text)
-            y += fm.height() + 3
-
     # ----------------------------------------------------------------- overlay cache
     def _overlay_key(self):
         v = self.view
@@ -896,7 +507,7 @@ class ProfileCanvas(QWidget):
             self.cp_min,
             self.cp_offset_curve,
             self.selected,
-            getattr(self.state, "baseline", None) is not None,
+            self.state is not None and self.state.baseline is not None,
             v.scale,
             v.offset_x,
             v.offset_y,
@@ -907,7 +518,7 @@ class ProfileCanvas(QWidget):
 
     def _scene(self):
         """A copy of what the analysis overlay depends on, for drawing it on a worker thread."""
-        return _OverlayScene(self)
+        return OverlayScene(self)
 
     def _overlay_images(self):
         """(under, over, mapping) of the analysis overlay to draw now.
@@ -950,7 +561,7 @@ class ProfileCanvas(QWidget):
         """True when the built outline and the overlay of the current analysis are on screen."""
         if self.state is None:
             return False
-        if _cached(self._outline_cache, self.state.profile) is None:
+        if cached(self._outline_cache, self.state.profile) is None:
             return False
         if self.analysis is None:
             return True
@@ -963,49 +574,6 @@ class ProfileCanvas(QWidget):
         if key == self._overlay_key() and analysis is self.analysis:
             self._overlay = (key, analysis, under, over)
             self.update()
-
-    def _legend_position(self, width: float, height: float):
-        """Top-left corner (px) of the legend box where it covers least.
-
-        Candidates: the four corners of the canvas and the middles of its top and bottom edges.
-        Score: the area the box would hide of the corner labels (weighted 4x), of the outline's
-        bounding box, of the length readouts at the top left, and of the ground line's label.
-        """
-        W, H, m = self.width(), self.height(), 10.0
-        candidates = [
-            (W - width - m, m),
-            (W - width - m, H - height - m - 18),
-            (m, H - height - m - 18),
-            (0.5 * (W - width), m),
-            (0.5 * (W - width), H - height - m - 18),
-            (m, 110.0),
-        ]
-        avoid = [(r, 4.0) for r in self._label_rects]
-        pts = None
-        if self.state is not None:
-            hit = _cached(self._outline_cache, self.state.profile)
-            pts = hit[0] if hit is not None else np.asarray(self.state.profile.xy, float)
-        if pts is not None and len(pts):
-            (x0, y1), (x1, y0) = (
-                self.view.to_screen(*pts.min(axis=0)),
-                self.view.to_screen(*pts.max(axis=0)),
-            )
-            avoid.append(
-                (QRectF(QPointF(min(x0, x1), min(y0, y1)), QPointF(max(x0, x1), max(y0, y1))), 1.0)
-            )
-        avoid.append((QRectF(0, 0, 230, 90), 2.0))  # length readouts
-
-        def cost(x, y):
-            box = QRectF(x, y, width, height)
-            total = 0.0
-            for r, weight in avoid:
-                inter = box.intersected(r)
-                if not inter.isEmpty():
-                    total += weight * inter.width() * inter.height()
-            return total
-
-        x, y = min(candidates, key=lambda c: cost(*c))
-        return max(x, 2.0), max(y, 2.0)
 
     def paintEvent(self, event):
         restore_none_refcount()
@@ -1036,7 +604,7 @@ class ProfileCanvas(QWidget):
         qp.drawPolyline(self._poly(pts))
         if over is not None:
             self._draw_layer(qp, over, mapping)
-        elif self.analysis is None and getattr(self.state, "baseline", None) is not None:
+        elif self.analysis is None and self.state.baseline is not None:
             self._label_rects = []
             self._draw_legend(qp)
         self._draw_nodes(qp)
@@ -1052,50 +620,3 @@ class ProfileCanvas(QWidget):
         self.last_paint_built = built
         self.last_paint_time = time.perf_counter()
         self.painted.emit(self.last_paint_time)
-
-
-class _OverlayScene:
-    """A snapshot of the canvas fields the overlay drawing reads (copied on the GUI thread)."""
-
-    def __init__(self, canvas: ProfileCanvas):
-        self.view = canvas.view
-        self.analysis = canvas.analysis
-        self.state = canvas.state
-        self.stale = canvas.stale
-        self.show_cp = canvas.show_cp
-        self.cp_min = canvas.cp_min
-        self.cp_offset_curve = canvas.cp_offset_curve
-        self.selected = canvas.selected
-        self._size = (canvas.width(), canvas.height())
-        self._font = QFont(canvas.font())
-        self._dpr = canvas.devicePixelRatioF()
-        prof = getattr(canvas.state, "profile", None)
-        hit = _cached(canvas._outline_cache, prof) if prof is not None else None
-        self._outline_cache = {} if hit is None else {id(prof): (prof, hit)}
-        self._label_rects = []
-
-    def width(self):
-        return self._size[0]
-
-    def height(self):
-        return self._size[1]
-
-    def font(self):
-        return self._font
-
-    def devicePixelRatioF(self):
-        return self._dpr
-
-    _poly = ProfileCanvas._poly
-    _stations = ProfileCanvas._stations
-    _outward = ProfileCanvas._outward
-    _cp_norm = ProfileCanvas._cp_norm
-    _draw_cp = ProfileCanvas._draw_cp
-    _draw_separated = ProfileCanvas._draw_separated
-    _marker_path = ProfileCanvas._marker_path
-    _draw_marker = ProfileCanvas._draw_marker
-    _draw_events = ProfileCanvas._draw_events
-    _draw_corner_labels = ProfileCanvas._draw_corner_labels
-    _label_obstacles = ProfileCanvas._label_obstacles
-    _draw_legend = ProfileCanvas._draw_legend
-    _legend_position = ProfileCanvas._legend_position

@@ -205,6 +205,7 @@ def call_with_keywords(target: str, args: tuple, kwargs: dict):
     import importlib
 
     module, _, name = target.partition(":")
+    # the function is named by the text "module:function" a child receives
     return getattr(importlib.import_module(module), name)(*args, **kwargs)
 
 

@@ -176,7 +176,7 @@ class CornerTable(QWidget):
         """Fill from ``analysis.corners`` (via :func:`profilebench.plotting.corner_rows`)."""
         self._updating = True
         try:
-            corners = tuple(getattr(analysis, "corners", ()) or ())
+            corners = analysis.corners
             rows = corner_rows(analysis) if corners else []
             nodes = [c.node for c in corners]
             same_rows = nodes == self._nodes and self.table.rowCount() == len(rows)
@@ -188,10 +188,10 @@ class CornerTable(QWidget):
                     found = ""
                 elif isinstance(search, SearchRunning):
                     found = "searching…"
-                elif getattr(search, "radius", None) is not None:
+                elif search.radius is not None:
                     found = f"{search.radius * 1000:.0f}"
                 else:
-                    found = getattr(search.status, "value", str(search.status))
+                    found = search.status.value
                 cells_all.append(list(row[:7]) + [found, row[7]])
 
             def style(r, k, item):
@@ -201,7 +201,7 @@ class CornerTable(QWidget):
                 ):
                     item.setTextAlignment(Qt.AlignRight | Qt.AlignVCenter)
                 if k == 4:
-                    sep = bool(getattr(c.verdict, "separated", False))
+                    sep = c.verdict.separated
                     if item.data(Qt.UserRole) != sep:
                         item.setData(Qt.UserRole, sep)
                         item.setForeground(Qt.darkRed if sep else self.palette().text())
@@ -298,8 +298,8 @@ class SummaryPanel(QWidget):
         rows = [tuple(r) for r in summary_rows(analysis)] if analysis is not None else []
         if seconds is not None:
             rows.append(("solve time", f"{seconds * 1000:.0f}", "ms (background)"))
-        notes = list(getattr(analysis, "warnings", ()) or ())
-        d = getattr(analysis, "drag", None)
+        notes = list(analysis.warnings) if analysis is not None else []
+        d = analysis.drag if analysis is not None else None
         if d is not None:
             notes.extend(d.notes)
         if comparison is not None:

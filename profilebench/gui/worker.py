@@ -111,6 +111,7 @@ class TaskRunner(QObject):
         # Qt's shared pool unless given one; this runner keeps at most one of its jobs running
         self._pool = pool if pool is not None else QThreadPool.globalInstance()
         self._activity = _Activity()
+        # a functools.partial (the search, the plots) has no __name__
         self.name = getattr(fn, "__name__", "task").strip("_") or "task"
         self._relay = _Relay(self)
         self._relay.done.connect(self._on_done)

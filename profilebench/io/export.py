@@ -17,6 +17,7 @@ import math
 import numpy as np
 
 import profilebench
+from profilebench.assess.results import Analysis
 from profilebench.errors import InputError
 from profilebench.io.atomic import atomic_write_text
 
@@ -39,12 +40,12 @@ RESULTS_VERSION = 1
 
 
 def _regime(value) -> str:
-    v = getattr(value, "value", value)
-    return str(v).lower()
+    """A boundary-layer regime (an Enum, or its text) as a lower-case word."""
+    return str(value.value if isinstance(value, enum.Enum) else value).lower()
 
 
 def _check_analysis(analysis, what):
-    if not (hasattr(analysis, "status") and hasattr(analysis, "profile")):
+    if not isinstance(analysis, Analysis):
         raise InputError(
             f"{what} needs an Analysis from profilebench.assess.analysis.analyze, got "
             f"{type(analysis).__name__}"
@@ -64,20 +65,19 @@ def surface_table(analysis):
         If the analysis has no surface flow (a failed analysis): its status and message are named.
     """
     _check_analysis(analysis, "write_surface_csv")
-    flow = getattr(analysis, "flow", None)
-    inv = getattr(flow, "inviscid", None)
-    if flow is None or inv is None or getattr(flow, "upper", None) is None:
+    flow = analysis.flow
+    if flow is None or flow.inviscid is None or flow.upper is None or flow.lower is None:
         raise InputError(
             "the analysis has no surface data to export (status: "
-            f"{getattr(analysis.status, 'value', analysis.status)}: {analysis.message}); fix the "
+            f"{analysis.status.value}: {analysis.message}); fix the "
             "profile or conditions and analyse again"
         )
+    inv = flow.inviscid
     x, y = np.asarray(inv.x, float), np.asarray(inv.y, float)
     ue, cp = np.asarray(inv.ue, float), np.asarray(inv.cp, float)
     n = len(x)
     rows, seen = [], np.zeros(n, dtype=bool)
-    for name in ("upper", "lower"):
-        sf = getattr(flow, name)
+    for name, sf in (("upper", flow.upper), ("lower", flow.lower)):
         idx = np.asarray(sf.surface.index, dtype=int)
         bl = sf.bl
         m = len(idx)
@@ -138,7 +138,7 @@ def _plain(value):
         return value.value
     if dataclasses.is_dataclass(value) and not isinstance(value, type):
         return {
-            f.name: _plain(getattr(value, f.name))
+            f.name: _plain(getattr(value, f.name))  # any dataclass: its fields by name
             for f in dataclasses.fields(value)
             if not f.name.startswith("_")
         }
@@ -169,23 +169,21 @@ def run_record(analysis, created=None) -> dict:
     """
     _check_analysis(analysis, "run_record")
     cond = analysis.conditions
-    conditions = cond.to_dict() if hasattr(cond, "to_dict") else _plain(cond)
-    air = None
-    if hasattr(cond, "air"):
-        try:
-            a = cond.air
-            air = {
-                "density_kg_m3": _plain(getattr(a, "density", None)),
-                "kinematic_viscosity_m2_s": _plain(getattr(a, "kinematic_viscosity", None)),
-                "source": (
-                    "given density and viscosity"
-                    if getattr(cond, "density", None) is not None
-                    else "ISO 2533 standard atmosphere"
-                ),
-            }
-        except Exception:  # conditions that give no air still get a record of what was asked
-            air = None
-    tables = sorted({c.table_name for c in analysis.corners if getattr(c, "table_name", "")})
+    conditions = cond.to_dict()
+    try:
+        a = cond.air
+        air = {
+            "density_kg_m3": _plain(a.density),
+            "kinematic_viscosity_m2_s": _plain(a.kinematic_viscosity),
+            "source": (
+                "given density and viscosity"
+                if cond.density is not None
+                else "ISO 2533 standard atmosphere"
+            ),
+        }
+    except Exception:  # conditions that give no air still get a record of what was asked
+        air = None
+    tables = sorted({c.table_name for c in analysis.corners if c.table_name})
     when = created or datetime.datetime.now(datetime.timezone.utc)
     return {
         "conditions": _plain(conditions),
@@ -200,10 +198,10 @@ def results_to_dict(analysis) -> dict:
     """The results as plain JSON types (see :func:`write_results_json`)."""
     _check_analysis(analysis, "write_results_json")
     cond = analysis.conditions
-    conditions = cond.to_dict() if hasattr(cond, "to_dict") else _plain(cond)
+    conditions = cond.to_dict()
     drag = analysis.drag
     summary = {
-        "profile": getattr(analysis.profile, "name", ""),
+        "profile": analysis.profile.name,
         "status": analysis.status.value,
         "success": bool(analysis.success),
         "message": analysis.message,
@@ -212,7 +210,7 @@ def results_to_dict(analysis) -> dict:
         "cda_m2": None if drag is None else _plain(drag.cda),
         "force_N": None if drag is None else _plain(drag.force),
         "power_W": None if drag is None else _plain(drag.power),
-        "speed_m_s": _plain(getattr(cond, "speed", None)),
+        "speed_m_s": _plain(cond.speed),
         "reynolds": _plain(analysis.reynolds),
         "model_reynolds": _plain(analysis.model_reynolds),
     }

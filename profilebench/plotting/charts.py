@@ -15,10 +15,10 @@ __all__ = ["draw_cp", "draw_boundary_layer"]
 def _stations_or_raise(analysis, what):
     stations = surface_stations(analysis)
     if not stations:
-        status = getattr(getattr(analysis, "status", None), "value", "unknown")
         raise InputError(
-            f"cannot draw {what}: the analysis has no surface flow (status: {status}; "
-            f"{getattr(analysis, 'message', '')}). Fix the profile or conditions and analyse again"
+            f"cannot draw {what}: the analysis has no surface flow (status: "
+            f"{analysis.status.value}; {analysis.message}). Fix the profile or conditions and "
+            "analyse again"
         )
     return {s.name: s for s in stations}
 
@@ -84,7 +84,7 @@ def draw_boundary_layer(ax_h, ax_cf, analysis, *, legend=True):
     The legend sits right of the axes, off the data.
     """
     st = _stations_or_raise(analysis, "the boundary-layer plots")
-    h_sep = float(getattr(getattr(analysis, "conditions", None), "h_separation", 2.4))
+    h_sep = float(analysis.conditions.h_separation)
     h_all, cf_all = [], []
     for name, s in st.items():
         colour = SURFACE_COLOURS[name]

@@ -193,9 +193,7 @@ def place_labels(
     for patch in obstacles:
         path = patch.get_path().transformed(patch.get_transform())
         polys = [poly for poly in path.to_polygons() if len(poly) >= 3]
-        (ground if getattr(patch, "get_gid", lambda: None)() == "ground-band" else hatched).extend(
-            polys
-        )
+        (ground if patch.get_gid() == "ground-band" else hatched).extend(polys)
     markers = to_px(np.asarray(markers_xy, float).reshape(-1, 2)) if len(markers_xy) else ()
     front = None
     if front_box is not None:

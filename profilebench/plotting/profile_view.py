@@ -145,7 +145,7 @@ def corner_label(corner) -> str:
     """Short label of a corner: its name (wrapped), r/t with the separation margin, and the
     solver's verdict, on three short lines (labels stay narrow enough to sit beside a nose)."""
     name = corner.label or f"node {corner.node}"
-    verdict = getattr(corner.verdict, "value", str(corner.verdict))
+    verdict = corner.verdict.value
     second = f"r/t {corner.r_over_t:.3f}"
     if (
         corner.verdict in (Verdict.ATTACHED, Verdict.BUBBLE_REATTACHES)
@@ -300,15 +300,15 @@ def _baseline_difference(ax, baseline_xy, current_xy):
     """
     from matplotlib.patches import PathPatch
     from matplotlib.path import Path as MplPath
+    import shapely
     from shapely.geometry import Polygon as ShPolygon
     from shapely.geometry.polygon import orient
 
     a = ShPolygon(baseline_xy).buffer(0)
     b = ShPolygon(current_xy).buffer(0)
     diff = a.symmetric_difference(b)
-    geoms = getattr(diff, "geoms", [diff])
     handle = None
-    for g in geoms:
+    for g in shapely.get_parts(diff):  # a polygon, or several
         if g.is_empty or g.geom_type != "Polygon":
             continue
         g = orient(g, sign=1.0)
@@ -385,8 +385,8 @@ def draw_profile(
     height = float(np.ptp(y)) or 1.0
     scale = max(length, height)
     if ground is None:
-        cond = getattr(analysis, "conditions", None)
-        ground = bool(getattr(cond, "ground", True))
+        # a bare profile is drawn over the ground, the default of Conditions
+        ground = True if analysis is None else bool(analysis.conditions.ground)
     out = {
         "outline": None,
         "cp": None,
@@ -427,8 +427,8 @@ def draw_profile(
     out["outline"] = ax.plot(xc, yc, color=OKABE_ITO["black"], lw=0.8, zorder=4)[0]
     ax.fill(xc, yc, color="#f2f2f2", zorder=0)
 
-    flow = getattr(analysis, "flow", None)
-    inv = getattr(flow, "inviscid", None)
+    flow = analysis.flow if analysis is not None else None
+    inv = flow.inviscid if flow is not None else None
     if analysis is not None and cp and inv is not None:
         cpv = np.asarray(inv.cp, dtype=float)
         seg = np.stack(
@@ -455,7 +455,7 @@ def draw_profile(
             )
             out["colorbar"] = cb
 
-    if analysis is not None and flow is not None and getattr(flow, "separated", None) is not None:
+    if flow is not None and flow.separated is not None:
         mask = np.asarray(flow.separated, dtype=bool)
         if mask.shape == x.shape:
             h = _shade_separated(ax, x, y, mask, depth=0.035 * scale)
@@ -465,7 +465,11 @@ def draw_profile(
     if analysis is not None and events:
         evs = tuple(analysis.events)
         for sep, rea in bubbles(evs):
-            sf = getattr(flow, sep.surface, None) if flow is not None else None
+            sf = (
+                {"upper": flow.upper, "lower": flow.lower}.get(sep.surface)
+                if flow is not None
+                else None
+            )
             if sf is None:
                 bx, by = [sep.x, rea.x], [sep.y, rea.y]
             else:
@@ -519,7 +523,7 @@ def draw_profile(
     ax.set_xlabel("x, rearward (m)")
     ax.set_ylabel("y, up (m)")
     if title is None:
-        title = getattr(getattr(obj, "profile", obj), "name", "")
+        title = (analysis.profile if analysis is not None else obj).name
     ax.set_title(title)
 
     if analysis is not None and corners:

@@ -111,18 +111,14 @@ def baseline_rows(analysis, baseline):
     """Summary rows of a baseline analysis against ``analysis``: its Cd and the deltas
     (variant minus baseline, :func:`profilebench.assess.compare.compare`). [] when the baseline
     is a bare profile (no analysis) or either analysis did not succeed."""
-    if not (
-        is_analysis(baseline)
-        and getattr(baseline, "success", False)
-        and getattr(analysis, "success", False)
-    ):
+    if not (is_analysis(baseline) and baseline.success and analysis.success):
         return []
     from profilebench.assess.compare import compare
 
     c = compare(baseline, analysis)
     na = "n/a (no frontal area or width)"
     return [
-        ("Cd baseline", f"{c.cd_before:.4f}", getattr(baseline.profile, "name", "baseline")),
+        ("Cd baseline", f"{c.cd_before:.4f}", baseline.profile.name or "baseline"),
         ("delta Cd", f"{c.delta_cd:+.4f}", f"{c.delta_cd_percent:+.2f}% of the baseline"),
         ("delta CdA", na if c.delta_cda is None else f"{c.delta_cda:+.4f}", "m^2"),
         ("delta force", na if c.delta_force is None else f"{c.delta_force:+.2f}", "N"),
@@ -177,7 +173,7 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
     ax_cp = fig.add_subplot(gs[1, 0])
     ax_sum = fig.add_subplot(gs[1, 1])
     ax_cor = fig.add_subplot(gs[2, :])
-    name = getattr(analysis.profile, "name", "profile")
+    name = analysis.profile.name or "profile"
     fig.suptitle(f"{name}: screening review", fontsize=13, weight="bold", y=0.985)
     lines = [
         part

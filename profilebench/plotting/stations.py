@@ -7,10 +7,12 @@ whose ``flow`` is a :class:`profilebench.flow.profile_flow.ProfileFlow`) and a b
 
 from __future__ import annotations
 
+import enum
 from dataclasses import dataclass
 
 import numpy as np
 
+from profilebench.assess.results import Analysis
 from profilebench.errors import InputError
 from profilebench.geometry.profile import Profile
 
@@ -52,8 +54,8 @@ class SurfaceStations:
 
 
 def is_analysis(obj) -> bool:
-    """True for an Analysis-like object (it has ``profile`` and ``status``)."""
-    return hasattr(obj, "profile") and hasattr(obj, "status")
+    """True for an :class:`~profilebench.assess.results.Analysis`."""
+    return isinstance(obj, Analysis)
 
 
 def _panel_points(profile):
@@ -76,13 +78,11 @@ def outline_of(obj) -> Outline2D:
         If ``obj`` is neither an Analysis nor a Profile.
     """
     if is_analysis(obj):
-        flow = getattr(obj, "flow", None)
-        inv = getattr(flow, "inviscid", None) if flow is not None else None
-        if inv is not None and getattr(inv, "x", None) is not None:
+        inv = obj.flow.inviscid if obj.flow is not None else None
+        if inv is not None:
             return Outline2D(np.asarray(inv.x, float), np.asarray(inv.y, float), "panel stations")
-        pan = getattr(obj, "panelling", None)
-        if pan is not None and getattr(pan, "points", None) is not None:
-            pts = np.asarray(pan.points, float)
+        if obj.panelling is not None:
+            pts = np.asarray(obj.panelling.points, float)
             return Outline2D(pts[:, 0], pts[:, 1], "panel points")
         obj = obj.profile
     if isinstance(obj, Profile):
@@ -102,15 +102,15 @@ def outline_of(obj) -> Outline2D:
 
 
 def regime_name(value) -> str:
-    """A boundary-layer regime (Enum or string) as a lower-case word."""
-    v = getattr(value, "value", value)
-    if isinstance(v, (int, np.integer)):
-        v = getattr(value, "name", str(v))
-    return str(v).lower()
+    """A boundary-layer regime (a :class:`~profilebench.flow.boundary_layer.Regime`, another
+    Enum, or a string) as a lower-case word."""
+    if isinstance(value, enum.Enum):
+        value = value.name if isinstance(value.value, (int, np.integer)) else value.value
+    return str(value).lower()
 
 
-def _bl_array(bl, name, offset, n):
-    arr = getattr(bl, name, None)
+def _aligned(arr, offset, n):
+    """Stations ``offset`` to ``offset + n`` of a boundary-layer array, or None."""
     if arr is None:
         return None
     arr = np.asarray(arr)
@@ -127,14 +127,13 @@ def surface_stations(analysis) -> tuple[SurfaceStations, ...]:
     :func:`profilebench.flow.profile_flow.solve_profile_flow` does. Returns () when the analysis has
     no surface flow (e.g. a failed analysis).
     """
-    flow = getattr(analysis, "flow", None)
-    if flow is None or getattr(flow, "inviscid", None) is None:
+    flow = analysis.flow
+    if flow is None or flow.inviscid is None:
         return ()
     inv = flow.inviscid
     cp_all = np.asarray(inv.cp, dtype=float)
     out = []
-    for name in ("upper", "lower"):
-        sf = getattr(flow, name, None)
+    for name, sf in (("upper", flow.upper), ("lower", flow.lower)):
         if sf is None:
             continue
         surf = sf.surface
@@ -142,16 +141,20 @@ def surface_stations(analysis) -> tuple[SurfaceStations, ...]:
         n = len(idx)
         s = np.asarray(surf.s, dtype=float)
         s = s[len(s) - n :] if len(s) >= n else s
-        bl = getattr(sf, "bl", None)
+        bl = sf.bl
         offset = 0
-        if bl is not None and getattr(bl, "s", None) is not None:
+        if bl is not None and bl.s is not None:
             offset = max(0, len(np.asarray(bl.s)) - n)
-        arrays = {
-            k: (_bl_array(bl, k, offset, n) if bl is not None else None)
-            for k in ("theta", "delta_star", "H", "cf")
-        }
+        arrays = dict.fromkeys(("theta", "delta_star", "H", "cf"))
+        if bl is not None:
+            arrays = {
+                "theta": _aligned(bl.theta, offset, n),
+                "delta_star": _aligned(bl.delta_star, offset, n),
+                "H": _aligned(bl.H, offset, n),
+                "cf": _aligned(bl.cf, offset, n),
+            }
         regime = None
-        if bl is not None and getattr(bl, "regime", None) is not None:
+        if bl is not None and bl.regime is not None:
             reg = list(bl.regime)
             if len(reg) >= offset + n:
                 regime = tuple(regime_name(r) for r in reg[offset : offset + n])

@@ -6,6 +6,7 @@ km/h, power in kW.
 
 from __future__ import annotations
 
+from profilebench.assess.results import Verdict
 from profilebench.plotting.style import CAUTION
 
 __all__ = [
@@ -99,7 +100,7 @@ def summary_rows(analysis):
     """(quantity, value, unit) rows: Cd and its breakdown, CdA, force, power, Cl, Reynolds."""
     rows = []
     cond = analysis.conditions
-    speed = getattr(cond, "speed", None)
+    speed = cond.speed
     rows.append(("speed", _g(None if speed is None else speed * 3.6, ".1f"), "km/h"))
     d = analysis.drag
     if d is not None:
@@ -156,9 +157,9 @@ def corner_rows(analysis):
     rows = []
     said_once = _shared(c.table_verdict for c in analysis.corners) is not None
     for c in analysis.corners:
-        verdict = getattr(c.verdict, "value", str(c.verdict))
+        verdict = c.verdict.value
         # no margin for a concave corner or one already in separated flow from upstream
-        in_wake = getattr(c.verdict, "name", "") in ("IN_WAKE", "CONCAVE", "CONCAVE_BUBBLE")
+        in_wake = c.verdict in (Verdict.IN_WAKE, Verdict.CONCAVE, Verdict.CONCAVE_BUBBLE)
         margin = "" if (not c.convex or in_wake) else f"{100 * c.margin:.0f}%"
         rows.append(
             (

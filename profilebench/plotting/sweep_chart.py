@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from profilebench.assess.results import Verdict
 from profilebench.plotting.style import CAUTION, OKABE_ITO, SEPARATED_COLOUR
 
 __all__ = ["sweep_figure", "grid_figure", "VERDICT_BANDS", "axis_scale"]
@@ -38,14 +39,13 @@ def _band_kind(verdict):
         return "failed"
     if isinstance(verdict, _Unwatched):
         return None
-    name = getattr(verdict, "name", "")
-    if name == "ATTACHED":
+    if verdict is Verdict.ATTACHED:
         return "attached"
-    if name == "BUBBLE_REATTACHES":
+    if verdict is Verdict.BUBBLE_REATTACHES:
         return "bubble"
-    if getattr(verdict, "separated", False):
+    if isinstance(verdict, Verdict) and verdict.separated:
         return "separated"
-    return "other"
+    return "other"  # another verdict
 
 
 def _edges(x):
@@ -75,7 +75,7 @@ def _shade(ax, x, verdicts, seen):
 
 
 def _marks(ax, table, scale, legend):
-    knee = getattr(table, "knee", None)
+    knee = table.knee
     if knee is not None and knee.found:
         ax.axvline(
             knee.radius * scale,
@@ -117,11 +117,10 @@ def sweep_figure(table, title=None, width_in=8.0):
     # node moved) is not shaded; a failed point is hatched
     verdicts = tuple(_Unwatched() if v is None and ok else v for v, ok in zip(verdicts, table.ok))
     seen = set()
-    for k, (ax, name, label) in enumerate(
-        zip(axes, ("cd", "cda"), ("Cd (on frontal height)", "CdA (m^2)"))
+    for k, (ax, name, y, label) in enumerate(
+        zip(axes, ("cd", "cda"), (table.cd, table.cda), ("Cd (on frontal height)", "CdA (m^2)"))
     ):
         _shade(ax, x, verdicts, seen if k == 0 else set(VERDICT_BANDS))
-        y = getattr(table, name)
         ax.plot(
             x,
             y,
@@ -140,7 +139,7 @@ def sweep_figure(table, title=None, width_in=8.0):
     axes[0].legend(fontsize=7, loc="best")
     corner = f"{table.corner_label} (node {table.corner})" if table.corner is not None else ""
     head = title or f"{table.parameter} sweep" + (f", corner {corner}" if corner else "")
-    knee = getattr(table, "knee", None)
+    knee = table.knee
     if knee is not None:
         import textwrap
 

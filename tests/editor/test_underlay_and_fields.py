@@ -8,6 +8,7 @@ from profilebench.editor.fields import (
     parse_length_mm,
     parse_number,
     parse_optional,
+    parse_point_mm,
     parse_speed_kmh,
 )
 from profilebench.editor.underlay import Underlay
@@ -86,3 +87,17 @@ def test_optional_entry_and_format():
     assert parse_optional("  ", parse_length_mm, "width") is None
     assert parse_optional("1800", parse_length_mm, "width") == pytest.approx(1.8)
     assert format_mm(0.0125) == "12.5" and format_mm(None) == ""
+
+
+@pytest.mark.parametrize(
+    "text, xy",
+    [("1200, 350", (1.2, 0.35)), ("-40;0", (-0.04, 0.0)), (" 0 , 1e3 ", (0.0, 1.0))],
+)
+def test_a_point_is_typed_as_x_y_in_mm(text, xy):
+    assert parse_point_mm(text) == pytest.approx(xy, abs=1e-15)
+
+
+@pytest.mark.parametrize("text", ["1200", "1, 2, 3", "", "x, 3", "1,5, 2"])
+def test_a_point_that_is_not_two_numbers_is_refused(text):
+    with pytest.raises(InputError):
+        parse_point_mm(text)

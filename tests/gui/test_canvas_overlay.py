@@ -6,7 +6,7 @@ import threading
 import numpy as np
 import pytest
 
-import profilebench.gui.canvas as canvas_module
+import profilebench.gui.canvas_overlay as overlay_module
 
 from gui_helpers import ANALYSIS_TIMEOUT_MS
 
@@ -15,13 +15,13 @@ from gui_helpers import ANALYSIS_TIMEOUT_MS
 def overlay_threads(monkeypatch):
     """Record the thread of every overlay drawing."""
     threads = []
-    real = canvas_module._render_overlay
+    real = overlay_module.render_overlay
 
     def recording(scene):
         threads.append(threading.current_thread() is threading.main_thread())
         return real(scene)
 
-    monkeypatch.setattr(canvas_module, "_render_overlay", recording)
+    monkeypatch.setattr(overlay_module, "render_overlay", recording)
     return threads
 
 

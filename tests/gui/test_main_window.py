@@ -285,12 +285,12 @@ def test_a_superseded_result_newer_than_a_shown_failure_replaces_its_banner(wind
     good = w.analysis
     w._show_banner("Analysis not updated (invalid_geometry): an older outline crossed itself", True)
     # a valid position's analysis arrives after that failure, itself superseded by a newer edit
-    w._requested.sent(10_000, state)
+    w.results.sent(10_000, state)
     n = state.profile.nodes[0]
     w.preview_profile(state.profile.moved(0, n.x, n.y + 0.001))  # the newer edit
     w._analysis_lagging(10_000, good, 0.02)
     assert not w.banner.isVisible() and w.last_message == ""
-    assert w.analysis is good and w.canvas.stale and 10_000 not in w._requested
+    assert w.analysis is good and w.canvas.stale and 10_000 not in w.results.requests
 
 
 def test_find_smallest_radius_takes_the_search_the_shown_analysis_ran(window, qtbot, tmp_path):

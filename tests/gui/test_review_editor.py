@@ -170,13 +170,13 @@ def test_canvas_labels_clear_of_each_other_the_outline_and_the_ground(window, qt
     """The canvas places its corner labels as the page does; checked with shapely."""
     from shapely.geometry import Polygon, box
 
-    from profilebench.gui.canvas import _render_overlay
+    from profilebench.gui.canvas_overlay import render_overlay
 
     w = window
     qtbot.waitUntil(lambda: w.canvas.up_to_date, timeout=ANALYSIS_TIMEOUT_MS)
     c = w.canvas
     scene = c._scene()  # what the overlay worker draws, drawn here
-    _render_overlay(scene)
+    render_overlay(scene)
     rects = [box(r.left(), r.top(), r.right(), r.bottom()) for r in scene._label_rects]
     assert len(rects) == len(w.analysis.corners)
     inv = w.analysis.flow.inviscid

@@ -114,7 +114,7 @@ def test_a_bad_file_at_start_up_opens_the_default_profile_and_says_why(
 def test_a_bad_autosave_interval_in_the_environment_falls_back_and_says_so(
     make_window, monkeypatch, value
 ):
-    from profilebench.gui.main_window import AUTOSAVE_ENV, AUTOSAVE_MS
+    from profilebench.editor.recovery import AUTOSAVE_ENV, AUTOSAVE_MS
 
     monkeypatch.setenv(AUTOSAVE_ENV, value)
     w = make_window()

@@ -1,0 +1,59 @@
+"""The menu bar (profilebench.gui.menus): each entry reaches the window's method with its file."""
+
+import pytest
+from PySide6.QtWidgets import QFileDialog, QInputDialog
+
+from gui_helpers import wait_current
+
+
+def _entry(w, menu, text):
+    return next(a for a in w.menus[menu].actions() if a.text() == text)
+
+
+def test_the_file_entries_hand_their_own_file_on(window, qtbot, tmp_path, monkeypatch):
+    w = window
+    wait_current(qtbot, w)
+    target = tmp_path / "surface.csv"
+    monkeypatch.setattr(QFileDialog, "getSaveFileName", lambda *a, **k: (str(target), ""))
+    _entry(w, "File", "Export surface data (CSV)…").trigger()
+    assert target.read_text().startswith("surface,s,x,y")
+    missing = tmp_path / "no_such_points.csv"
+    monkeypatch.setattr(QFileDialog, "getOpenFileName", lambda *a, **k: (str(missing), ""))
+    _entry(w, "File", "Import point outline (CSV)…").trigger()  # reaches the import, not an export
+    assert w.last_message.startswith(f"cannot import {missing}")
+    monkeypatch.setattr(QFileDialog, "getOpenFileName", lambda *a, **k: ("", ""))  # cancelled
+    before = w.document.state
+    _entry(w, "Underlay", "Load image…").trigger()
+    assert w.document.state is before
+
+
+def test_save_as_and_the_recent_files(window, tmp_path, monkeypatch):
+    w = window
+    target = tmp_path / "saved.json"
+    monkeypatch.setattr(QFileDialog, "getSaveFileName", lambda *a, **k: (str(target), ""))
+    _entry(w, "File", "Save &as…").trigger()
+    assert target.exists() and w.document.path == target
+    assert w.recent_files() == [str(target.resolve())]
+    assert [a.text() for a in w.recent_menu.actions()] == [str(target.resolve())]
+    monkeypatch.setattr(QFileDialog, "getSaveFileName", lambda *a, **k: ("", ""))  # cancelled
+    assert not _entry(w, "File", "Save &as…").trigger()
+
+
+def test_the_view_entries_set_the_canvas(window, monkeypatch):
+    w = window
+    c = w.canvas
+    _entry(w, "View", "Snap to grid").trigger()
+    assert c.grid == pytest.approx(0.01)
+    monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("5", True))
+    _entry(w, "View", "Grid spacing…").trigger()
+    assert c.grid == pytest.approx(0.005)
+    monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("-1", True))
+    _entry(w, "View", "Grid spacing…").trigger()  # refused, said in the banner
+    assert c.grid == pytest.approx(0.005) and "grid spacing" in w.last_message
+    _entry(w, "View", "Cp colour band").trigger()
+    assert not c.show_cp
+    _entry(w, "View", "Cp offset curve").trigger()
+    assert c.cp_offset_curve
+    monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("-2.5", True))
+    _entry(w, "View", "Cp colour scale…").trigger()
+    assert c.cp_min == -2.5
