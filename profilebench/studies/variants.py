@@ -33,7 +33,14 @@ from profilebench.io.project import Project, Variant, check_variants, variant_ke
 from profilebench.studies.points import CornerPoint, PointSpec, PointStatus
 from profilebench.studies.runner import RunStats, run_points
 
-__all__ = ["RANK_KEYS", "VariantRow", "VariantTable", "rank_variants", "rank_project"]
+__all__ = [
+    "RANK_KEYS",
+    "VariantRow",
+    "VariantTable",
+    "corner_key",
+    "rank_variants",
+    "rank_project",
+]
 
 #: the quantities a ranking may be ordered by (lowest first), and how they are named
 RANK_KEYS = {"force": "drag force", "cda": "CdA", "cd": "Cd"}
@@ -69,6 +76,16 @@ class VariantRow:
     def success(self) -> bool:
         return self.status is PointStatus.SUCCESS
 
+    def verdicts(self) -> dict:
+        """{corner: Verdict} of this variant, each corner by its label, else "node N" (the way
+        :func:`profilebench.assess.compare.compare` matches corners)."""
+        return {corner_key(c): c.verdict for c in self.corners}
+
+
+def corner_key(corner) -> str:
+    """A corner's name in a ranking: its label, else "node N"."""
+    return corner.label or f"node {corner.node}"
+
 
 @dataclass(frozen=True)
 class VariantTable:
@@ -95,6 +112,16 @@ class VariantTable:
     @property
     def cancelled(self) -> bool:
         return self.stats.cancelled
+
+    @property
+    def corner_keys(self) -> tuple[str, ...]:
+        """Every corner of the variants (:func:`corner_key`), in the order they first appear
+        in the rows."""
+        keys = {}
+        for r in self.rows:
+            for c in r.corners:
+                keys.setdefault(corner_key(c), None)
+        return tuple(keys)
 
     @property
     def baseline_row(self) -> VariantRow:
