@@ -59,7 +59,7 @@ def write_recovery(folder, document) -> Path:
 
     Raises :class:`ProjectFileError` (with the reason) when the folder cannot be written.
     """
-    from profilebench.io import Project, atomic_write_text, save_project
+    from profilebench.io import atomic_write_text, save_project
 
     folder = Path(folder)
     try:
@@ -72,7 +72,7 @@ def write_recovery(folder, document) -> Path:
         ) from exc
     path = recovery_file(folder)
     # the underlay is not kept in the recovery copy (its path is relative to the project file)
-    save_project(Project(document.profile, document.conditions, baseline=document.baseline), path)
+    save_project(document.to_project(), path)
     origin = "" if document.path is None else str(Path(document.path).resolve())
     # a path is bytes on POSIX: one that is not UTF-8 is kept as it is (surrogateescape)
     atomic_write_text(_origin_file(path), lambda fh: fh.write(origin), errors="surrogateescape")

@@ -169,6 +169,11 @@ class MainWindow(QMainWindow):
         self.resizeDocks([self._docks["Corners"]], [250], Qt.Vertical)
         # the corner table's nine columns get the larger share of the bottom row
         self.resizeDocks([self._docks["Corners"], self._docks["Plots"]], [900, 600], Qt.Horizontal)
+        # --- variant sets: the dock and its logic live in profilebench.gui.variants_panel ---
+        from profilebench.gui.variants_panel import install_variants_panel
+
+        self.variants_panel = install_variants_panel(self)
+        # --- end of variant sets ---
 
         self._plot_timer = QTimer(self)
         self._plot_timer.setSingleShot(True)
@@ -336,6 +341,7 @@ class MainWindow(QMainWindow):
         self.canvas._fitted = False
         self.canvas.set_analysis(None, False)
         self.conditions_panel.set_conditions(document.conditions)
+        self.variants_panel.set_document(document)  # variant sets
         self._state_changed(document.state, force=True)
         self.canvas.fit()
 
@@ -364,21 +370,13 @@ class MainWindow(QMainWindow):
         except ProfileBenchError as exc:
             self._show_banner(f"cannot open {path}: {exc}", True)
             return False
-        self._install(
-            Document(
-                project.profile,
-                project.conditions,
-                path=path,
-                baseline=project.baseline,
-                underlay=underlay,
-            )
-        )
+        self._install(Document.from_project(project, path=path, underlay=underlay))
         self._add_recent(path)
         return True
 
     def save_to(self, path) -> bool:
         """Save the project to ``path`` (atomic); the message of a failure is shown."""
-        from profilebench.io import Project, save_project
+        from profilebench.io import save_project
         from profilebench.io import Underlay as FileUnderlay
         from profilebench.io import underlay_relative_path
 
@@ -390,10 +388,7 @@ class MainWindow(QMainWindow):
                 file_underlay = FileUnderlay(
                     underlay_relative_path(u.path, path), u.points_px, u.points_m, u.opacity
                 )
-            project = Project(
-                doc.profile, doc.conditions, baseline=doc.baseline, underlay=file_underlay
-            )
-            save_project(project, path)
+            save_project(doc.to_project(underlay=file_underlay), path)
         except ProfileBenchError as exc:
             self._show_banner(f"not saved: {exc}", True)
             self.statusBar().showMessage(f"NOT SAVED: {exc}")
@@ -1185,9 +1180,7 @@ class MainWindow(QMainWindow):
         copy = copies[0]
         restored = False
         if self.ask_recover(copy):
-            doc = Document(
-                project.profile, project.conditions, path=copy.origin, baseline=project.baseline
-            )
+            doc = Document.from_project(project, path=copy.origin)
             doc.mark_unsaved()
             self._install(doc)
             restored = True
@@ -1249,6 +1242,7 @@ class MainWindow(QMainWindow):
         ok = True
         for r in (self.runner, self.baseline_runner, self.search_runner):
             ok = r.close(msecs) and ok
+        ok = self.variants_panel.close_runner(msecs) and ok  # variant sets
         ok = self.canvas.shutdown(msecs) and ok
         ok = self.plots.shutdown(msecs) and ok
         if not ok:

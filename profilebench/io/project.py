@@ -72,6 +72,9 @@ __all__ = [
     "READ_VERSIONS",
     "Underlay",
     "Variant",
+    "variant_index",
+    "variant_key",
+    "check_variants",
     "Project",
     "profile_to_dict",
     "profile_from_dict",
@@ -337,15 +340,22 @@ class Project:
 
     def variant(self, name: str) -> Variant:
         """The variant called ``name`` (compared as :func:`variant_key` does)."""
-        key = variant_key(check_variant_name(name))
-        for v in self.variants:
+        return self.variants[variant_index(self.variants, name)]
+
+
+def variant_index(variants, name) -> int:
+    """The index of the variant called ``name`` in ``variants`` (names compared as
+    :func:`variant_key` does); an InputError listing the names when there is none."""
+    if isinstance(name, str):
+        key = variant_key(name)
+        for i, v in enumerate(variants):
             if variant_key(v.name) == key:
-                return v
-        names = ", ".join(excerpt(v.name) for v in self.variants) or "none"
-        raise InputError(
-            f"the project has no variant named {excerpt(name)} (its variants: {names}); "
-            "give one of those names"
-        )
+                return i
+    names = ", ".join(excerpt(v.name) for v in variants) or "none stored yet"
+    raise InputError(
+        f"there is no variant named {excerpt(str(name))} (the variants: {names}); give one of "
+        "those names"
+    )
 
 
 # --------------------------------------------------------------------------------------------

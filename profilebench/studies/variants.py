@@ -29,7 +29,7 @@ from dataclasses import dataclass
 from profilebench.assess.compare import compare
 from profilebench.assess.conditions import Conditions
 from profilebench.errors import InputError
-from profilebench.io.project import Project, Variant, check_variants, variant_key
+from profilebench.io.project import Project, Variant, check_variants, variant_index
 from profilebench.studies.points import CornerPoint, PointSpec, PointStatus
 from profilebench.studies.runner import RunStats, run_points
 
@@ -129,14 +129,7 @@ class VariantTable:
 
     def row(self, name: str) -> VariantRow:
         """The row of the variant called ``name`` (ignoring case and surrounding spaces)."""
-        key = variant_key(name)
-        for r in self.rows:
-            if variant_key(r.name) == key:
-                return r
-        raise InputError(
-            f"no variant named {name!r} in the ranking; give one of "
-            + ", ".join(repr(r.name) for r in self.rows)
-        )
+        return self.rows[variant_index(self.rows, name)]
 
 
 def _as_variants(variants) -> tuple:
@@ -237,19 +230,7 @@ def rank_variants(
         )
     if not isinstance(conditions, Conditions):
         raise InputError(f"conditions must be a Conditions, got {type(conditions).__name__}")
-    if baseline is None:
-        base_index = 0
-    else:
-        wanted = variant_key(baseline) if isinstance(baseline, str) else None
-        base_index = next(
-            (i for i, v in enumerate(variants) if variant_key(v.name) == wanted), None
-        )
-        if base_index is None:
-            raise InputError(
-                f"the baseline {baseline!r} is not one of the variants ("
-                + ", ".join(repr(v.name) for v in variants)
-                + "); give one of those names"
-            )
+    base_index = 0 if baseline is None else variant_index(variants, baseline)
     specs = [PointSpec(v.profile, conditions, thickness=thickness, table=table) for v in variants]
     results, stats = run_points(
         specs,

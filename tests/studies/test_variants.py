@@ -165,7 +165,7 @@ def test_a_project_is_ranked_against_its_baseline_variant():
     "call, words",
     [
         (lambda: _rank(()), "no variants to rank"),
-        (lambda: _rank(baseline="nobody"), "not one of the variants"),
+        (lambda: _rank(baseline="nobody"), "no variant named .nobody."),
         (lambda: _rank(key="lift"), "ranking key 'lift'"),
         (lambda: _rank((LOW_MID, Variant("LOW, 300 mm front ", LOW_SHARP.profile))), "differ"),
         (lambda: _rank(["a profile"]), "must be a Variant"),
