@@ -1157,7 +1157,7 @@ def _cmd_variants_add(args, out):
     variants = check_variants(project.variants + (variant,), project.baseline_variant)
     save_project(dataclasses.replace(project, variants=variants), args.file)
     print(f"variant {name!r} added to {args.file} ({len(profile.nodes)} nodes)", file=out)
-    print(f"{len(variants)} variants:", file=out)
+    print(f"{len(variants)} variant{'s' if len(variants) != 1 else ''}:", file=out)
     for i, v in enumerate(variants, start=1):
         base = v.name == (project.baseline_variant or variants[0].name)
         print(f"  {i}. {v.name}{' (baseline)' if base else ''}", file=out)
