@@ -16,7 +16,9 @@ import functools
 from PySide6.QtCore import Qt
 from PySide6.QtWidgets import (
     QAbstractItemView,
+    QFileDialog,
     QGridLayout,
+    QHBoxLayout,
     QHeaderView,
     QLabel,
     QLineEdit,
@@ -97,6 +99,12 @@ class VariantsPanel(QWidget):
         self.delete_button.clicked.connect(lambda: self.delete(self.selected()))
         self.baseline_button.clicked.connect(lambda: self.mark_baseline(self.selected()))
         self.rank_button.clicked.connect(self.rank)
+        self.page_button = QPushButton("Save ranking page...")
+        self.page_button.setToolTip(
+            "the variants review page of the ranking shown (PNG, SVG or PDF), with the caution"
+        )
+        self.page_button.setEnabled(False)
+        self.page_button.clicked.connect(self._ask_export_page)
 
         self.table = QTableWidget(0, len(RANKING_COLUMNS))
         self.table.setHorizontalHeaderLabels(RANKING_COLUMNS)
@@ -120,7 +128,10 @@ class VariantsPanel(QWidget):
         lay.addWidget(self.list, 1)
         lay.addWidget(self.name)
         lay.addLayout(grid)
-        lay.addWidget(self.rank_button)
+        ranking = QHBoxLayout()
+        ranking.addWidget(self.rank_button)
+        ranking.addWidget(self.page_button)
+        lay.addLayout(ranking)
         lay.addWidget(self.table, 2)
         lay.addWidget(self.message)
         lay.addWidget(self.caution)
@@ -134,6 +145,7 @@ class VariantsPanel(QWidget):
         document.subscribe(self._changed)
         self.runner.cancel_pending()  # a ranking of another document's variants is not shown
         self.ranking = None
+        self.page_button.setEnabled(False)
         self.table.setRowCount(0)
         self.message.setText("")
         self.refresh()
@@ -274,11 +286,40 @@ class VariantsPanel(QWidget):
             notes.insert(0, "the variants or conditions changed since: rank again")
         notes.append(f"({seconds:.1f} s)")
         self.message.setText("\n".join(notes))
+        self.page_button.setEnabled(True)
 
     def _rank_failed(self, generation, message):
         self.rank_button.setEnabled(True)
         self._ranked_for.pop(generation, None)
         self.message.setText(f"the ranking failed: {message}")
+
+    def export_page(self, path) -> bool:
+        """Write the variants review page of the ranking shown (PNG, SVG or PDF; it carries
+        the caution); a failure's message is shown under the table."""
+        from profilebench.io.atomic import check_writable
+        from profilebench.plotting.review import save_figure
+        from profilebench.plotting.variants_page import variants_figure
+
+        if self.ranking is None:
+            self.message.setText("rank the variants first: the page shows a ranking")
+            return False
+        try:
+            check_writable(path)
+            name = getattr(self.document.profile, "name", "") if self.document else ""
+            fig = variants_figure(self.ranking, title=f"Variants of {name}" if name else None)
+            save_figure(fig, path)
+        except ProfileBenchError as exc:
+            self.message.setText(f"the page was not saved: {exc}")
+            return False
+        self.message.setText(f"page saved: {path}")
+        return True
+
+    def _ask_export_page(self):
+        path, _ = QFileDialog.getSaveFileName(
+            self, "Save ranking page", "", "Images (*.png *.svg *.pdf)"
+        )
+        if path:
+            self.export_page(path)
 
     def close_runner(self, msecs: int = 30000) -> bool:
         return self.runner.close(msecs)

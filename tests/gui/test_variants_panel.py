@@ -97,3 +97,26 @@ def test_rank_runs_off_the_gui_thread_and_shows_the_table(window, qtbot, tmp_pat
     assert "Screening estimate" in panel.caution.text()
     window.resize(1600, 1000)
     panel.grab().save(str(tmp_path / "variants_ranked.png"))
+    assert panel.page_button.isEnabled()
+
+
+def test_the_ranking_page_is_saved_only_after_a_ranking(window, tmp_path):
+    from profilebench.studies import PointCache, rank_variants
+
+    panel = window.variants_panel
+    assert not panel.page_button.isEnabled()
+    assert not panel.export_page(tmp_path / "page.png")
+    assert "rank the variants first" in panel.message.text()
+    assert not (tmp_path / "page.png").exists()
+    _store_two(window)
+    doc = window.document
+    # the ranking the Rank button would show, made here at few panels (the page is the point)
+    panel.ranking = rank_variants(
+        doc.variants, doc.conditions.replace(panels=80), workers=1, cache=PointCache()
+    )
+    page = tmp_path / "page.png"
+    assert panel.export_page(page)
+    # a PNG file: its signature (PNG specification, section 5.2)
+    assert page.read_bytes()[:8] == b"\x89PNG\r\n\x1a\n"
+    assert not panel.export_page(tmp_path / "page.gif")
+    assert ".gif" in panel.message.text()
