@@ -69,6 +69,7 @@ class VariantsPanel(QWidget):
         self.runner.finished.connect(self._ranked)
         self.runner.failed.connect(self._rank_failed)
         self.ranking = None  # the last VariantTable shown
+        self._shown = None  # what the list shows (see refresh)
         self._ranked_for = {}  # generation -> (variants, conditions, baseline) it ranks
 
         self.list = QListWidget()
@@ -142,6 +143,7 @@ class VariantsPanel(QWidget):
         if self.document is not None:
             self.document.unsubscribe(self._changed)
         self.document = document
+        self._shown = None
         document.subscribe(self._changed)
         self.runner.cancel_pending()  # a ranking of another document's variants is not shown
         self.ranking = None
@@ -154,12 +156,22 @@ class VariantsPanel(QWidget):
         self.refresh()
 
     def refresh(self) -> None:
-        """The list of variants as the document holds them, the selection kept."""
-        keep = self.selected()
-        self.list.clear()
+        """The list of variants as the document holds them, the selection kept (not rebuilt
+        when nothing it shows changed: a drag changes the state at every move)."""
         doc = self.document
         if doc is None:
+            self.list.clear()
             return
+        shown = (
+            doc.variants,
+            doc.baseline_variant,
+            tuple(v.profile == doc.profile for v in doc.variants),
+        )
+        if shown == self._shown:
+            return
+        self._shown = shown
+        keep = self.selected()
+        self.list.clear()
         baseline = doc.baseline_variant or (doc.variants[0].name if doc.variants else None)
         for v in doc.variants:
             text = v.name + ("  (baseline)" if v.name == baseline else "")

@@ -8,10 +8,13 @@ json module.
 import json
 
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 from profilebench.assess.conditions import Conditions
 from profilebench.errors import InputError, ProjectFileError
 from profilebench.geometry.profile import Node, Profile
+from profilebench.io.project import variant_key
 from profilebench.io import (
     MAX_VARIANTS,
     Project,
@@ -249,3 +252,33 @@ def test_a_refused_file_is_left_as_it_was(tmp_path):
 def test_the_classes_refuse_what_the_file_refuses(make, words):
     with pytest.raises(InputError, match=words):
         make()
+
+
+# --------------------------------------------------------------------------- random round trips
+names = st.text(min_size=1, max_size=30).filter(
+    lambda s: s.strip() and not any(ord(c) < 32 or 0x7F <= ord(c) <= 0x9F for c in s)
+)
+
+
+@st.composite
+def variant_sets(draw):
+    chosen = draw(st.lists(names, max_size=6, unique_by=variant_key))
+    out = []
+    for name in chosen:
+        top = draw(st.floats(min_value=0.3, max_value=2.0))
+        radius = draw(st.floats(min_value=0.0, max_value=0.1))
+        out.append(Variant(name, _box(name, radius, top), draw(st.text(max_size=20))))
+    baseline = draw(st.sampled_from([None] + [v.name for v in out]))
+    return tuple(out), baseline
+
+
+@settings(
+    max_examples=40, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture]
+)
+@given(chosen=variant_sets())
+def test_random_variant_sets_round_trip(tmp_path, chosen):
+    # exact float round trip: json writes repr(float), the shortest string that reads back to
+    # the same double (Python float repr, IEEE 754 binary64)
+    variants, baseline = chosen
+    project = _project(variants=variants, baseline_variant=baseline)
+    assert load_project(save_project(project, tmp_path / "r.json")) == project
