@@ -77,6 +77,8 @@ class VariantsPanel(QWidget):
         self.list.itemDoubleClicked.connect(lambda item: self.switch_to(self._name(item)))
         self.name = QLineEdit()
         self.name.setPlaceholderText("variant name (for Store and Rename)")
+        self.note = QLineEdit()
+        self.note.setPlaceholderText("note kept with a stored variant (optional)")
         self.store_button = QPushButton("Store profile as variant")
         self.store_button.setToolTip(
             "keep the profile being edited as a named variant (a name already stored is "
@@ -128,6 +130,7 @@ class VariantsPanel(QWidget):
         lay = QVBoxLayout(self)
         lay.addWidget(self.list, 1)
         lay.addWidget(self.name)
+        lay.addWidget(self.note)
         lay.addLayout(grid)
         ranking = QHBoxLayout()
         ranking.addWidget(self.rank_button)
@@ -230,15 +233,20 @@ class VariantsPanel(QWidget):
         """Store the profile being edited as the variant ``name`` (a free "variant N" when
         empty)."""
         name = name if name.strip() else variant_edits.suggest_name(self.document.state)
-        done = self._apply(lambda s: variant_edits.store_variant(s, name))
+        note = self.note.text()
+        done = self._apply(lambda s: variant_edits.store_variant(s, name, note))
         if done:
             self.name.clear()
+            self.note.clear()
             self.select(name)
         return done
 
     def _store_over(self):
-        if self._need(self.selected()):
-            self._apply(lambda s: variant_edits.store_variant(s, self.selected(), overwrite=True))
+        name, note = self.selected(), self.note.text()
+        if self._need(name) and self._apply(
+            lambda s: variant_edits.store_variant(s, name, note, overwrite=True)
+        ):
+            self.note.clear()
 
     def switch_to(self, name) -> bool:
         """Put the variant's profile in the editor (one undoable edit)."""

@@ -18,7 +18,9 @@ def _front_corner(window):
 
 def _store_two(window):
     panel = window.variants_panel
+    panel.note.setText("as opened")
     assert panel.store("front A")
+    assert panel.note.text() == ""
     i = _front_corner(window)
     r = window.document.profile.nodes[i].radius
     assert window.push(commands.set_radius(window.document.state, i, r * 2))
@@ -41,6 +43,8 @@ def test_two_variants_are_saved_and_reopened(window, tmp_path, qtbot):
     assert variants[0].profile.nodes[i].radius == pytest.approx(r)
     assert variants[1].profile.nodes[i].radius == pytest.approx(2 * r)
     assert load_project(path).variants == variants
+    assert variants[0].note == "as opened" and variants[1].note == ""
+    assert panel.list.item(0).toolTip() == "as opened"
     panel.grab().save(str(tmp_path / "variants_panel.png"))
 
 
