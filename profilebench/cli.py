@@ -1138,12 +1138,23 @@ def _cmd_variants_add(args, out):
     from profilebench.io.project import Variant, check_variants, save_project
 
     name, source = args.add
-    for option in ("csv", "image", "baseline", "by"):
-        if getattr(args, option) is not None:
-            raise InputError(
-                f"--add stores a variant and analyses nothing: give --{option} in a second "
-                "call without --add (nothing was written)"
-            )
+    analysis_options = (
+        "csv image baseline by workers speed transition h_separation panels table altitude area "
+        "width"
+    ).split()
+    given = [o for o in analysis_options if getattr(args, o, None) is not None]
+    given += ["no_ground"] if args.no_ground else []
+    if given:
+        option = "--" + given[0].replace("_", "-")
+        raise InputError(
+            f"--add stores a variant and analyses nothing: give {option} in a second "
+            "call without --add (nothing was written)"
+        )
+    if args.simplify is not None and Path(source).suffix.lower() != ".csv":
+        raise InputError(
+            f"--simplify is the fit's tolerance of a CSV outline; {source!r} is not one "
+            "(nothing was written)"
+        )
     _check_outputs([("the project file", args.file)], [])  # FILE may be PROJECT itself
     project = _variants_project(args.file)
     added = _load(source, args)

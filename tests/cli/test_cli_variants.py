@@ -182,6 +182,9 @@ def test_a_project_without_variants_is_bad_input(capsys):
         (["--add", "  ", "{BODY}"], "empty"),
         (["--add", "new", "{CROSSED}"], "not a valid outline"),
         (["--add", "new", "{BODY}", "--csv", "x.csv"], "--csv in a second call"),
+        (["--add", "new", "{BODY}", "--speed", "90"], "--speed in a second call"),
+        (["--add", "new", "{BODY}", "--no-ground"], "--no-ground in a second call"),
+        (["--add", "new", "{BODY}", "--simplify", "2"], "not one (nothing was written)"),
         (["--add", "new", "{MISSING}"], "missing.json"),
         (["--baseline", "nobody"], "no variant named 'nobody'"),
         (["--note", "n"], "--note goes with --add"),
@@ -194,6 +197,9 @@ def test_a_project_without_variants_is_bad_input(capsys):
         "empty name",
         "invalid outline",
         "add and csv",
+        "add and speed",
+        "add and no ground",
+        "simplify a project",
         "missing file",
         "unknown baseline",
         "note alone",
@@ -214,7 +220,7 @@ def test_bad_input_exits_2_and_leaves_the_project_as_it_was(project, tmp_path, c
     places = {"{BODY}": BODY, "{CROSSED}": crossed, "{MISSING}": tmp_path / "missing.json"}
     args = [str(places.get(a, a)) for a in args]
     before = project.read_bytes()
-    code, out, err = _run(capsys, project, *FAST, *args)
+    code, out, err = _run(capsys, project, *([] if "--add" in args else FAST), *args)
     assert code == 2, out + err
     assert words in err
     assert "Traceback" not in err
