@@ -12,6 +12,9 @@ Subcommands::
     profilebench sweep PROJECT (--radius FIRST:LAST:N --corner LABEL [--speeds FIRST:LAST:N]
                                 | --position NODE:DX:DY:N | --speeds FIRST:LAST:N)
                                [--corner LABEL] [--csv OUT.csv] [--image OUT.png] [--workers N]
+    profilebench variants PROJECT [--baseline NAME] [--by force|cda|cd] [--csv OUT.csv]
+                                  [--image OUT.png] [--workers N] [condition options]
+    profilebench variants PROJECT --add NAME FILE [--note TEXT] [--units mm|m]
     profilebench samples
     profilebench bench [--only NAME ...] [--skip NAME ...]
 
@@ -301,6 +304,7 @@ def build_parser() -> argparse.ArgumentParser:
     _add_condition_options(p)
 
     _add_sweep_parser(sub)
+    _add_variants_parser(sub)
 
     sub.add_parser("samples", help="list the sample project files")
 
@@ -819,16 +823,62 @@ def _add_sweep_parser(sub):
     p.add_argument("--radius", metavar="FIRST:LAST:N", help="radii in metres, LAST may be 'max'")
     p.add_argument("--position", metavar="NODE:DX:DY:N", help="a node moved by up to DX, DY metres")
     p.add_argument("--speeds", metavar="FIRST:LAST:N", help="speeds in km/h")
+    _add_study_options(
+        p, "the points", "one row per point (.csv)", "chart of Cd and CdA (.png, .svg or .pdf)"
+    )
+
+
+def _add_study_options(p, what, csv_help, image_help):
+    """--workers, --csv, --image, --units and the condition options of a study."""
     p.add_argument(
         "--workers",
         type=int,
         metavar="N",
-        help="processes to run the points on (default: one per core; 1: this one)",
+        help=f"processes to run {what} on (default: one per core; 1: this one)",
     )
-    p.add_argument("--csv", metavar="OUT", help="one row per point (.csv)")
-    p.add_argument("--image", metavar="OUT", help="chart of Cd and CdA (.png, .svg or .pdf)")
+    p.add_argument("--csv", metavar="OUT", help=csv_help)
+    p.add_argument("--image", metavar="OUT", help=image_help)
     _add_units_option(p)
     _add_condition_options(p)
+
+
+def _check_study_outputs(args):
+    """A study's --image, --csv and --workers checked before any work."""
+    if args.image:
+        from profilebench.plotting.review import image_format
+
+        image_format(args.image)
+    if args.csv and Path(args.csv).suffix.lower() != ".csv":
+        raise InputError(f"--csv {args.csv!r}: the file name must end in .csv")
+    if args.workers is not None and args.workers < 1:
+        raise InputError(f"--workers {args.workers}: give at least 1")
+    _check_outputs(
+        [("--image", args.image), ("--csv", args.csv)], [args.file, getattr(args, "table", None)]
+    )
+
+
+def _print_run(stats, out, head=""):
+    """What a study's run did (RunStats), after a blank line."""
+    print(
+        f"\n{head}{stats.computed} analysed, {stats.from_cache} from the cache, "
+        f"{stats.seconds:.2f} s on {stats.workers} worker(s)",
+        file=out,
+    )
+
+
+def _terminal_progress(word):
+    """``progress(done, total, i, result)`` writing "word done/total" to a terminal's stderr,
+    or None when stderr is not a terminal."""
+    err = sys.stderr
+    if not err.isatty():
+        return None
+
+    def progress(done, total, i, result):
+        err.write(f"\r  {word} {done}/{total}")
+        err.write("\n" if done == total else "")
+        err.flush()
+
+    return progress
 
 
 def _range_numbers(option, text, fields, last_may_be_max=False):
@@ -982,29 +1032,10 @@ def _cmd_sweep(args, out):
     from profilebench.studies import GridTable
     from profilebench.studies.export import write_sweep_csv
 
-    if args.image:
-        from profilebench.plotting.review import image_format
-
-        image_format(args.image)
-    if args.csv and Path(args.csv).suffix.lower() != ".csv":
-        raise InputError(f"--csv {args.csv!r}: the file name must end in .csv")
-    if args.workers is not None and args.workers < 1:
-        raise InputError(f"--workers {args.workers}: give at least 1")
-    _check_outputs(
-        [("--image", args.image), ("--csv", args.csv)], [args.file, getattr(args, "table", None)]
-    )
+    _check_study_outputs(args)
     project = _load(args.file, args)
     cond = _conditions(project, args)
-    err = sys.stderr
-    progress = None
-    if err.isatty():
-
-        def progress(done, total, i, result):
-            err.write(f"\r  point {done}/{total}")
-            err.write("\n" if done == total else "")
-            err.flush()
-
-    result = _sweep_table(args, project, cond, args.workers, progress)
+    result = _sweep_table(args, project, cond, args.workers, _terminal_progress("point"))
     tables = result.rows if isinstance(result, GridTable) else (result,)
     print(f"{project.profile.name} ({args.file})", file=out)
     for t in tables:
@@ -1012,13 +1043,8 @@ def _cmd_sweep(args, out):
         if isinstance(result, GridTable):
             print(f"speed {t.conditions[0].speed * 3.6:.1f} km/h", file=out)
         _print_sweep(t, out)
-    stats = result.stats
     total = sum(len(t) for t in tables)
-    print(
-        f"\n{total} points: {stats.computed} analysed, {stats.from_cache} from the cache, "
-        f"{stats.seconds:.2f} s on {stats.workers} worker(s)",
-        file=out,
-    )
+    _print_run(result.stats, out, f"{total} points: ")
     if args.csv:
         write_sweep_csv(result, args.csv)
         print(f"table written: {args.csv}", file=out)
@@ -1036,8 +1062,193 @@ def _cmd_sweep(args, out):
     return EXIT_OK
 
 
+# --- variants ----------------------------------------------------------------------------------
+
+VARIANTS_HELP = """\
+Rank the named variants stored in a project file, or add one to it.
+
+Every variant is analysed at the project's conditions (after the condition options given here),
+so that the ranking compares shapes only. The variants are ranked by drag force when a frontal
+area or width is known (a lower Cd can still mean more force when the frontal area grows), else
+by Cd; --by chooses. With --width each variant's area is the width times its own height; a fixed
+--area gives every variant the same area (the ranking by force is then the ranking by Cd).
+Deltas are the variant minus the baseline variant (the project's, else the first; --baseline
+chooses another for this ranking).
+
+  --add NAME FILE   store FILE's profile (a project file's profile, or a CSV outline fitted as
+                    'profilebench import' does) in PROJECT as the variant NAME, writing PROJECT
+                    atomically (saved as format version 2); nothing is analysed
+
+Exit codes: 0 every variant analysed, 1 some variant's analysis failed (the table shows which and
+why; the files asked for are still written), 2 bad input (nothing written).
+"""
+
+
+def _add_variants_parser(sub):
+    p = sub.add_parser(
+        "variants",
+        help="rank a project's variants by force, CdA and Cd against the baseline "
+        "variant (table, CSV, review page), or add a variant",
+        description=VARIANTS_HELP,
+        formatter_class=argparse.RawDescriptionHelpFormatter,
+    )
+    p.add_argument("file", metavar="PROJECT", help="the project file (.json) holding the variants")
+    p.add_argument(
+        "--add",
+        nargs=2,
+        metavar=("NAME", "FILE"),
+        help="store FILE's profile (.json project or .csv outline) as the variant NAME",
+    )
+    p.add_argument("--note", help="with --add: a note kept with the variant")
+    p.add_argument(
+        "--simplify",
+        type=float,
+        metavar="MM",
+        help="with --add of a CSV outline: the fit's tolerance in mm (default 5)",
+    )
+    p.add_argument("--baseline", metavar="NAME", help="rank against this variant instead")
+    p.add_argument(
+        "--by",
+        choices=("force", "cda", "cd"),
+        help="what to rank by, lowest first (default: force when an area is known, else cd)",
+    )
+    _add_study_options(
+        p,
+        "the variants",
+        "the ranking, one row per variant (.csv)",
+        "the variants review page (.png, .svg or .pdf)",
+    )
+
+
+def _variants_project(path):
+    from profilebench.io.project import load_project
+
+    if Path(str(path)).suffix.lower() != ".json":
+        raise InputError(
+            f"{path!r}: variants are kept in a project file (.json); import a CSV outline "
+            "first with 'profilebench import OUTLINE.csv PROJECT.json'"
+        )
+    return load_project(path)
+
+
+def _cmd_variants_add(args, out):
+    import dataclasses
+
+    from profilebench.geometry import explain
+    from profilebench.io.project import Variant, check_variants, save_project
+
+    name, source = args.add
+    analysis_options = (
+        "csv image baseline by workers speed transition h_separation panels table altitude area "
+        "width"
+    ).split()
+    given = [o for o in analysis_options if getattr(args, o, None) is not None]
+    given += ["no_ground"] if args.no_ground else []
+    if given:
+        option = "--" + given[0].replace("_", "-")
+        raise InputError(
+            f"--add stores a variant and analyses nothing: give {option} in a second "
+            "call without --add (nothing was written)"
+        )
+    if args.simplify is not None and Path(source).suffix.lower() != ".csv":
+        raise InputError(
+            f"--simplify is the fit's tolerance of a CSV outline; {source!r} is not one "
+            "(nothing was written)"
+        )
+    _check_outputs([("the project file", args.file)], [])  # FILE may be PROJECT itself
+    project = _variants_project(args.file)
+    added = _load(source, args)
+    profile = added.profile
+    problems = explain(profile, ground=project.conditions.ground)
+    if problems:
+        raise InputError(
+            f"the profile of {source!r} is not a valid outline: {problems[0]}; nothing was written"
+        )
+    variant = Variant(name, profile, args.note or "")
+    variants = check_variants(project.variants + (variant,), project.baseline_variant)
+    save_project(dataclasses.replace(project, variants=variants), args.file)
+    print(f"variant {name!r} added to {args.file} ({len(profile.nodes)} nodes)", file=out)
+    print(f"{len(variants)} variant{'s' if len(variants) != 1 else ''}:", file=out)
+    for i, v in enumerate(variants, start=1):
+        base = v.name == (project.baseline_variant or variants[0].name)
+        print(f"  {i}. {v.name}{' (baseline)' if base else ''}", file=out)
+    return EXIT_OK
+
+
+def _print_variants(table, out):
+    from profilebench.plotting.summary import format_table
+    from profilebench.plotting.variants_page import RANKING_COLUMNS, corner_matrix, ranking_rows
+
+    print(table.key_reason, file=out)
+    print("", file=out)
+    print(format_table(RANKING_COLUMNS, ranking_rows(table)), file=out)
+    header, rows = corner_matrix(table)
+    if rows:
+        print("", file=out)
+        print("Corner verdicts (columns: the variants by rank)", file=out)
+        print(format_table(header, rows), file=out)
+    notes = list(table.notes)
+    notes += [f"{r.name}: {w}" for r in table.rows for w in r.warnings]
+    notes += [f"{r.name}: {r.status.value}: {r.message}" for r in table.failed]
+    if notes:
+        print("", file=out)
+        for n in notes:
+            print(f"note: {n}", file=out)
+
+
+def _cmd_variants(args, out):
+    if args.add is not None:
+        return _cmd_variants_add(args, out)
+    from profilebench.studies.export import write_variants_csv
+    from profilebench.studies.variants import rank_project
+
+    for option in ("note", "simplify"):
+        if getattr(args, option) is not None:
+            raise InputError(f"--{option} goes with --add NAME FILE")
+    _check_study_outputs(args)
+    project = _variants_project(args.file)
+    if not project.variants:
+        raise InputError(
+            f"{args.file!r} holds no variants; add some first: profilebench variants "
+            f"{args.file} --add NAME FILE"
+        )
+    cond = _conditions(project, args)
+    baseline = project.baseline_variant
+    if args.baseline is not None:
+        baseline = project.variant(args.baseline).name
+    import dataclasses
+
+    table = rank_project(
+        dataclasses.replace(project, baseline_variant=baseline),
+        conditions=cond,
+        key=args.by,
+        workers=args.workers,
+        progress=_terminal_progress("variant"),
+        table=_user_table(args),
+    )
+    print(f"{len(table)} variants of {project.profile.name} ({args.file})", file=out)
+    _print_variants(table, out)
+    _print_run(table.stats, out)
+    if args.csv:
+        write_variants_csv(table, args.csv)
+        print(f"table written: {args.csv}", file=out)
+    if args.image:
+        from profilebench.plotting.review import save_figure
+        from profilebench.plotting.variants_page import variants_figure
+
+        save_figure(variants_figure(table, title=f"Variants of {project.profile.name}"), args.image)
+        print(f"image written: {args.image}", file=out)
+    _caution(out)
+    if table.failed:
+        raise _Failed(
+            f"{len(table.failed)} of {len(table)} variants did not succeed (listed above)"
+        )
+    return EXIT_OK
+
+
 COMMANDS = {
     "analyse": _cmd_analyse,
+    "variants": _cmd_variants,
     "analyze": _cmd_analyse,
     "compare": _cmd_compare,
     "corners": _cmd_corners,

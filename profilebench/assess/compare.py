@@ -48,11 +48,19 @@ def _key(corner):
     return corner.label or f"node {corner.node}"
 
 
+def _drag(result):
+    """The drag numbers of an Analysis (its ``drag``) or of a result that carries them itself
+    (a study point's ``cd``, ``cda``, ``force`` and ``power``)."""
+    return getattr(result, "drag", result)
+
+
 def compare(a, b):
     """Compare analysis ``b`` (the variant) with analysis ``a`` (the baseline).
 
-    Both must be successful analyses. CdA, force and power deltas are given when both have a
-    reference area (Conditions.frontal_area or width).
+    Both must be successful analyses: :class:`~profilebench.assess.results.Analysis`, or
+    results with the same drag numbers and corners as attributes of their own (a study point's
+    result, :class:`profilebench.studies.points.PointResult`). CdA, force and power deltas are
+    given when both have a reference area (Conditions.frontal_area or width).
     """
     for name, an in (("baseline", a), ("variant", b)):
         if an is None or not an.success:
@@ -60,7 +68,7 @@ def compare(a, b):
             raise InputError(
                 f"the {name} analysis did not succeed ({msg}); fix it before comparing"
             )
-    da, db = a.drag, b.drag
+    da, db = _drag(a), _drag(b)
     delta = db.cd - da.cd
     pct = 100.0 * delta / da.cd if da.cd != 0 else float("nan")
     both_area = da.cda is not None and db.cda is not None

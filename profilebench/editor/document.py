@@ -1,4 +1,5 @@
-"""The document being edited: profile, flow conditions, baseline, file path and saved state.
+"""The document being edited: profile, flow conditions, baseline, the project's named variants,
+file path and saved state.
 
 A :class:`Document` holds one immutable :class:`DocumentState` at a time. Edits replace the state
 (see :mod:`profilebench.editor.commands`), so undo is exact: the previous state is restored as the
@@ -23,12 +24,18 @@ CAUTION = profilebench.CAUTION  # one text for the whole product
 
 @dataclass(frozen=True)
 class DocumentState:
-    """One state of the document: the profile, the flow conditions and the pinned baseline."""
+    """One state of the document: the profile, the flow conditions, the pinned baseline, the
+    underlay, and the project's named variants (a tuple of
+    :class:`profilebench.io.project.Variant`, in the user's order) with the name of the one
+    they are ranked against (None: the first). The variants are part of the state, so storing,
+    renaming, deleting or switching to one is an edit that undo takes back."""
 
     profile: object  # profilebench.geometry.profile.Profile
     conditions: object  # profilebench.assess.conditions.Conditions
     baseline: object = None  # a Profile pinned for comparison, or None
     underlay: object = None  # profilebench.editor.underlay.Underlay, or None
+    variants: tuple = ()  # profilebench.io.project.Variant, ...
+    baseline_variant: str | None = None
 
 
 class Document:
@@ -44,10 +51,21 @@ class Document:
         The project file the document was opened from or saved to.
     """
 
-    def __init__(self, profile, conditions, path=None, baseline=None, underlay=None):
+    def __init__(
+        self,
+        profile,
+        conditions,
+        path=None,
+        baseline=None,
+        underlay=None,
+        variants=(),
+        baseline_variant=None,
+    ):
         if profile is None:
             raise GeometryError("a document needs a profile; give a Profile (e.g. a sample)")
-        self._state = DocumentState(profile, conditions, baseline, underlay)
+        self._state = DocumentState(
+            profile, conditions, baseline, underlay, tuple(variants), baseline_variant
+        )
         self._saved = self._state
         self.path = Path(path) if path is not None else None
         self.selection = Selection()
@@ -73,6 +91,43 @@ class Document:
     @property
     def underlay(self):
         return self._state.underlay
+
+    @property
+    def variants(self) -> tuple:
+        return self._state.variants
+
+    @property
+    def baseline_variant(self):
+        return self._state.baseline_variant
+
+    @classmethod
+    def from_project(cls, project, path=None, underlay=None) -> "Document":
+        """A document of a :class:`profilebench.io.project.Project` (its underlay, an editor
+        :class:`~profilebench.editor.underlay.Underlay` with its image, given separately)."""
+        return cls(
+            project.profile,
+            project.conditions,
+            path=path,
+            baseline=project.baseline,
+            underlay=underlay,
+            variants=project.variants,
+            baseline_variant=project.baseline_variant,
+        )
+
+    def to_project(self, underlay=None, notes: str = ""):
+        """The document as a :class:`profilebench.io.project.Project` to save (``underlay``: the
+        file's :class:`profilebench.io.project.Underlay`, its path relative to the project)."""
+        from profilebench.io.project import Project
+
+        return Project(
+            self.profile,
+            self.conditions,
+            baseline=self.baseline,
+            underlay=underlay,
+            notes=notes,
+            variants=self.variants,
+            baseline_variant=self.baseline_variant,
+        )
 
     def set_state(self, state: DocumentState) -> None:
         """Replace the whole state (used by edits, undo and redo) and tell the listeners."""

@@ -20,7 +20,6 @@ def project_of(document: Document, path=None):
     its image path is stored relative to the project file's folder. Raises ProjectFileError
     when the underlay's image is not inside the folder of ``path``.
     """
-    from profilebench.io import Project
     from profilebench.io import Underlay as FileUnderlay
     from profilebench.io import underlay_relative_path
 
@@ -30,9 +29,7 @@ def project_of(document: Document, path=None):
         file_underlay = FileUnderlay(
             underlay_relative_path(u.path, path), u.points_px, u.points_m, u.opacity
         )
-    return Project(
-        document.profile, document.conditions, baseline=document.baseline, underlay=file_underlay
-    )
+    return document.to_project(underlay=file_underlay)
 
 
 def document_of(project, path=None, read_image=None) -> Document:
@@ -51,6 +48,4 @@ def document_of(project, path=None, read_image=None) -> Document:
     if u is not None and read_image is not None and path is not None:
         underlay = read_image(resolve_underlay(project, path))
         underlay = underlay.placed(u.points_px, u.points_m).with_opacity(u.opacity)
-    return Document(
-        project.profile, project.conditions, path=path, baseline=project.baseline, underlay=underlay
-    )
+    return Document.from_project(project, path=path, underlay=underlay)

@@ -147,6 +147,11 @@ class MainWindow(QMainWindow):
         self.resizeDocks([self._docks["Corners"]], [250], Qt.Vertical)
         # the corner table's nine columns get the larger share of the bottom row
         self.resizeDocks([self._docks["Corners"], self._docks["Plots"]], [900, 600], Qt.Horizontal)
+        # --- variant sets: the dock and its logic live in profilebench.gui.variants_panel ---
+        from profilebench.gui.variants_panel import install_variants_panel
+
+        self.variants_panel = install_variants_panel(self)
+        # --- end of variant sets ---
 
         self.plot_schedule = PlotSchedule(self)
 
@@ -302,6 +307,7 @@ class MainWindow(QMainWindow):
         self.canvas._fitted = False
         self.canvas.set_analysis(None, False)
         self.conditions_panel.set_conditions(document.conditions)
+        self.variants_panel.set_document(document)  # variant sets
         self._state_changed(document.state, force=True)
         self.canvas.fit()
 
@@ -694,6 +700,7 @@ class MainWindow(QMainWindow):
         ok = True
         for r in (self.runner, self.baseline_runner, self.search_runner):
             ok = r.close(msecs) and ok
+        ok = self.variants_panel.close_runner(msecs) and ok  # variant sets
         ok = self.canvas.shutdown(msecs) and ok
         ok = self.plots.shutdown(msecs) and ok
         ok = self.study_panel.shutdown(msecs) and ok  # the study dock (see _add_study_panel)

@@ -1,7 +1,8 @@
 """Reading and writing: project files, digitised point files, and the sample profiles.
 
 Project files (:mod:`profilebench.io.project`) are profilebench's own versioned JSON format in SI
-units (m, m/s). Saving is atomic (:mod:`profilebench.io.atomic`): a temporary file in the same
+units (m, m/s); from version 2 it also keeps named variants of the profile (version 1 files
+load unchanged). Saving is atomic (:mod:`profilebench.io.atomic`): a temporary file in the same
 folder is flushed, fsync'ed and renamed over the old one, so a failed save leaves the previous
 file intact. Loading checks every field and reports the first bad one by its JSON path.
 
@@ -28,9 +29,11 @@ from profilebench.io.project import (
     FORMAT_NAME,
     FORMAT_VERSION,
     MAX_PROJECT_BYTES,
+    MAX_VARIANTS,
     UNITS,
     Project,
     Underlay,
+    Variant,
     load_project,
     profile_from_dict,
     profile_to_dict,
@@ -53,9 +56,11 @@ __all__ = [
     "FORMAT_NAME",
     "FORMAT_VERSION",
     "MAX_PROJECT_BYTES",
+    "MAX_VARIANTS",
     "UNITS",
     "Project",
     "Underlay",
+    "Variant",
     "load_project",
     "profile_from_dict",
     "profile_to_dict",

@@ -1,23 +1,44 @@
 """Project files: profilebench's own versioned JSON format.
 
 A project file holds the edited profile, the flow conditions, an optional baseline profile to
-compare against, an optional underlay image (a photo or drawing traced over) and free notes::
+compare against, an optional underlay image (a photo or drawing traced over), free notes and
+(from version 2) an ordered set of named variants of the profile::
 
-    {"format": "profilebench-project", "version": 1, "units": "SI (m, m/s)",
+    {"format": "profilebench-project", "version": 2, "units": "SI (m, m/s)",
      "profile": {"name": str, "trailing_edge": int | null,
                  "nodes": [{"x": m, "y": m, "radius": m, "smooth": bool, "label": str}, ...]},
      "conditions": {...Conditions.to_dict()...},
      "baseline": null | <profile object>,
      "underlay": null | {"path": "relative/path.png", "points_px": [[u, v], [u, v]],
                          "points_m": [[x, y], [x, y]], "opacity": 0..1},
-     "notes": ""}
+     "notes": "",
+     "variants": [{"name": str, "profile": <profile object>, "note": str}, ...],
+     "baseline_variant": null | str}
 
 Lengths are metres and speeds m/s throughout the file. Required keys: ``format``, ``version``,
 ``profile`` (with ``nodes``; each node with ``x`` and ``y``) and ``conditions``. Optional keys
 and their defaults: ``units`` (must read "SI (m, m/s)" when present), ``baseline`` (null),
-``underlay`` (null), ``notes`` (""), profile ``name`` ("profile") and ``trailing_edge`` (null),
-node ``radius`` (0), ``smooth`` (false) and ``label`` (""). Unknown keys are refused (they are
-usually a misspelt field that would otherwise be ignored).
+``underlay`` (null), ``notes`` (""), ``variants`` ([]), ``baseline_variant`` (null), profile
+``name`` ("profile") and ``trailing_edge`` (null), node ``radius`` (0), ``smooth`` (false) and
+``label`` (""), variant ``note`` (""). Unknown keys are refused (they are usually a misspelt field
+that would otherwise be ignored).
+
+Variants (version 2). ``variants`` is an ordered list of at most :data:`MAX_VARIANTS` named
+profiles kept beside the one being edited (``profile``), for instance the front ends to choose
+between for a tunnel test. Each has a ``name`` (non-empty, not only spaces, at most
+:data:`MAX_NAME_CHARS` characters, unique in the file ignoring case and surrounding spaces, so
+that "Front A" and "front a " are not two variants), a ``profile`` and an optional ``note``.
+``baseline_variant`` names the variant the others are ranked against; null means the first one.
+The variants have no conditions of their own: they are all analysed at the project's
+``conditions``, so that a ranking compares shapes only. With a ``width`` in the conditions each
+variant's reference area is that width times its own frontal height (a taller variant has a
+larger area); a fixed ``frontal_area`` gives every variant the same area, so that CdA and force
+then rank exactly as Cd (see :mod:`profilebench.studies.variants`).
+
+Versions. Saving always writes version 2. A version 1 file (no ``variants`` or
+``baseline_variant`` keys; every other key as above) loads unchanged, with no variants; those two
+keys in a version 1 file are refused (set ``"version": 2``). The sample projects are version 1
+files and stay so on disk.
 
 Reading uses the :mod:`json` module only (data, never code). Every field is checked and the first
 bad one is reported with its JSON path, e.g. ``profile.nodes[3].radius``. Limits keep a wrong or
@@ -34,7 +55,7 @@ import math
 from dataclasses import dataclass
 from pathlib import Path, PurePosixPath, PureWindowsPath
 
-from profilebench.errors import InputError, ProfileBenchError, ProjectFileError
+from profilebench.errors import InputError, ProfileBenchError, ProjectFileError, excerpt
 from profilebench.geometry.profile import Node, Profile
 from profilebench.io.atomic import atomic_write_text, read_input_bytes
 
@@ -46,7 +67,14 @@ __all__ = [
     "MAX_NODES",
     "MAX_INTEGER_DIGITS",
     "MAX_UNDERLAY_BYTES",
+    "MAX_VARIANTS",
+    "MAX_NAME_CHARS",
+    "READ_VERSIONS",
     "Underlay",
+    "Variant",
+    "variant_index",
+    "variant_key",
+    "check_variants",
     "Project",
     "profile_to_dict",
     "profile_from_dict",
@@ -59,7 +87,9 @@ __all__ = [
 ]
 
 FORMAT_NAME = "profilebench-project"
-FORMAT_VERSION = 1
+FORMAT_VERSION = 2
+#: the format versions this profilebench reads (1: no variants; 2: variants)
+READ_VERSIONS = (1, 2)
 UNITS = "SI (m, m/s)"
 #: Largest project file read (bytes). A real project is a few kB; the limit stops a wrong file
 #: (an image, a data dump) from being read into memory.
@@ -68,8 +98,14 @@ MAX_PROJECT_BYTES = 20 * 1024 * 1024
 #: hundred; this is far above both and keeps a solve of the outline quick (common practice, no
 #: source).
 MAX_NODES = 5000
-#: Most JSON objects in a project file: two profiles of MAX_NODES nodes and a few more objects.
-MAX_OBJECTS = 2 * MAX_NODES + 100
+#: Most variants in one project file. Choosing between variants is done among a handful (five
+#: front ends for one tunnel slot); the limit keeps a ranking of them a matter of minutes.
+MAX_VARIANTS = 50
+#: Longest variant name (characters): a name is shown in a table cell.
+MAX_NAME_CHARS = 80
+#: Most JSON objects in a project file: the profile, the baseline and MAX_VARIANTS variants of
+#: MAX_NODES nodes each, and a few more objects.
+MAX_OBJECTS = (2 + MAX_VARIANTS) * (MAX_NODES + 2) + 100
 #: Longest whole number (digits) in a project file: no field needs more (a node index, a panel
 #: count), and Python refuses to convert ones over 4300 digits.
 MAX_INTEGER_DIGITS = 30
@@ -143,6 +179,108 @@ class Underlay:
         object.__setattr__(self, "opacity", float(op))
 
 
+def variant_key(name: str) -> str:
+    """The form of a variant name that must be unique in a project: without surrounding spaces,
+    case folded ("Front A" and "front a " are the same variant)."""
+    return name.strip().casefold()
+
+
+def check_variant_name(name, what: str = "variant name") -> str:
+    """``name`` if it can name a variant, else an InputError saying why and how to fix it."""
+    if not isinstance(name, str):
+        raise InputError(f"{what} must be a string, got {type(name).__name__}")
+    if not name.strip():
+        raise InputError(f"{what} is empty; give the variant a name (such as 'front A')")
+    if len(name) > MAX_NAME_CHARS:
+        raise InputError(
+            f"{what} has {len(name)} characters, over the limit of {MAX_NAME_CHARS}; "
+            "give a shorter name"
+        )
+    if any(ord(c) < 32 or 0x7F <= ord(c) <= 0x9F or 0xD800 <= ord(c) <= 0xDFFF for c in name):
+        raise InputError(
+            f"{what} {excerpt(name)} holds a control character or a lone surrogate; "
+            "retype the name with printable characters"
+        )
+    return name
+
+
+@dataclass(frozen=True)
+class Variant:
+    """One named variant of the profile, kept in the project beside the profile being edited.
+
+    Parameters
+    ----------
+    name : str
+        Non-empty, at most :data:`MAX_NAME_CHARS` characters, unique in its project (see
+        :func:`variant_key`).
+    profile : Profile
+        The variant's outline (m).
+    note : str
+        Free text (what was changed, why).
+    """
+
+    name: str
+    profile: Profile
+    note: str = ""
+
+    def __post_init__(self):
+        check_variant_name(self.name)
+        if not isinstance(self.profile, Profile):
+            raise InputError(
+                f"variant {excerpt(self.name)}: profile must be a Profile, got "
+                f"{type(self.profile).__name__}"
+            )
+        if not isinstance(self.note, str):
+            raise InputError(
+                f"variant {excerpt(self.name)}: note must be a string, got "
+                f"{type(self.note).__name__}"
+            )
+
+
+def check_variants(variants, baseline_variant=None) -> tuple:
+    """``variants`` as a tuple of :class:`Variant`, checked: at most :data:`MAX_VARIANTS`,
+    unique names, and ``baseline_variant`` (a name, or None) one of them.
+
+    Raises
+    ------
+    InputError
+        Naming the variant at fault and how to fix it.
+    """
+    try:
+        variants = tuple(variants)
+    except TypeError:
+        raise InputError(
+            f"variants must be a sequence of Variant, got {type(variants).__name__}"
+        ) from None
+    if len(variants) > MAX_VARIANTS:
+        raise InputError(
+            f"{len(variants)} variants is over the limit of {MAX_VARIANTS}; delete the ones "
+            "no longer considered"
+        )
+    seen = {}
+    for i, v in enumerate(variants):
+        if not isinstance(v, Variant):
+            raise InputError(f"variants[{i}] must be a Variant, got {type(v).__name__}")
+        key = variant_key(v.name)
+        if key in seen:
+            raise InputError(
+                f"variants[{i}] is named {excerpt(v.name)}, the name of variants[{seen[key]}] "
+                f"({excerpt(variants[seen[key]].name)}); variant names must differ (ignoring "
+                "case and surrounding spaces): rename one of them"
+            )
+        seen[key] = i
+    if baseline_variant is not None:
+        check_variant_name(baseline_variant, "baseline_variant")
+        if not any(v.name == baseline_variant for v in variants):
+            names = ", ".join(excerpt(v.name) for v in variants) or "none"
+            raise InputError(
+                f"baseline_variant {excerpt(baseline_variant)} is not the name of a variant "
+                f"(the variants are: {names}); give one of those names, or none to rank "
+                "against the first variant"
+            )
+    return variants
+
+
 @dataclass(frozen=True)
 class Project:
     """Everything a project file holds.
@@ -159,6 +297,11 @@ class Project:
         A background image to trace over.
     notes : str
         Free text.
+    variants : tuple of Variant
+        Named variants of the profile, in the user's order (see the module docstring); they are
+        analysed at ``conditions``.
+    baseline_variant : str or None
+        The name of the variant the others are ranked against; None: the first variant.
     """
 
     profile: Profile
@@ -166,6 +309,8 @@ class Project:
     baseline: Profile | None = None
     underlay: Underlay | None = None
     notes: str = ""
+    variants: tuple = ()
+    baseline_variant: str | None = None
 
     def __post_init__(self):
         if not isinstance(self.profile, Profile):
@@ -186,6 +331,31 @@ class Project:
             )
         if not isinstance(self.notes, str):
             raise InputError(f"project notes must be a string, got {type(self.notes).__name__}")
+        if self.baseline_variant is not None and not self.variants:
+            raise InputError(
+                f"baseline_variant {excerpt(str(self.baseline_variant))} is given but the "
+                "project has no variants; store a variant first or give no baseline_variant"
+            )
+        object.__setattr__(self, "variants", check_variants(self.variants, self.baseline_variant))
+
+    def variant(self, name: str) -> Variant:
+        """The variant called ``name`` (compared as :func:`variant_key` does)."""
+        return self.variants[variant_index(self.variants, name)]
+
+
+def variant_index(variants, name) -> int:
+    """The index of the variant called ``name`` in ``variants`` (names compared as
+    :func:`variant_key` does); an InputError listing the names when there is none."""
+    if isinstance(name, str):
+        key = variant_key(name)
+        for i, v in enumerate(variants):
+            if variant_key(v.name) == key:
+                return i
+    names = ", ".join(excerpt(v.name) for v in variants) or "none stored yet"
+    raise InputError(
+        f"there is no variant named {excerpt(str(name))} (the variants: {names}); give one of "
+        "those names"
+    )
 
 
 # --------------------------------------------------------------------------------------------
@@ -223,6 +393,11 @@ def project_to_dict(project: Project) -> dict:
         "baseline": None if project.baseline is None else profile_to_dict(project.baseline),
         "underlay": underlay,
         "notes": project.notes,
+        "variants": [
+            {"name": v.name, "profile": profile_to_dict(v.profile), "note": v.note}
+            for v in project.variants
+        ],
+        "baseline_variant": project.baseline_variant,
     }
 
 
@@ -491,23 +666,32 @@ def project_from_dict(d) -> Project:
         _fail("version", f'missing; add "version": {FORMAT_VERSION}')
     if isinstance(version, bool) or not isinstance(version, int):
         _fail("version", f"expected an integer format version, got {_show(version)}")
+    readable = " and ".join(str(v) for v in READ_VERSIONS)
     if version > FORMAT_VERSION:
         _fail(
             "version",
             f"file format version {version} was made by a newer profilebench "
-            f"(this one reads version {FORMAT_VERSION}); upgrade profilebench to open it",
+            f"(this one reads versions {readable}); upgrade profilebench to open it",
         )
-    if version != FORMAT_VERSION:
+    if version not in READ_VERSIONS:
         _fail(
             "version",
-            f"unknown or older file format version {version}; this profilebench "
-            f"reads version {FORMAT_VERSION} only",
+            f"unknown file format version {version}; this profilebench reads versions "
+            f"{readable} only",
         )
+    if version == 1:
+        for key in ("variants", "baseline_variant"):
+            if key in d:
+                _fail(
+                    key,
+                    'variants need format version 2, but the file says "version": 1; set '
+                    '"version": 2 (or remove the field)',
+                )
     _keys(
         d,
         "",
         ("format", "version", "profile", "conditions"),
-        ("units", "baseline", "underlay", "notes"),
+        ("units", "baseline", "underlay", "notes", "variants", "baseline_variant"),
     )
     if "units" in d and d["units"] != UNITS:
         _fail(
@@ -533,7 +717,68 @@ def project_from_dict(d) -> Project:
     if d.get("underlay") is not None:
         underlay = _underlay_from_dict(d["underlay"])
     notes = _string(d.get("notes", ""), "notes")
-    return Project(profile, conditions, baseline, underlay, notes)
+    variants = _variants_from_list(d.get("variants", []))
+    baseline_variant = _baseline_variant(d.get("baseline_variant"), variants)
+    return Project(profile, conditions, baseline, underlay, notes, variants, baseline_variant)
+
+
+def _variant_name(value, path: str) -> str:
+    name = _string(value, path)
+    try:
+        return check_variant_name(name, "the name")
+    except InputError as exc:
+        _fail(path, str(exc))
+
+
+def _variants_from_list(raw) -> tuple:
+    path = "variants"
+    if not isinstance(raw, list):
+        _fail(path, f"expected a list of variant objects, got {_kind(raw)}")
+    if len(raw) > MAX_VARIANTS:
+        _fail(
+            path,
+            f"has {len(raw)} variants, over the limit of {MAX_VARIANTS}; keep the variants "
+            "still considered (delete the others)",
+        )
+    out, seen = [], {}
+    for i, item in enumerate(raw):
+        vpath = f"{path}[{i}]"
+        item = _obj(item, vpath, 'a variant object {"name": str, "profile": {...}, "note": str}')
+        if "name" not in item:
+            _fail(_join(vpath, "name"), "missing; give every variant a name")
+        name = _variant_name(item["name"], _join(vpath, "name"))
+        key = variant_key(name)
+        if key in seen:
+            j = seen[key]
+            _fail(
+                _join(vpath, "name"),
+                f"{excerpt(name)} is already the name of variants[{j}] "
+                f"({excerpt(out[j].name)}; names must differ, "
+                "ignoring case and surrounding spaces); rename one of the two",
+            )
+        seen[key] = i
+        try:
+            _keys(item, vpath, ("name", "profile"), ("note",))
+            profile = profile_from_dict(item["profile"], _join(vpath, "profile"))
+            note = _string(item.get("note", ""), _join(vpath, "note"))
+        except ProjectFileError as exc:
+            raise ProjectFileError(f"{exc} (in variant {excerpt(name)})", path=exc.path) from None
+        out.append(Variant(name, profile, note))
+    return tuple(out)
+
+
+def _baseline_variant(value, variants):
+    if value is None:
+        return None
+    name = _string(value, "baseline_variant")
+    if not any(v.name == name for v in variants):
+        names = ", ".join(excerpt(v.name) for v in variants) or "none"
+        _fail(
+            "baseline_variant",
+            f"{excerpt(name)} is not the name of a variant in this file (its variants: "
+            f"{names}); give one of those names exactly, or null to rank against the first",
+        )
+    return name
 
 
 def _conditions_key(message: str, raw: dict) -> str | None:
@@ -558,7 +803,8 @@ def _pairs_no_duplicates(pairs, counter=None):
         if counter[0] > MAX_OBJECTS:
             raise ProjectFileError(
                 f"the file holds more than {MAX_OBJECTS} JSON objects, more than a project of "
-                f"two profiles of {MAX_NODES} nodes each has; simplify the outline or choose "
+                f"{2 + MAX_VARIANTS} profiles (the profile, the baseline and {MAX_VARIANTS} "
+                f"variants) of {MAX_NODES} nodes each has; simplify the outline or choose "
                 "the right file"
             )
     out = {}
@@ -603,7 +849,9 @@ def load_project(path) -> Project:
             object_pairs_hook=lambda pairs: _pairs_no_duplicates(pairs, counter),
         )
     except json.JSONDecodeError as exc:
-        if exc.pos >= len(text.rstrip()):
+        # the parser stopped at the end, or in a string the end of the text cut open (json
+        # reports a string with a line break inside as an invalid control character instead)
+        if exc.pos >= len(text.rstrip()) or exc.msg.startswith("Unterminated string"):
             raise ProjectFileError(
                 f"{shown!r} is truncated: the JSON ends before it is complete (line {exc.lineno}); "
                 "restore it from a backup or re-save it"

@@ -1,5 +1,6 @@
 """Screening studies: sweeps of one corner's radius, one node's position, the speed, and a
-radius x speed grid, run in parallel, interruptible and cached (no Qt here).
+radius x speed grid, and the ranking of a project's named variants, run in parallel,
+interruptible and cached (no Qt here).
 
 Each is a screening estimate, to be confirmed by wind tunnel or validated CFD.
 """
@@ -21,6 +22,13 @@ from profilebench.studies.sweep import (
     radius_sweep,
     speed_plan,
     speed_sweep,
+)
+from profilebench.studies.variants import (
+    RANK_KEYS,
+    VariantRow,
+    VariantTable,
+    rank_project,
+    rank_variants,
 )
 
 __all__ = [
@@ -46,4 +54,9 @@ __all__ = [
     "radius_plan",
     "position_plan",
     "speed_plan",
+    "RANK_KEYS",
+    "VariantRow",
+    "VariantTable",
+    "rank_project",
+    "rank_variants",
 ]

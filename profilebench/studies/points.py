@@ -96,7 +96,9 @@ class CornerPoint:
 class PointResult:
     """The compact result of one point: status and message, the drag numbers (None where the
     analysis failed or gave none: CdA, force and power need a frontal area or width), each
-    corner's verdict and margin, and the searched corner's smallest attached radius."""
+    corner's verdict and margin, the searched corner's smallest attached radius, and the
+    reference height h (m) and area (m^2, None without a frontal area or width) the numbers are
+    based on."""
 
     status: PointStatus
     message: str
@@ -111,6 +113,8 @@ class PointResult:
     corners: tuple[CornerPoint, ...] = ()
     search: RadiusSearch | None = None
     seconds: float = 0.0
+    reference_height: float | None = None
+    reference_area: float | None = None
 
     @property
     def success(self) -> bool:
@@ -153,6 +157,10 @@ def analyse_point(spec: PointSpec) -> PointResult:
             corners=corners,
             search=search,
             seconds=time.perf_counter() - t0,
+            reference_height=float(a.drag.reference_height),
+            reference_area=(
+                None if a.drag.reference_area is None else float(a.drag.reference_area)
+            ),
             **numbers,
         )
     except ProfileBenchError as exc:

@@ -14,14 +14,8 @@ BODY = str(next(p for p in sample_paths() if p.name == "kestrel_test_body.json")
 FAST = ["--panels", "150", "--workers", "1"]
 
 
-@pytest.fixture(autouse=True)
-def fresh_cache():
-    """Each test starts with an empty point cache (the process-wide one the CLI uses)."""
-    from profilebench.studies import POINT_CACHE
-
-    POINT_CACHE.clear()
-    yield
-    POINT_CACHE.clear()
+# each test starts with an empty point cache (the process-wide one the CLI uses)
+pytestmark = pytest.mark.usefixtures("fresh_point_cache")
 
 
 def _run(capsys, *argv):

@@ -1,5 +1,6 @@
 """The shipped sample profiles: they load, round-trip, and are sensible outlines above the ground."""
 
+import json
 import math
 
 import numpy as np
@@ -28,11 +29,20 @@ def test_at_least_four_samples_and_default_among_them():
 @pytest.mark.parametrize("path", SAMPLES, ids=IDS)
 def test_sample_round_trips_unchanged(path, tmp_path):
     project = load_project(path)
+    assert project.variants == () and project.baseline_variant is None
     out = tmp_path / path.name
     save_project(project, out)
     assert load_project(out) == project
-    # the shipped file is exactly what save_project writes (no hand edits drifted from the format)
-    assert out.read_bytes() == path.read_bytes()
+    # the samples stay version 1 files on disk (they test that version 1 loads unchanged); each
+    # is exactly what save_project writes, less the two keys version 2 added (no hand edits
+    # drifted from the format)
+    data = json.loads(out.read_text(encoding="utf-8"))
+    assert data["version"] == 2
+    assert data.pop("variants") == [] and data.pop("baseline_variant") is None
+    data["version"] = 1
+    assert json.loads(path.read_text(encoding="utf-8"))["version"] == 1
+    as_v1 = json.dumps(data, indent=2, allow_nan=False, ensure_ascii=True) + "\n"
+    assert as_v1.encode("ascii") == path.read_bytes()
 
 
 @pytest.mark.parametrize("path", SAMPLES, ids=IDS)

@@ -213,10 +213,10 @@ def test_truncated_project(tmp_path, sample_dict):
 
 
 def test_project_of_a_newer_version(tmp_path, sample_dict):
-    sample_dict["version"] = 2
+    sample_dict["version"] = 3
     with pytest.raises(ProjectFileError) as info:
-        load_project(write_json(tmp_path, "v2.json", sample_dict))
-    _says(str(info.value), "version 2", "newer")
+        load_project(write_json(tmp_path, "v3.json", sample_dict))
+    _says(str(info.value), "version 3", "newer")
     assert info.value.path == "version"
 
 
@@ -415,7 +415,7 @@ def test_csv_bad_units_argument(tmp_path):
 @pytest.mark.parametrize(
     "mutate, args, words",
     [
-        (lambda d: d.update(version=2), [], ["version 2", "upgrade"]),
+        (lambda d: d.update(version=3), [], ["version 3", "upgrade"]),
         (lambda d: d["conditions"].update(speed=-1.0), [], ["conditions.speed", "give a value"]),
         (
             lambda d: d["profile"]["nodes"][0].update(x="abc"),
