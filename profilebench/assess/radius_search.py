@@ -233,6 +233,33 @@ class SearchCache(LruCache):
                 best, best_shift = result, shift
         return None if best is None else (best, float(best_shift))
 
+    def nearest_bracket(self, profile, conditions, node, thickness=None):
+        """The (separated, attached) bracket of a FOUND search of ``node`` on the nearest outline
+        in the cache with as many nodes, the same smooth flags, trailing edge, conditions and
+        thickness; nearest by the largest change of a node's position or of another corner's
+        radius (a radius sweep of another corner, a drag). None if there is none. A hint only:
+        :func:`smallest_attached_radius` checks it."""
+        here = _key_nodes(profile, node)
+        best, best_d = None, None
+        for (key_nodes, te, cond, k_node, k_thick), result in self.items():
+            if (
+                result.status is not SearchStatus.FOUND
+                or k_node != node
+                or te != profile.trailing_edge
+                or cond != conditions
+                or k_thick != thickness
+                or len(key_nodes) != len(here)
+                or any(a[3] != b[3] for a, b in zip(key_nodes, here))
+            ):
+                continue
+            d = max(
+                math.hypot(a[0] - b[0], a[1] - b[1]) + abs(a[2] - b[2])
+                for a, b in zip(key_nodes, here)
+            )
+            if best_d is None or d < best_d:
+                best, best_d = result, d
+        return None if best is None else best.bracket
+
 
 # The cache a process's analyses and searches share unless they are given another.
 SEARCH_CACHE = SearchCache()
@@ -240,19 +267,16 @@ SEARCH_CACHE = SearchCache()
 
 def cached_radius_search(profile, conditions, node, thickness=None, cache=None):
     """:func:`smallest_attached_radius`, remembered in ``cache`` (default :data:`SEARCH_CACHE`),
-    started from the bracket found on the nearest outline in the cache that differs only in its
-    nodes' positions and this corner's radius."""
+    started from the bracket found on the nearest outline in the cache
+    (:meth:`SearchCache.nearest_bracket`)."""
     cache = SEARCH_CACHE if cache is None else cache
     key = SearchCache.key(profile, conditions, node, thickness)
     hit = cache.get(key)
     if hit is not None:
         return hit
-    # the answer on the nearest outline searched before (the same corners and conditions) as
-    # the first bracket to try: the search checks it, so it only saves solves
-    near = cache.nearby(profile, conditions, node, thickness=thickness, within=math.inf)
-    start = None
-    if near is not None and near[0].status is SearchStatus.FOUND:
-        start = near[0].bracket
+    # the answer on the nearest outline searched before as the first bracket to try: the search
+    # checks it, so it only saves solves
+    start = cache.nearest_bracket(profile, conditions, node, thickness=thickness)
     result = smallest_attached_radius(profile, conditions, node, thickness=thickness, start=start)
     cache.put(key, result)
     return result

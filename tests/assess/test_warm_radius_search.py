@@ -127,3 +127,21 @@ def test_a_random_family_gives_the_same_answer_warm_and_cold(length, height, r_f
     start = before.bracket if before.status is SearchStatus.FOUND else None
     warm = smallest_attached_radius(moved, cond, 3, start=start)
     _same_answer(warm, cold)
+
+
+def test_another_corners_radius_step_is_searched_from_the_last_answer():
+    # a radius sweep of one corner asks for the search of another at every point: the search
+    # at the next radius starts from the answer at the last one
+    body = load_project(next(p for p in sample_paths() if p.stem == "kestrel_test_body"))
+    cond = body.conditions.replace(panels=PANELS)
+    node, _ = _first_found(body.profile, cond)
+    other = next(
+        i for i, nd in enumerate(body.profile.nodes) if i != node and not nd.smooth and nd.radius
+    )
+    cache = SearchCache()
+    cached_radius_search(body.profile, cond, node, cache=cache)
+    stepped = body.profile.with_radius(other, 1.1 * body.profile.nodes[other].radius)
+    warm = cached_radius_search(stepped, cond, node, cache=cache)
+    cold = smallest_attached_radius(stepped, cond, node)
+    _same_answer(warm, cold)
+    assert warm.solves < cold.solves
