@@ -49,7 +49,7 @@ from profilebench.gui.canvas_overlay import (
     remember,
 )
 from profilebench.gui.refcount_guard import restore_none_refcount
-from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
+from profilebench.gui.runners import ProcessTaskRunner, TaskRunner
 from profilebench.plotting.profile_view import CP_FLOOR, check_cp_min
 from profilebench.plotting.style import (
     BASELINE_COLOUR,

@@ -26,7 +26,7 @@ from PySide6.QtWidgets import (
 
 from profilebench.editor.document import CAUTION
 from profilebench.editor.import_preview import ImportPreview, fit_preview
-from profilebench.gui.worker import ProcessTaskRunner
+from profilebench.gui.runners import ProcessTaskRunner
 
 __all__ = ["ImportDialog", "OutlinePreview"]
 

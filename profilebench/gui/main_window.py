@@ -2,7 +2,7 @@
 
 The window holds an :class:`profilebench.editor.Document` and a QUndoStack of
 :class:`~profilebench.gui.undo.EditCommand`; every user action becomes an editor edit. Analyses
-run on a :class:`~profilebench.gui.worker.AnalysisRunner`; the newest result is shown, a failed
+run on a :class:`~profilebench.gui.runners.AnalysisRunner`; the newest result is shown, a failed
 one is reported in the banner while the last good result stays on screen marked stale. Which
 result is shown, and when, is decided by the Qt-free
 :class:`~profilebench.editor.controller.ResultsController`; the window wires signals to it and
@@ -49,7 +49,7 @@ from profilebench.gui.undo import push_edit
 from profilebench.gui.underlay_picking import UnderlayPicking, underlay_from_image
 from profilebench.gui.child_process import call
 from profilebench.gui.work_progress import WorkProgress
-from profilebench.gui.worker import AnalysisRunner, ProcessTaskRunner
+from profilebench.gui.runners import AnalysisRunner, ProcessTaskRunner
 
 __all__ = ["MainWindow"]
 

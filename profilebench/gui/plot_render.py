@@ -3,7 +3,7 @@
 matplotlib's Agg backend holds Python's global interpreter lock inside each of its C++ calls
 (text layout, glyphs, paths: several ms each), so a plot rendered on a thread of the editor's
 process stops the GUI thread for as long. The editor therefore renders its plots in one child
-process (:func:`profilebench.gui.worker.process_pool`) with :func:`render_plot_rgba`, which
+process (:func:`profilebench.gui.runners.process_pool`) with :func:`render_plot_rgba`, which
 needs only matplotlib and :mod:`profilebench.plotting`, and gets back the RGBA pixels.
 """
 

@@ -27,7 +27,7 @@ from PySide6.QtWidgets import (
 
 from profilebench.editor.controller import SearchRunning
 from profilebench.gui.plot_render import render_plot_rgba, warm_up
-from profilebench.gui.worker import ProcessTaskRunner
+from profilebench.gui.runners import ProcessTaskRunner
 
 from profilebench.plotting import summary_rows
 from profilebench.plotting.summary import (

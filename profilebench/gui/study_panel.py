@@ -48,7 +48,7 @@ from profilebench.errors import InputError, ProfileBenchError
 from profilebench.gui.child_process import CHILD_NICENESS
 from profilebench.gui.plot_render import render_sweep_rgba, warm_up
 from profilebench.gui.results_panels import PlotView, row_table, set_table_cells
-from profilebench.gui.worker import ProcessTaskRunner
+from profilebench.gui.runners import ProcessTaskRunner
 
 __all__ = ["StudyPanel", "SWEEP_KINDS", "REDRAW_MS", "PICK_PX"]
 

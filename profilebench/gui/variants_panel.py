@@ -35,7 +35,7 @@ from profilebench.editor import variant_edits
 from profilebench.editor.document import CAUTION
 from profilebench.errors import ProfileBenchError
 from profilebench.gui.child_process import call_with_keywords, import_modules
-from profilebench.gui.worker import ProcessTaskRunner, TaskRunner
+from profilebench.gui.runners import ProcessTaskRunner, TaskRunner
 from profilebench.plotting.variants_page import RANKING_COLUMNS, ranking_rows
 
 __all__ = ["VariantsPanel", "install_variants_panel", "DOCK_TITLE"]

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 
 from profilebench.gui.child_process import ChildProcess
-from profilebench.gui.worker import ProcessTaskRunner
+from profilebench.gui.runners import ProcessTaskRunner
 
 
 @pytest.fixture
@@ -94,7 +94,7 @@ def test_a_job_that_does_not_pickle_fails_alone(child, qtbot):
 
 def test_default_analysis_runs_in_the_child_and_matches_the_pipeline(qtbot):
     from profilebench.assess.analysis import analyze
-    from profilebench.gui.worker import AnalysisRunner
+    from profilebench.gui.runners import AnalysisRunner
     from profilebench.io import default_sample_path, load_project
 
     project = load_project(default_sample_path())
@@ -111,7 +111,7 @@ def test_default_analysis_runs_in_the_child_and_matches_the_pipeline(qtbot):
 
 
 def test_an_injected_analysis_runs_on_a_thread(qtbot):
-    from profilebench.gui.worker import AnalysisRunner
+    from profilebench.gui.runners import AnalysisRunner
 
     runner = AnalysisRunner(analyze_fn=lambda p, c: (p, c))  # a lambda: cannot cross processes
     assert runner._child is None

@@ -4,7 +4,7 @@ import threading
 import time
 
 
-from profilebench.gui.worker import TaskRunner
+from profilebench.gui.runners import TaskRunner
 
 
 def test_only_the_newest_of_many_requests_is_delivered(qtbot):
