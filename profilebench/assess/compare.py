@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
+from profilebench.assess.results import Analysis
 from profilebench.errors import InputError
 
 __all__ = ["Comparison", "CornerChange", "compare"]
@@ -51,7 +52,7 @@ def _key(corner):
 def _drag(result):
     """The drag numbers of an Analysis (its ``drag``) or of a result that carries them itself
     (a study point's ``cd``, ``cda``, ``force`` and ``power``)."""
-    return getattr(result, "drag", result)
+    return result.drag if isinstance(result, Analysis) else result
 
 
 def compare(a, b):

@@ -325,7 +325,7 @@ class VariantsPanel(QWidget):
             return False
         try:
             check_writable(path)
-            name = getattr(self.document.profile, "name", "") if self.document else ""
+            name = self.document.profile.name if self.document else ""
             fig = variants_figure(self.ranking, title=f"Variants of {name}" if name else None)
             save_figure(fig, path)
         except ProfileBenchError as exc:
