@@ -203,6 +203,7 @@ class StudyPanel(QWidget):
     def __init__(self, state_source, parent=None):
         super().__init__(parent)
         self.state_source = state_source
+        self._follow = None  # a node selected while the panel was hidden (followed when shown)
         self.cache = studies.POINT_CACHE
         self.run_record: StudyRun | None = None  # the run shown (running or finished)
         self.table = None  # the SweepTable shown: the finished run's, or its points so far
@@ -331,7 +332,7 @@ class StudyPanel(QWidget):
         layout.addWidget(split, 1)
         self.kind.currentIndexChanged.connect(lambda _: self._defaults())
         self.corner.currentIndexChanged.connect(lambda _: self._defaults())
-        self.document_changed()
+        self._sync()
         self._defaults()
 
     # ------------------------------------------------------------------ the editor's side
@@ -350,17 +351,34 @@ class StudyPanel(QWidget):
         return r is not None and not r.finished
 
     def follow_node(self, node):
-        """The editor selected ``node`` (-1 or None: nothing): the corner list follows it."""
+        """The editor selected ``node`` (-1 or None: nothing): the corner list follows it.
+
+        A hidden panel only remembers the node and follows it when shown: filling the list and
+        the range (the largest radius that fits) took about 60 ms of the GUI thread on every
+        press on the canvas, the start of every drag."""
         if node is None or node < 0:
             return
+        self._follow = int(node)
+        if self.isVisible():
+            self._follow_now()
+
+    def _follow_now(self):
+        node, self._follow = self._follow, None
         self._refresh()  # the list is of the editor's outline
-        k = self.corner.findData(int(node))
+        if node is None:
+            return
+        k = self.corner.findData(node)
         if k >= 0:
             self.corner.setCurrentIndex(k)
 
     def document_changed(self, *_):
         """The editor's document changed: the corner list follows its nodes, and the note says
-        whether the chart is still of the editor's outline and conditions."""
+        whether the chart is still of the editor's outline and conditions (a hidden panel looks
+        when it is shown: listing the corners by place takes the GUI thread at every edit)."""
+        if self.isVisible():
+            self._sync()
+
+    def _sync(self):
         state = self.state_source()
         self._seen_state = state
         if state is None:
@@ -371,7 +389,7 @@ class StudyPanel(QWidget):
     def _refresh(self):
         """Look at the editor's document now (it may have been replaced without an edit)."""
         if self.state_source() is not self._seen_state:
-            self.document_changed()
+            self._sync()
 
     def _look(self):  # the watch: only while the panel is shown (a hidden one looks when shown)
         if self.isVisible():
@@ -379,7 +397,7 @@ class StudyPanel(QWidget):
 
     def showEvent(self, event):
         super().showEvent(event)
-        self._refresh()
+        self._follow_now()
 
     def _list_corners(self, profile):
         from profilebench.geometry.places import place_names
