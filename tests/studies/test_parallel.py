@@ -48,16 +48,20 @@ def _children():
 @pytest.fixture
 def no_new_children():
     """After the test, no child process that was not there before it (other tests of the suite
-    may leave their own, such as the editor's analysis process)."""
+    may leave their own, such as the editor's analysis process, and the workers' fork server,
+    one for the program's life, is started first)."""
     import multiprocessing
 
+    from profilebench.studies.runner import start_worker_server
+
+    start_worker_server()
     before, mp_before = _children(), set(multiprocessing.active_children())
     yield
     assert _children() - before == set()
     assert set(multiprocessing.active_children()) - mp_before == set()
 
 
-@pytest.mark.parametrize("start_method", ["fork", "spawn"])
+@pytest.mark.parametrize("start_method", ["fork", "forkserver", "spawn"])
 def test_workers_give_the_serial_answer(start_method, no_new_children):
     serial = radius_sweep(
         BODY, COND, 3, radii=RADII[:2], workers=1, search=False, cache=PointCache()
