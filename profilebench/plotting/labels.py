@@ -59,6 +59,9 @@ def _box_px(text, renderer):
     return bb.width + 2 * pad, bb.height + 2 * pad
 
 
+_PATH_TEST_CELLS = 4000  # cells per point-in-path call (see _Raster.fill_path)
+
+
 class _Raster:
     """Boolean layers over the axes box in display pixels, with summed-area tables."""
 
@@ -75,8 +78,21 @@ class _Raster:
         return np.zeros((self.ny, self.nx), dtype=bool)
 
     def fill_path(self, mask, path_px):
-        inside = path_px.contains_points(self.centres).reshape(self.ny, self.nx)
-        mask |= inside
+        """Mark the cells whose centres lie inside ``path_px``: only the cells within the path's
+        extent are tested, a few thousand at a time. (matplotlib's point-in-path test holds the
+        interpreter lock for a whole call: over every cell of the canvas at once it took tens of
+        milliseconds, during which the editor's GUI thread, beside the overlay thread that lays
+        out the labels, could not run.)"""
+        ext = path_px.get_extents()
+        i0, i1 = self._range(ext.y0, ext.y1, self.y0, self.ny)
+        j0, j1 = self._range(ext.x0, ext.x1, self.x0, self.nx)
+        if i1 <= i0 or j1 <= j0:
+            return mask
+        rows = max(1, _PATH_TEST_CELLS // (j1 - j0))
+        for a in range(i0, i1, rows):
+            b = min(a + rows, i1)
+            sub = self.centres.reshape(self.ny, self.nx, 2)[a:b, j0:j1].reshape(-1, 2)
+            mask[a:b, j0:j1] |= path_px.contains_points(sub).reshape(b - a, j1 - j0)
         return mask
 
     def fill_box(self, mask, x0, y0, x1, y1):

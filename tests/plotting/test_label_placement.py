@@ -104,3 +104,22 @@ def test_sample_labels_clear_of_each_other_outline_and_hatching(path):
 def test_imported_outline_labels_clear(path):
     a, fig = _imported_page(path)
     _check(a, fig)
+
+
+def test_the_raster_marks_the_cells_inside_a_path_as_matplotlib_does():
+    # reference: matplotlib's own point-in-path test over every cell centre at once (the raster
+    # tests only the cells within the path's extent, a few thousand at a time)
+    import numpy as np
+    from matplotlib.path import Path
+
+    from profilebench.plotting.labels import _Raster
+
+    ang = np.linspace(0.0, 2.0 * np.pi, 300, endpoint=False)
+    ring = np.column_stack(
+        [400 + 250 * np.cos(ang) * (1 + 0.3 * np.sin(5 * ang)), 300 + 120 * np.sin(ang)]
+    )
+    path = Path(np.vstack([ring, ring[:1]]), closed=True)
+    raster = _Raster((0.0, 0.0, 900.0, 640.0))
+    got = raster.fill_path(raster.empty(), path)
+    want = path.contains_points(raster.centres).reshape(raster.ny, raster.nx)
+    assert got.any() and np.array_equal(got, want)
