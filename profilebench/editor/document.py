@@ -60,6 +60,7 @@ class Document:
         underlay=None,
         variants=(),
         baseline_variant=None,
+        notes: str = "",
     ):
         if profile is None:
             raise GeometryError("a document needs a profile; give a Profile (e.g. a sample)")
@@ -68,6 +69,9 @@ class Document:
         )
         self._saved = self._state
         self.path = Path(path) if path is not None else None
+        # the project file's free notes: the editor does not edit them, but keeps them, so that
+        # saving a project from the editor does not lose what was written there
+        self.notes = notes
         self.selection = Selection()
         self._listeners: list[Callable[[DocumentState], None]] = []
 
@@ -112,11 +116,13 @@ class Document:
             underlay=underlay,
             variants=project.variants,
             baseline_variant=project.baseline_variant,
+            notes=project.notes,
         )
 
-    def to_project(self, underlay=None, notes: str = ""):
+    def to_project(self, underlay=None, notes: str | None = None):
         """The document as a :class:`profilebench.io.project.Project` to save (``underlay``: the
-        file's :class:`profilebench.io.project.Underlay`, its path relative to the project)."""
+        file's :class:`profilebench.io.project.Underlay`, its path relative to the project;
+        ``notes``: the free notes, by default those the document was made with)."""
         from profilebench.io.project import Project
 
         return Project(
@@ -124,7 +130,7 @@ class Document:
             self.conditions,
             baseline=self.baseline,
             underlay=underlay,
-            notes=notes,
+            notes=self.notes if notes is None else notes,
             variants=self.variants,
             baseline_variant=self.baseline_variant,
         )

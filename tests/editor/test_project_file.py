@@ -63,3 +63,17 @@ def test_an_underlay_outside_the_project_folder_is_refused(tmp_path):
     doc = _document(tmp_path / "side.png")
     with pytest.raises(ProjectFileError, match="not inside the project folder"):
         project_of(doc, tmp_path / "project" / "p.json")
+
+
+def test_a_projects_notes_survive_opening_and_saving_in_the_editor(tmp_path):
+    # the editor does not edit the notes, but saving from it must not lose them (they were
+    # written empty before)
+    import dataclasses
+
+    path = tmp_path / "p.json"
+    project = project_of(Document(BOX, Conditions(speed=35.0)))
+    save_project(dataclasses.replace(project, notes="tunnel entry 14: front radii as drawn"), path)
+    doc = document_of(load_project(path), path)
+    doc.set_state(commands.set_radius(doc.state, 2, 0.15).after)  # an edit, then save
+    save_project(project_of(doc, path), path)
+    assert load_project(path).notes == "tunnel entry 14: front radii as drawn"
