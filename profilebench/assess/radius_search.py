@@ -210,23 +210,32 @@ class SearchCache(LruCache):
     def key(profile, conditions, node, thickness=None):
         return (_key_nodes(profile, node), profile.trailing_edge, conditions, node, thickness)
 
+    def _alike(self, profile, conditions, node, thickness):
+        """(nodes of this profile as keyed, [(stored nodes, search)]) of the stored searches of
+        ``node`` with as many nodes, the same smooth flags, trailing edge, conditions and
+        thickness."""
+        here = _key_nodes(profile, node)
+        out = []
+        for (key_nodes, te, cond, k_node, k_thick), result in self.items():
+            if (
+                k_node == node
+                and te == profile.trailing_edge
+                and cond == conditions
+                and k_thick == thickness
+                and len(key_nodes) == len(here)
+                and all(a[3] == b[3] for a, b in zip(key_nodes, here))
+            ):
+                out.append((key_nodes, result))
+        return here, out
+
     def nearby(self, profile, conditions, node, thickness=None, within=0.0):
         """A stored search of ``node`` on an outline whose nodes all lie within ``within`` m of
         this profile's (otherwise the same radii, smooth flags, trailing edge, conditions and
         thickness): ``(search, shift)`` with the smallest largest node shift, or None."""
-        here = _key_nodes(profile, node)
-        items = self.items()
+        here, alike = self._alike(profile, conditions, node, thickness)
         best, best_shift = None, None
-        for (key_nodes, te, cond, k_node, k_thick), result in items:
-            if (
-                k_node != node
-                or te != profile.trailing_edge
-                or cond != conditions
-                or k_thick != thickness
-                or len(key_nodes) != len(here)
-            ):
-                continue
-            if any(a[2:] != b[2:] for a, b in zip(key_nodes, here)):
+        for key_nodes, result in alike:
+            if any(a[2] != b[2] for a, b in zip(key_nodes, here)):
                 continue
             shift = max(math.hypot(a[0] - b[0], a[1] - b[1]) for a, b in zip(key_nodes, here))
             if shift <= within and (best_shift is None or shift < best_shift):
@@ -239,18 +248,10 @@ class SearchCache(LruCache):
         thickness; nearest by the largest change of a node's position or of another corner's
         radius (a radius sweep of another corner, a drag). None if there is none. A hint only:
         :func:`smallest_attached_radius` checks it."""
-        here = _key_nodes(profile, node)
+        here, alike = self._alike(profile, conditions, node, thickness)
         best, best_d = None, None
-        for (key_nodes, te, cond, k_node, k_thick), result in self.items():
-            if (
-                result.status is not SearchStatus.FOUND
-                or k_node != node
-                or te != profile.trailing_edge
-                or cond != conditions
-                or k_thick != thickness
-                or len(key_nodes) != len(here)
-                or any(a[3] != b[3] for a, b in zip(key_nodes, here))
-            ):
+        for key_nodes, result in alike:
+            if result.status is not SearchStatus.FOUND:
                 continue
             d = max(
                 math.hypot(a[0] - b[0], a[1] - b[1]) + abs(a[2] - b[2])

@@ -56,6 +56,7 @@ from profilebench.flow.thwaites import (
     thwaites_momentum_thickness,
     thwaites_shape_factor,
     thwaites_shear,
+    thwaites_theta_squared_between,
 )
 from profilebench.flow.transition import michel_critical_re_theta
 
@@ -349,24 +350,10 @@ def _local_quadratic_fit(s, ue, n_fit, fit_length=0.0):
         u_fit[:] = ue
         d_fit[:] = slope
         return u_fit, d_fit
-    centre = np.arange(m)
-    lo = np.clip(centre - half, 0, m - w)
-    hi = lo + w - 1
-    if fit_length > 0.0:
-        sm = s[:m]
-        lo = np.minimum(lo, np.searchsorted(sm, sm - fit_length, side="left"))
-        hi = np.maximum(hi, np.searchsorted(sm, sm + fit_length, side="right") - 1)
-    width = int((hi - lo).max()) + 1
-    win = lo[:, None] + np.arange(width)[None, :]
-    inside = win <= hi[:, None]
-    win = np.minimum(win, m - 1)
-    wt = inside.astype(float)
-    scale = s[hi] - s[lo]
-    x = (s[win] - s[centre][:, None]) / scale[:, None]
-    y = ue[win]
-    c0, c1 = _quadratic_value_and_slope(x, y, wt)
+    sm = s[:m]
+    c0, slope = _fit_at(sm, ue, np.arange(m), sm, half, fit_length)
     u_fit[:m] = c0
-    d_fit[:m] = c1 / scale
+    d_fit[:m] = slope
     u_fit[m:] = u_fit[m - 1]
     d_fit[m:] = d_fit[m - 1]
     return u_fit, d_fit
@@ -393,17 +380,12 @@ def _quadratic_value_and_slope(x, y, wt):
     return c0, c1
 
 
-def _slope_at(s, ue, n_fit, fit_length, x):
-    """Slope of the fit of :func:`_local_quadratic_fit` centred at arc lengths ``x`` (m) between
-    the stations: the same window (the nearest stations and every station within
-    ``fit_length``), so that at a station it is that station's slope."""
-    m = n_fit
-    half = _FIT_MIN_HALF_WIDTH if fit_length > 0.0 else _FIT_HALF_WIDTH
+def _fit_at(sm, ue, nearest, x, half, fit_length):
+    """Value and slope at arc lengths ``x`` of the least-squares quadratic through the window of
+    each: the 2 ``half`` + 1 stations round station ``nearest`` (one-sided at the ends) and every
+    station within ``fit_length`` of x."""
+    m = sm.size
     w = min(2 * half + 1, m)
-    sm = s[:m]
-    j = np.clip(np.searchsorted(sm, x, side="right") - 1, 0, m - 2)
-    frac = (x - sm[j]) / (sm[j + 1] - sm[j])
-    nearest = j + (frac >= 0.5)
     lo = np.clip(nearest - half, 0, m - w)
     hi = lo + w - 1
     if fit_length > 0.0:
@@ -414,8 +396,19 @@ def _slope_at(s, ue, n_fit, fit_length, x):
     wt = (win <= hi[:, None]).astype(float)
     win = np.minimum(win, m - 1)
     scale = sm[hi] - sm[lo]
-    _, c1 = _quadratic_value_and_slope((sm[win] - x[:, None]) / scale[:, None], ue[win], wt)
-    return c1 / scale
+    c0, c1 = _quadratic_value_and_slope((sm[win] - x[:, None]) / scale[:, None], ue[win], wt)
+    return c0, c1 / scale
+
+
+def _slope_at(s, ue, n_fit, fit_length, x):
+    """Slope of the fit of :func:`_local_quadratic_fit` centred at arc lengths ``x`` (m) between
+    the stations: the same window round the nearest station, so that at a station it is that
+    station's slope."""
+    sm = s[:n_fit]
+    j = np.clip(np.searchsorted(sm, x, side="right") - 1, 0, n_fit - 2)
+    nearest = j + ((x - sm[j]) / (sm[j + 1] - sm[j]) >= 0.5)
+    half = _FIT_MIN_HALF_WIDTH if fit_length > 0.0 else _FIT_HALF_WIDTH
+    return _fit_at(sm, ue, nearest, x, half, fit_length)[1]
 
 
 def _crossing(s, g, i):
@@ -565,15 +558,8 @@ class _March:
         ]
         for j in near:
             x = np.linspace(s[j - 1], s[j + 1], 2 * _SUBSTEPS + 1)[1:-1]
-            k = np.clip(np.searchsorted(s, x, side="right") - 1, 0, self.n - 2)
-            ua = ue[k]
-            ub = ua + (ue[k + 1] - ua) * (x - s[k]) / (s[k + 1] - s[k])
-            part = (ub**5 + ua * ub**4 + ua**2 * ub**3 + ua**3 * ub**2 + ua**4 * ub + ua**5) / 6.0
-            with np.errstate(divide="ignore", invalid="ignore"):
-                integral = (self.theta_l[k] ** 2 * ue[k] ** 6 / (0.45 * self.nu_v)) + (
-                    x - s[k]
-                ) * part
-                theta2 = 0.45 * self.nu_v * integral / ub**6
+            theta2 = thwaites_theta_squared_between(s, ue, self.nu_v, x)
+            with np.errstate(invalid="ignore"):
                 lam_x = theta2 * _slope_at(s, ue, self.n_fit, self.fit_length, x) / self.nu_v
             below = np.flatnonzero(lam_x <= LAMBDA_SEPARATION)
             if below.size:

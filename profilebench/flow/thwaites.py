@@ -28,6 +28,7 @@ __all__ = [
     "thwaites_shape_factor",
     "thwaites_shear",
     "thwaites_momentum_thickness",
+    "thwaites_theta_squared_between",
 ]
 
 #: Thwaites' laminar separation criterion on lambda (Thwaites 1949).
@@ -72,13 +73,29 @@ def _integral_ue5(s, ue):
     (b - a) * sum_k ua^k ub^(5-k) / 6.
     When s[0] > 0, ue is taken to rise linearly from 0 at s = 0 (the stagnation point) to ue[0].
     """
-    ua, ub = ue[:-1], ue[1:]
-    poly = (ub**5 + ua * ub**4 + ua**2 * ub**3 + ua**3 * ub**2 + ua**4 * ub + ua**5) / 6.0
     first = s[0] * ue[0] ** 5 / 6.0
     out = np.empty_like(s)
     out[0] = first
-    out[1:] = first + np.cumsum(np.diff(s) * poly)
+    out[1:] = first + np.cumsum(np.diff(s) * _mean_ue5(ue[:-1], ue[1:]))
     return out
+
+
+def _mean_ue5(ua, ub):
+    """Mean of ue^5 over an interval where ue runs linearly from ua to ub."""
+    return (ub**5 + ua * ub**4 + ua**2 * ub**3 + ua**3 * ub**2 + ua**4 * ub + ua**5) / 6.0
+
+
+def thwaites_theta_squared_between(s, ue, nu_over_speed, x):
+    """theta^2 (m^2) of Thwaites' integral at arc lengths ``x`` between the stations, with ue
+    linear between stations as :func:`thwaites_momentum_thickness` takes it (there it is that
+    function's value squared). ``x`` within (s[0], s[-1]]; inf where ue is 0 at x."""
+    x = np.asarray(x, dtype=float)
+    k = np.clip(np.searchsorted(s, x, side="right") - 1, 0, s.size - 2)
+    ua = ue[k]
+    ub = ua + (ue[k + 1] - ua) * (x - s[k]) / (s[k + 1] - s[k])
+    integral = _integral_ue5(s, ue)[k] + (x - s[k]) * _mean_ue5(ua, ub)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(ub > 0.0, 0.45 * nu_over_speed * integral / ub**6, np.inf)
 
 
 def thwaites_momentum_thickness(s, ue, nu_over_speed):

@@ -162,3 +162,24 @@ def test_trip_downstream_of_free_transition_has_no_effect():
     free = march_boundary_layer(s, np.ones_like(s), nu=NU, speed=SPEED)
     tripped = march_boundary_layer(s, np.ones_like(s), nu=NU, speed=SPEED, transition=3.5)
     assert tripped.transition.s == pytest.approx(free.transition.s)
+
+
+def test_theta_between_stations_is_thwaites_integral_there():
+    # ue = c s (plane stagnation flow): Thwaites' integral gives theta^2 = 0.075 nu / c at every
+    # s (Thwaites 1949; the constant his method gives for Hiemenz flow), between stations too
+    import numpy as np
+
+    from profilebench.flow.thwaites import (
+        thwaites_momentum_thickness,
+        thwaites_theta_squared_between,
+    )
+
+    c, nu_v = 4.0, 5e-7
+    s = np.linspace(0.0, 1.0, 11)
+    x = np.linspace(0.013, 0.987, 37)
+    got = thwaites_theta_squared_between(s, c * s, nu_v, x)
+    assert np.allclose(got, 0.075 * nu_v / c, rtol=1e-12)
+    # and at a station it is thwaites_momentum_thickness squared, for any edge speed
+    ue = 1.0 + 0.3 * np.sin(3.0 * s)
+    at = thwaites_theta_squared_between(s, ue, nu_v, s[1:])
+    assert np.allclose(at, thwaites_momentum_thickness(s, ue, nu_v)[1:] ** 2, rtol=1e-12)
