@@ -10,8 +10,6 @@ project, no source). The largest deviation is measured with shapely's distances.
 import numpy as np
 import pytest
 import shapely
-from hypothesis import HealthCheck, Phase, given, settings
-from hypothesis import strategies as st
 
 from profilebench import analyze
 from profilebench.assess.conditions import Conditions
@@ -114,14 +112,22 @@ def test_each_sample_digitised_and_fitted_back_keeps_its_radii_cd_and_verdicts(n
 # near a corner's critical r/t, where a few per cent of radius flips the verdict (measured: a
 # 30 mm front upper radius on a 1.5 m by 0.5 m box turns from TURBULENT_SEPARATION to
 # BUBBLE_REATTACHES at 31.5 mm, Cd -3 %): no fit to 10 % keeps that verdict.
-_FAMILY = dict(
-    length=st.floats(1.6, 2.4),
-    height=st.floats(0.4, 0.6),
-    front=st.tuples(st.floats(0.14, 0.26), st.floats(0.14, 0.26)),
-    rear=st.one_of(st.just((0.0, 0.0)), st.tuples(st.floats(0.12, 0.3), st.floats(0.12, 0.3))),
-    clearance=st.floats(0.03, 0.1),
-    seed=st.integers(0, 1000),
-)
+#
+# The members are drawn with numpy's generator from a fixed seed, not by hypothesis: hypothesis
+# draws its floats partly from constants it finds in the modules already imported, so its
+# "derandomized" members changed with the tests run before (measured: alone, the fourth member
+# was one the whole suite never drew, and it failed; see the xfail below).
+def _family(count, seed=2026):
+    rng = np.random.default_rng(seed)
+    out = []
+    for _ in range(count):
+        length, height = rng.uniform(1.6, 2.4), rng.uniform(0.4, 0.6)
+        front = tuple(float(f) for f in rng.uniform(0.14, 0.26, 2))
+        sharp_rear = rng.random() < 0.5
+        rear = (0.0, 0.0) if sharp_rear else tuple(float(r) for r in rng.uniform(0.12, 0.3, 2))
+        clearance, noise_seed = rng.uniform(0.03, 0.1), int(rng.integers(0, 1001))
+        out.append((float(length), float(height), front, rear, float(clearance), noise_seed))
+    return out
 
 
 def _family_body(length, height, front, rear, clearance):
@@ -129,23 +135,36 @@ def _family_body(length, height, front, rear, clearance):
     return rounded_box(length, height, radii, clearance=clearance)
 
 
-@settings(
-    max_examples=4,
-    deadline=None,
-    derandomize=True,
-    phases=[Phase.explicit, Phase.generate],
-    suppress_health_check=[HealthCheck.too_slow],
-)
-@given(**_FAMILY)
-def test_a_perturbed_family_of_test_bodies_round_trips(
-    length, height, front, rear, clearance, seed
-):
+@pytest.mark.parametrize("member", _family(4), ids=lambda m: f"seed{m[5]}")
+def test_a_perturbed_family_of_test_bodies_round_trips(member):
     # radii within 10 %, the same corners and verdicts; the Cd within 3 %, not 1 %: over 30
     # random members (measured) the fit kept every radius within 6 % and every node within
     # 1.5 mm, yet 5 of 30 Cds moved by 1.0 to 2.6 % (median 0.2 %): the analysis itself moves
-    # that much for such changes of the underbody near the ground (see the xfail below)
+    # that much for such changes of the underbody near the ground (see the xfails below)
+    length, height, front, rear, clearance, seed = member
     body = _family_body(length, height, front, rear, clearance)
     assert _round_trip_failures(body, Conditions(speed=30.0), seed, cd_rel=0.03) == []
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason=(
+        "the analysis at 250 panels, not the fit: the fitted nodes lie within 0.5 mm and its radii "
+        "within 0.8 mm, and both outlines give a front lower bubble and Cd 0.3243-0.3247 at 500 "
+        "and 1000 panels; only the original at 250 reads attached (margin 0.22, Cd 0.3134), the "
+        "tangent-point resolution of docs/validation.md"
+    ),
+)
+def test_a_member_whose_analysis_is_unconverged_at_250_panels_round_trips():
+    # the member hypothesis drew when this file ran alone
+    body = _family_body(
+        2.022803998320436,
+        0.5417099519031054,
+        (0.22782720102635928, 0.15923506723582032),
+        (0.2991006341744248, 0.24856085096136812),
+        0.05151226720382751,
+    )
+    assert _round_trip_failures(body, Conditions(speed=30.0), 611, cd_rel=0.03) == []
 
 
 @pytest.mark.xfail(
