@@ -30,9 +30,12 @@ def main():
     print(
         "| sample | "
         + " | ".join(f"Cd at {n}" for n in counts)
-        + " | largest change | verdicts at 1x = 2x = 4x | Cd spread over start nodes and directions |"
+        + " | largest change | verdicts at 1x = 2x = 4x | Cd spread over start nodes and directions"
+        + " | Cl at "
+        + " / ".join(str(n) for n in counts)
+        + " |"
     )
-    print("|---|" + "---|" * (len(counts) + 3))
+    print("|---|" + "---|" * (len(counts) + 4))
     for path in sample_paths():
         project = load_project(path)
         runs = [analyze(project.profile, project.conditions.replace(panels=n)) for n in counts]
@@ -51,7 +54,9 @@ def main():
         print(
             f"| {path.stem} | "
             + " | ".join(f"{c:.4f}" for c in cds)
-            + f" | {change:.1f} % | {'yes' if same else 'NO'} | {spread:.2f} % |"
+            + f" | {change:.1f} % | {'yes' if same else 'NO'} | {spread:.2f} % | "
+            + " / ".join(f"{a.drag.cl:.3f}" for a in runs)
+            + " |"
         )
     print()
     for path in sample_paths():

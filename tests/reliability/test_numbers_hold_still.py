@@ -13,6 +13,8 @@ measured: it fails loudly once the case is fixed, so the mark cannot outlive the
 
 from __future__ import annotations
 
+import functools
+
 import numpy as np
 import pytest
 from hypothesis import given, settings
@@ -60,22 +62,32 @@ def _verdicts(analysis, original=None):
     return out
 
 
-def _converges(profile, conditions, n=DEFAULT):
+def _refined(profile, conditions, n=DEFAULT):
     runs = [analyze(profile, conditions.replace(panels=k)) for k in (n, 2 * n, 4 * n)]
     assert all(a.success for a in runs), [a.message for a in runs if not a.success]
-    cds = [a.drag.cd for a in runs]
-    verdicts = [_verdicts(a) for a in runs]
-    return cds, verdicts
+    return runs
+
+
+def _converges(profile, conditions, n=DEFAULT):
+    runs = _refined(profile, conditions, n)
+    return [a.drag.cd for a in runs], [_verdicts(a) for a in runs]
+
+
+@functools.cache
+def _sample_runs(name):
+    """The sample analysed at 1x, 2x and 4x the default panels (shared by the tests below)."""
+    project = SAMPLES[name]
+    return tuple(_refined(project.profile, project.conditions))
 
 
 # --- convergence --------------------------------------------------------------------------------
 
 # measured on this code: the courier van sits on two solution branches (its underbody layer
-# separates at s = 4.51 or 4.60 m depending on the closed-body pass), 0.2603 at 250 panels and
-# 0.2554 / 0.2533 at 500 / 1000: 2.7 % (the cause is in docs/validation.md)
+# separates at s = 4.6 or 4.75 m in the closed-body pass depending on the panel count), 0.2623
+# at 250 panels and 0.2562 / 0.2533 at 500 / 1000: 3.5 % (the cause is in docs/validation.md)
 KNOWN_UNCONVERGED_SAMPLES = {
     "kestrel_courier_van": "two branches of the underbody separation: "
-    "0.2603 / 0.2554 / 0.2533 (2.7 %)"
+    "0.2623 / 0.2562 / 0.2533 (3.5 %)"
 }
 
 
@@ -83,8 +95,8 @@ KNOWN_UNCONVERGED_SAMPLES = {
 def test_sample_cd_and_verdicts_hold_at_two_and_four_times_the_panels(name, request):
     if name in KNOWN_UNCONVERGED_SAMPLES:
         request.applymarker(pytest.mark.xfail(strict=True, reason=KNOWN_UNCONVERGED_SAMPLES[name]))
-    project = SAMPLES[name]
-    cds, verdicts = _converges(project.profile, project.conditions)
+    cds = [a.drag.cd for a in _sample_runs(name)]
+    verdicts = [_verdicts(a) for a in _sample_runs(name)]
     assert verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
     assert abs(cds[1] - cds[0]) <= 0.02 * cds[0] and abs(cds[2] - cds[0]) <= 0.02 * cds[0]
 
@@ -92,9 +104,26 @@ def test_sample_cd_and_verdicts_hold_at_two_and_four_times_the_panels(name, requ
 @pytest.mark.parametrize("name", sorted(SAMPLES))
 def test_sample_verdicts_hold_at_two_and_four_times_the_panels(name):
     # the verdicts of every sample, the van's included, do not move with refinement
-    project = SAMPLES[name]
-    _, verdicts = _converges(project.profile, project.conditions)
+    verdicts = [_verdicts(a) for a in _sample_runs(name)]
     assert verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
+
+
+# The lift holds still too: within 0.05 in Cl (on the frontal height) at 2x and 4x the panels
+# (measured: hatch -1.753 / -1.739 / -1.714, minibus -1.711 / -1.717 / -1.700, test body 0.304 /
+# 0.316 / 0.329; before the wake's lower shear layer was panelled finely over the ground, 0.17 to
+# 0.27 apart, the test body 0.041 / 0.234 / 0.315). The van's two underbody branches swing its
+# lift: -4.83 / -2.07 / -6.35.
+KNOWN_UNCONVERGED_LIFT = {
+    "kestrel_courier_van": "two branches of the underbody separation: Cl -4.83 / -2.07 / -6.35"
+}
+
+
+@pytest.mark.parametrize("name", sorted(SAMPLES))
+def test_sample_lift_holds_at_two_and_four_times_the_panels(name, request):
+    if name in KNOWN_UNCONVERGED_LIFT:
+        request.applymarker(pytest.mark.xfail(strict=True, reason=KNOWN_UNCONVERGED_LIFT[name]))
+    cls = [a.drag.cl for a in _sample_runs(name)]
+    assert abs(cls[1] - cls[0]) <= 0.05 and abs(cls[2] - cls[0]) <= 0.05, cls
 
 
 # A family of rounded boxes (length, height, radii, clearance, speed) round the vehicle sizes of
@@ -301,21 +330,12 @@ def random_box_share():
     return _converged_share(_random_boxes(2026, 20) + _random_boxes(7, 30))
 
 
-@pytest.mark.xfail(
-    strict=True,
-    reason="measured: 47 of these 50 random rounded boxes (94 %; 38 of 40 others, 95 %) "
-    "converge from 250 to 500 panels, not 95 %: Thwaites' lambda behind the front lower "
-    "fillet's tangent point deepens with the panels (-0.077 at 250, -0.098 at 1000 on one) and "
-    "the layer separates laminar (a bubble, then turbulent) only at the finer count",
-)
 def test_random_rounded_boxes_converge_on_95_percent(random_box_share):
+    # measured: 48 of these 50 (96 %; 47 of them before the wake's lower shear layer was panelled
+    # finely over the ground). Over 190 boxes from five seeds (these and 11, 2033, 99: 40, 50, 50
+    # boxes) 179 converge (94 %; 171 before): the rule holds here, narrowly; see
+    # docs/validation.md for the failures (the front lower fillet's laminar dip)
     assert random_box_share >= 0.95
-
-
-def test_random_rounded_boxes_converge_on_most(random_box_share):
-    # where it stands today (a floor against regressions, below the 95 % the rules ask for);
-    # it was 90 % of the first 20 before the laminar separation test looked between stations
-    assert random_box_share >= 0.9
 
 
 def test_command_line_reports_an_implausible_result_as_a_failure(tmp_path, capsys):
