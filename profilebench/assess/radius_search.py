@@ -89,12 +89,12 @@ def closed_body_verdict(profile, conditions, node):
     marched on the corner's surface only and only to just past the corner's region (the
     march's result there is the whole march's), and the corner's region and verdict taken on
     that pass as :func:`corner_verdict` takes them on the wake model's. No wake-model solve:
-    about 8 ms against 19-27 ms for :func:`corner_verdict` on the test-body sample at 250
-    panels. Where the analysis has no closed-body pass (a Kutta condition) or it fails,
+    0.4-0.5 of :func:`corner_verdict`'s time on the samples at 250 panels. Where the analysis
+    has no closed-body pass (a Kutta condition) or the profile is not valid,
     :func:`corner_verdict` itself.
 
     Not the analysis's verdict: the wake model changes the edge speed round the front corners,
-    and the smallest attached radius on this verdict was 1.0 to 3.0 times smaller than the
+    and the smallest attached radius on this verdict was 1.0 to 2.9 times smaller than the
     analysis's on the samples' corners (17.7 against 45.6 mm on the van's front bumper lower
     corner, 32.0 against 41.4 mm on the test body's front upper edge; measured with
     ``benchmarks/bench_radius_search.py --closed-body``), so the search does not use it; it is
@@ -160,10 +160,14 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
     :class:`RadiusSearch`; "none within the largest radius that fits" is a valid answer.
 
     Every try is the analysis's own verdict (:func:`corner_verdict`, the flow with the wake
-    model). The closed-body verdict alone (:func:`closed_body_verdict`) would cost a third, but
-    its answers are not the analysis's (see there), and the margin jumps where the verdict
-    changes (from 0 to 1-22 % on the samples' corners), so neither a cheaper verdict nor a
-    secant on the margin replaces the bisection.
+    model). The closed-body verdict alone (:func:`closed_body_verdict`) costs half as much,
+    but its answers are not the analysis's (see there). Where the verdict changes, the margin
+    on the attached side is still 1 to 22 % on the samples' corners (on the separated side it
+    is 0), and the verdict is not monotone in the radius on some corners (the minibus's front
+    bumper lower corner is attached at 40.6 mm and separated at 59.6 mm): a secant on the
+    margin took more solves than the bisection and found another change of the verdict on 5
+    of 43 corners (the samples' and five random boxes'), so the answer stays the one the
+    bisection's tries define (docs/benchmarks.md).
 
     ``start``: a (separated, attached) bracket to try first, for example the answer on a nearby
     outline (:func:`cached_radius_search` passes one). Both ends are solved; where the verdicts
