@@ -19,8 +19,8 @@ phase, assessment). In the same run it times ``numpy.linalg.solve`` on a well-co
 the dense solve timed just before it (median of 15 solves), as the machine's speed drifts (target
 from the issues: analyze within 15x of that dense solve).
 
-A last row gives the median of one ``smallest_attached_radius`` search on the test-body sample's
-front upper corner.
+The smallest-attached-radius search is timed on its own, per sample, cold and warm, by
+``bench_radius_search.py``.
 """
 
 from __future__ import annotations
@@ -30,17 +30,11 @@ import time
 import numpy as np
 
 from profilebench.assess.analysis import analyze
-from profilebench.assess.radius_search import (
-    SearchCache,
-    cached_radius_search,
-    smallest_attached_radius,
-)
 from profilebench.io import load_project
 from profilebench.io.samples import sample_paths
 
 PANELS = 300
 REPEATS = 21
-SEARCH_REPEATS = 5
 _SPLIT = ("geometry", "flow", "radius_search", "assess")
 
 
@@ -72,15 +66,7 @@ def _moved(profile, k: int):
     return profile.moved(1, node.x + dx, node.y)
 
 
-def _front_upper_corner(profile) -> int:
-    """Index of the rounded corner node with the smallest x among the upper half's corners."""
-    ys = [n.y for n in profile.nodes]
-    mid = 0.5 * (min(ys) + max(ys))
-    cands = [i for i, n in enumerate(profile.nodes) if not n.smooth and n.radius > 0 and n.y > mid]
-    return min(cands, key=lambda i: profile.nodes[i].x)
-
-
-def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: int = PANELS):
+def run(repeats: int = REPEATS, panels: int = PANELS):
     """Time ``analyze`` on each sample; return a list of dict rows.
 
     Analysis rows: ``sample``, ``total_ms`` (median wall time of analyze, radius searches
@@ -88,10 +74,8 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
     searches per analysis), ``geometry_ms``, ``flow_ms``, ``radius_search_ms``, ``assess_ms``
     (medians of ``Analysis.timings``), ``dense_solve_ms``, ``ratio`` (median of each run's
     total / dense solve timed beside it),
-    ``status``, ``repeats``. The last row has ``sample`` "radius search (test body, node N)"
-    and ``total_ms``.
+    ``status``, ``repeats``.
     """
-    t_dense = dense_solve_time(panels)
     rows = []
     for path in sample_paths():
         project = load_project(path)
@@ -137,55 +121,7 @@ def run(repeats: int = REPEATS, search_repeats: int = SEARCH_REPEATS, panels: in
                 repeats=repeats,
             )
         )
-    body = next(p for p in sample_paths() if p.stem == "kestrel_test_body")
-    project = load_project(body)
-    cond = project.conditions.replace(panels=panels)
-    node = _front_upper_corner(project.profile)
-    times = []
-    for k in range(search_repeats):
-        prof = _moved(project.profile, k)
-        t0 = time.perf_counter()
-        smallest_attached_radius(prof, cond, node)
-        times.append(time.perf_counter() - t0)
-    t_search = _median(times)
-    # warm: the search after a drag step (node 1 moved 5 mm), started from the answer on the
-    # outline before the step (cached_radius_search's nearby bracket)
-    warm, warm_solves = [], []
-    for k in range(search_repeats):
-        cache = SearchCache()
-        before = _moved(project.profile, k)
-        cached_radius_search(before, cond, node, cache=cache)
-        after = before.moved(1, before.nodes[1].x + 0.005, before.nodes[1].y)
-        t0 = time.perf_counter()
-        found = cached_radius_search(after, cond, node, cache=cache)
-        warm.append(time.perf_counter() - t0)
-        warm_solves.append(found.solves)
-    t_warm = _median(warm)
-    rows.append(
-        _search_row(f"radius search (test body, node {node})", t_search, t_dense, search_repeats)
-    )
-    label = f"  after a 5 mm step, warm ({_median(warm_solves):.0f} solves)"
-    rows.append(_search_row(label, t_warm, t_dense, search_repeats))
     return rows
-
-
-def _search_row(sample, seconds, t_dense, repeats=SEARCH_REPEATS):
-    """A row of the table for a search timed on its own (median of ``seconds``)."""
-    nan = float("nan")
-    return dict(
-        sample=sample,
-        total_ms=1e3 * seconds,
-        cold_ms=nan,
-        searches=1,
-        geometry_ms=nan,
-        flow_ms=nan,
-        radius_search_ms=nan,
-        assess_ms=nan,
-        dense_solve_ms=1e3 * t_dense,
-        ratio=seconds / t_dense,
-        status="",
-        repeats=repeats,
-    )
 
 
 def format_rows(rows) -> str:

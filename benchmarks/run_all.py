@@ -2,8 +2,9 @@
 
 Each script in this folder with an importable ``run()`` is loaded by path and run in turn:
 ``bench_inviscid`` (panel method vs a dense numpy solve by panel count), ``bench_boundary_layer``
-(the march with free transition and fully turbulent), ``bench_analyze`` (full analyze per sample,
-smallest-attached-radius search) and ``bench_gui`` (editor drag latency, offscreen Qt). A script
+(the march with free transition and fully turbulent), ``bench_analyze`` (full analyze per sample),
+``bench_radius_search`` (the smallest-attached-radius search per sample, cold and warm, against
+one analyze) and ``bench_gui`` (editor drag latency, offscreen Qt). A script
 that is missing or fails is skipped with a note; the others still run.
 
 Run: ``python benchmarks/run_all.py`` or ``profilebench bench``. Never used to time unit tests.
@@ -19,7 +20,13 @@ import traceback
 from pathlib import Path
 
 HERE = Path(__file__).resolve().parent
-SCRIPTS = ("bench_inviscid", "bench_boundary_layer", "bench_analyze", "bench_gui")
+SCRIPTS = (
+    "bench_inviscid",
+    "bench_boundary_layer",
+    "bench_analyze",
+    "bench_radius_search",
+    "bench_gui",
+)
 COLUMNS = ("benchmark", "case", "median", "unit", "ratio", "note")
 
 __all__ = ["SCRIPTS", "load", "collect", "format_table", "main"]
@@ -74,18 +81,29 @@ def _rows_analyze(mod):
             f"search {_num(r['radius_search_ms'], '.1f')}, assess {_num(r['assess_ms'], '.1f')} "
             f"ms; with {r['searches']} radius search(es) run {_num(r['cold_ms'], '.1f')} ms; "
             f"{r['status']}"
-            if not str(r["sample"]).startswith("radius search")
-            else f"{r['repeats']} runs"
         )
-        what = "radius search" if str(r["sample"]).startswith("radius search") else "analyze"
         yield (
-            what,
+            "analyze",
             str(r["sample"]),
             _num(r["total_ms"], ".1f"),
             "ms",
             f"{r['ratio']:.1f}x dense",
             note,
         )
+
+
+def _rows_radius_search(mod):
+    for r in mod.run():
+        for kind in ("cold", "warm"):
+            yield (
+                "radius search",
+                f"{r['sample']}, {r['label']}, {kind}",
+                _num(r[f"{kind}_ms"], ".1f"),
+                "ms",
+                f"{r[f'{kind}_ratio']:.2f}x analyze",
+                f"{r[f'{kind}_solves']:.0f} solves; analyze {r['analyze_ms']:.1f} ms at "
+                f"{r['panels']} panels; {r['repeats']} runs",
+            )
 
 
 def _rows_gui(mod):
@@ -111,6 +129,7 @@ ADAPTERS = {
     "bench_inviscid": _rows_inviscid,
     "bench_boundary_layer": _rows_boundary_layer,
     "bench_analyze": _rows_analyze,
+    "bench_radius_search": _rows_radius_search,
     "bench_gui": _rows_gui,
 }
 

@@ -51,7 +51,13 @@ EXIT_INTERRUPTED = 130  # 128 + SIGINT, as shells report a Ctrl-C
 SHOWN_NUMBER_CHARS = 24
 
 #: the benchmark scripts ``profilebench bench`` runs, from benchmarks/ beside the package
-BENCH_SCRIPTS = ("bench_inviscid", "bench_boundary_layer", "bench_analyze", "bench_gui")
+BENCH_SCRIPTS = (
+    "bench_inviscid",
+    "bench_boundary_layer",
+    "bench_analyze",
+    "bench_radius_search",
+    "bench_gui",
+)
 
 
 class _Failed(Exception):

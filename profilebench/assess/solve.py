@@ -10,10 +10,16 @@ from __future__ import annotations
 import numpy as np
 
 from profilebench.assess.corners import EDGE_TURN_DEG
-from profilebench.flow.profile_flow import solve_profile_flow
+from profilebench.flow.profile_flow import (
+    closed_body_split,
+    march_surface_flow,
+    solve_profile_flow,
+)
 
 __all__ = [
     "solve_flow",
+    "closed_body",
+    "march_closed",
     "edge_points",
     "closed_points",
     "REATTACH_RATIO",
@@ -125,4 +131,34 @@ def solve_flow(profile, conditions, panelling, height):
         base_pressure=conditions.base_pressure,
         closed_points=closed_points(panelling, height),
         fit_length=FIT_RATIO * height,
+    )
+
+
+def closed_body(profile, conditions, panelling, height):
+    """The closed-body pass of :func:`solve_flow` solved and split, its layers not marched (a
+    :class:`~profilebench.flow.profile_flow.ClosedBodySplit` on the points that pass uses), or
+    None where it fails or where :func:`solve_flow` has no such pass (a Kutta condition: no
+    wake model)."""
+    if profile.trailing_edge is not None:
+        return None
+    return closed_body_split(
+        panelling.points,
+        conditions.ground,
+        closed_points(panelling, height),
+        edge_points(panelling),
+    )
+
+
+def march_closed(surface_flow, conditions, height, stop_s=None):
+    """One surface of :func:`closed_body` marched as :func:`solve_flow`'s closed-body pass marches
+    it, up to about ``stop_s`` (m along the surface; None: to its end)."""
+    return march_surface_flow(
+        surface_flow,
+        conditions.nu,
+        conditions.speed,
+        conditions.transition,
+        conditions.h_separation,
+        REATTACH_RATIO * height,
+        fit_length=FIT_RATIO * height,
+        stop_s=stop_s,
     )

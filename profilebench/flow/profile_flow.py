@@ -52,6 +52,9 @@ __all__ = [
     "solve_profile_flow",
     "march_surface",
     "BubbleRestart",
+    "ClosedBodySplit",
+    "closed_body_split",
+    "march_surface_flow",
 ]
 
 
@@ -185,6 +188,12 @@ def _merge(first, second, s_offset, i_offset):
     return type(first)(**fields)
 
 
+# Stations kept behind ``stop_s + 2 fit_length`` by a march that stops early (march_surface): more
+# than the 2 x 2 + 1 nearest stations of the edge-speed fit's window and the few a laminar
+# separation test between stations looks at (a choice of this project, no source).
+STOP_TAIL_STATIONS = 8
+
+
 def march_surface(
     s,
     ue,
@@ -198,6 +207,7 @@ def march_surface(
     hint_tolerance=0.0,
     beyond=0.0,
     fit_length=0.0,
+    stop_s=None,
 ):
     """March one surface, restarting turbulent after corner bubbles (see module docstring).
 
@@ -212,7 +222,24 @@ def march_surface(
     closed-body march's corner bubbles although its surface ends earlier). ``beyond``: length
     (m) of the closed body's surface behind this surface's end, counted in the surface left
     behind a separation (the wake-model march; see the module docstring).
+
+    ``stop_s`` (m or None): march only up to about this arc length. The stations are cut
+    :data:`STOP_TAIL_STATIONS` stations and two ``fit_length`` behind it (so that the edge-speed
+    fits up to ``stop_s`` see the same stations), the length cut off counts in ``beyond``, and
+    the restart's first station is placed as on the whole surface: up to ``stop_s`` the result
+    is the whole surface's (the smallest-attached-radius search needs the layer only to just
+    past its corner). None: the whole surface.
     """
+    s = np.asarray(s, dtype=float)
+    ue = np.asarray(ue, dtype=float)
+    span = float(s[-1] - s[0])  # the whole surface's, whatever is cut off
+    if stop_s is not None:
+        keep = int(np.searchsorted(s, float(stop_s) + 2.0 * fit_length, side="right"))
+        keep = max(keep + STOP_TAIL_STATIONS, 4)
+        if keep < len(s):
+            beyond = beyond + float(s[-1] - s[keep - 1])
+            s, ue = s[:keep], ue[:keep]
+            edges = tuple(e for e in edges if e <= s[-1])
     bl = march_boundary_layer(
         s,
         ue,
@@ -232,7 +259,7 @@ def march_surface(
             break
         rest_s = s[i0:] - s[i0]
         # a fresh turbulent start needs a small positive first station
-        rest_s = rest_s + max(1e-4, 1e-3 * (s[-1] - s[0]))
+        rest_s = rest_s + max(1e-4, 1e-3 * span)
         rest_edges = tuple(e - s[i0] + rest_s[0] for e in edges if e > s[i0])
         tail = march_boundary_layer(
             rest_s,
@@ -845,6 +872,117 @@ def _with_wake(
     return dataclasses.replace(flow, closed=first, wake_points=new_pts, departure=relax), ""
 
 
+def _closed_subset(n, closed_points, edge_points):
+    """Sorted indices into the ``n`` points of the closed-body pass: ``closed_points`` and the
+    sharp edges (InputError for indices that are not point indices)."""
+    given = np.asarray(closed_points).ravel()
+    if given.size and (
+        not np.issubdtype(given.dtype, np.integer) or given.min() < 0 or given.max() >= n
+    ):
+        raise InputError(
+            f"closed_points must be indices 0 to {n - 1} into the {n} points; got "
+            f"{given.dtype} values from {given.min()} to {given.max()}: give integer point indices"
+        )
+    return np.unique(
+        np.concatenate([given.astype(int), np.asarray(list(edge_points), dtype=int).ravel()])
+    )
+
+
+def _closed_split(pts, ground, sub, edge_points):
+    """The closed-body pass on the points ``pts[sub]``: (panel solution, split at the
+    stagnation point, perimeter, outline arc lengths of the sharp edges ``edge_points``, given
+    as indices into ``pts``), or None where the solve or the split fails."""
+    pts_c = pts[sub]
+    try:
+        res = solve_inviscid(pts_c, ground=ground)
+    except ProfileBenchError:
+        return None
+    if not res.success:
+        return None
+    split = split_surfaces(res)
+    if not split.success:
+        return None
+    perim, sigma = arc_length(pts_c)
+    pos = {int(j): k for k, j in enumerate(sub)}
+    return res, split, perim, [float(sigma[pos[int(k)]]) for k in edge_points]
+
+
+@dataclass(frozen=True)
+class ClosedBodySplit:
+    """The wake model's closed-body pass solved and split at the stagnation point, its layers
+    not marched yet (:func:`closed_body_split`).
+
+    ``subset``: indices into the full points of the pass's points (all of them where the
+    analysis would run the pass on all); ``upper``, ``lower``: the surfaces as
+    :class:`SurfaceFlow` with ``bl`` None and no restarts, on the pass's points (their arc
+    lengths are the pass's own); ``inviscid``: the pass's panel solution.
+    """
+
+    subset: np.ndarray
+    inviscid: InviscidSolution
+    upper: SurfaceFlow
+    lower: SurfaceFlow
+
+    @property
+    def surfaces(self):
+        return (self.upper, self.lower)
+
+
+def closed_body_split(points, ground, closed_points, edge_points=()):
+    """The first part of :func:`solve_profile_flow`'s closed-body pass with the wake model: the
+    panel solve on the points it uses (``closed_points`` and ``edge_points``, or all points
+    where the wake model would use all) and the split at the stagnation point, as a
+    :class:`ClosedBodySplit`; None where the pass fails (the inviscid solve or the split).
+
+    Each surface can then be marched on its own, and only as far as needed, with
+    :func:`march_surface_flow`: what the smallest-attached-radius search needs to judge one
+    corner without the wake model.
+    """
+    pts = np.asarray(points, dtype=float)
+    n = len(pts)
+    sub = _closed_subset(n, closed_points, edge_points)
+    if sub.size < 8 or sub.size >= n:
+        sub = np.arange(n)  # the analysis runs the closed-body pass on all the points then
+    solved = _closed_split(pts, ground, sub, edge_points)
+    if solved is None:
+        return None
+    res, split, perim, edge_sigma = solved
+    flows = [
+        SurfaceFlow(
+            name=name,
+            surface=sf,
+            bl=None,
+            restarts=(),
+            edges=_edges_on_surface(edge_sigma, sf, int(sf.direction), perim),
+            perimeter=perim,
+        )
+        for name, sf in zip(SURFACE_NAMES, (split.upper, split.lower))
+    ]
+    return ClosedBodySplit(sub, res, flows[0], flows[1])
+
+
+def march_surface_flow(
+    sfl, nu, speed, transition, h_separation, reattach_length, fit_length=0.0, stop_s=None
+):
+    """The surface ``sfl`` (a :class:`SurfaceFlow`, its ``bl`` marched or not) with its boundary
+    layer marched as the closed-body pass marches it (:func:`march_surface`, no restart hints),
+    up to about ``stop_s`` (m along the surface; None: to its end). The arguments are those of
+    :func:`solve_profile_flow`."""
+    bl, restarts = march_surface(
+        np.asarray(sfl.surface.s, dtype=float),
+        np.asarray(sfl.surface.ue, dtype=float),
+        nu,
+        speed,
+        transition,
+        h_separation,
+        sfl.edges,
+        reattach_length,
+        fit_length=fit_length,
+        stop_s=stop_s,
+    )
+    return dataclasses.replace(sfl, bl=bl, restarts=restarts)
+
+
 def _coarse_closed_with_wake(
     pts,
     ground,
@@ -865,32 +1003,13 @@ def _coarse_closed_with_wake(
     wake model is skipped (the caller then runs the full closed-body pass).
     """
     n = len(pts)
-    given = np.asarray(closed_points).ravel()
-    if given.size and (
-        not np.issubdtype(given.dtype, np.integer) or given.min() < 0 or given.max() >= n
-    ):
-        raise InputError(
-            f"closed_points must be indices 0 to {n - 1} into the {n} points; got "
-            f"{given.dtype} values from {given.min()} to {given.max()}: give integer point indices"
-        )
-    sub = np.unique(
-        np.concatenate([given.astype(int), np.asarray(list(edge_points), dtype=int).ravel()])
-    )
+    sub = _closed_subset(n, closed_points, edge_points)
     if sub.size < 8 or sub.size >= n:
         return None  # nothing to gain (or too few points): the full closed-body pass
-    pts_c = pts[sub]
-    try:
-        res_c = solve_inviscid(pts_c, ground=ground)
-    except ProfileBenchError:
+    solved = _closed_split(pts, ground, sub, edge_points)
+    if solved is None:
         return None
-    if not res_c.success:
-        return None
-    split = split_surfaces(res_c)
-    if not split.success:
-        return None
-    perim_c, sigma_c = arc_length(pts_c)
-    pos = {int(j): k for k, j in enumerate(sub)}
-    edge_sigma_c = [float(sigma_c[pos[int(k)]]) for k in edge_points]
+    res_c, split, perim_c, edge_sigma_c = solved
     first = _marched(
         res_c,
         (split.upper, split.lower),

@@ -140,3 +140,50 @@ def test_a_bubble_is_judged_on_the_closed_body_length_behind_it(beyond, restarte
     assert bool(restarts) is restarted
     s0 = restarts[0].s if restarts else bl.separation.s
     assert 0.9 - s0 < 1.0 <= 0.9 - s0 + 0.5
+
+
+def _closed_surfaces():
+    """The closed-body pass's surfaces of every sample (solved and split, not marched) with
+    what marching them takes."""
+    from profilebench.assess.solve import closed_body
+    from profilebench.geometry import measure
+    from profilebench.io import load_project, sample_paths
+
+    out = []
+    for path in sample_paths():
+        project = load_project(path)
+        cond = project.conditions.replace(panels=200)
+        pan = panelize(project.profile, cond.panels)
+        height = measure(project.profile).height
+        split = closed_body(project.profile, cond, pan, height)
+        for sfl in split.surfaces:
+            out.append(pytest.param(sfl, cond, height, id=f"{path.stem}-{sfl.name}"))
+    return out
+
+
+@pytest.mark.parametrize("sfl, cond, height", _closed_surfaces())
+@pytest.mark.parametrize("share", [0.1, 0.35, 0.7])
+def test_a_march_stopped_early_is_the_whole_march_up_to_its_stop(sfl, cond, height, share):
+    # numerical consistency of the march with itself (common practice, no source): the layer
+    # ahead of the stop does not depend on the surface behind it, to rounding
+    from profilebench.assess.solve import march_closed
+
+    whole = march_closed(sfl, cond, height)
+    stop = share * float(sfl.surface.s[-1])
+    cut = march_closed(sfl, cond, height, stop_s=stop)
+    assert len(cut.bl.s) < len(whole.bl.s)
+    k = int(np.searchsorted(cut.bl.s, stop, side="right"))
+    for name in ("s", "theta", "H", "cf", "margin"):
+        a, b = np.asarray(getattr(whole.bl, name))[:k], np.asarray(getattr(cut.bl, name))[:k]
+        np.testing.assert_allclose(b, a, rtol=1e-9, atol=1e-12, err_msg=name)
+
+    def ahead(flow):
+        return [(e.kind, e.s) for e in flow.bl.events if e.s <= stop]
+
+    assert [k for k, _ in ahead(cut)] == [k for k, _ in ahead(whole)]
+    np.testing.assert_allclose([s for _, s in ahead(cut)], [s for _, s in ahead(whole)], rtol=1e-9)
+    np.testing.assert_allclose(
+        [r.s for r in cut.restarts if r.s <= stop],
+        [r.s for r in whole.restarts if r.s <= stop],
+        rtol=1e-9,
+    )
