@@ -4,7 +4,8 @@ Each script in this folder with an importable ``run()`` is loaded by path and ru
 ``bench_inviscid`` (panel method vs a dense numpy solve by panel count), ``bench_boundary_layer``
 (the march with free transition and fully turbulent), ``bench_analyze`` (full analyze per sample),
 ``bench_radius_search`` (the smallest-attached-radius search per sample, cold and warm, against
-one analyze) and ``bench_gui`` (editor drag latency, offscreen Qt). A script
+one analyze), ``bench_sweep`` (a 15-point radius sweep per sample, cold: wall time and first
+point) and ``bench_gui`` (editor drag latency, offscreen Qt). A script
 that is missing or fails is skipped with a note; the others still run.
 
 Run: ``python benchmarks/run_all.py`` or ``profilebench bench``. Never used to time unit tests.
@@ -25,6 +26,7 @@ SCRIPTS = (
     "bench_boundary_layer",
     "bench_analyze",
     "bench_radius_search",
+    "bench_sweep",
     "bench_gui",
 )
 COLUMNS = ("benchmark", "case", "median", "unit", "ratio", "note")
@@ -106,6 +108,18 @@ def _rows_radius_search(mod):
             )
 
 
+def _rows_sweep(mod):
+    for r in mod.run():
+        yield (
+            "radius sweep, 15 points",
+            f"{r['sample']}, {r['corner']}",
+            _num(r["wall_s"], ".2f"),
+            "s",
+            f"first point {r['first_s']:.2f} s",
+            f"cold, 2 workers ({r['method']}); {r['runs']} runs; {r['failed']} points failed",
+        )
+
+
 def _rows_gui(mod):
     for r in mod.run():
         target = "" if r.get("target") is None else f"target <= {r['target']:g}"
@@ -130,6 +144,7 @@ ADAPTERS = {
     "bench_boundary_layer": _rows_boundary_layer,
     "bench_analyze": _rows_analyze,
     "bench_radius_search": _rows_radius_search,
+    "bench_sweep": _rows_sweep,
     "bench_gui": _rows_gui,
 }
 

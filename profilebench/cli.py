@@ -56,6 +56,7 @@ BENCH_SCRIPTS = (
     "bench_boundary_layer",
     "bench_analyze",
     "bench_radius_search",
+    "bench_sweep",
     "bench_gui",
 )
 

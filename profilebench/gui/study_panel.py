@@ -130,6 +130,7 @@ def _run_points(run: StudyRun, cache, relay: _Relay):
     try:
         payload = studies.run_points(
             run.plan.specs,
+            order=run.plan.order,
             workers=run.workers,
             progress=progress,
             cancel=run.cancel,

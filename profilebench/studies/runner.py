@@ -126,7 +126,14 @@ def _check_workers(workers):
 
 
 def run_points(
-    specs, workers=None, progress=None, cancel=None, cache=None, start_method=None, niceness=0
+    specs,
+    workers=None,
+    progress=None,
+    cancel=None,
+    cache=None,
+    start_method=None,
+    niceness=0,
+    order=None,
 ):
     """Results of ``specs`` (a sequence of PointSpec), in their order, and the :class:`RunStats`.
 
@@ -148,6 +155,9 @@ def run_points(
         POSIX niceness increment of the worker processes (0: this process's priority); the
         editor runs them below its own, so that its window is scheduled first. Ignored where
         the platform has no ``os.nice``.
+    order : sequence of int, optional
+        The order in which the points are started (a permutation of their indices; default
+        their own order). The results still come back in the specs' order.
     """
     specs = list(specs)
     workers = _check_workers(workers)
@@ -171,8 +181,10 @@ def run_points(
             progress(done[0], len(specs), i, result)
 
     keys = [s.key() for s in specs]
+    sequence = _check_order(order, len(specs))
     todo = []
-    for i, key in enumerate(keys):
+    for i in sequence:
+        key = keys[i]
         hit = cache.get(key)
         if hit is not None:
             report(i, hit)
@@ -208,6 +220,17 @@ def run_points(
             computed += 1
     stats = RunStats(computed, from_cache, stop, time.perf_counter() - t0, first[0], workers)
     return results, stats
+
+
+def _check_order(order, n):
+    if order is None:
+        return list(range(n))
+    seq = [int(i) for i in order]
+    if sorted(seq) != list(range(n)):
+        raise InputError(
+            f"order must give each of the {n} point indices 0 to {n - 1} once, got {list(order)!r}"
+        )
+    return seq
 
 
 def _lower_priority(increment):

@@ -208,3 +208,33 @@ def test_workers_run_at_the_niceness_asked(no_new_children):
 def test_a_bad_niceness_is_refused(bad):
     with pytest.raises(InputError, match="niceness"):
         run_points([], niceness=bad)
+
+
+def test_points_start_in_the_order_given_and_come_back_in_their_own():
+    specs = [PointSpec(BODY.with_radius(0, r), COND) for r in RADII]
+    seen = []
+    results, _ = run_points(
+        specs,
+        workers=1,
+        cache=PointCache(),
+        order=(0, 3, 2, 1),
+        progress=lambda done, total, i, r: seen.append(i),
+    )
+    assert seen == [0, 3, 2, 1]
+    alone, _ = run_points(specs, workers=1, cache=PointCache())
+    assert [r.cd for r in results] == [r.cd for r in alone]
+
+
+@pytest.mark.parametrize("order", [(0, 1, 2), (0, 1, 2, 2), (0, 1, 2, 4)])
+def test_an_order_that_is_not_one_of_each_point_is_refused(order):
+    specs = [PointSpec(BODY.with_radius(0, r), COND) for r in RADII]
+    with pytest.raises(InputError, match="each of the 4 point indices"):
+        run_points(specs, workers=1, cache=PointCache(), order=order)
+
+
+def test_radius_sweep_starts_with_the_searching_point_then_from_the_largest_radius():
+    from profilebench.studies import radius_plan
+
+    plan = radius_plan(BODY, COND, 0, RADII)
+    assert plan.order == (0, 3, 2, 1)
+    assert [s.search_node for s in plan.specs] == [0, None, None, None]

@@ -45,6 +45,9 @@ def test_knee_agrees_with_the_solvers_smallest_attached_radius_within_the_step()
     lo, hi = table.knee.bracket
     assert lo <= search.radius <= hi
     assert table.smallest_attached_radius == pytest.approx(search.radius)
+    # one point searched it (radius_plan); every point carries it
+    assert table.smallest_attached.count() == len(radii)
+    assert np.allclose(table.smallest_attached.compressed(), search.radius)
 
 
 def test_sweep_points_are_the_analyses_of_the_variants():
