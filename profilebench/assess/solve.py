@@ -11,6 +11,7 @@ import numpy as np
 
 from profilebench.assess.corners import EDGE_TURN_DEG
 from profilebench.flow.profile_flow import solve_profile_flow
+from profilebench.flow.underbody import SideRelief
 
 __all__ = [
     "solve_flow",
@@ -125,4 +126,5 @@ def solve_flow(profile, conditions, panelling, height):
         base_pressure=conditions.base_pressure,
         closed_points=closed_points(panelling, height),
         fit_length=FIT_RATIO * height,
+        relief=None if conditions.relief_width is None else SideRelief(conditions.relief_width),
     )

@@ -115,11 +115,21 @@ def summary_rows(analysis):
             ("CdA", _g(d.cda, ".4f"), "m^2"),
             ("drag force", _g(d.force, ".2f"), "N"),
             ("power", _g(None if d.power is None else d.power / 1000.0, ".3f"), "kW"),
-            ("Cl", f"{d.cl:.4f}", "caution: 2D, ground suction overstated"),
+            ("Cl", f"{d.cl:.4f}", _lift_caution(analysis)),
         ]
     rows.append(("Reynolds (full scale)", _g(analysis.reynolds, ".4g"), "on length"))
     rows.append(("Reynolds (model)", _g(analysis.model_reynolds, ".4g"), "on model length"))
     return rows
+
+
+def _lift_caution(analysis):
+    """The caution beside Cl: the 2D section's underbody suction is overstated unless the
+    side-relief model replaced it (profilebench.flow.underbody)."""
+    flow = analysis.flow
+    relief = None if flow is None else getattr(flow, "underbody", None)
+    if relief is not None and relief.applied:
+        return "caution: 2D, underbody with side relief"
+    return "caution: 2D, ground suction overstated"
 
 
 def _shared(values):
