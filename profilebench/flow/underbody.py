@@ -98,6 +98,11 @@ GAP_FACING = math.cos(math.radians(30.0))
 # slope stays finite for the solver (1e-3 in Cp: far below anything the model resolves)
 _SMOOTH_CP = 1e-3
 _MIN_STATIONS = 4
+# the exit-flux bracket is first split at this share of the no-leakage flux (see channel_cp)
+_SPLIT = 0.7
+# ... and the exit flux is found to this share of it: the gap's Cp to about 1e-3 (the inlet's
+# total pressure is very sensitive to the exit flux where the gap sits at the side pressure)
+_FLUX_TOL = 1e-5
 # the gap's speed may not fall below this share of the 2D section's anywhere (else the channel is
 # said not to hold: a layer marched into a stagnating gap means nothing)
 _MIN_SPEED_RATIO = 0.05
@@ -244,57 +249,67 @@ def channel_cp(
     station); ``total``: the inlet's total pressure as Cp (1 for the free stream's). Speeds are
     divided by V, the flux q = u g per unit span (m). The equations are those of the module
     docstring, in the state (q, H) with H = Cp + u^2 the total pressure: dq/ds = m and
-    dH/ds = -2 u max(m, 0) / g. Solved by shooting: the exit flux is found with scipy's secant
-    method (``newton``; ``brentq`` on the whole bracket if it strays) so that the march from the
-    exit (:func:`_march_upstream`) arrives at the inlet with the inlet's total pressure.
+    dH/ds = -2 u max(m, 0) / g. Solved by shooting: the exit flux is found with scipy's
+    ``brentq`` so that the march from the exit (:func:`_march_upstream`) arrives at the inlet
+    with the inlet's total pressure.
     """
-    from scipy.optimize import brentq, newton
-
-    s = np.asarray(s, dtype=float)
-    g = np.asarray(gap, dtype=float)
+    s_in = np.asarray(s, dtype=float)
+    g_in = np.asarray(gap, dtype=float)
+    s, g = s_in, g_in
     if not exit_cp < total:
         return False, "the gap's exit pressure is not below the inlet's total pressure", None, None
     q_top = float(g[-1] * math.sqrt(total - exit_cp))
     if math.isinf(width):
-        return True, "no leakage", np.full(len(s), q_top), total - (q_top / g) ** 2
+        return True, "no leakage", np.full(len(s_in), q_top), total - (q_top / g_in) ** 2
+
+    marched = {}  # exit flux -> (q, H): brentq evaluates its bracket's ends again
+
+    def march(q_exit):
+        key = float(q_exit)
+        if key not in marched:
+            marched[key] = _march_upstream(key, s, g, width, exit_cp, side_pressure, contraction)
+        return marched[key]
 
     def miss(q_exit):
-        return float(
-            _march_upstream(q_exit, s, g, width, exit_cp, side_pressure, contraction)[1][0] - total
-        )
+        return float(march(q_exit)[1][0] - total)
 
-    # the secant method from 70-75 % of the no-leakage exit flux (7 to 9 marches on the samples
-    # and the boxes, against 13 for brentq; measured); brentq in the full bracket if it strays
-    q_exit = None
     with np.errstate(all="ignore"):
-        try:
-            found = newton(miss, 0.7 * q_top, x1=0.75 * q_top, tol=1e-9 * q_top, maxiter=30)
-            if 0.0 < found <= q_top and abs(miss(found)) < 1e-6:
-                q_exit = float(found)
-        except (RuntimeError, OverflowError, ZeroDivisionError):
-            pass
+        q_exit = _exit_flux(miss, q_top)
     if q_exit is None:
-        # with the whole exit speed the total pressure only rises upstream (inflow lowers it
-        # downstream): miss >= 0; with a vanishing exit flux the inlet's total pressure is about
-        # the exit's pressure: miss < 0
-        low = 1e-6 * q_top
-        f_top, f_low = miss(q_top), miss(low)
-        if f_top == 0.0:
-            q_exit = q_top
-        elif not (f_low < 0.0 < f_top and math.isfinite(f_low) and math.isfinite(f_top)):
-            return (
-                False,
-                "the gap channel has no solution (no exit flux meets the inlet)",
-                None,
-                None,
-            )
-        else:
-            q_exit = brentq(miss, low, q_top, xtol=1e-9 * q_top, rtol=1e-7)
-    q, h = _march_upstream(q_exit, s, g, width, exit_cp, side_pressure, contraction)
-    cp = h - (q / g) ** 2
+        return False, "the gap channel has no solution (no exit flux meets the inlet)", None, None
+    q_c, h_c = march(q_exit)
+    q = np.interp(s_in, s, q_c)
+    cp = np.interp(s_in, s, h_c) - (q / g_in) ** 2
     if not (np.all(np.isfinite(q)) and np.all(np.isfinite(cp))):
         return False, "the gap channel's solution is not finite", None, None
     return True, "converged", q, cp
+
+
+def _exit_flux(miss, q_top):
+    """The exit flux where ``miss`` (the inlet's total pressure less the wanted) is 0, or None.
+
+    With the whole exit speed ``q_top`` the total pressure only rises upstream (inflow lowers it
+    downstream): miss >= 0; with a vanishing exit flux the inlet's total pressure is about the
+    exit's pressure: miss < 0. The root lies at 70-95 % of ``q_top`` on the samples and the
+    boxes, so the bracket is split there first and scipy's brentq takes 7 to 9 marches (the
+    secant method from there strayed into the steep part at small fluxes on the minibus;
+    measured).
+    """
+    from scipy.optimize import brentq
+
+    f_top = miss(q_top)
+    if f_top == 0.0:
+        return q_top
+    high, low = q_top, _SPLIT * q_top
+    f_mid = miss(low)
+    if not f_mid < 0.0:
+        high, low = low, 1e-6 * q_top
+        f_low = miss(low)
+        if not (f_low < 0.0 < f_mid and math.isfinite(f_low)):
+            return None
+    elif not f_top > 0.0:
+        return None
+    return float(brentq(miss, low, high, xtol=_FLUX_TOL * q_top, rtol=_FLUX_TOL))
 
 
 @dataclass(frozen=True)
