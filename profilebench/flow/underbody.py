@@ -353,6 +353,8 @@ class SideRelief:
         ds = np.gradient(sr)
         ue2 = 1.0 - cpr
         q2 = float(np.sum(ue2 / gr**2 * ds) / np.sum(ds / gr**4))
+        if not q2 > 0.0:
+            return kept("the 2D section has no flow through the gap")
         cp_ref = 1.0 - q2 / gr**2
         ok, why, q, cp_w = channel_cp(
             sr,
@@ -368,8 +370,9 @@ class SideRelief:
         # with and without the width (speeds from pressure, u = sqrt(1 - Cp), as the panel
         # method's are), so that the 2D solution's local detail (a fillet's suction peak)
         # scales with the flux through the gap; the ratio is 1 at the exit and as w grows
-        ratio = np.sqrt(np.clip(1.0 - cp_w, 0.0, None) / (1.0 - cp_ref))
-        if float(ratio.min()) < _MIN_SPEED_RATIO:
+        room = 1.0 - cp_w
+        ratio = np.sqrt(np.maximum(room, 0.0) / (1.0 - cp_ref))
+        if not (np.all(room > 0.0) and float(ratio.min()) >= _MIN_SPEED_RATIO):
             return kept(
                 f"the gap flow nearly stagnates (speed {ratio.min():.2g} of the 2D section's): "
                 "the one-dimensional channel does not hold for so narrow or so long a gap"
@@ -378,10 +381,9 @@ class SideRelief:
         # the gap: the inlet's ratio is faded in linearly in arc length from the stagnation
         # point (where the edge speed is 0 whatever the flux) to the inlet, so that the front
         # lower corner's speed scales with the flux it feeds
-        k = 0
         fade = s[:a] / s[a]
         factor = np.concatenate([1.0 + (float(ratio[0]) - 1.0) * fade, ratio])
-        changed = idx[k : b + 1]
+        changed = idx[: b + 1]
         full_ue = np.array(inviscid.ue, dtype=float)
         full_ue[changed] *= factor
         full_cp = np.array(inviscid.cp, dtype=float)
@@ -390,7 +392,7 @@ class SideRelief:
             arr.setflags(write=False)
         new_inviscid = dataclasses.replace(inviscid, cp=full_cp, ue=full_ue)
         surf_ue = np.array(surface.ue, dtype=float)
-        surf_ue[1 + k : 2 + b] *= factor
+        surf_ue[1 : 2 + b] *= factor
         new_surface = dataclasses.replace(surface, ue=surf_ue)
         new_cp = full_cp[idx]
         mean_2d = float(np.sum(cpr * ds) / np.sum(ds))

@@ -166,3 +166,21 @@ def test_side_relief_must_be_a_bool():
         Conditions(side_relief="yes")
     # old project files have no such key: the default
     assert Conditions.from_dict({"speed": 20.0}).side_relief is True
+
+
+def test_a_body_without_a_flat_underbody_keeps_the_2d_section_and_says_why():
+    # a circle over the ground has no stretch of underbody parallel to it long enough to be a
+    # channel (its ground-facing arc is about as long as twice its gap): no relief, a warning
+    from profilebench.geometry.shapes import circle
+
+    a = analyze(circle(0.5, centre=(0.0, 0.7)), Conditions(speed=30.0, width=1.0))
+    assert a.success
+    assert a.flow.underbody is not None and not a.flow.underbody.applied
+    assert any("side relief (width 1 m) not applied" in w for w in a.warnings)
+
+
+def test_the_channel_refuses_an_exit_above_the_inlet_total_pressure():
+    s = np.linspace(0.0, 1.0, 10)
+    ok, message, q, cp = channel_cp(s, np.full(10, 0.1), 2.0, exit_cp=1.2)
+    assert not ok and q is None and cp is None
+    assert "exit pressure" in message
