@@ -78,9 +78,16 @@ def run_lines(record):
         scale = f"; model scale 1:{1.0 / c['model_scale']:g}" + (
             f" at {ts * 3.6:.1f} km/h" if ts is not None else ""
         )
+    if not c["ground"]:
+        ground_text = "free air (no ground)"
+    elif not c.get("side_relief", True):
+        ground_text = "ground on (slip, moving belt), underbody side relief off"
+    elif c.get("width") is not None:
+        ground_text = f"ground on (slip, moving belt), underbody side relief for {c['width']:g} m"
+    else:
+        ground_text = "ground on (slip, moving belt), 2D underbody (no width)"
     line1 = (
-        f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; "
-        f"{'ground on (slip, moving belt)' if c['ground'] else 'free air (no ground)'}; "
+        f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; {ground_text}; "
         f"{tr_text}; turbulent separation at H = {c['h_separation']:g}; base pressure "
         f"Cp_b = {c['base_pressure']:g}; {c['panels']} panels; {area}{scale}"
     )
