@@ -34,9 +34,9 @@ span, with speeds divided by V and pressures as Cp:
 
 The boundary-value problem (two first-order equations, one condition at each end) is solved by
 shooting: a fourth-order Runge-Kutta march from the exit upstream (the stable direction) and
-scipy's root finders on the exit flux until the inlet's total pressure is met (about 1-2 ms;
-``solve_bvp`` took 30 to 800 ms for the same answer and converged only with a loose tolerance,
-measured).
+scipy's ``brentq`` on the exit flux until the inlet's total pressure is met (about 1.2 ms a
+pass on the samples at 300 panels; ``solve_bvp`` took 30 to 800 ms for the same answer and
+converged only with a loose tolerance; measured).
 
 How it is used. The channel with the width and the same channel without leakage (the 2D one:
 constant flux ``q_2d`` fitted to the panel solution's gap by least squares in Cp) give at each
@@ -100,9 +100,10 @@ _SMOOTH_CP = 1e-3
 _MIN_STATIONS = 4
 # the exit-flux bracket is first split at this share of the no-leakage flux (see channel_cp)
 _SPLIT = 0.7
-# ... and the exit flux is found to this share of it: the gap's Cp to about 1e-3 (the inlet's
-# total pressure is very sensitive to the exit flux where the gap sits at the side pressure)
-_FLUX_TOL = 1e-5
+# ... and the exit flux is found to this share of it (the samples' and the boxes' Cd and Cl the
+# same to 4 digits as at 1e-9; the inlet's total pressure is very sensitive to the exit flux
+# where the gap sits at the side pressure, so a tighter tolerance costs marches; measured)
+_FLUX_TOL = 1e-4
 # the gap's speed may not fall below this share of the 2D section's anywhere (else the channel is
 # said not to hold: a layer marched into a stagnating gap means nothing)
 _MIN_SPEED_RATIO = 0.05
@@ -175,61 +176,84 @@ def _leak(cp, gap, width, side_pressure, contraction):
     return (2.0 * gap / width) * contraction * d / np.sqrt(np.abs(d) + _SMOOTH_CP)
 
 
-def _march_upstream(q_exit, s, g, width, exit_cp, side_pressure, contraction):
-    """(q, H) at the stations, marched from the exit state (q_exit, exit_cp) to the inlet.
+def _march_plan(s, g, width, contraction):
+    """The march's steps from the exit to the inlet, the same for every exit flux tried.
 
-    Classical fourth-order Runge-Kutta on the stations, each interval cut into steps no longer
-    than half the leakage's relaxation length (its equations are stiff where the gap sits at the
-    side pressure); upstream the gap's deviation from the side pressure decays, so the march is
-    stable in this direction (downstream it is not).
+    Each station interval is cut into steps no longer than half the leakage's relaxation length
+    (its equations are stiff where the gap sits at the side pressure). A step is (h, station it
+    ends at or None, and for its start, middle and end the leakage factor k g and 1 / g), with
+    k = 2 C / w.
     """
-    n = len(s)
-    q_out = np.empty(n)
-    h_out = np.empty(n)
-    q = float(q_exit)
-    h = float(exit_cp) + (q / float(g[-1])) ** 2
-    q_out[-1], h_out[-1] = q, h
     k_leak = 2.0 * contraction / width
     relax = 0.5 * math.sqrt(_SMOOTH_CP) / (k_leak * float(np.max(g)))
-    sqrt = math.sqrt
-    smooth = _SMOOTH_CP
-    side = float(side_pressure)
     s_list = s.tolist()
     g_list = g.tolist()
-    for i in range(n - 1, 0, -1):
+    plan = []
+    for i in range(len(s_list) - 1, 0, -1):
         length = s_list[i] - s_list[i - 1]
         steps = max(1, int(math.ceil(length / relax)))
-        step = -length / steps
         g0 = g_list[i]
         dg = (g_list[i - 1] - g0) / steps
         for j in range(steps):
-            # the four stages of the classical Runge-Kutta step (the right-hand side written
-            # out: dq/ds = m, dH/ds = -2 u m / g where m > 0, else 0)
             ga = g0 + dg * j
-            gm = ga + 0.5 * dg
-            gb = ga + dg
-            u = q / ga
-            d = side - h + u * u
-            a1 = k_leak * ga * d / sqrt(abs(d) + smooth)
-            b1 = -2.0 * u * a1 / ga if a1 > 0.0 else 0.0
-            q2, h2 = q + 0.5 * step * a1, h + 0.5 * step * b1
-            u = q2 / gm
-            d = side - h2 + u * u
-            a2 = k_leak * gm * d / sqrt(abs(d) + smooth)
-            b2 = -2.0 * u * a2 / gm if a2 > 0.0 else 0.0
-            q3, h3 = q + 0.5 * step * a2, h + 0.5 * step * b2
-            u = q3 / gm
-            d = side - h3 + u * u
-            a3 = k_leak * gm * d / sqrt(abs(d) + smooth)
-            b3 = -2.0 * u * a3 / gm if a3 > 0.0 else 0.0
-            q4, h4 = q + step * a3, h + step * b3
-            u = q4 / gb
-            d = side - h4 + u * u
-            a4 = k_leak * gb * d / sqrt(abs(d) + smooth)
-            b4 = -2.0 * u * a4 / gb if a4 > 0.0 else 0.0
-            q += step * (a1 + 2.0 * a2 + 2.0 * a3 + a4) / 6.0
-            h += step * (b1 + 2.0 * b2 + 2.0 * b3 + b4) / 6.0
-        q_out[i - 1], h_out[i - 1] = q, h
+            gm, gb = ga + 0.5 * dg, ga + dg
+            plan.append(
+                (
+                    -length / steps,
+                    i - 1 if j == steps - 1 else None,
+                    k_leak * ga,
+                    1.0 / ga,
+                    k_leak * gm,
+                    1.0 / gm,
+                    k_leak * gb,
+                    1.0 / gb,
+                )
+            )
+    return plan
+
+
+def _march_upstream(q_exit, plan, n, g_exit, exit_cp, side_pressure):
+    """(q, H) at the ``n`` stations, marched from the exit state (q_exit, exit_cp) to the inlet.
+
+    Classical fourth-order Runge-Kutta on the steps of ``plan`` (:func:`_march_plan`), the
+    right-hand side written out: dq/ds = m, dH/ds = -2 u m / g where m > 0, else 0. Upstream
+    the gap's deviation from the side pressure decays, so the march is stable in this direction
+    (downstream it is not).
+    """
+    q_out = np.empty(n)
+    h_out = np.empty(n)
+    q = float(q_exit)
+    h = float(exit_cp) + (q / float(g_exit)) ** 2
+    q_out[-1], h_out[-1] = q, h
+    sqrt = math.sqrt
+    smooth = _SMOOTH_CP
+    side = float(side_pressure)
+    for step, station, ka, ia, km, im, kb, ib in plan:
+        u = q * ia
+        d = side - h + u * u
+        a1 = ka * d / sqrt(abs(d) + smooth)
+        b1 = -2.0 * u * a1 * ia if a1 > 0.0 else 0.0
+        half = 0.5 * step
+        q2, h2 = q + half * a1, h + half * b1
+        u = q2 * im
+        d = side - h2 + u * u
+        a2 = km * d / sqrt(abs(d) + smooth)
+        b2 = -2.0 * u * a2 * im if a2 > 0.0 else 0.0
+        q3, h3 = q + half * a2, h + half * b2
+        u = q3 * im
+        d = side - h3 + u * u
+        a3 = km * d / sqrt(abs(d) + smooth)
+        b3 = -2.0 * u * a3 * im if a3 > 0.0 else 0.0
+        q4, h4 = q + step * a3, h + step * b3
+        u = q4 * ib
+        d = side - h4 + u * u
+        a4 = kb * d / sqrt(abs(d) + smooth)
+        b4 = -2.0 * u * a4 * ib if a4 > 0.0 else 0.0
+        sixth = step / 6.0
+        q += sixth * (a1 + 2.0 * a2 + 2.0 * a3 + a4)
+        h += sixth * (b1 + 2.0 * b2 + 2.0 * b3 + b4)
+        if station is not None:
+            q_out[station], h_out[station] = q, h
     return q_out, h_out
 
 
@@ -263,11 +287,12 @@ def channel_cp(
         return True, "no leakage", np.full(len(s_in), q_top), total - (q_top / g_in) ** 2
 
     marched = {}  # exit flux -> (q, H): brentq evaluates its bracket's ends again
+    plan = _march_plan(s, g, width, contraction)
 
     def march(q_exit):
         key = float(q_exit)
         if key not in marched:
-            marched[key] = _march_upstream(key, s, g, width, exit_cp, side_pressure, contraction)
+            marched[key] = _march_upstream(key, plan, len(s), g[-1], exit_cp, side_pressure)
         return marched[key]
 
     def miss(q_exit):
@@ -291,7 +316,7 @@ def _exit_flux(miss, q_top):
     With the whole exit speed ``q_top`` the total pressure only rises upstream (inflow lowers it
     downstream): miss >= 0; with a vanishing exit flux the inlet's total pressure is about the
     exit's pressure: miss < 0. The root lies at 70-95 % of ``q_top`` on the samples and the
-    boxes, so the bracket is split there first and scipy's brentq takes 7 to 9 marches (the
+    boxes, so the bracket is split there first and scipy's brentq takes 5 to 7 marches (the
     secant method from there strayed into the steep part at small fluxes on the minibus;
     measured).
     """
