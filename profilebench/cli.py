@@ -3,7 +3,8 @@
 Subcommands::
 
     profilebench analyse FILE [--image OUT.png|.svg|.pdf] [--csv OUT.csv] [--json OUT.json]
-                              [--speed KMH] [--no-ground] [--transition free|turbulent|METRES]
+                              [--speed KMH] [--no-ground] [--no-side-relief]
+                              [--transition free|turbulent|METRES]
                               [--h-separation H] [--panels N] [--altitude M]
                               [--area M2 | --width M] [--cp-min CP]
     profilebench compare BASELINE VARIANT [--same-conditions] [condition options]
@@ -184,6 +185,12 @@ def _add_condition_options(p):
     g = p.add_argument_group("conditions (override the project file's)")
     g.add_argument("--speed", type=float, metavar="KMH", help="vehicle speed in km/h")
     g.add_argument("--no-ground", action="store_true", help="free air: no ground plane at y = 0")
+    g.add_argument(
+        "--no-side-relief",
+        action="store_true",
+        help="keep the 2D section's underbody pressures even when a width is known (by default "
+        "the gap under the body leaks through its sides)",
+    )
     g.add_argument(
         "--transition",
         metavar="MODE",
@@ -390,6 +397,8 @@ def _conditions(project, args):
         changes["speed"] = kmh_to_ms(_checked_speed_kmh(args.speed))
     if getattr(args, "no_ground", False):
         changes["ground"] = False
+    if getattr(args, "no_side_relief", False):
+        changes["side_relief"] = False
     if getattr(args, "transition", None) is not None:
         t = args.transition.strip().lower()
         if t in ("free", "turbulent"):
@@ -456,6 +465,7 @@ _CONDITION_WORDS = {
     "tunnel_speed": ("tunnel speed", lambda v: "none" if v is None else f"{v * 3.6:.1f} km/h"),
     "base_pressure": ("base pressure", lambda v: f"{v:g}"),
     "panels": ("panels", lambda v: f"{v}"),
+    "side_relief": ("underbody side relief", lambda v: "on" if v else "off"),
 }
 
 
@@ -1150,7 +1160,7 @@ def _cmd_variants_add(args, out):
         "width"
     ).split()
     given = [o for o in analysis_options if getattr(args, o, None) is not None]
-    given += ["no_ground"] if args.no_ground else []
+    given += [o for o in ("no_ground", "no_side_relief") if getattr(args, o, False)]
     if given:
         option = "--" + given[0].replace("_", "-")
         raise InputError(

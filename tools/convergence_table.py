@@ -2,10 +2,13 @@
 panel count (Cd and each corner's verdict), and its invariance to the start node and direction.
 
 Run from the repository: ``python tools/convergence_table.py``; its output replaces the table
-in docs/validation.md.
+of the underbody side relief in docs/validation.md (the samples' conditions, the relief on);
+with ``--no-side-relief`` the 2D section's, the first table there.
 """
 
 from __future__ import annotations
+
+import sys
 
 from profilebench import Conditions, Profile, analyze, load_project
 from profilebench.io.samples import sample_paths
@@ -24,6 +27,12 @@ def _reordered(profile, start, reverse):
     )
 
 
+def _conditions(project):
+    if "--no-side-relief" in sys.argv[1:]:
+        return project.conditions.replace(side_relief=False)
+    return project.conditions
+
+
 def main():
     n0 = Conditions().panels
     counts = (n0, 2 * n0, 4 * n0)
@@ -38,7 +47,7 @@ def main():
     print("|---|" + "---|" * (len(counts) + 4))
     for path in sample_paths():
         project = load_project(path)
-        runs = [analyze(project.profile, project.conditions.replace(panels=n)) for n in counts]
+        runs = [analyze(project.profile, _conditions(project).replace(panels=n)) for n in counts]
         cds = [a.drag.cd for a in runs]
         verdicts = [
             [(c.label or f"node {c.node}", c.verdict.value) for c in a.corners] for a in runs
@@ -46,7 +55,7 @@ def main():
         same = verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
         change = max(abs(c - cds[0]) for c in cds[1:]) / cds[0] * 100.0
         others = [
-            analyze(_reordered(project.profile, k, rev), project.conditions).drag.cd
+            analyze(_reordered(project.profile, k, rev), _conditions(project)).drag.cd
             for rev in (False, True)
             for k in range(len(project.profile.nodes))
         ]
@@ -61,7 +70,7 @@ def main():
     print()
     for path in sample_paths():
         project = load_project(path)
-        a = analyze(project.profile, project.conditions)
+        a = analyze(project.profile, _conditions(project))
         print(
             f"- **{path.stem}** ({n0} panels): "
             + "; ".join(f"{c.label or 'node %d' % c.node}: {c.verdict.value}" for c in a.corners)

@@ -162,6 +162,24 @@ def _events(flow):
     return tuple(events)
 
 
+def _relief_note(conditions, flow):
+    """What the underbody side relief did, for the notes (None in free air)."""
+    if not conditions.ground:
+        return None
+    if not conditions.side_relief:
+        return (
+            "underbody side relief switched off: the underbody pressures and the lift are the 2D "
+            "section's"
+        )
+    if conditions.width is None:
+        return (
+            "no vehicle width given: the underbody pressures and the lift are the 2D section's "
+            "(no side relief), which overstates the underbody suction; give the width to have "
+            "the gap flow leak sideways"
+        )
+    return None if flow.underbody is None else flow.underbody.note()
+
+
 def _finite(analysis_numbers):
     return all(v is None or math.isfinite(v) for v in analysis_numbers)
 
@@ -305,12 +323,17 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
         spans=spans,
         regions=regions,
     )
+    relief_note = _relief_note(conditions, flow)
+    relieved = flow.underbody is not None and flow.underbody.applied
+    if relief_note is not None and not relieved:
+        warnings.append(relief_note)
     drag = estimate_drag(
         flow,
         conditions,
         height,
         corner_penalties=[c.delta_cd for c in corners],
         edge_points=edge_points(panelling),
+        notes=(relief_note,) if relieved else (),
     )
     timings["assess"] = time.perf_counter() - t2
     timings["total"] = time.perf_counter() - t0

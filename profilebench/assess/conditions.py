@@ -99,6 +99,11 @@ class Conditions:
         vehicles -0.15 to -0.3 (Roshko, NACA TN 3169, 1954, and later compilations: from memory).
     panels : int
         Panel count of the inviscid solve, 40..2000.
+    side_relief : bool
+        True (default): with a ``width`` and a ground, the underbody's pressures come from a
+        gap channel that leaks through its two sides (profilebench.flow.underbody); without a
+        width the 2D section's are used (and the analysis says so). False: always the 2D
+        section's.
     """
 
     speed: float = 30.0
@@ -115,6 +120,7 @@ class Conditions:
     tunnel_speed: float | None = None
     base_pressure: float = -0.25
     panels: int = 250
+    side_relief: bool = True
 
     # ------------------------------------------------------------------ validation
     def __post_init__(self):
@@ -165,6 +171,11 @@ class Conditions:
 
         if not isinstance(self.ground, bool):
             raise ConditionsError(f"ground must be True or False, got {self.ground!r}; give a bool")
+        if not isinstance(self.side_relief, bool):
+            raise ConditionsError(
+                f"side_relief must be True or False, got {excerpt(repr(self.side_relief))}; "
+                "give a bool"
+            )
 
         tr = self.transition
         if isinstance(tr, str):
@@ -272,6 +283,14 @@ class Conditions:
         if self.tunnel_speed is None:
             return None
         return self.tunnel_speed * L * self.model_scale / self.nu
+
+    @property
+    def relief_width(self) -> float | None:
+        """The width (m) the underbody side relief uses, or None when the 2D section's
+        underbody is used (relief switched off, no width given, or no ground)."""
+        if not self.side_relief or not self.ground:
+            return None
+        return self.width
 
     def reference_area(self, h: float) -> float | None:
         """Reference area for CdA, force and power, m^2.

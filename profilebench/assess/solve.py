@@ -15,6 +15,7 @@ from profilebench.flow.profile_flow import (
     march_surface_flow,
     solve_profile_flow,
 )
+from profilebench.flow.underbody import SideRelief
 
 __all__ = [
     "solve_flow",
@@ -131,6 +132,7 @@ def solve_flow(profile, conditions, panelling, height):
         base_pressure=conditions.base_pressure,
         closed_points=closed_points(panelling, height),
         fit_length=FIT_RATIO * height,
+        relief=None if conditions.relief_width is None else SideRelief(conditions.relief_width),
     )
 
 

@@ -34,6 +34,7 @@ from profilebench.flow.boundary_layer import BoundaryLayerResult, EventKind, mar
 from profilebench.errors import InputError, ProfileBenchError
 from profilebench.flow.panel import InviscidSolution, InviscidStatus, solve_inviscid
 from profilebench.flow.stagnation import Surface, split_surfaces
+from profilebench.flow.underbody import UnderbodyRelief
 from profilebench.geometry.polyline import (
     arc_length,
     edge_lengths,
@@ -130,6 +131,9 @@ class ProfileFlow:
     # layer leaves downstream (see profilebench.flow.profile_flow._DEPARTURE_START)
     departure: tuple[float, float] = (0.0, 0.0)
     attached: np.ndarray | None = None  # attached share (0 to 1) of each inviscid panel
+    # the underbody side-relief model's outcome for this flow's lower surface, or None when the
+    # model was not asked for (see profilebench.flow.underbody)
+    underbody: UnderbodyRelief | None = None
 
     @property
     def success(self) -> bool:
@@ -293,8 +297,17 @@ def _marched(
     restart_hints=None,
     beyond=(0.0, 0.0),
     fit_length=0.0,
+    relief=None,
 ):
-    """March the given surfaces (in original-outline terms) and assemble a ProfileFlow."""
+    """March the given surfaces (in original-outline terms) and assemble a ProfileFlow.
+
+    ``relief``: a :class:`~profilebench.flow.underbody.SideRelief`, which replaces the lower
+    surface's gap pressures and edge speeds (in ``res`` and the surface) before the marches.
+    """
+    underbody = None
+    if relief is not None:
+        res, lower, underbody = relief.apply(res, surfaces[1])
+        surfaces = (surfaces[0], lower)
     n = len(res.s)
     flows = []
     station_surface = np.full(n, -1, dtype=int)
@@ -371,6 +384,7 @@ def _marched(
         station_surface,
         station_bl,
         attached=attached,
+        underbody=underbody,
     )
 
 
@@ -750,6 +764,7 @@ def _with_wake(
     base_pressure,
     coarse=False,
     fit_length=0.0,
+    relief=None,
 ):
     """Re-solve the attached flow with a wake displacement body behind the separation points.
 
@@ -866,6 +881,7 @@ def _with_wake(
         restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
         beyond=beyond,
         fit_length=fit_length,
+        relief=relief,
     )
     if not flow.success:
         return first, f"wake model skipped: {flow.message}"
@@ -996,6 +1012,7 @@ def _coarse_closed_with_wake(
     wake_length,
     base_pressure,
     fit_length=0.0,
+    relief=None,
 ):
     """The wake model with its closed-body pass on the subset ``closed_points`` of ``pts``.
 
@@ -1022,6 +1039,7 @@ def _coarse_closed_with_wake(
         h_separation,
         reattach_length,
         fit_length=fit_length,
+        relief=relief,
     )
     if not first.success:
         return None
@@ -1043,6 +1061,7 @@ def _coarse_closed_with_wake(
         base_pressure,
         coarse=True,
         fit_length=fit_length,
+        relief=relief,
     )
     return None if note else flow
 
@@ -1062,6 +1081,7 @@ def solve_profile_flow(
     base_pressure=-0.25,
     closed_points=None,
     fit_length=0.0,
+    relief=None,
 ):
     """Inviscid flow and both boundary layers of a closed outline.
 
@@ -1107,6 +1127,10 @@ def solve_profile_flow(
     fit_length : float
         Half-width (m) of the window of the edge-speed slope in the boundary-layer marches (see
         :func:`~profilebench.flow.boundary_layer.march_boundary_layer`).
+    relief : SideRelief, optional
+        The underbody side-relief model (:class:`profilebench.flow.underbody.SideRelief`): on
+        every pass the lower surface's gap takes its pressures and edge speeds before it is
+        marched (``ProfileFlow.underbody`` says what it did). None: the 2D section's.
     """
     pts = np.asarray(points, dtype=float)
     if (
@@ -1128,6 +1152,7 @@ def solve_profile_flow(
             wake_length,
             base_pressure,
             fit_length,
+            relief,
         )
         if flow is not None:
             return flow
@@ -1155,6 +1180,7 @@ def solve_profile_flow(
         h_separation,
         reattach_length,
         fit_length=fit_length,
+        relief=relief,
     )
     if not first.success or wake_length is None or kutta_node is not None:
         return first
@@ -1173,6 +1199,7 @@ def solve_profile_flow(
         wake_length,
         base_pressure,
         fit_length=fit_length,
+        relief=relief,
     )
     if note:
         return dataclasses.replace(flow, message=flow.message + "; " + note)

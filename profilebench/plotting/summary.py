@@ -78,9 +78,16 @@ def run_lines(record):
         scale = f"; model scale 1:{1.0 / c['model_scale']:g}" + (
             f" at {ts * 3.6:.1f} km/h" if ts is not None else ""
         )
+    if not c["ground"]:
+        ground_text = "free air (no ground)"
+    elif not c.get("side_relief", True):
+        ground_text = "ground on (slip, moving belt), underbody side relief off"
+    elif c.get("width") is not None:
+        ground_text = f"ground on (slip, moving belt), underbody side relief for {c['width']:g} m"
+    else:
+        ground_text = "ground on (slip, moving belt), 2D underbody (no width)"
     line1 = (
-        f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; "
-        f"{'ground on (slip, moving belt)' if c['ground'] else 'free air (no ground)'}; "
+        f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; {ground_text}; "
         f"{tr_text}; turbulent separation at H = {c['h_separation']:g}; base pressure "
         f"Cp_b = {c['base_pressure']:g}; {c['panels']} panels; {area}{scale}"
     )
@@ -115,11 +122,21 @@ def summary_rows(analysis):
             ("CdA", _g(d.cda, ".4f"), "m^2"),
             ("drag force", _g(d.force, ".2f"), "N"),
             ("power", _g(None if d.power is None else d.power / 1000.0, ".3f"), "kW"),
-            ("Cl", f"{d.cl:.4f}", "caution: 2D, ground suction overstated"),
+            ("Cl", f"{d.cl:.4f}", _lift_caution(analysis)),
         ]
     rows.append(("Reynolds (full scale)", _g(analysis.reynolds, ".4g"), "on length"))
     rows.append(("Reynolds (model)", _g(analysis.model_reynolds, ".4g"), "on model length"))
     return rows
+
+
+def _lift_caution(analysis):
+    """The caution beside Cl: the 2D section's underbody suction is overstated unless the
+    side-relief model replaced it (profilebench.flow.underbody)."""
+    flow = analysis.flow
+    relief = None if flow is None else getattr(flow, "underbody", None)
+    if relief is not None and relief.applied:
+        return "caution: 2D, underbody with side relief"
+    return "caution: 2D, ground suction overstated"
 
 
 def _shared(values):

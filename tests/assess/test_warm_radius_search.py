@@ -82,10 +82,11 @@ def test_a_bracket_that_is_none_is_ignored(start):
 
 def test_an_always_attached_corner_is_found_so_from_a_bracket():
     # a corner the flow reaches already separated (the van's rear bumper lower edge is in the
-    # underbody's separated flow) is attached even sharp: a bracket above that widens down to
-    # r = 0 and says so
+    # underbody's separated flow on the 2D section; with the side relief the underbody layer
+    # reaches it attached) is attached even sharp: a bracket above that widens down to r = 0
+    # and says so
     van = load_project(next(p for p in sample_paths() if p.stem == "kestrel_courier_van"))
-    cond = van.conditions.replace(panels=PANELS)
+    cond = van.conditions.replace(panels=PANELS, side_relief=False)
     node = next(i for i, nd in enumerate(van.profile.nodes) if nd.label == "rear bumper lower")
     cold = smallest_attached_radius(van.profile, cond, node)
     assert cold.status is SearchStatus.ALWAYS_ATTACHED

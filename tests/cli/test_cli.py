@@ -75,6 +75,21 @@ def test_speed_and_ground_options_reach_the_conditions(fake):
     assert cond.ground is False and cond.transition == 0.4
 
 
+def test_side_relief_option_reaches_the_conditions(fake):
+    _, seen = fake
+    assert cli.main(["analyse", SAMPLE]) == 0
+    assert seen["conditions"][-1].side_relief is True  # the sample's (the default)
+    assert cli.main(["analyse", SAMPLE, "--no-side-relief"]) == 0
+    assert seen["conditions"][-1].side_relief is False
+
+
+def test_compare_names_a_side_relief_difference():
+    from profilebench import Conditions
+
+    diff = cli.conditions_differences(Conditions(), Conditions(side_relief=False))
+    assert diff == ["underbody side relief on vs off"]
+
+
 def test_outputs_written(fake, tmp_path, capsys):
     img, csv_, js = tmp_path / "r.png", tmp_path / "s.csv", tmp_path / "r.json"
     assert (

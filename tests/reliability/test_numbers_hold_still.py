@@ -83,12 +83,12 @@ def _sample_runs(name):
 # --- convergence --------------------------------------------------------------------------------
 
 # measured on this code: the courier van sits on two solution branches (its underbody layer
-# separates at s = 4.6 or 4.75 m in the closed-body pass depending on the panel count), 0.2623
-# at 250 panels and 0.2562 / 0.2533 at 500 / 1000: 3.5 % (the cause is in docs/validation.md)
-KNOWN_UNCONVERGED_SAMPLES = {
-    "kestrel_courier_van": "two branches of the underbody separation: "
-    "0.2623 / 0.2562 / 0.2533 (3.5 %)"
-}
+# separates at s = 4.51 or 4.60 m depending on the closed-body pass), 0.2603 at 250 panels and
+# 0.2554 / 0.2533 at 500 / 1000: 2.7 % (the cause is in docs/validation.md)
+# With the underbody side relief (on by default; the samples carry a width) every sample meets
+# the rule: the van's 0.3857 / 0.3820 / 0.3850 (0.9 %). Its 2D section (relief off) does not:
+# see test_van_2d_section_two_underbody_branches below.
+KNOWN_UNCONVERGED_SAMPLES = {}
 
 
 @pytest.mark.parametrize("name", sorted(SAMPLES))
@@ -98,6 +98,17 @@ def test_sample_cd_and_verdicts_hold_at_two_and_four_times_the_panels(name, requ
     cds = [a.drag.cd for a in _sample_runs(name)]
     verdicts = [_verdicts(a) for a in _sample_runs(name)]
     assert verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
+    assert abs(cds[1] - cds[0]) <= 0.02 * cds[0] and abs(cds[2] - cds[0]) <= 0.02 * cds[0]
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason="two branches of the underbody separation of the 2D section: "
+    "0.2603 / 0.2554 / 0.2533 (2.7 %)",
+)
+def test_van_2d_section_two_underbody_branches():
+    project = SAMPLES["kestrel_courier_van"]
+    cds, _ = _converges(project.profile, project.conditions.replace(side_relief=False))
     assert abs(cds[1] - cds[0]) <= 0.02 * cds[0] and abs(cds[2] - cds[0]) <= 0.02 * cds[0]
 
 

@@ -17,7 +17,9 @@ from profilebench.studies import PointCache, PointStatus, rank_project, rank_var
 
 PANELS = 150
 WIDTH = 1.8
-COND = Conditions(speed=30.0, width=WIDTH, panels=PANELS)
+# the ranking's logic is the point here: the pair below was chosen on the 2D section's numbers
+# (with the underbody side relief the low sharp box no longer has the higher Cd)
+COND = Conditions(speed=30.0, width=WIDTH, panels=PANELS, side_relief=False)
 
 
 def _box(height, front_radius, name):
