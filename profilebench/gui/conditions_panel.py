@@ -75,6 +75,13 @@ class ConditionsPanel(QWidget):
         self.ground = QCheckBox("moving-belt ground at y = 0")
         self.ground.toggled.connect(self._ground_toggled)
         form.addRow("Ground", self.ground)
+        self.side_relief = QCheckBox("underbody gap leaks sideways (with a width)")
+        self.side_relief.setToolTip(
+            "underbody side relief: the gap under the body as a channel of the vehicle's width "
+            "leaking through its sides; off, or without a width, the 2D section's underbody"
+        )
+        self.side_relief.toggled.connect(self._side_relief_toggled)
+        form.addRow("Side relief", self.side_relief)
         self.transition_mode = QComboBox()
         self.transition_mode.addItems(["free (criterion)", "fully turbulent", "forced at position"])
         self.transition_mode.currentIndexChanged.connect(lambda _: self._commit("transition"))
@@ -104,6 +111,7 @@ class ConditionsPanel(QWidget):
             self.air_mode.setCurrentIndex(1 if given else 0)
             self._show_air(given)
             self.ground.setChecked(bool(c.ground))
+            self.side_relief.setChecked(bool(c.side_relief))
             if isinstance(c.transition, str):
                 self.transition_mode.setCurrentIndex(0 if c.transition == "free" else 1)
                 f["transition"].setText("")
@@ -214,11 +222,18 @@ class ConditionsPanel(QWidget):
                 self.changed.emit(new, "Use standard atmosphere")
 
     def _ground_toggled(self, on):
+        self._switched("ground", "Ground", on)
+
+    def _side_relief_toggled(self, on):
+        self._switched("side_relief", "Side relief", on)
+
+    def _switched(self, field, words, on):
+        """A check box's condition changed by the user (not while the panel is being filled)."""
         if self._updating or self._conditions is None:
             return
-        new = self._conditions.replace(ground=bool(on))
+        new = self._conditions.replace(**{field: bool(on)})
         self._conditions = new
-        self.changed.emit(new, "Ground on" if on else "Ground off")
+        self.changed.emit(new, f"{words} {'on' if on else 'off'}")
 
     def set_value(self, key: str, text: str) -> None:
         """Type ``text`` into field ``key`` and commit it, as the user would (for scripts/tests)."""

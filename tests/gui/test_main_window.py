@@ -165,6 +165,24 @@ def test_conditions_change_reanalyses(window, qtbot):
     assert w.conditions_panel.fields["speed"].text() == f"{w.document.conditions.speed * 3.6:.5g}"
 
 
+def test_side_relief_switch_reanalyses_with_the_2d_underbody(window, qtbot, tmp_path):
+    w = window
+    box = w.conditions_panel.side_relief
+    assert box.isChecked() == w.document.conditions.side_relief
+    before = w.analysis
+    box.setChecked(not box.isChecked())
+    wait_current(qtbot, w)
+    assert w.analysis.conditions.side_relief is box.isChecked()
+    relieved = w.analysis if box.isChecked() else before
+    flat = before if box.isChecked() else w.analysis
+    # the hatch (the default sample) has a width: with the relief its lift is the relieved one
+    assert relieved.flow.underbody is not None and relieved.flow.underbody.applied
+    assert flat.flow.underbody is None and flat.drag.cl < relieved.drag.cl
+    w.conditions_panel.grab().save(str(tmp_path / "conditions_panel.png"))
+    w.undo_stack.undo()
+    assert box.isChecked() == w.document.conditions.side_relief
+
+
 def test_invalid_condition_shows_why_and_changes_nothing(window):
     w = window
     before = w.document.conditions
