@@ -88,13 +88,10 @@ def _sample_runs(name):
 # With the underbody side relief (on by default; the samples carry a width) every sample meets
 # the rule: the van's 0.3863 / 0.3821 / 0.3850 (1.1 %). Its 2D section (relief off) does not:
 # see test_van_2d_section_two_underbody_branches below.
-KNOWN_UNCONVERGED_SAMPLES = {}
 
 
 @pytest.mark.parametrize("name", sorted(SAMPLES))
-def test_sample_cd_and_verdicts_hold_at_two_and_four_times_the_panels(name, request):
-    if name in KNOWN_UNCONVERGED_SAMPLES:
-        request.applymarker(pytest.mark.xfail(strict=True, reason=KNOWN_UNCONVERGED_SAMPLES[name]))
+def test_sample_cd_and_verdicts_hold_at_two_and_four_times_the_panels(name):
     cds = [a.drag.cd for a in _sample_runs(name)]
     verdicts = [_verdicts(a) for a in _sample_runs(name)]
     assert verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
@@ -126,13 +123,10 @@ def test_sample_verdicts_hold_at_two_and_four_times_the_panels(name):
 # and before the wake's lower shear layer was panelled finely over the ground 0.17 to 0.27 apart
 # (the test body 0.041 / 0.234 / 0.315); the van's 2D section swings with its two underbody
 # branches (-4.83 / -2.07 / -6.35).
-KNOWN_UNCONVERGED_LIFT = {}
 
 
 @pytest.mark.parametrize("name", sorted(SAMPLES))
-def test_sample_lift_holds_at_two_and_four_times_the_panels(name, request):
-    if name in KNOWN_UNCONVERGED_LIFT:
-        request.applymarker(pytest.mark.xfail(strict=True, reason=KNOWN_UNCONVERGED_LIFT[name]))
+def test_sample_lift_holds_at_two_and_four_times_the_panels(name):
     cls = [a.drag.cl for a in _sample_runs(name)]
     assert abs(cls[1] - cls[0]) <= 0.1 and abs(cls[2] - cls[0]) <= 0.1, cls
 
