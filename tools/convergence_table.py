@@ -27,54 +27,63 @@ def _reordered(profile, start, reverse):
     )
 
 
-def _conditions(project):
-    if "--no-side-relief" in sys.argv[1:]:
+def _conditions(project, relief=True):
+    if not relief:
         return project.conditions.replace(side_relief=False)
     return project.conditions
 
 
-def main():
+def sample_lines(relief=True, verdicts=True):
+    """The convergence table of the samples (markdown lines), then (``verdicts``) each sample's
+    corner verdicts at the default count; ``relief`` False: the 2D sections'."""
     n0 = Conditions().panels
     counts = (n0, 2 * n0, 4 * n0)
-    print(
+    lines = [
         "| sample | "
         + " | ".join(f"Cd at {n}" for n in counts)
         + " | largest change | verdicts at 1x = 2x = 4x | Cd spread over start nodes and directions"
         + " | Cl at "
         + " / ".join(str(n) for n in counts)
-        + " |"
-    )
-    print("|---|" + "---|" * (len(counts) + 4))
+        + " |",
+        "|---|" + "---|" * (len(counts) + 4),
+    ]
     for path in sample_paths():
         project = load_project(path)
-        runs = [analyze(project.profile, _conditions(project).replace(panels=n)) for n in counts]
+        cond = _conditions(project, relief)
+        runs = [analyze(project.profile, cond.replace(panels=n)) for n in counts]
         cds = [a.drag.cd for a in runs]
-        verdicts = [
-            [(c.label or f"node {c.node}", c.verdict.value) for c in a.corners] for a in runs
-        ]
-        same = verdicts[1] == verdicts[0] and verdicts[2] == verdicts[0]
+        named = [[(c.label or f"node {c.node}", c.verdict.value) for c in a.corners] for a in runs]
+        same = named[1] == named[0] and named[2] == named[0]
         change = max(abs(c - cds[0]) for c in cds[1:]) / cds[0] * 100.0
         others = [
-            analyze(_reordered(project.profile, k, rev), _conditions(project)).drag.cd
+            analyze(_reordered(project.profile, k, rev), cond).drag.cd
             for rev in (False, True)
             for k in range(len(project.profile.nodes))
         ]
         spread = (max(others) - min(others)) / min(others) * 100.0
-        print(
+        lines.append(
             f"| {path.stem} | "
             + " | ".join(f"{c:.4f}" for c in cds)
             + f" | {change:.1f} % | {'yes' if same else 'NO'} | {spread:.2f} % | "
             + " / ".join(f"{a.drag.cl:.3f}" for a in runs)
             + " |"
         )
-    print()
-    for path in sample_paths():
-        project = load_project(path)
-        a = analyze(project.profile, _conditions(project))
-        print(
-            f"- **{path.stem}** ({n0} panels): "
-            + "; ".join(f"{c.label or 'node %d' % c.node}: {c.verdict.value}" for c in a.corners)
-        )
+    if verdicts:
+        lines.append("")
+        for path in sample_paths():
+            project = load_project(path)
+            a = analyze(project.profile, _conditions(project, relief))
+            lines.append(
+                f"- **{path.stem}** ({n0} panels): "
+                + "; ".join(
+                    f"{c.label or 'node %d' % c.node}: {c.verdict.value}" for c in a.corners
+                )
+            )
+    return lines
+
+
+def main():
+    print("\n".join(sample_lines(relief="--no-side-relief" not in sys.argv[1:])))
 
 
 if __name__ == "__main__":

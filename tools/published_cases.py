@@ -22,6 +22,7 @@ SQUARES = ((0.0, 2.2), (0.02, 2.0), (0.17, 1.2), (0.33, 1.0))
 
 
 def _row(name, profile, published, conditions_for):
+    """One table line: the case, its published Cd and the model's with Cp_b -0.25 and -1.4."""
     cells = []
     for cpb in (-0.25, -1.4):
         a = analyze(profile, conditions_for(cpb))
@@ -33,33 +34,43 @@ def _row(name, profile, published, conditions_for):
             f"{d.cd:.3f} ({100 * (d.cd - published) / published:+.0f} %)",
             f"{d.cd - d.cd_corners:.3f}",
         ]
-    print(f"| {name} | {published:.2f} | " + " | ".join(cells) + " |")
+    return f"| {name} | {published:.2f} | " + " | ".join(cells) + " |"
+
+
+def table_lines():
+    """The published-cases table (markdown lines)."""
+    lines = [
+        "| case | published Cd | model, Cp_b -0.25 | solver only | model, Cp_b -1.4 | solver only |",
+        "|---|---|---|---|---|---|",
+    ]
+    for rd, pub in SQUARES:
+        lines.append(
+            _row(
+                f"square, R/D = {rd:g}, Re 1e5",
+                rounded_box(1.0, 1.0, rd, clearance=1.0),
+                pub,
+                lambda cpb: Conditions(
+                    speed=1e5 * NU / 1.0,
+                    ground=False,
+                    density=1.225,
+                    kinematic_viscosity=NU,
+                    base_pressure=cpb,
+                ),
+            )
+        )
+    lines.append(
+        _row(
+            "flat plate normal to the stream (2 % thick)",
+            rounded_box(0.02, 1.0, 0.0, clearance=1.0),
+            2.0,
+            lambda cpb: Conditions(speed=30.0, ground=False, base_pressure=cpb),
+        )
+    )
+    return lines
 
 
 def main():
-    print(
-        "| case | published Cd | model, Cp_b -0.25 | solver only | model, Cp_b -1.4 | solver only |"
-    )
-    print("|---|---|---|---|---|---|")
-    for rd, pub in SQUARES:
-        _row(
-            f"square, R/D = {rd:g}, Re 1e5",
-            rounded_box(1.0, 1.0, rd, clearance=1.0),
-            pub,
-            lambda cpb: Conditions(
-                speed=1e5 * NU / 1.0,
-                ground=False,
-                density=1.225,
-                kinematic_viscosity=NU,
-                base_pressure=cpb,
-            ),
-        )
-    _row(
-        "flat plate normal to the stream (2 % thick)",
-        rounded_box(0.02, 1.0, 0.0, clearance=1.0),
-        2.0,
-        lambda cpb: Conditions(speed=30.0, ground=False, base_pressure=cpb),
-    )
+    print("\n".join(table_lines()))
 
 
 if __name__ == "__main__":

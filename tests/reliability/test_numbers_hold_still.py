@@ -343,6 +343,43 @@ def test_random_rounded_boxes_converge_on_95_percent(random_box_share):
     assert random_box_share >= 0.95
 
 
+def _perturbed_samples(seed, per_sample):
+    """Each sample ``per_sample`` times with every node moved by up to 1 % of the outline's
+    height (heights only above a quarter of it, so that the underbody stays flat)."""
+    rng = np.random.default_rng(seed)
+    out = []
+    for _name, project in sorted(SAMPLES.items()):
+        ys = [nd.y for nd in project.profile.nodes]
+        h = max(ys) - min(ys)
+        for _ in range(per_sample):
+            p = project.profile
+            for j, nd in enumerate(p.nodes):
+                dy = rng.uniform(-0.01, 0.01) * h
+                p = p.moved(
+                    j, nd.x + rng.uniform(-0.01, 0.01) * h, nd.y + (dy if nd.y > 0.25 * h else 0.0)
+                )
+            out.append((p, project.conditions))
+    return out
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason=(
+        "measured: 34 of these 40 converge from 250 to 500 panels (85 %; 34 of 40 with seed 11 "
+        "too). Five of the six are minibuses: their lower layer separates smoothly at the end of "
+        "the rear ramp and the wake leaves it straight downstream, a concave kink that slows "
+        "the flow ahead of it, so the wake pass separates 30-40 mm ahead of the closed pass; "
+        "there the pressure drag converges to first order (Cd 0.440 / 0.450 / 0.454 at 250 / "
+        "500 / 1000) and the separation lies on the boundary between the ramp's two corners, "
+        "so the verdict moves from one to the other. The sixth is a hatch whose windscreen base "
+        "reads attached at 250 and a bubble at 500 and 1000 (Cd within 0.6 %). See "
+        "docs/validation.md"
+    ),
+)
+def test_perturbed_samples_converge_on_95_percent():
+    assert _converged_share(_perturbed_samples(5, 10)) >= 0.95
+
+
 def test_command_line_reports_an_implausible_result_as_a_failure(tmp_path, capsys):
     # exit status 1 (an analysis did not succeed), not 0 and not 2 (bad input)
     import dataclasses
