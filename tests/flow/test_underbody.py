@@ -186,3 +186,27 @@ def test_the_channel_refuses_an_exit_above_the_inlet_total_pressure():
     ok, message, q, cp = channel_cp(s, np.full(10, 0.1), 2.0, exit_cp=1.2)
     assert not ok and q is None and cp is None
     assert "exit pressure" in message
+
+
+@pytest.mark.xfail(
+    strict=True,
+    reason=(
+        "measured: the courier van's Cd is 0.2745 with a sharp underbody rear corner (the layer "
+        "leaves at the edge, the gap channel ends there: inlet flux 0.81 of the 2D section's) and "
+        "0.3843 with a 5 mm one (attached up the ramp, the channel ends on the rear bumper lower "
+        "arc: flux 0.50), +40 %; as a 2D section 0.251 -> 0.261. The channel's exit pressure is "
+        "the 2D solution's at the station that ends the ground-facing run, and that station moves "
+        "with the separation; see docs/validation.md"
+    ),
+)
+def test_a_5_mm_rounding_of_the_underbody_rear_moves_cd_as_little_as_in_2d():
+    # a 5 mm arc on a 2 m tall van is far smaller than the boundary layer there (tens of mm): in
+    # a real flow it acts as the sharp edge does (common practice, no source); the relief may
+    # not turn the 2D section's few per cent between the two into tens
+    van = load_project(next(p for p in sample_paths() if p.stem == "kestrel_courier_van"))
+    node = next(j for j, nd in enumerate(van.profile.nodes) if nd.label == "underbody rear")
+    sharp, rounded = (
+        analyze(van.profile.with_radius(node, r), van.conditions) for r in (0.0, 0.005)
+    )
+    assert sharp.success and rounded.success
+    assert abs(rounded.drag.cd / sharp.drag.cd - 1.0) <= 0.10
