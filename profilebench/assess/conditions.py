@@ -226,7 +226,7 @@ class Conditions:
         in_range("base_pressure", *BASE_PRESSURE_RANGE)
         if not isinstance(self.base_model, str) or self.base_model not in BASE_MODELS:
             raise ConditionsError(
-                f"base_model = {excerpt(repr(self.base_model))} is not allowed; give one of "
+                f"base_model = {excerpt(str(self.base_model))} is not allowed; give one of "
                 f"{', '.join(repr(m) for m in BASE_MODELS)}"
             )
 
