@@ -193,9 +193,11 @@ def run_record(analysis, created=None) -> dict:
         "conditions": _plain(conditions),
         # the base pressure the analysis used (the constant, or the one found from the layers
         # at separation) and how it was found
-        "base_pressure_used": None
-        if analysis.drag is None
-        else _plain(analysis.drag.base_pressure),
+        "base_pressure_used": (
+            None
+            if analysis.drag is None or (estimate is not None and not estimate.ok)
+            else _plain(analysis.drag.base_pressure)
+        ),
         "base_pressure_note": None if estimate is None else estimate.note(),
         "air": air,
         "tables": tables,

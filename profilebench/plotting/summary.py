@@ -50,9 +50,11 @@ def _base_text(record):
     if model == "constant":
         return f"base pressure Cp_b = {c['base_pressure']:g}"
     used = record.get("base_pressure_used")
-    found = "not found" if used is None else f"{used:.3f}"
+    if used is None:  # not found, or not needed (no separated region)
+        note = record.get("base_pressure_note") or "not found"
+        return f"base pressure from the boundary layer at separation ({model} form): {note}"
     return (
-        f"base pressure Cp_b = {found} from the boundary layer at separation "
+        f"base pressure Cp_b = {used:.3f} from the boundary layer at separation "
         f"(Hoerner's blunt-base correlation, {model} form)"
     )
 

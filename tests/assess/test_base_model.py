@@ -15,8 +15,12 @@ from profilebench import Conditions, analyze, load_project
 from profilebench.assess.conditions import BASE_MODELS
 from profilebench.assess.results import AnalysisStatus
 from profilebench.errors import ConditionsError
-from profilebench.flow.base_pressure import base_pressure_coefficient
-from profilebench.geometry import rounded_box
+from profilebench.flow.base_pressure import (
+    BaseEstimate,
+    LayerBasePressure,
+    base_pressure_coefficient,
+)
+from profilebench.geometry import naca4, rounded_box
 from profilebench.io.samples import sample_paths
 
 SAMPLES = {p.stem: load_project(p) for p in sample_paths()}
@@ -118,3 +122,51 @@ def test_base_model_round_trips_through_the_conditions_dict(model):
     c = Conditions(base_model=model)
     assert Conditions.from_dict(c.to_dict()) == c
     assert dataclasses.asdict(c)["base_model"] == model
+
+
+@dataclasses.dataclass(frozen=True)
+class _Contracting(LayerBasePressure):
+    """A stand-in estimate that maps the Cp_b a wake pass used to slope * cp + (1 - slope) *
+    (-0.6): its fixed point is -0.6, reached the faster the smaller the slope."""
+
+    slope: float = 0.1
+
+    def estimate(self, flow, height):
+        cp = self.slope * flow.base_pressure + (1.0 - self.slope) * -0.6
+        return BaseEstimate(self.form, True, "", cp, 0.05, (0.01, 0.01), 1.0)
+
+
+@pytest.mark.parametrize("slope, settles", [(0.1, True), (0.7, False)])
+def test_where_the_wake_depends_on_the_base_pressure_the_passes_repeat_until_it_settles(
+    monkeypatch, slope, settles
+):
+    # the plate's shear layers leave its sharp edges across the stream: the free-streamline
+    # wake's shape depends on Cp_b, so the wake pass is repeated with each new estimate
+    monkeypatch.setattr(
+        Conditions, "base_pressure_model", property(lambda c: _Contracting("body", -0.25, slope))
+    )
+    plate = rounded_box(0.02, 1.0, 0.0, clearance=1.0)
+    a = analyze(plate, Conditions(ground=False, base_model="body", panels=120))
+    if settles:
+        # -0.25 -> -0.565 -> -0.5965 -> -0.59965: the third pass agrees within 0.005
+        assert a.success, a.message
+        assert a.flow.base_estimate.passes == 3
+        assert a.drag.base_pressure == pytest.approx(-0.59965)
+    else:
+        assert a.status is AnalysisStatus.BASE_PRESSURE_FAILED
+        assert "did not settle in 4 wake passes" in a.message
+
+
+def test_without_a_separated_region_the_base_pressure_is_not_needed():
+    # a NACA 0012 with its Kutta condition stays attached to its trailing edge: no base
+    from profilebench.io.export import run_record
+    from profilebench.plotting.summary import run_lines
+
+    section = naca4("0012", chord=1.0)
+    const = analyze(section, Conditions(ground=False))
+    layer = analyze(section, Conditions(ground=False, base_model="body"))
+    assert const.success and layer.success
+    assert not layer.flow.separated.any()
+    assert layer.drag.cd == const.drag.cd
+    assert "not used" in layer.flow.base_estimate.message
+    assert "no separated region" in run_lines(run_record(layer))[0]
