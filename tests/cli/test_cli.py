@@ -108,6 +108,13 @@ def test_run_line_gives_the_base_pressure_found_from_the_layer(capsys):
     assert "base pressure Cp_b = -0.25;" in capsys.readouterr().out
 
 
+def test_compare_names_a_base_model_difference():
+    from profilebench import Conditions
+
+    diff = cli.conditions_differences(Conditions(), Conditions(base_model="body"))
+    assert diff == ["base pressure from constant vs body"]
+
+
 def test_compare_names_a_side_relief_difference():
     from profilebench import Conditions
 
