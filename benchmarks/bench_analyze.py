@@ -21,6 +21,12 @@ from the issues: analyze within 15x of that dense solve).
 
 The smallest-attached-radius search is timed on its own, per sample, cold and warm, by
 ``bench_radius_search.py``.
+
+``--base-from MODEL`` (``run(base_model=...)``) times the analyses with that base-pressure model
+(``Conditions.base_model``); ``--compare-base MODEL`` times the samples' own conditions and
+that model in turns, call by call (the machine's drift hits both alike), and prints each
+one's median and their ratio (the issue's limit: at most 1.2 with the base pressure from the
+layer).
 """
 
 from __future__ import annotations
@@ -66,7 +72,7 @@ def _moved(profile, k: int):
     return profile.moved(1, node.x + dx, node.y)
 
 
-def run(repeats: int = REPEATS, panels: int = PANELS):
+def run(repeats: int = REPEATS, panels: int = PANELS, base_model: str | None = None):
     """Time ``analyze`` on each sample; return a list of dict rows.
 
     Analysis rows: ``sample``, ``total_ms`` (median wall time of analyze, radius searches
@@ -74,12 +80,15 @@ def run(repeats: int = REPEATS, panels: int = PANELS):
     searches per analysis), ``geometry_ms``, ``flow_ms``, ``radius_search_ms``, ``assess_ms``
     (medians of ``Analysis.timings``), ``dense_solve_ms``, ``ratio`` (median of each run's
     total / dense solve timed beside it),
-    ``status``, ``repeats``.
+    ``status``, ``repeats``. ``base_model``: the conditions' base-pressure model (None: the
+    sample's own).
     """
     rows = []
     for path in sample_paths():
         project = load_project(path)
         cond = project.conditions.replace(panels=panels)
+        if base_model is not None:
+            cond = cond.replace(base_model=base_model)
         analyze(_moved(project.profile, 0), cond)  # warm-up (imports, table loading)
         totals, colds, ratios, denses, split = [], [], [], [], {k: [] for k in _SPLIT}
         status = ""
@@ -140,9 +149,46 @@ def format_rows(rows) -> str:
     return "\n".join(lines)
 
 
-def main():
-    """Print the table."""
-    print(format_rows(run()))
+def compare_base(model: str, repeats: int = REPEATS, panels: int = PANELS):
+    """Rows of (sample, median ms with the sample's own conditions, median ms with the
+    base-pressure model ``model``, ratio of the medians), the two timed in turns on the same
+    fresh profiles (radius searches cached, as ``total`` of :func:`run`)."""
+    rows = []
+    for path in sample_paths():
+        project = load_project(path)
+        own = project.conditions.replace(panels=panels)
+        conds = (own, own.replace(base_model=model))
+        for c in conds:
+            analyze(_moved(project.profile, 0), c)  # warm-up and the searches cached
+        times = ([], [])
+        for k in range(repeats):
+            analyze(_moved(project.profile, k + 1), own)  # the searches of this position
+            for i in (0, 1) if k % 2 == 0 else (1, 0):
+                prof = _moved(project.profile, k + 1)
+                t0 = time.perf_counter()
+                analyze(prof, conds[i])
+                times[i].append(time.perf_counter() - t0)
+        a, b = _median(times[0]), _median(times[1])
+        rows.append((path.stem, 1e3 * a, 1e3 * b, b / a))
+    return rows
+
+
+def main(argv=None):
+    """Print the table (see the module docstring for the options)."""
+    import argparse
+
+    parser = argparse.ArgumentParser(description="time analyze on every sample")
+    parser.add_argument("--base-from", metavar="MODEL", help="the base-pressure model to time")
+    parser.add_argument(
+        "--compare-base", metavar="MODEL", help="time the samples' own and MODEL in turns"
+    )
+    args = parser.parse_args(argv)
+    if args.compare_base:
+        print(f"{'sample':<36} {'own ms':>8} {args.compare_base + ' ms':>10} {'ratio':>7}")
+        for name, a, b, ratio in compare_base(args.compare_base):
+            print(f"{name:<36} {a:>8.2f} {b:>10.2f} {ratio:>7.3f}")
+        return
+    print(format_rows(run(base_model=args.base_from)))
 
 
 if __name__ == "__main__":

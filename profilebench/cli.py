@@ -6,6 +6,7 @@ Subcommands::
                               [--speed KMH] [--no-ground] [--no-side-relief]
                               [--transition free|turbulent|METRES]
                               [--h-separation H] [--panels N] [--altitude M]
+                              [--base-from constant|body|section]
                               [--area M2 | --width M] [--cp-min CP]
     profilebench compare BASELINE VARIANT [--same-conditions] [condition options]
     profilebench corners FILE [--smallest] [condition options]
@@ -204,6 +205,13 @@ def _add_condition_options(p):
         help="turbulent separation threshold on the shape factor H (1.8 to 2.8)",
     )
     g.add_argument("--panels", type=int, metavar="N", help="number of panels on the outline")
+    g.add_argument(
+        "--base-from",
+        metavar="MODEL",
+        help="where the base pressure comes from: 'constant' (the project's Cp_b), or the "
+        "boundary layer at separation through Hoerner's blunt-base correlation, 'body' (a "
+        "three-dimensional base, for a vehicle) or 'section' (a two-dimensional base)",
+    )
     g.add_argument(
         "--table",
         metavar="CSV",
@@ -415,6 +423,8 @@ def _conditions(project, args):
         changes["h_separation"] = args.h_separation
     if getattr(args, "panels", None) is not None:
         changes["panels"] = args.panels
+    if getattr(args, "base_from", None) is not None:
+        changes["base_model"] = args.base_from
     if getattr(args, "altitude", None) is not None:
         changes["altitude"] = args.altitude
     if getattr(args, "area", None) is not None:
@@ -464,6 +474,7 @@ _CONDITION_WORDS = {
     "model_scale": ("model scale", lambda v: f"{v:g}"),
     "tunnel_speed": ("tunnel speed", lambda v: "none" if v is None else f"{v * 3.6:.1f} km/h"),
     "base_pressure": ("base pressure", lambda v: f"{v:g}"),
+    "base_model": ("base pressure from", lambda v: v),
     "panels": ("panels", lambda v: f"{v}"),
     "side_relief": ("underbody side relief", lambda v: "on" if v else "off"),
 }
@@ -1157,7 +1168,7 @@ def _cmd_variants_add(args, out):
     name, source = args.add
     analysis_options = (
         "csv image baseline by workers speed transition h_separation panels table altitude area "
-        "width"
+        "width base_from"
     ).split()
     given = [o for o in analysis_options if getattr(args, o, None) is not None]
     given += [o for o in ("no_ground", "no_side_relief") if getattr(args, o, False)]

@@ -262,11 +262,10 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
         )
     timings["flow"] = time.perf_counter() - t1
     if not flow.success:
-        status = (
-            AnalysisStatus.INVISCID_FAILED
-            if flow.status.name == "INVISCID_FAILED"
-            else AnalysisStatus.BOUNDARY_LAYER_FAILED
-        )
+        status = {
+            "INVISCID_FAILED": AnalysisStatus.INVISCID_FAILED,
+            "BASE_PRESSURE_FAILED": AnalysisStatus.BASE_PRESSURE_FAILED,
+        }.get(flow.status.name, AnalysisStatus.BOUNDARY_LAYER_FAILED)
         return Analysis(status, flow.message, profile, conditions, m, panelling, flow)
 
     t2 = time.perf_counter()
@@ -327,13 +326,16 @@ def analyze(profile, conditions=None, thickness=None, table=None, searches="run"
     relieved = flow.underbody is not None and flow.underbody.applied
     if relief_note is not None and not relieved:
         warnings.append(relief_note)
+    notes = (relief_note,) if relieved else ()
+    if flow.base_estimate is not None:  # the base pressure from the layers at separation
+        notes += (flow.base_estimate.note(),)
     drag = estimate_drag(
         flow,
         conditions,
         height,
         corner_penalties=[c.delta_cd for c in corners],
         edge_points=edge_points(panelling),
-        notes=(relief_note,) if relieved else (),
+        notes=notes,
     )
     timings["assess"] = time.perf_counter() - t2
     timings["total"] = time.perf_counter() - t0

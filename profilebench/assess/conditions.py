@@ -24,11 +24,23 @@ from profilebench.flow.atmosphere import (
 # turbulent separation usually taken at H 1.8..2.8 (Cebeci & Bradshaw, Momentum Transfer in
 # Boundary Layers, 1977): the range the boundary-layer march itself accepts
 from profilebench.flow.boundary_layer import H_SEPARATION_RANGE
+from profilebench.flow.base_pressure import BASE_FORMS, LayerBasePressure
 
-__all__ = ["Conditions", "kmh_to_ms", "ms_to_kmh", "SPEED_MAX", "TRANSITION_MODES"]
+__all__ = [
+    "Conditions",
+    "kmh_to_ms",
+    "ms_to_kmh",
+    "SPEED_MAX",
+    "TRANSITION_MODES",
+    "BASE_MODELS",
+]
 
 SPEED_MAX = 150.0  # m/s; above this (about Mach 0.44 at sea level) compressibility matters
 TRANSITION_MODES = ("free", "turbulent")
+# where the base pressure comes from: "constant" (base_pressure as given), or the boundary layer
+# at separation through Hoerner's blunt-base correlation, "body" (a three-dimensional base, for a
+# vehicle) or "section" (a two-dimensional base); see profilebench.flow.base_pressure
+BASE_MODELS = ("constant",) + BASE_FORMS
 BASE_PRESSURE_RANGE = (-1.5, 0.0)  # Cp; a plate normal to the flow about -1.4 (Roshko, from memory)
 PANELS_RANGE = (40, 2000)
 # largest frontal area (m^2) and width (m) taken: far beyond any vehicle, and small enough that
@@ -97,6 +109,13 @@ class Conditions:
     base_pressure : float
         Cp in separated regions (base-pressure model), -1.5..0. Default -0.25: square-back
         vehicles -0.15 to -0.3 (Roshko, NACA TN 3169, 1954, and later compilations: from memory).
+        With ``base_model`` other than "constant" it is only the first guess of the wake passes
+        whose shape depends on the base pressure.
+    base_model : str
+        Where the base pressure comes from: "constant" (default: ``base_pressure``), or the
+        boundary layer at the two final separation points through Hoerner's blunt-base
+        correlation, "body" (a three-dimensional base: a vehicle's) or "section" (a
+        two-dimensional base); see :mod:`profilebench.flow.base_pressure`.
     panels : int
         Panel count of the inviscid solve, 40..2000.
     side_relief : bool
@@ -119,6 +138,7 @@ class Conditions:
     model_scale: float = 1.0
     tunnel_speed: float | None = None
     base_pressure: float = -0.25
+    base_model: str = "constant"
     panels: int = 250
     side_relief: bool = True
 
@@ -204,6 +224,11 @@ class Conditions:
         in_range("model_scale", 0.0, 1.0, lo_open=True)
         positive_or_none("tunnel_speed", "m/s", upper=SPEED_MAX)
         in_range("base_pressure", *BASE_PRESSURE_RANGE)
+        if not isinstance(self.base_model, str) or self.base_model not in BASE_MODELS:
+            raise ConditionsError(
+                f"base_model = {excerpt(str(self.base_model))} is not allowed; give one of "
+                f"{', '.join(repr(m) for m in BASE_MODELS)}"
+            )
 
         p = self.panels
         if isinstance(p, bool) or not isinstance(p, int):
@@ -283,6 +308,16 @@ class Conditions:
         if self.tunnel_speed is None:
             return None
         return self.tunnel_speed * L * self.model_scale / self.nu
+
+    @property
+    def base_pressure_model(self):
+        """What the flow takes for the base pressure: the number ``base_pressure`` with
+        ``base_model`` "constant", else a
+        :class:`~profilebench.flow.base_pressure.LayerBasePressure` of that form (starting from
+        ``base_pressure``)."""
+        if self.base_model == "constant":
+            return self.base_pressure
+        return LayerBasePressure(self.base_model, self.base_pressure)
 
     @property
     def relief_width(self) -> float | None:

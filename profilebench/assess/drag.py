@@ -12,7 +12,10 @@ absolute values):
   the corner correction, so it is not counted twice.
 - **Base**: behind each surface's final separation point the pressure is taken constant at the
   base-pressure coefficient Cp_b (Conditions.base_pressure; square-back vehicles
-  -0.15 to -0.3, Roshko, NACA TN 3169, 1954, and later compilations: from memory), Cd_b = -Cp_b * sum(n_x ds)/h over the wake stations. This is the
+  -0.15 to -0.3, Roshko, NACA TN 3169, 1954, and later compilations: from memory; or, with
+  Conditions.base_model, found from the boundary layer at the two final separation points through
+  Hoerner's blunt-base correlation, profilebench.flow.base_pressure),
+  Cd_b = -Cp_b * sum(n_x ds)/h over the wake stations. This is the
   usual free-streamline picture: a dead-air region of uniform pressure behind separation
   (Roshko 1954 relates Cp_b to the wake's speed parameter k = sqrt(1 - Cp_b)).
 - **Corners**: for each corner the solver finds separated whose layer then reattaches (a corner
@@ -99,7 +102,9 @@ def estimate_drag(flow, conditions, height, corner_penalties=(), notes=(), edge_
         if flow.attached is not None
         else (~wake).astype(float)
     )
-    cp_base = float(conditions.base_pressure)
+    # the base pressure the flow used: the constant given, or the one found from the layers at
+    # separation (Conditions.base_model)
+    cp_base = float(conditions.base_pressure if flow.base_pressure is None else flow.base_pressure)
 
     # friction on attached stations, along the local flow direction (sign of ue along points)
     cf = np.zeros(len(cp))

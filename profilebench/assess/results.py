@@ -43,6 +43,8 @@ class AnalysisStatus(enum.Enum):
     BOUNDARY_LAYER_FAILED = "boundary-layer march failed"
     PANELLING_FAILED = "panelling failed"  # the panel count cannot resolve the outline
     IMPLAUSIBLE = "implausible result"  # the numbers fail a physical check (see analysis)
+    # the base pressure from the layer at separation is outside its correlation's range
+    BASE_PRESSURE_FAILED = "base pressure not found"
 
 
 class Verdict(enum.Enum):

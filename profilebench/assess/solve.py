@@ -129,7 +129,7 @@ def solve_flow(profile, conditions, panelling, height):
         edge_points=edge_points(panelling),
         reattach_length=REATTACH_RATIO * height,
         wake_length=WAKE_RATIO * height,
-        base_pressure=conditions.base_pressure,
+        base_pressure=conditions.base_pressure_model,
         closed_points=closed_points(panelling, height),
         fit_length=FIT_RATIO * height,
         relief=None if conditions.relief_width is None else SideRelief(conditions.relief_width),

@@ -30,6 +30,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from profilebench.enums import TextEnum
+from profilebench.flow.base_pressure import BaseEstimate, LayerBasePressure
 from profilebench.flow.boundary_layer import BoundaryLayerResult, EventKind, march_boundary_layer
 from profilebench.errors import InputError, ProfileBenchError
 from profilebench.flow.panel import InviscidSolution, InviscidStatus, solve_inviscid
@@ -73,6 +74,7 @@ class FlowStatus(enum.Enum):
     SUCCESS = "success"
     INVISCID_FAILED = "inviscid solve failed"
     BOUNDARY_LAYER_FAILED = "boundary-layer march failed"
+    BASE_PRESSURE_FAILED = "base pressure not found"  # the correlation does not hold here
 
 
 @dataclass(frozen=True)
@@ -134,6 +136,10 @@ class ProfileFlow:
     # the underbody side-relief model's outcome for this flow's lower surface, or None when the
     # model was not asked for (see profilebench.flow.underbody)
     underbody: UnderbodyRelief | None = None
+    # the base pressure (Cp) the separated stations and the base drag take, and how it was found
+    # from the layers at separation (None with a base pressure given as a number)
+    base_pressure: float | None = None
+    base_estimate: BaseEstimate | None = None
 
     @property
     def success(self) -> bool:
@@ -748,6 +754,67 @@ def _free_streamline_wake(moved, j_l, j_u, d, wake_length, ground, weight, base_
     )
 
 
+# The base pressure from the layers at separation (LayerBasePressure): where the wake's shape
+# depends on it (shear layers leaving sharp edges across the stream), the wake pass is repeated
+# with the last estimate until two passes agree within _BASE_CP_TOL in Cp, at most _BASE_PASSES
+# passes (a choice of this project, no source; elsewhere one pass is exact: the wake does not
+# depend on the base pressure).
+_BASE_CP_TOL = 5e-3
+_BASE_PASSES = 4
+
+
+def _with_base(flow, estimate, base_stations=None):
+    """``flow`` with the base pressure of ``estimate`` (a successful BaseEstimate): reported on
+    the stations that take the base pressure (``base_stations``, bool; None: the separated
+    stations without an edge speed) and recorded in ``base_pressure`` and ``base_estimate``."""
+    inv = flow.inviscid
+    if base_stations is None:
+        base_stations = np.asarray(flow.separated, dtype=bool) & (np.asarray(inv.ue) == 0.0)
+    cp = np.where(base_stations, float(estimate.cp_b), np.asarray(inv.cp, dtype=float))
+    cp.setflags(write=False)
+    return dataclasses.replace(
+        flow,
+        inviscid=dataclasses.replace(inv, cp=cp),
+        base_pressure=float(estimate.cp_b),
+        base_estimate=estimate,
+    )
+
+
+def _base_failed(flow, estimate):
+    """A failed ProfileFlow saying why the base pressure could not be found."""
+    return ProfileFlow(
+        FlowStatus.BASE_PRESSURE_FAILED,
+        estimate.message,
+        flow.inviscid,
+        flow.upper,
+        flow.lower,
+        flow.separated,
+        flow.station_surface,
+        flow.station_bl,
+        base_estimate=estimate,
+    )
+
+
+def _resolved(flow, base_pressure, height):
+    """``flow`` (any pass, its wake model done or not) with its base pressure: the number given,
+    or, with a :class:`LayerBasePressure`, the estimate from its own layers unless it has one."""
+    if not flow.success or flow.base_estimate is not None:
+        return flow
+    if not isinstance(base_pressure, LayerBasePressure):
+        return dataclasses.replace(flow, base_pressure=float(base_pressure))
+    if not np.any(flow.separated):  # no base: its pressure is not used
+        unused = BaseEstimate(
+            base_pressure.form, False, "no separated region: the base pressure is not used"
+        )
+        return dataclasses.replace(
+            flow, base_pressure=float(base_pressure.start), base_estimate=unused
+        )
+    est = base_pressure.estimate(flow, height)
+    if not est.ok:
+        return _base_failed(flow, est)
+    return _with_base(flow, est)
+
+
 def _with_wake(
     first,
     pts,
@@ -831,61 +898,98 @@ def _with_wake(
         else 0.0
         for j, sep, step in ((j_u, seps[0], d), (j_l, seps[1], -d))
     ]
-    try:
-        if any(w > 0.0 for w in weight):
-            new_pts, m, res, relax, note = _free_streamline_wake(
-                moved, j_l, j_u, d, wake_length, ground, weight, float(base_pressure), height
-            )
+    free_streamline = any(w > 0.0 for w in weight)
+    taken = {}  # the stations that took the base pressure in the last pass
+
+    def wake_pass(cp_b):
+        """(flow, note) of the wake model with the base pressure ``cp_b``."""
+        try:
+            if free_streamline:
+                new_pts, m, res, relax, note = _free_streamline_wake(
+                    moved, j_l, j_u, d, wake_length, ground, weight, cp_b, height
+                )
+            else:
+                new_pts, m, res = _wake_solution(
+                    moved, j_l, j_u, d, wake_length, ground, (0.0, 0.0)
+                )
+                relax, note = (0.0, 0.0), ""
+        except _WakeSkipped as exc:
+            return first, f"wake model skipped: {exc}"
+        split = split_surfaces(res)
+        if not split.success:
+            return first, f"wake model skipped: {split.message}"
+        k = np.arange(m - 1)
+        orig_of_new = ((j_l + k) % n) if d > 0 else ((j_l - k - 1) % n)
+        # the body's stations take the wake model's Cp; the separated ones the base pressure
+        ue = np.zeros(n)
+        cp = np.full(n, cp_b)
+        ue[orig_of_new] = d * np.asarray(res.ue)[: m - 1]
+        cp[orig_of_new] = np.asarray(res.cp)[: m - 1]
+        taken["base"] = np.ones(n, dtype=bool)
+        taken["base"][orig_of_new] = False
+        message = res0.message + "; wake model: " + res.message + note
+        if coarse:
+            inviscid = _outline_solution(pts, ground, ue, cp, res0.status, message)
         else:
-            new_pts, m, res = _wake_solution(moved, j_l, j_u, d, wake_length, ground, (0.0, 0.0))
-            relax, note = (0.0, 0.0), ""
-    except _WakeSkipped as exc:
-        return first, f"wake model skipped: {exc}"
-    split = split_surfaces(res)
-    if not split.success:
-        return first, f"wake model skipped: {split.message}"
-    k = np.arange(m - 1)
-    orig_of_new = ((j_l + k) % n) if d > 0 else ((j_l - k - 1) % n)
-    # the body's stations take the wake model's Cp; the separated ones the base pressure
-    ue = np.zeros(n)
-    cp = np.full(n, float(base_pressure))
-    ue[orig_of_new] = d * np.asarray(res.ue)[: m - 1]
-    cp[orig_of_new] = np.asarray(res.cp)[: m - 1]
-    message = res0.message + "; wake model: " + res.message + note
-    if coarse:
-        inviscid = _outline_solution(pts, ground, ue, cp, res0.status, message)
-    else:
-        inviscid = dataclasses.replace(res0, ue=ue, cp=cp, message=message)
-    surfaces = []
-    sigma_ju = float(edge_lengths(new_pts)[: m - 1].sum())  # the wake outline starts at j_l
-    for new_sf in (split.upper, split.lower):
-        s_junction = sigma_ju if new_sf.direction > 0 else 0.0
-        sf = _surface_in_original(
-            new_sf, orig_of_new, m, d, float(point_sigma[j_l]), perimeter, s_junction
+            inviscid = dataclasses.replace(res0, ue=ue, cp=cp, message=message)
+        surfaces = []
+        sigma_ju = float(edge_lengths(new_pts)[: m - 1].sum())  # the wake outline starts at j_l
+        for new_sf in (split.upper, split.lower):
+            s_junction = sigma_ju if new_sf.direction > 0 else 0.0
+            sf = _surface_in_original(
+                new_sf, orig_of_new, m, d, float(point_sigma[j_l]), perimeter, s_junction
+            )
+            if sf is None:
+                return first, "wake model skipped: a surface is too short"
+            surfaces.append(sf)
+        layer = (nu, speed, transition, h_separation, reattach_length)  # the march's conditions
+        flow = _marched(
+            inviscid,
+            surfaces,
+            SURFACE_NAMES,
+            perimeter,
+            edge_sigma,
+            *layer,
+            fallback_separation=seps,
+            restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
+            beyond=beyond,
+            fit_length=fit_length,
+            relief=relief,
         )
-        if sf is None:
-            return first, "wake model skipped: a surface is too short"
-        surfaces.append(sf)
-    flow = _marched(
-        inviscid,
-        surfaces,
-        SURFACE_NAMES,
-        perimeter,
-        edge_sigma,
-        nu,
-        speed,
-        transition,
-        h_separation,
-        reattach_length,
-        fallback_separation=seps,
-        restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
-        beyond=beyond,
-        fit_length=fit_length,
-        relief=relief,
+        if not flow.success:
+            return first, f"wake model skipped: {flow.message}"
+        flow = dataclasses.replace(
+            flow, closed=first, wake_points=new_pts, departure=relax, base_pressure=cp_b
+        )
+        return flow, ""
+
+    if not isinstance(base_pressure, LayerBasePressure):
+        return wake_pass(float(base_pressure))
+    # the base pressure from the layers at the wake pass's separation points; where the wake's
+    # shape depends on it (the free-streamline condition), passes are repeated until it settles
+    cp_b = float(base_pressure.start)
+    for passes in range(1, _BASE_PASSES + 1):
+        flow, note = wake_pass(cp_b)
+        if note:
+            return flow, note  # the caller estimates on the closed body
+        est = base_pressure.estimate(flow, height)
+        if not est.ok:
+            return _base_failed(flow, est), ""
+        est = dataclasses.replace(est, passes=passes)
+        if not free_streamline:
+            return _with_base(flow, est, taken["base"]), ""
+        if abs(est.cp_b - cp_b) <= _BASE_CP_TOL:
+            return _with_base(flow, est, taken["base"]), ""
+        cp_b = est.cp_b
+    failed = dataclasses.replace(
+        est,
+        ok=False,
+        message=(
+            f"the base pressure from the layer at separation did not settle in {_BASE_PASSES} "
+            f"wake passes (last {cp_b:.3f}); use the constant base pressure for this outline"
+        ),
     )
-    if not flow.success:
-        return first, f"wake model skipped: {flow.message}"
-    return dataclasses.replace(flow, closed=first, wake_points=new_pts, departure=relax), ""
+    return _base_failed(flow, failed), ""
 
 
 def _closed_subset(n, closed_points, edge_points):
@@ -1063,7 +1167,9 @@ def _coarse_closed_with_wake(
         fit_length=fit_length,
         relief=relief,
     )
-    return None if note else flow
+    if note:
+        return None
+    return _resolved(flow, base_pressure, float(pts[:, 1].max() - pts[:, 1].min()))
 
 
 def solve_profile_flow(
@@ -1115,8 +1221,13 @@ def solve_profile_flow(
         base drag. The wake body removes it (the attached part then behaves like the nose of a
         half-body, whose pressure force tends to zero). Separated stations report
         ``cp = base_pressure`` and ``ue = 0``. Not used with a Kutta condition.
-    base_pressure : float
-        Cp reported on the separated stations by the wake model.
+    base_pressure : float or LayerBasePressure
+        Cp of the separated stations (reported there by the wake model, and the target of the
+        free-streamline condition), or a :class:`~profilebench.flow.base_pressure.
+        LayerBasePressure`, which finds it from the layers at the final separation points of the
+        wake pass (of the closed body where there is no wake pass). The result's
+        ``base_pressure`` is the one used, ``base_estimate`` how it was found; an estimate
+        outside the correlation's range is a failed result (``BASE_PRESSURE_FAILED``).
     closed_points : sequence of int, optional
         With the wake model (and no ``inviscid``, no Kutta condition): increasing indices into
         ``points`` of a coarser panelling of the same outline (``edge_points`` are added). The
@@ -1182,8 +1293,9 @@ def solve_profile_flow(
         fit_length=fit_length,
         relief=relief,
     )
+    height = float(pts[:, 1].max() - pts[:, 1].min())
     if not first.success or wake_length is None or kutta_node is not None:
-        return first
+        return _resolved(first, base_pressure, height)
     flow, note = _with_wake(
         first,
         pts,
@@ -1202,5 +1314,5 @@ def solve_profile_flow(
         relief=relief,
     )
     if note:
-        return dataclasses.replace(flow, message=flow.message + "; " + note)
-    return flow
+        flow = dataclasses.replace(flow, message=flow.message + "; " + note)
+    return _resolved(flow, base_pressure, height)

@@ -29,6 +29,13 @@ __all__ = ["ConditionsPanel"]
 
 ERROR_STYLE = "color: #b03000;"
 
+#: the base-pressure choices: (Conditions.base_model, what the panel shows)
+BASE_MODEL_ITEMS = (
+    ("constant", "the Base Cp above"),
+    ("body", "boundary layer at separation, 3D base"),
+    ("section", "boundary layer at separation, 2D base"),
+)
+
 
 def _fmt(value, scale=1.0, digits=6):
     return "" if value is None else f"{value * scale:.{digits}g}"
@@ -93,6 +100,17 @@ class ConditionsPanel(QWidget):
         entry("model_scale", "Model scale", "model length / full-scale length, 0 < scale <= 1")
         entry("tunnel_speed", "Tunnel speed (km/h)", "scale test speed; empty for none")
         entry("base_pressure", "Base Cp", "Cp in separated regions, -1.5 to 0")
+        self.base_model = QComboBox()
+        self.base_model.addItems([label for _, label in BASE_MODEL_ITEMS])
+        self.base_model.setToolTip(
+            "where the base pressure comes from: the Base Cp above, or the boundary layer at the "
+            "two final separation points through Hoerner's blunt-base correlation (3D base: a "
+            "vehicle's; 2D base: a section spanning a tunnel). From the layer, the Base Cp above "
+            "is only a first guess, and an outline outside the correlation's range fails with a "
+            "message"
+        )
+        self.base_model.currentIndexChanged.connect(self._base_model_changed)
+        form.addRow("Base Cp from", self.base_model)
         entry("panels", "Panels", "panel count, 40 to 2000")
         layout.addStretch(1)
 
@@ -125,6 +143,8 @@ class ConditionsPanel(QWidget):
             f["model_scale"].setText(_fmt(c.model_scale))
             f["tunnel_speed"].setText(_fmt(c.tunnel_speed, 3.6, 5))
             f["base_pressure"].setText(_fmt(c.base_pressure))
+            models = [m for m, _ in BASE_MODEL_ITEMS]
+            self.base_model.setCurrentIndex(models.index(c.base_model))
             f["panels"].setText(str(c.panels))
             for err in self.errors.values():
                 err.hide()
@@ -226,6 +246,15 @@ class ConditionsPanel(QWidget):
 
     def _side_relief_toggled(self, on):
         self._switched("side_relief", "Side relief", on)
+
+    def _base_model_changed(self, index):
+        if self._updating or self._conditions is None:
+            return
+        model, label = BASE_MODEL_ITEMS[index]
+        new = self._conditions.replace(base_model=model)
+        if new != self._conditions:
+            self._conditions = new
+            self.changed.emit(new, f"Base Cp from {label}")
 
     def _switched(self, field, words, on):
         """A check box's condition changed by the user (not while the panel is being filled)."""

@@ -163,8 +163,10 @@ def _plain(value):
 def run_record(analysis, created=None) -> dict:
     """What a run was made with, so that two pages or files can be compared safely.
 
-    Every condition (speed, air, ground, transition, separation threshold, base pressure,
-    panels, area or width, model scale), the air it gives, the r/t table(s) the corners were
+    Every condition (speed, air, ground, transition, separation threshold, base pressure and
+    where it comes from, panels, area or width, model scale), the base pressure used (found from
+    the boundary layer at separation with ``base_model`` other than "constant"), the air it
+    gives, the r/t table(s) the corners were
     judged by, the profilebench version and the date (UTC, ISO 8601; ``created`` overrides it).
     """
     _check_analysis(analysis, "run_record")
@@ -185,8 +187,18 @@ def run_record(analysis, created=None) -> dict:
         air = None
     tables = sorted({c.table_name for c in analysis.corners if c.table_name})
     when = created or datetime.datetime.now(datetime.timezone.utc)
+    flow = analysis.flow
+    estimate = None if flow is None else flow.base_estimate
     return {
         "conditions": _plain(conditions),
+        # the base pressure the analysis used (the constant, or the one found from the layers
+        # at separation) and how it was found
+        "base_pressure_used": (
+            None
+            if analysis.drag is None or (estimate is not None and not estimate.ok)
+            else _plain(analysis.drag.base_pressure)
+        ),
+        "base_pressure_note": None if estimate is None else estimate.note(),
         "air": air,
         "tables": tables,
         "profilebench_version": profilebench.__version__,

@@ -43,6 +43,22 @@ MARGIN_DEFINITION = (
 )
 
 
+def _base_text(record):
+    """The run line's base pressure: the constant, or the one found from the layer."""
+    c = record["conditions"]
+    model = c.get("base_model", "constant")
+    if model == "constant":
+        return f"base pressure Cp_b = {c['base_pressure']:g}"
+    used = record.get("base_pressure_used")
+    if used is None:  # not found, or not needed (no separated region)
+        note = record.get("base_pressure_note") or "not found"
+        return f"base pressure from the boundary layer at separation ({model} form): {note}"
+    return (
+        f"base pressure Cp_b = {used:.3f} from the boundary layer at separation "
+        f"(Hoerner's blunt-base correlation, {model} form)"
+    )
+
+
 def run_lines(record):
     """The run block as text lines, from :func:`profilebench.io.export.run_record`'s dict."""
     c = record["conditions"]
@@ -88,8 +104,8 @@ def run_lines(record):
         ground_text = "ground on (slip, moving belt), 2D underbody (no width)"
     line1 = (
         f"Run: {c['speed'] * 3.6:.1f} km/h; {air_text}; {ground_text}; "
-        f"{tr_text}; turbulent separation at H = {c['h_separation']:g}; base pressure "
-        f"Cp_b = {c['base_pressure']:g}; {c['panels']} panels; {area}{scale}"
+        f"{tr_text}; turbulent separation at H = {c['h_separation']:g}; "
+        f"{_base_text(record)}; {c['panels']} panels; {area}{scale}"
     )
     tables = "; ".join(record.get("tables") or []) or "none"
     line2 = (

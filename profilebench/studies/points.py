@@ -44,6 +44,7 @@ class PointStatus(TextEnum):
     BOUNDARY_LAYER_FAILED = AnalysisStatus.BOUNDARY_LAYER_FAILED.value
     PANELLING_FAILED = AnalysisStatus.PANELLING_FAILED.value
     IMPLAUSIBLE = AnalysisStatus.IMPLAUSIBLE.value
+    BASE_PRESSURE_FAILED = AnalysisStatus.BASE_PRESSURE_FAILED.value
     REFUSED = "refused"  # the analysis refused this point's input (its message says why)
     ERROR = "error"  # an unexpected error in the analysis (a fault to report)
     CANCELLED = "cancelled"  # not run: the study was cancelled first

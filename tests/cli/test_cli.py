@@ -83,6 +83,38 @@ def test_side_relief_option_reaches_the_conditions(fake):
     assert seen["conditions"][-1].side_relief is False
 
 
+def test_base_from_option_reaches_the_conditions(fake):
+    _, seen = fake
+    assert cli.main(["analyse", SAMPLE]) == 0
+    assert seen["conditions"][-1].base_model == "constant"  # the sample's (the default)
+    assert cli.main(["analyse", SAMPLE, "--base-from", "body"]) == 0
+    assert seen["conditions"][-1].base_model == "body"
+
+
+def test_unknown_base_from_exits_2(fake, capsys):
+    assert cli.main(["analyse", SAMPLE, "--base-from", "wake"]) == 2
+    err = capsys.readouterr().err
+    assert "base_model" in err and "'constant', 'body', 'section'" in err
+
+
+def test_run_line_gives_the_base_pressure_found_from_the_layer(capsys):
+    # a real analysis of the sample: the run line names the Cp_b it used and where it came from
+    assert cli.main(["analyse", SAMPLE, "--base-from", "body"]) == 0
+    run = next(line for line in capsys.readouterr().out.splitlines() if line.startswith("Run:"))
+    found = re.search(r"base pressure Cp_b = (-0\.\d{3}) from the boundary layer", run)
+    assert found and "body form" in run
+    assert -0.30 <= float(found.group(1)) < 0.0  # within the correlation's span (0.30 at most)
+    assert cli.main(["analyse", SAMPLE]) == 0
+    assert "base pressure Cp_b = -0.25;" in capsys.readouterr().out
+
+
+def test_compare_names_a_base_model_difference():
+    from profilebench import Conditions
+
+    diff = cli.conditions_differences(Conditions(), Conditions(base_model="body"))
+    assert diff == ["base pressure from constant vs body"]
+
+
 def test_compare_names_a_side_relief_difference():
     from profilebench import Conditions
 

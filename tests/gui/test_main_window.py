@@ -183,6 +183,27 @@ def test_side_relief_switch_reanalyses_with_the_2d_underbody(window, qtbot, tmp_
     assert box.isChecked() == w.document.conditions.side_relief
 
 
+def test_base_pressure_from_the_layer_reanalyses_and_undoes(window, qtbot, tmp_path):
+    w = window
+    combo = w.conditions_panel.base_model
+    assert w.document.conditions.base_model == "constant" and combo.currentIndex() == 0
+    before = w.analysis
+    assert before.drag.base_pressure == w.document.conditions.base_pressure
+    combo.setCurrentIndex(1)  # the 3D base's correlation
+    wait_current(qtbot, w)
+    a = w.analysis
+    assert a.conditions.base_model == "body" and a.success
+    # the base pressure now comes from the layers at separation, not the constant
+    assert a.drag.base_pressure != before.drag.base_pressure
+    assert a.drag.base_pressure == a.flow.base_estimate.cp_b
+    assert a.drag.cd_base != before.drag.cd_base
+    path = tmp_path / "conditions_panel_base.png"
+    w.conditions_panel.grab().save(str(path))
+    assert path.stat().st_size > 0
+    w.undo_stack.undo()
+    assert w.document.conditions.base_model == "constant" and combo.currentIndex() == 0
+
+
 def test_invalid_condition_shows_why_and_changes_nothing(window):
     w = window
     before = w.document.conditions

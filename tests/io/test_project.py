@@ -424,3 +424,15 @@ def test_relative_path_of_image_outside_folder_is_refused(tmp_path):
 
 def test_default_sample_loads():
     assert isinstance(load_project(default_sample_path()).profile, Profile)
+
+
+def test_base_model_is_saved_and_a_file_without_it_loads_with_the_constant(tmp_path):
+    # files written before the base-pressure model existed have no base_model key
+    old = project_to_dict(_project())
+    del old["conditions"]["base_model"]
+    loaded = load_project(_write_json(tmp_path / "old.json", old))
+    assert loaded.conditions.base_model == "constant"
+    assert loaded.conditions == _project().conditions
+    new = _project(conditions=Conditions(speed=25.0, width=1.0, base_model="body"))
+    save_project(new, tmp_path / "new.json")
+    assert load_project(tmp_path / "new.json").conditions.base_model == "body"

@@ -74,6 +74,7 @@ class Flow:
     lower: SurfaceFlow
     separated: np.ndarray
     success: bool = True
+    base_estimate: object = None  # a constant base pressure
 
 
 def ellipse_speed(eta):

@@ -268,6 +268,8 @@ def test_json_written_has_the_run(tmp_path):
     data = json.loads(write_results_json(fake_analysis(), tmp_path / "r.json").read_text())
     assert set(data["run"]) == {
         "conditions",
+        "base_pressure_used",
+        "base_pressure_note",
         "air",
         "tables",
         "profilebench_version",

@@ -1,0 +1,26 @@
+"""Panel convergence with the base pressure from the boundary layer at separation.
+
+The rule of tests/reliability/test_numbers_hold_still.py (common practice of numerical analysis,
+no source): the default panel count and twice as many give Cd within 2 % and the same verdict on
+every corner, here with Conditions.base_model "body" on the four samples. The base pressure
+itself is held to 0.01 in Cp (a choice of this project, no source).
+"""
+
+import pytest
+from test_numbers_hold_still import DEFAULT, SAMPLES, _verdicts
+
+from profilebench import analyze
+
+
+@pytest.mark.parametrize("name", sorted(SAMPLES))
+def test_sample_with_the_layer_base_pressure_holds_at_twice_the_panels(name):
+    project = SAMPLES[name]
+    cond = project.conditions.replace(base_model="body")
+    runs = [analyze(project.profile, cond.replace(panels=n)) for n in (DEFAULT, 2 * DEFAULT)]
+    assert all(a.success for a in runs), [a.message for a in runs]
+    cds = [a.drag.cd for a in runs]
+    assert abs(cds[1] - cds[0]) <= 0.02 * cds[0], cds
+    assert _verdicts(runs[1]) == _verdicts(runs[0])
+    cps = [a.drag.base_pressure for a in runs]
+    assert abs(cps[1] - cps[0]) <= 0.01, cps
+    assert all(a.flow.base_estimate.ok for a in runs)
