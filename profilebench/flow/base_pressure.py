@@ -43,6 +43,8 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
+import numpy as np
+
 from profilebench.errors import InputError
 
 __all__ = [
@@ -157,7 +159,7 @@ class LayerBasePressure:
             i = int(sep.index) if sep is not None else len(bl.s) - 1
             s_at = float(sep.s) if sep is not None else float(bl.s[-1])
             thetas.append(float(bl.theta[i]))
-            ys.append(float(_interp(s_at, sfl.surface.s, sfl.surface.y)))
+            ys.append(float(np.interp(s_at, sfl.surface.s, sfl.surface.y)))
         h_b = abs(ys[0] - ys[1])
         if not all(math.isfinite(v) and v >= 0.0 for v in thetas) or not math.isfinite(h_b):
             return BaseEstimate(
@@ -185,9 +187,3 @@ class LayerBasePressure:
                 base_height=h_b,
             )
         return BaseEstimate(self.form, True, "", cp_b, c_fb, (thetas[0], thetas[1]), h_b)
-
-
-def _interp(x, xs, ys):
-    import numpy as np
-
-    return float(np.interp(float(x), np.asarray(xs, dtype=float), np.asarray(ys, dtype=float)))

@@ -899,10 +899,10 @@ def _with_wake(
         for j, sep, step in ((j_u, seps[0], d), (j_l, seps[1], -d))
     ]
     free_streamline = any(w > 0.0 for w in weight)
-    taken = {}  # the stations that took the base pressure in the last pass
 
     def wake_pass(cp_b):
-        """(flow, note) of the wake model with the base pressure ``cp_b``."""
+        """(flow, note, the stations that took the base pressure) of the wake model with the
+        base pressure ``cp_b``; no stations (None) where the wake model was skipped."""
         try:
             if free_streamline:
                 new_pts, m, res, relax, note = _free_streamline_wake(
@@ -914,10 +914,10 @@ def _with_wake(
                 )
                 relax, note = (0.0, 0.0), ""
         except _WakeSkipped as exc:
-            return first, f"wake model skipped: {exc}"
+            return first, f"wake model skipped: {exc}", None
         split = split_surfaces(res)
         if not split.success:
-            return first, f"wake model skipped: {split.message}"
+            return first, f"wake model skipped: {split.message}", None
         k = np.arange(m - 1)
         orig_of_new = ((j_l + k) % n) if d > 0 else ((j_l - k - 1) % n)
         # the body's stations take the wake model's Cp; the separated ones the base pressure
@@ -925,8 +925,8 @@ def _with_wake(
         cp = np.full(n, cp_b)
         ue[orig_of_new] = d * np.asarray(res.ue)[: m - 1]
         cp[orig_of_new] = np.asarray(res.cp)[: m - 1]
-        taken["base"] = np.ones(n, dtype=bool)
-        taken["base"][orig_of_new] = False
+        base = np.ones(n, dtype=bool)
+        base[orig_of_new] = False
         message = res0.message + "; wake model: " + res.message + note
         if coarse:
             inviscid = _outline_solution(pts, ground, ue, cp, res0.status, message)
@@ -940,7 +940,7 @@ def _with_wake(
                 new_sf, orig_of_new, m, d, float(point_sigma[j_l]), perimeter, s_junction
             )
             if sf is None:
-                return first, "wake model skipped: a surface is too short"
+                return first, "wake model skipped: a surface is too short", None
             surfaces.append(sf)
         layer = (nu, speed, transition, h_separation, reattach_length)  # the march's conditions
         flow = _marched(
@@ -957,29 +957,27 @@ def _with_wake(
             relief=relief,
         )
         if not flow.success:
-            return first, f"wake model skipped: {flow.message}"
+            return first, f"wake model skipped: {flow.message}", None
         flow = dataclasses.replace(
             flow, closed=first, wake_points=new_pts, departure=relax, base_pressure=cp_b
         )
-        return flow, ""
+        return flow, "", base
 
     if not isinstance(base_pressure, LayerBasePressure):
-        return wake_pass(float(base_pressure))
+        return wake_pass(float(base_pressure))[:2]
     # the base pressure from the layers at the wake pass's separation points; where the wake's
     # shape depends on it (the free-streamline condition), passes are repeated until it settles
     cp_b = float(base_pressure.start)
     for passes in range(1, _BASE_PASSES + 1):
-        flow, note = wake_pass(cp_b)
+        flow, note, base = wake_pass(cp_b)
         if note:
             return flow, note  # the caller estimates on the closed body
         est = base_pressure.estimate(flow, height)
         if not est.ok:
             return _base_failed(flow, est), ""
         est = dataclasses.replace(est, passes=passes)
-        if not free_streamline:
-            return _with_base(flow, est, taken["base"]), ""
-        if abs(est.cp_b - cp_b) <= _BASE_CP_TOL:
-            return _with_base(flow, est, taken["base"]), ""
+        if not free_streamline or abs(est.cp_b - cp_b) <= _BASE_CP_TOL:
+            return _with_base(flow, est, base), ""
         cp_b = est.cp_b
     failed = dataclasses.replace(
         est,
