@@ -148,6 +148,7 @@ def closed_body(profile, conditions, panelling, height):
         conditions.ground,
         closed_points(panelling, height),
         edge_points(panelling),
+        relief=None if conditions.relief_width is None else SideRelief(conditions.relief_width),
     )
 
 

@@ -45,6 +45,8 @@ __all__ = [
     "influence_coefficients",
     "solve_inviscid",
     "solve_inviscid_bodies",
+    "TranspirationResponse",
+    "transpiration_response",
 ]
 
 _TWO_PI = 2.0 * math.pi
@@ -401,7 +403,7 @@ def _assemble(pts_list, ground: bool):
 def _lu_solve(mat: np.ndarray, rhs: np.ndarray):
     """Solve ``mat @ x = rhs`` by LU (LAPACK getrf/getrs), with its reciprocal condition number.
 
-    Returns (x, status, message); x is None on failure.
+    Returns (x, status, message, (lu, piv)); x and the factors are None on failure.
     """
     anorm = float(np.abs(mat).sum(axis=0).max())
     lu, piv, info = lapack.dgetrf(mat, overwrite_a=True)
@@ -413,6 +415,7 @@ def _lu_solve(mat: np.ndarray, rhs: np.ndarray):
                 f"the panel equations are singular (zero pivot {info}); check for coincident or "
                 "overlapping panels"
             ),
+            None,
         )
     rcond, info = lapack.dgecon(lu, anorm, norm="1")
     if not rcond > _RCOND_MIN:
@@ -423,14 +426,16 @@ def _lu_solve(mat: np.ndarray, rhs: np.ndarray):
                 f"the panel equations are singular to working precision (reciprocal condition number "
                 f"{rcond:.2e}); check for coincident, overlapping or very uneven panels"
             ),
+            None,
         )
     x, info = lapack.dgetrs(lu, piv, rhs)
     if not np.isfinite(x).all():
-        return None, InviscidStatus.NOT_FINITE, "the panel solution is not finite"
+        return None, InviscidStatus.NOT_FINITE, "the panel solution is not finite", None
     return (
         x,
         InviscidStatus.SOLVED,
         (f"solved {mat.shape[0]} panel equations (reciprocal condition number {rcond:.2e})"),
+        (lu, piv),
     )
 
 
@@ -500,6 +505,12 @@ def solve_inviscid_bodies(bodies, ground: bool = False, kutta_nodes=None):
     Hess & Smith (1967) source panels with one uniform vortex sheet per lifting body; ground by
     images. See the module docstring for the influence formulas.
     """
+    return _solve_bodies(bodies, ground, kutta_nodes)[0]
+
+
+def _solve_bodies(bodies, ground, kutta_nodes):
+    """(solutions, response) of :func:`solve_inviscid_bodies`; ``response`` a
+    :class:`TranspirationResponse` of the factored system, None when the solve failed."""
     if isinstance(bodies, np.ndarray) and bodies.ndim == 2:
         raise InputError(
             "bodies is a single (N, 2) array; give a list of outlines, or use solve_inviscid "
@@ -563,7 +574,7 @@ def solve_inviscid_bodies(bodies, ground: bool = False, kutta_nodes=None):
         mat[n + r, n:] = vt_cols[p_before] + vt_cols[p_after]
         rhs[n + r] = -(geom["tx"][p_before] + geom["tx"][p_after])
 
-    sol, status, message = _lu_solve(mat, rhs)
+    sol, status, message, factors = _lu_solve(mat, rhs)
     if sol is None:
         ue_all = np.full(n, np.nan)
         gam = np.full(len(lifting), np.nan)
@@ -610,7 +621,65 @@ def solve_inviscid_bodies(bodies, ground: bool = False, kutta_nodes=None):
                 message=message,
             )
         )
-    return tuple(results)
+    response = None
+    if factors is not None:
+        response = TranspirationResponse(
+            tuple(results), factors[0], factors[1], src_t, vt_cols, geom["tx"], n
+        )
+    return tuple(results), response
+
+
+@dataclass(frozen=True, eq=False)
+class TranspirationResponse:
+    """The factored panel system of a solve, for the flow with a normal speed through panels.
+
+    ``solutions``: the solve's :class:`InviscidSolution` per body (no transpiration). The
+    tangency condition at the midpoints is linear in a prescribed outward normal speed ``v_n``
+    (the right-hand side becomes ``-n_x + v_n``: the Neumann condition with a given normal speed
+    in place of zero, the usual way a panel method takes a wall's transpiration; common
+    practice, no source), so the signed tangential speed is ``ue + R @ v_n`` with R from
+    :meth:`response` on the panels that carry it. The factors of the first solve are reused:
+    one back-substitution per panel given (:meth:`response`), or one for a whole distribution
+    (:meth:`change`).
+    """
+
+    solutions: tuple
+    lu: np.ndarray
+    piv: np.ndarray
+    src_t: np.ndarray
+    vt_cols: np.ndarray
+    tx: np.ndarray
+    n: int
+
+    def response(self, panels) -> np.ndarray:
+        """(N, k) array: the change of every midpoint's signed tangential speed per unit
+        outward normal speed (/ V) on each of the k ``panels`` (indices over all bodies)."""
+        panels = np.asarray(panels, dtype=int)
+        rhs = np.zeros((self.lu.shape[0], panels.size), order="F")
+        rhs[panels, np.arange(panels.size)] = 1.0
+        return self._speeds(rhs)
+
+    def change(self, panels, normal_speed) -> np.ndarray:
+        """(N,) array: the change of every midpoint's signed tangential speed when the
+        ``panels`` carry the outward ``normal_speed`` (/ V, one per panel): ``response(panels)
+        @ normal_speed`` at the cost of one back-substitution."""
+        rhs = np.zeros(self.lu.shape[0])
+        np.add.at(rhs, np.asarray(panels, dtype=int), np.asarray(normal_speed, dtype=float))
+        return self._speeds(rhs)
+
+    def _speeds(self, rhs):
+        x, info = lapack.dgetrs(self.lu, self.piv, rhs)
+        if info != 0:
+            raise InputError(f"the panel system could not be back-substituted (info {info})")
+        return self.src_t @ x[: self.n] + self.vt_cols @ x[self.n :]
+
+
+def transpiration_response(points, ground: bool = False, kutta_node=None):
+    """(solution, response) of one body: the :class:`InviscidSolution` of
+    :func:`solve_inviscid` (the same input checks) and its :class:`TranspirationResponse`, None
+    when the solve failed (the solution says why)."""
+    results, response = _solve_bodies([points], ground, [kutta_node])
+    return results[0], response
 
 
 def solve_inviscid(points, ground: bool = False, kutta_node=None) -> InviscidSolution:

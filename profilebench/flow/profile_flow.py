@@ -303,17 +303,13 @@ def _marched(
     restart_hints=None,
     beyond=(0.0, 0.0),
     fit_length=0.0,
-    relief=None,
+    underbody=None,
 ):
     """March the given surfaces (in original-outline terms) and assemble a ProfileFlow.
 
-    ``relief``: a :class:`~profilebench.flow.underbody.SideRelief`, which replaces the lower
-    surface's gap pressures and edge speeds (in ``res`` and the surface) before the marches.
+    ``underbody``: the side-relief model's outcome for the panel solution ``res`` (see
+    :meth:`~profilebench.flow.underbody.SideRelief.solve`), reported with the flow.
     """
-    underbody = None
-    if relief is not None:
-        res, lower, underbody = relief.apply(res, surfaces[1])
-        surfaces = (surfaces[0], lower)
     n = len(res.s)
     flows = []
     station_surface = np.full(n, -1, dtype=int)
@@ -637,6 +633,22 @@ def _separation_xy(sfl, s_at):
     return float(np.interp(s_at, s, sf.x)), float(np.interp(s_at, s, sf.y))
 
 
+def _lower_layer_panels(new_pts, m):
+    """Indices of the panels of the wake's lower shear layer on the wake outline ``new_pts``
+    (see _wake_outline: the body's m points first, from the lower separation point; the lower
+    layer last, from the closing face back to the separation point): those behind the body
+    whose outward normal points below the horizontal (the closing face's points along the
+    stream, the upper layer's up)."""
+    n = len(new_pts)
+    seg = np.roll(new_pts, -1, axis=0) - new_pts
+    # the outward normal's y component has the sign of t_x on a clockwise outline, of -t_x on
+    # a counter-clockwise one (as the panel method takes it)
+    sign = 1.0 if is_clockwise(new_pts) else -1.0
+    tail = np.arange(n - 1, m - 2, -1)  # from the separation point downstream
+    ny = sign * seg[tail, 0]
+    return tail[ny < 0.0]
+
+
 class _WakeSkipped(Exception):
     """The wake body could not be built or solved (the message says why); ``ground``: because
     it would touch the ground."""
@@ -646,9 +658,10 @@ class _WakeSkipped(Exception):
         self.ground = ground
 
 
-def _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax):
-    """(points, m, inviscid solution) of the body closed by a wake with relaxation lengths
-    ``relax`` = (upper, lower) in m; raises _WakeSkipped when the wake cannot be used."""
+def _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax, relief=None):
+    """(points, m, inviscid solution, side relief's outcome) of the body closed by a wake with
+    relaxation lengths ``relax`` = (upper, lower) in m, with the side relief ``relief`` (None:
+    the 2D section's; its outcome None); raises _WakeSkipped when the wake cannot be used."""
     new_pts, m = _wake_outline(moved, j_l, j_u, d, wake_length, relax[0], relax[1], ground)
     if ground and float(new_pts[:, 1].min()) <= 0.0:
         raise _WakeSkipped("the wake would touch the ground", ground=True)
@@ -657,15 +670,21 @@ def _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax):
 
         if not shapely.LinearRing(new_pts).is_simple:
             raise _WakeSkipped("the wake crosses the body")
-        res = solve_inviscid(new_pts, ground=ground)
+        if relief is None:
+            res, underbody = solve_inviscid(new_pts, ground=ground), None
+        else:
+            wake_panels = _lower_layer_panels(new_pts, m)
+            res, underbody = relief.solve(new_pts, ground, wake_panels=wake_panels)
     except ProfileBenchError as exc:  # the closed-body answer stands; say why
         raise _WakeSkipped(str(exc)) from exc
     if not res.success:
         raise _WakeSkipped(res.message)
-    return new_pts, m, res
+    return new_pts, m, res, underbody
 
 
-def _free_streamline_wake(moved, j_l, j_u, d, wake_length, ground, weight, base_pressure, height):
+def _free_streamline_wake(
+    moved, j_l, j_u, d, wake_length, ground, weight, base_pressure, height, relief=None
+):
     """The wake whose shear layers from sharp edges meet the free-streamline condition.
 
     ``weight`` = (upper, lower): the share of the found relaxation length each side uses (see
@@ -675,7 +694,8 @@ def _free_streamline_wake(moved, j_l, j_u, d, wake_length, ground, weight, base_
     message). A layer heading down whose wake would touch the ground is shortened (L / e) and
     the search goes on; a wake that cannot be built for another reason ends the search at the
     best one found so far; with none, at L = 0 (the layer leaves downstream) and the note says
-    so.
+    so. ``relief``: the side relief of every solve (see _wake_solution); the wake's outcome of
+    it comes last in the returned tuple.
     """
     free = [w > 0.0 for w in weight]
     lo, hi = (math.log(v) for v in _DEPARTURE_RANGE)
@@ -692,7 +712,7 @@ def _free_streamline_wake(moved, j_l, j_u, d, wake_length, ground, weight, base_
     while solves < _DEPARTURE_SOLVES:
         relax = tuple(float(math.exp(r) * height) if f else 0.0 for r, f in zip(rho, free))
         try:
-            sol = _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax)
+            sol = _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax, relief)
         except _WakeSkipped as exc:
             # a layer heading down that reaches the ground turns toward the stream sooner: its
             # length is shortened (by a factor e) and the search goes on from there
@@ -721,22 +741,29 @@ def _free_streamline_wake(moved, j_l, j_u, d, wake_length, ground, weight, base_
             nxt = r1 + np.clip(step, -2.0, 2.0)
         rho = np.where(free, np.clip(nxt, lo, hi), rho)
     if best is None:
-        new_pts, m, res = _wake_solution(moved, j_l, j_u, d, wake_length, ground, (0.0, 0.0))
+        new_pts, m, res, underbody = _wake_solution(
+            moved, j_l, j_u, d, wake_length, ground, (0.0, 0.0), relief
+        )
         return (
             new_pts,
             m,
             res,
             (0.0, 0.0),
             ("; the shear layers leave downstream (no wake met the free-streamline condition)"),
+            underbody,
         )
-    score, (new_pts, m, res), relax = best
+    score, (new_pts, m, res, underbody), relax = best
     if any(0.0 < w < 1.0 for w in weight):
         relax = tuple(r * w for r, w in zip(relax, weight))
         try:
-            new_pts, m, res = _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax)
+            new_pts, m, res, underbody = _wake_solution(
+                moved, j_l, j_u, d, wake_length, ground, relax, relief
+            )
         except _WakeSkipped:
             relax = (0.0, 0.0)
-            new_pts, m, res = _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax)
+            new_pts, m, res, underbody = _wake_solution(
+                moved, j_l, j_u, d, wake_length, ground, relax, relief
+            )
         cp = np.asarray(res.cp)
         score = float(max(abs(c - base_pressure) for c, f in zip((cp[m - 2], cp[0]), free) if f))
     lengths = ", ".join(
@@ -751,6 +778,7 @@ def _free_streamline_wake(moved, j_l, j_u, d, wake_length, ground, weight, base_
             f"; shear layers from the sharp edges relaxed over {lengths} "
             f"(edge Cp within {score:.2g} of the base pressure)"
         ),
+        underbody,
     )
 
 
@@ -905,12 +933,12 @@ def _with_wake(
         base pressure ``cp_b``; no stations (None) where the wake model was skipped."""
         try:
             if free_streamline:
-                new_pts, m, res, relax, note = _free_streamline_wake(
-                    moved, j_l, j_u, d, wake_length, ground, weight, cp_b, height
+                new_pts, m, res, relax, note, underbody = _free_streamline_wake(
+                    moved, j_l, j_u, d, wake_length, ground, weight, cp_b, height, relief
                 )
             else:
-                new_pts, m, res = _wake_solution(
-                    moved, j_l, j_u, d, wake_length, ground, (0.0, 0.0)
+                new_pts, m, res, underbody = _wake_solution(
+                    moved, j_l, j_u, d, wake_length, ground, (0.0, 0.0), relief
                 )
                 relax, note = (0.0, 0.0), ""
         except _WakeSkipped as exc:
@@ -954,7 +982,7 @@ def _with_wake(
             restart_hints=[tuple(r.s for r in f.restarts) for f in (first.upper, first.lower)],
             beyond=beyond,
             fit_length=fit_length,
-            relief=relief,
+            underbody=underbody,
         )
         if not flow.success:
             return first, f"wake model skipped: {flow.message}", None
@@ -1006,13 +1034,14 @@ def _closed_subset(n, closed_points, edge_points):
     )
 
 
-def _closed_split(pts, ground, sub, edge_points):
+def _closed_split(pts, ground, sub, edge_points, relief=None):
     """The closed-body pass on the points ``pts[sub]``: (panel solution, split at the
     stagnation point, perimeter, outline arc lengths of the sharp edges ``edge_points``, given
-    as indices into ``pts``), or None where the solve or the split fails."""
+    as indices into ``pts``, the side relief's outcome), or None where the solve or the split
+    fails. ``relief``: the side-relief model (None: the 2D section's, outcome None)."""
     pts_c = pts[sub]
     try:
-        res = solve_inviscid(pts_c, ground=ground)
+        res, underbody = _closed_solve(pts_c, ground, None, relief)
     except ProfileBenchError:
         return None
     if not res.success:
@@ -1022,7 +1051,16 @@ def _closed_split(pts, ground, sub, edge_points):
         return None
     perim, sigma = arc_length(pts_c)
     pos = {int(j): k for k, j in enumerate(sub)}
-    return res, split, perim, [float(sigma[pos[int(k)]]) for k in edge_points]
+    return res, split, perim, [float(sigma[pos[int(k)]]) for k in edge_points], underbody
+
+
+def _closed_solve(pts, ground, kutta_node, relief):
+    """(panel solution, side relief's outcome) of the closed outline ``pts``: with the side
+    leakage of ``relief`` (:meth:`~profilebench.flow.underbody.SideRelief.solve`) or, without
+    one, the 2D section's (outcome None)."""
+    if relief is None:
+        return solve_inviscid(pts, ground=ground, kutta_node=kutta_node), None
+    return relief.solve(pts, ground, kutta_node=kutta_node)
 
 
 @dataclass(frozen=True)
@@ -1046,7 +1084,7 @@ class ClosedBodySplit:
         return (self.upper, self.lower)
 
 
-def closed_body_split(points, ground, closed_points, edge_points=()):
+def closed_body_split(points, ground, closed_points, edge_points=(), relief=None):
     """The first part of :func:`solve_profile_flow`'s closed-body pass with the wake model: the
     panel solve on the points it uses (``closed_points`` and ``edge_points``, or all points
     where the wake model would use all) and the split at the stagnation point, as a
@@ -1061,10 +1099,10 @@ def closed_body_split(points, ground, closed_points, edge_points=()):
     sub = _closed_subset(n, closed_points, edge_points)
     if sub.size < 8 or sub.size >= n:
         sub = np.arange(n)  # the analysis runs the closed-body pass on all the points then
-    solved = _closed_split(pts, ground, sub, edge_points)
+    solved = _closed_split(pts, ground, sub, edge_points, relief)
     if solved is None:
         return None
-    res, split, perim, edge_sigma = solved
+    res, split, perim, edge_sigma, _ = solved
     flows = [
         SurfaceFlow(
             name=name,
@@ -1125,10 +1163,10 @@ def _coarse_closed_with_wake(
     sub = _closed_subset(n, closed_points, edge_points)
     if sub.size < 8 or sub.size >= n:
         return None  # nothing to gain (or too few points): the full closed-body pass
-    solved = _closed_split(pts, ground, sub, edge_points)
+    solved = _closed_split(pts, ground, sub, edge_points, relief)
     if solved is None:
         return None
-    res_c, split, perim_c, edge_sigma_c = solved
+    res_c, split, perim_c, edge_sigma_c, underbody = solved
     first = _marched(
         res_c,
         (split.upper, split.lower),
@@ -1141,7 +1179,7 @@ def _coarse_closed_with_wake(
         h_separation,
         reattach_length,
         fit_length=fit_length,
-        relief=relief,
+        underbody=underbody,
     )
     if not first.success:
         return None
@@ -1237,9 +1275,11 @@ def solve_profile_flow(
         Half-width (m) of the window of the edge-speed slope in the boundary-layer marches (see
         :func:`~profilebench.flow.boundary_layer.march_boundary_layer`).
     relief : SideRelief, optional
-        The underbody side-relief model (:class:`profilebench.flow.underbody.SideRelief`): on
-        every pass the lower surface's gap takes its pressures and edge speeds before it is
-        marched (``ProfileFlow.underbody`` says what it did). None: the 2D section's.
+        The underbody side-relief model (:class:`profilebench.flow.underbody.SideRelief`): every
+        panel solve of the analysis (the closed body's and each wake body's) is made with the
+        gap's side leakage (:meth:`~profilebench.flow.underbody.SideRelief.solve`), before the
+        surfaces are split and marched (``ProfileFlow.underbody`` says what it did). None: the
+        2D section's.
     """
     pts = np.asarray(points, dtype=float)
     if (
@@ -1265,11 +1305,10 @@ def solve_profile_flow(
         )
         if flow is not None:
             return flow
-    res = (
-        inviscid
-        if inviscid is not None
-        else solve_inviscid(pts, ground=ground, kutta_node=kutta_node)
-    )
+    if inviscid is not None:
+        res, underbody = inviscid, None
+    else:
+        res, underbody = _closed_solve(pts, ground, kutta_node, relief)
     if not res.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, res.message, res)
     perimeter, point_sigma = arc_length(pts)
@@ -1289,7 +1328,7 @@ def solve_profile_flow(
         h_separation,
         reattach_length,
         fit_length=fit_length,
-        relief=relief,
+        underbody=underbody,
     )
     height = float(pts[:, 1].max() - pts[:, 1].min())
     if not first.success or wake_length is None or kutta_node is not None:

@@ -27,10 +27,19 @@ span, with speeds divided by V and pressures as Cp:
   method's flow is potential); the inlet speed, and so the flux, is unknown;
 * the exit has the pressure that the two-dimensional gap has there, so that the model reduces
   to the two-dimensional answer as w / g grows without bound (no leakage: q is constant and the
-  exit pressure gives back the 2D flux). The base pressure is not imposed at the exit: the wake
+  exit pressure gives back the 2D flux). Where the body is closed by a wake (the wake model's
+  passes), the channel runs on from the ground-facing run along the rest of the lower surface
+  (the rear ramp, the rear bumper's arc) and under the wake's lower shear layer to the wake's
+  closing face, ten heights behind the body; its exit is there. The 2D flux between the ground
+  and the body with its wake is one constant, so the 2D channel is as exact there as under the
+  body, and a leaking channel forgets its exit's pressure over the length it leaks: the exit
+  no longer moves with the separation point. (With the channel ending at the separation point,
+  a 5 mm rounding of the van's underbody rear edge moved the exit from the edge, 2D Cp -0.5, to
+  the rear bumper's arc, -1.05, and Cd by 40 %; with the channel under the wake, the gap's inlet
+  flux is 0.1809 and 0.1808 in the two cases; measured.) On a closed body (the first pass, which only finds the separation points) the
+  channel is the ground-facing run. The base pressure is not imposed at the exit: the wake
   model of the two-dimensional solution does not impose it at the lower separation point
-  either (its gap exit is at about -1.8 on the box against a base pressure of -0.25), and a
-  model imposing it only at finite width would not reduce to the 2D answer.
+  either, and a model imposing it only at finite width would not reduce to the 2D answer.
 
 The boundary-value problem (two first-order equations, one condition at each end) is solved by
 shooting: a fourth-order Runge-Kutta march from the exit upstream (the stable direction) and
@@ -38,27 +47,34 @@ scipy's ``brentq`` on the exit flux until the inlet's total pressure is met (abo
 pass on the samples at 300 panels; ``solve_bvp`` took 30 to 800 ms for the same answer and
 converged only with a loose tolerance; measured).
 
-How it is used. The channel with the width and the same channel without leakage (the 2D one:
-constant flux ``q_2d`` fitted to the panel solution's gap by least squares in Cp) give at each
-station the speed ratio ``r(s) = sqrt(1 - Cp_w) / sqrt(1 - Cp_2d)``, which is 1 at the exit and
-tends to 1 everywhere as w grows. The underbody's panel edge speed is multiplied by ``r`` and its
-Cp becomes ``1 - ue^2``: the 2D solution's local detail (a fillet's suction peak) scales with the
-flux through the gap, and on the flat part the pressure is the leaking channel's. Ahead of the
-run, the lower surface from the front stagnation point down the front face and round the front
-lower corner carries the flow into the gap: the inlet's ratio is faded in linearly in arc length
-from the stagnation point (where the edge speed is 0 whatever the flux) to the inlet, so that the
-front lower corner's speed scales with the flux it feeds and the edge speed does not jump at
-the inlet. (Fading it in over the ground-facing part of the corner only, where the outward
-normal points 30 to 60 degrees below the horizontal, made the edge speed fall along the corner,
-an adverse gradient that is not in the flow: the van's and the minibus's front lower corners
-separated, and the hatch's Cd moved by 2.2 % from 250 to 1000 panels; measured.) A car's front
-also spills round its vertical edges, which the section cannot show: the smaller flux down the
-front face shows as a higher pressure on its lower part, and the forebody's pressure drag rises
-(docs/validation.md). The upper surface and the lower one behind the gap keep the panel
-solution: the 2D solution still sets the flow over the body and the state at the gap's ends.
-The relief is applied on every pass of the flow (the closed body and the wake model), before the
-lower surface is marched, so the relieved pressures set the underbody's boundary-layer march
-(and so its separation, and the wake placed there), the pressure drag and the lift.
+How it is used (:meth:`SideRelief.solve`, on every panel solve of the analysis: the closed
+body's and each wake body's). The 2D panel solution gives the channel its heights and the 2D
+channel (constant flux ``q_2d`` fitted to the panel solution's gap by least squares in Cp); the
+leaking channel's side flow ``m(s)`` then goes back into the panel solution as a normal speed
+through the channel's panels (a transpiration velocity, one more back-substitution on the
+factored panel system): the flow round the whole body then carries the flux the gap really
+passes, so the front stagnation point, the front face and the upper surface move with it
+(without this step, a change at the rear that changed the 2D section's gap flux moved the
+front's pressures and the windscreen's as if the gap were sealed at its sides). The panel
+solution with the leakage is lossless: fluid drawn in from the sides keeps the free stream's
+total pressure there, which the channel's momentum balance does not allow (without that loss
+the gap's suction runs away toward its exit: Cp -3 on the hatch's rear ramp; measured). On the
+channel's stations its edge speed is therefore multiplied by the ratio of the channel's speed
+to that of the lossless channel with the same leakage fitted to it, ``r(s) = sqrt(1 - Cp_w) /
+(q_t(s) / g)`` with ``q_t = q_0 + integral of m ds`` (``q_0`` fitted as ``q_2d`` is), and its
+Cp becomes ``1 - ue^2``: the panel solution's local detail (a fillet's suction peak) stays and
+the level is the leaking channel's; r tends to 1 as w grows. Ahead of the channel, the lower
+surface from the stagnation point down the front face and round the front lower corner carries
+the flow into the gap: the inlet's ratio is faded in linearly in arc length from the
+stagnation point (where the edge speed is 0 whatever the flux) to the inlet, so that the edge
+speed does not jump there. (Fading it in over the ground-facing part of the corner only made
+the edge speed fall along the corner, an adverse gradient that is not in the flow: the van's
+and the minibus's front lower corners separated; measured.) Solving the leakage and the panel
+solution together instead (Newton's method on the leakage through every lower panel, the
+channel's loss carried along the surface) was tried: the closed body's gap ran away to Cp -40
+toward its rear stagnation point, where nothing holds the gap's exit; measured, not taken.
+The relieved pressures set the underbody's boundary-layer march (and so its separation, and
+the wake placed there), the pressure drag and the lift.
 
 What it is not. The side pressure is taken as ambient (Cp_side = 0; the flanks of a vehicle
 see somewhat lower pressures: common practice, no source), the flow across the width is not
@@ -107,6 +123,17 @@ _FLUX_TOL = 1e-4
 # the gap's speed may not fall below this share of the 2D section's anywhere (else the channel is
 # said not to hold: a layer marched into a stagnating gap means nothing)
 _MIN_SPEED_RATIO = 0.05
+# the channel beyond the ground-facing run ends where its gap first exceeds this many times the
+# run's largest (a choice of this project, no source: a channel 9 times the run's gap high,
+# under a wake that left the top of the van's rear face, had no solution; measured)
+_CHANNEL_RISE = 4.0
+# the channel under the wake ends this many leakage lengths w / (2 C) beyond the run (its
+# exit pressure then differs from the side pressure by exp(-4) of the 2D exit's; a choice of this
+# project, to spare the channel's march the rest of the 10-height wake)
+_CHANNEL_REACH = 4.0
+# Gauss-Newton steps of the lossless channel's fit (its residual is nearly linear in the flux:
+# the flux's change in the last step is below 1e-12 of it on the samples after 4; measured)
+_FIT_STEPS = 6
 
 
 @dataclass(frozen=True, eq=False)
@@ -115,9 +142,11 @@ class UnderbodyRelief:
 
     ``applied`` False: the panel solution is kept (``message`` says why). Otherwise ``s`` (m,
     surface arc length), ``gap`` (m), ``cp_2d`` (the panel solution) and ``cp`` (relieved) of the
-    channel's stations, ``index`` the inviscid stations changed (the run and the lower surface
-    ahead of it, from the stagnation point), ``flux_ratio`` the inlet flux with the width over
-    the 2D channel's, and the length-weighted mean Cp of the run before and after.
+    ground-facing run's stations, ``index`` the channel's panels (the run, and where the body is
+    closed by a wake the lower surface behind it and the wake's lower shear layer) and
+    ``leakage`` the side inflow through them (normal speed / V, inflow to the gap positive),
+    ``flux_ratio`` the inlet flux with the width over the 2D channel's, and the length-weighted
+    mean Cp of the run before and after.
     """
 
     width: float
@@ -131,6 +160,9 @@ class UnderbodyRelief:
     flux_ratio: float | None = None
     mean_cp_2d: float | None = None
     mean_cp: float | None = None
+    # the side leakage through the panels ``index`` (outward normal speed / V; inflow to the gap
+    # positive)
+    leakage: np.ndarray | None = None
 
     def note(self) -> str:
         """One line for the result's notes."""
@@ -350,89 +382,183 @@ class SideRelief:
     side_pressure: float = SIDE_PRESSURE
     contraction: float = SIDE_CONTRACTION
 
-    def apply(self, inviscid, surface):
-        """(inviscid, surface, UnderbodyRelief): the panel solution with its gap relieved.
+    def solve(self, points, ground=True, kutta_node=None, wake_panels=()):
+        """(inviscid, UnderbodyRelief): the panel solution of ``points`` with the gap relieved.
 
-        ``surface``: the lower :class:`~profilebench.flow.stagnation.Surface` of ``inviscid``.
-        The returned inviscid solution has the relieved ``cp`` and ``ue`` on the changed
-        stations, the surface the relieved edge speed; both unchanged when the model does not
-        apply (the UnderbodyRelief says why).
+        ``wake_panels``: where ``points`` is a body closed by a wake, the indices of the panels
+        of the wake's lower shear layer, from the separation point downstream (the channel runs
+        on under the wake); empty for a closed body (the channel ends with the ground-facing
+        run). Steps:
+
+        1. the panel solution without leakage (the 2D section's) and its lower surface;
+        2. the gap channel (:func:`channel_cp`) along the channel's stations (see the module
+           docstring), and the 2D channel fitted to the panel solution there;
+        3. the channel's side leakage as a normal speed through those panels, and the panel
+           solution with it (one more back-substitution on the factored system,
+           :class:`~profilebench.flow.panel.TranspirationResponse`): the flow round the whole
+           body with the gap's flux taken out at its sides, so that the front stagnation point,
+           the front face and the upper surface see the flux the gap really passes;
+        4. on the channel's stations, that solution's edge speed times the ratio of the
+           channel's speed to the lossless channel with the same leakage fitted to it (the
+           total pressure the side inflow costs, and the level the channel's exit sets), faded
+           in from the stagnation point to the channel's inlet.
+
+        The panel solution without leakage, unchanged, where the model does not apply (the
+        UnderbodyRelief says why).
         """
-        idx = np.asarray(surface.index, dtype=int)
-        ny = np.asarray(inviscid.normal, dtype=float)[idx, 1]
-        y = np.asarray(surface.y, dtype=float)[1:]
-        s = np.asarray(surface.s, dtype=float)[1:]
-        cp = np.asarray(inviscid.cp, dtype=float)[idx]
+        from profilebench.flow.panel import transpiration_response
+        from profilebench.flow.stagnation import split_surfaces
+
+        base, response = transpiration_response(points, ground=ground, kutta_node=kutta_node)
 
         def kept(why):
-            return inviscid, surface, UnderbodyRelief(self.width, False, why)
+            return base, UnderbodyRelief(self.width, False, why)
 
-        run = gap_run(ny, stations=y > 0.0)
+        if response is None:
+            return base, None
+        if not ground:
+            return kept("there is no ground under the body")
+        split = split_surfaces(base)
+        if not split.success:
+            return kept(split.message)
+        idx = np.asarray(split.lower.index, dtype=int)
+        wake = np.asarray(wake_panels, dtype=int)
+        on_wake = np.isin(idx, wake)
+        if on_wake.any():  # the lower surface runs on along the wake: its body part
+            idx = idx[: int(np.argmax(on_wake))]
+        ny_all = np.asarray(base.normal, dtype=float)[:, 1]
+        x_all = np.asarray(base.x, dtype=float)
+        y_all = np.asarray(base.y, dtype=float)
+        run = gap_run(ny_all[idx], stations=y_all[idx] > 0.0)
         if run is None or run[1] - run[0] + 1 < _MIN_STATIONS:
             return kept("no part of the underbody faces the ground over enough stations")
         a, b = run
-        sr, gr, cpr = s[a : b + 1], y[a : b + 1], cp[a : b + 1]
+        s_low = np.asarray(split.lower.s, dtype=float)[1:]
+        sr, gr = s_low[a : b + 1], y_all[idx[a : b + 1]]
         if sr[-1] - sr[0] < 2.0 * float(gr.max()):
             return kept("the ground-facing part is shorter than twice its gap")
+        # the channel's panels, in the flow's order: from the run's start along the rest of the
+        # lower surface and on under the wake, or the run alone on a closed body
+        if wake.size:
+            chan = np.concatenate([idx[a:], wake])
+            # ... as long as it stays a gap: up to the first station beyond the run higher than
+            # _CHANNEL_RISE times the run's largest gap (a layer that stays attached up a rear
+            # face leaves its wake far above the ground, where no channel holds)
+            high = np.flatnonzero(y_all[chan[b - a + 1 :]] > _CHANNEL_RISE * float(gr.max()))
+            if high.size:
+                chan = chan[: b - a + 1 + int(high[0])]
+            # ... and no further than _CHANNEL_REACH leakage lengths w / (2 C) beyond the run,
+            # where its exit has forgotten the 2D one (exp(-4), 2 %)
+            along = np.concatenate(
+                [[0.0], np.cumsum(np.hypot(np.diff(x_all[chan]), np.diff(y_all[chan])))]
+            )
+            reach = _CHANNEL_REACH * self.width / (2.0 * self.contraction)
+            chan = chan[along <= along[b - a] + reach]
+        else:
+            chan = idx[a : b + 1]
+        xc, gc = x_all[chan], y_all[chan]
+        sc = sr[0] + np.concatenate([[0.0], np.cumsum(np.hypot(np.diff(xc), np.diff(gc)))])
+        if not (np.all(gc > 0.0) and np.all(np.diff(sc) > 0.0)):
+            return kept("the gap channel's stations do not follow one another")
+        cpc = np.asarray(base.cp, dtype=float)[chan]
+        dsc = np.gradient(sc)
         # the 2D channel: constant flux fitted to the panel solution's gap (least squares in Cp)
-        ds = np.gradient(sr)
-        ue2 = 1.0 - cpr
-        q2 = float(np.sum(ue2 / gr**2 * ds) / np.sum(ds / gr**4))
+        q2 = float(np.sum((1.0 - cpc) / gc**2 * dsc) / np.sum(dsc / gc**4))
         if not q2 > 0.0:
             return kept("the 2D section has no flow through the gap")
-        cp_ref = 1.0 - q2 / gr**2
+        cp_ref = 1.0 - q2 / gc**2
+        # the exit's pressure: the 2D channel's where the channel ends with the run; beyond it
+        # (under the wake) the leaking channel forgets the 2D exit over the length its sides
+        # take to pass its own section, w / (2 C): the exit tends to the side pressure as
+        # exp(-L / (w / 2C)), L the channel's length beyond the run (so that it is the 2D
+        # section's as w grows; a 2D exit 4 heights high under the wake, Cp 0.45 after the 2D
+        # channel's diffusion, could not be met by the leaking channel at all; measured)
+        beyond = float(sc[-1] - sc[min(b - a, len(sc) - 1)])
+        fade = math.exp(-beyond * 2.0 * self.contraction / self.width)
+        exit_cp = self.side_pressure + (float(cp_ref[-1]) - self.side_pressure) * fade
         ok, why, q, cp_w = channel_cp(
-            sr,
-            gr,
+            sc,
+            gc,
             self.width,
-            float(cp_ref[-1]),
+            exit_cp,
             side_pressure=self.side_pressure,
             contraction=self.contraction,
         )
         if not ok:
             return kept(why)
-        # the relieved edge speed: the panel solution's times the ratio of the channel's speeds
-        # with and without the width (speeds from pressure, u = sqrt(1 - Cp), as the panel
-        # method's are), so that the 2D solution's local detail (a fillet's suction peak)
-        # scales with the flux through the gap; the ratio is 1 at the exit and as w grows
-        room = 1.0 - cp_w
-        ratio = np.sqrt(np.maximum(room, 0.0) / (1.0 - cp_ref))
-        if not (np.all(room > 0.0) and float(ratio.min()) >= _MIN_SPEED_RATIO):
+        if not (np.all(1.0 - cp_w > 0.0) and float(np.min(q)) > 0.0):
             return kept(
-                f"the gap flow nearly stagnates (speed {ratio.min():.2g} of the 2D section's): "
-                "the one-dimensional channel does not hold for so narrow or so long a gap"
+                "the gap flow stagnates: the one-dimensional channel does not hold for so narrow "
+                "or so long a gap"
             )
-        # ahead of the run, the lower surface from the stagnation point carries the flow into
-        # the gap: the inlet's ratio is faded in linearly in arc length from the stagnation
-        # point (where the edge speed is 0 whatever the flux) to the inlet, so that the front
-        # lower corner's speed scales with the flux it feeds
-        fade = s[:a] / s[a]
-        factor = np.concatenate([1.0 + (float(ratio[0]) - 1.0) * fade, ratio])
-        changed = idx[: b + 1]
-        full_ue = np.array(inviscid.ue, dtype=float)
-        full_ue[changed] *= factor
-        full_cp = np.array(inviscid.cp, dtype=float)
-        full_cp[changed] = 1.0 - full_ue[changed] ** 2
-        for arr in (full_cp, full_ue):
+        # the side leakage (inflow to the gap positive: a normal speed out of the body into it)
+        leak = _leak(cp_w, gc, self.width, self.side_pressure, self.contraction)
+        ue_t = np.asarray(base.ue, dtype=float) + response.change(chan, leak)
+        cp_t = 1.0 - ue_t**2
+        # the lossless channel with the same leakage, fitted to that solution: flux q0 + Q(s),
+        # q0 by least squares in Cp as the 2D channel's (Gauss-Newton from it; without leakage
+        # it is the 2D channel's exactly)
+        added = np.concatenate([[0.0], np.cumsum(0.5 * (leak[1:] + leak[:-1]) * np.diff(sc))])
+        room_t = 1.0 - cp_t[chan]
+        q0 = math.sqrt(float(np.sum(room_t / gc**2 * dsc) / np.sum(dsc / gc**4)))
+        for _ in range(_FIT_STEPS):
+            q_t = q0 + added
+            res = room_t - (q_t / gc) ** 2
+            jac = -2.0 * q_t / gc**2
+            q0 -= float(np.sum(dsc * jac * res) / np.sum(dsc * jac * jac))
+        q_t = q0 + added
+        if not float(np.min(q_t)) > 0.0:
+            return kept("the gap flow with the side leakage reverses")
+        ratio = np.sqrt((1.0 - cp_w) / (q_t / gc) ** 2)
+        if float(ratio.min()) < _MIN_SPEED_RATIO:
+            return kept(
+                f"the gap flow nearly stagnates (speed {ratio.min():.2g} of the lossless "
+                "channel's): the one-dimensional channel does not hold for so narrow or so long "
+                "a gap"
+            )
+        relieved = dataclasses.replace(base, ue=ue_t, cp=cp_t)
+        split_t = split_surfaces(relieved)
+        if not split_t.success:
+            return kept(f"with the side leakage, {split_t.message}")
+        # ahead of the channel, the lower surface from the (moved) stagnation point carries the
+        # flow into it: the inlet's ratio faded in linearly in arc length from the stagnation
+        # point (where the edge speed is 0 whatever the flux) to the inlet
+        idx_t = np.asarray(split_t.lower.index, dtype=int)
+        s_t = np.asarray(split_t.lower.s, dtype=float)[1:]
+        first = np.flatnonzero(idx_t == chan[0])
+        factor = np.ones(len(ue_t))
+        if first.size:
+            k0 = int(first[0])
+            factor[idx_t[:k0]] = 1.0 + (float(ratio[0]) - 1.0) * s_t[:k0] / s_t[k0]
+        factor[chan] = ratio
+        ue = ue_t * factor
+        cp = 1.0 - ue**2
+        if not (np.all(np.isfinite(ue)) and np.all(np.isfinite(cp))):
+            return kept("the flow with the side leakage is not finite")
+        for arr in (ue, cp):
             arr.setflags(write=False)
-        new_inviscid = dataclasses.replace(inviscid, cp=full_cp, ue=full_ue)
-        surf_ue = np.array(surface.ue, dtype=float)
-        surf_ue[1 : 2 + b] *= factor
-        new_surface = dataclasses.replace(surface, ue=surf_ue)
-        new_cp = full_cp[idx]
-        mean_2d = float(np.sum(cpr * ds) / np.sum(ds))
-        mean_w = float(np.sum(new_cp[a : b + 1] * ds) / np.sum(ds))
+        relieved = dataclasses.replace(
+            base,
+            ue=ue,
+            cp=cp,
+            message=base.message + f"; side leakage through {chan.size} gap panels",
+        )
+        run_idx = idx[a : b + 1]
+        ds = np.gradient(sr)
+        cp_2d = np.asarray(base.cp, dtype=float)[run_idx]
+        cp_run = cp[run_idx]
         relief = UnderbodyRelief(
             width=self.width,
             applied=True,
             message="applied",
             s=sr,
             gap=gr,
-            cp_2d=cpr,
-            cp=new_cp[a : b + 1],
-            index=changed,
+            cp_2d=cp_2d,
+            cp=cp_run,
+            index=chan,
             flux_ratio=float(q[0] / math.sqrt(q2)),
-            mean_cp_2d=mean_2d,
-            mean_cp=mean_w,
+            mean_cp_2d=float(np.sum(cp_2d * ds) / np.sum(ds)),
+            mean_cp=float(np.sum(cp_run * ds) / np.sum(ds)),
+            leakage=leak,
         )
-        return new_inviscid, new_surface, relief
+        return relieved, relief

@@ -173,6 +173,52 @@ def test_orientation_reversal_with_kutta_and_ground():
 
 
 # ------------------------------------------------------------------------------------------
+# transpiration (a prescribed normal speed through the panels)
+# ------------------------------------------------------------------------------------------
+def test_uniform_outflow_from_a_circle_leaves_its_surface_speed_unchanged():
+    # a circle blowing out uniformly at speed c is the stream past it plus a line source of
+    # strength 2 pi R c at its centre; the source's speed is radial, so the tangential speed is
+    # 2 V sin theta still (superposition of the circle's doublet flow and a source; Milne-
+    # Thomson, Theoretical Hydrodynamics, ch. 6 and 8)
+    pts = circle(160, skew=0.2)
+    res, response = panel.transpiration_response(pts)
+    assert res.success and response is not None
+    change = response.response(np.arange(160)) @ np.full(160, 0.1)
+    assert np.abs(change).max() < 1e-3
+    # the same from one back-substitution of the whole distribution
+    assert np.allclose(response.change(np.arange(160), np.full(160, 0.1)), change, atol=1e-12)
+
+
+def test_cosine_blowing_on_a_circle_changes_the_speed_by_its_doublet():
+    # v_n = eps cos theta on r = R is the potential B cos(theta) / r with B = -eps R^2, a
+    # doublet at the centre; at r = R its tangential speed is eps sin theta, against the
+    # stream's -2 V sin theta (counter-clockwise outline), so |ue| = (2 V - eps) |sin theta|
+    # (the same superposition, Milne-Thomson, ch. 6)
+    eps = 0.1
+    pts = circle(200, skew=0.2)
+    res, response = panel.transpiration_response(pts)
+    theta = np.arctan2(res.y, res.x)
+    ue = res.ue + response.response(np.arange(200)) @ (eps * np.cos(theta))
+    expected = (2.0 - eps) * np.abs(np.sin(theta))
+    # the panel error of the circle itself at 200 uneven panels (test_cylinder_cp_at_200_panels)
+    assert np.abs(np.abs(ue) - expected).max() < 5e-3
+    # and the change alone, which the circle's own error hardly touches
+    change = np.abs(ue) - np.abs(res.ue)
+    assert np.abs(change + eps * np.abs(np.sin(theta))).max() < 2e-3
+
+
+def test_transpiration_response_comes_with_the_plain_solution():
+    # the factored solve behind the response is the plain solve's, with the ground's images
+    # and a Kutta row
+    pts, _ = joukowski(120)
+    pts = pts + [0.0, 0.6]
+    res, response = panel.transpiration_response(pts, ground=True, kutta_node=0)
+    plain = solve_inviscid(pts, ground=True, kutta_node=0)
+    assert np.array_equal(res.ue, plain.ue) and res.circulation == plain.circulation
+    assert response.response([10, 40]).shape == (120, 2)
+
+
+# ------------------------------------------------------------------------------------------
 # ground effect
 # ------------------------------------------------------------------------------------------
 @pytest.mark.parametrize("kutta", [False, True])

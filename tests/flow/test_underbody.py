@@ -16,6 +16,7 @@ from profilebench.flow.underbody import (
     channel_cp,
     gap_run,
 )
+from profilebench.flow.panel import solve_inviscid
 from profilebench.geometry.shapes import rounded_box
 from profilebench.io.samples import sample_paths
 
@@ -95,20 +96,25 @@ def test_gap_run_is_the_longest_ground_facing_run():
 
 def test_relief_tends_to_the_2d_underbody_as_the_width_grows():
     flat = analyze(_box(), BOX_CONDITIONS.replace(side_relief=False))
-    inv, lower = flat.flow.inviscid, flat.flow.lower.surface
+    points = flat.flow.closed.inviscid.points  # the closed body's panels
+    inv = solve_inviscid(points, ground=True)
     gaps = []
     for width in (4.0, 40.0, 400.0, 4000.0, 1.0e6):
-        new_inv, _, relief = SideRelief(width).apply(inv, lower)
+        new_inv, relief = SideRelief(width).solve(points, ground=True)
         assert relief.applied
         gaps.append(float(np.max(np.abs(np.asarray(new_inv.cp) - np.asarray(inv.cp)))))
     assert all(b < a for a, b in zip(gaps, gaps[1:]))  # monotonic toward the 2D section's
     assert gaps[-1] < 1e-3
-    # through the whole analysis too: at the largest width allowed, the 2D section's answer
-    wide = analyze(_box(), BOX_CONDITIONS.replace(width=1.0e4))
-    assert wide.drag.cd == pytest.approx(flat.drag.cd, rel=2e-3)
-    # measured -1.9943 against -1.9990 (0.23 %) since the wake's lower layer is panelled within
-    # twice its height over the ground (0.2 % before)
-    assert wide.drag.cl == pytest.approx(flat.drag.cl, rel=5e-3)
+    # through the whole analysis too: the relief's share of the answer falls as 1 / w (the
+    # channel runs under the wake for 10 heights, so a 1e4 m width still leaves 0.2 % in Cd;
+    # measured 2.1 % / 0.22 % in Cd and 15 % / 1.6 % in Cl at 1e3 / 1e4 m)
+    cd_gap, cl_gap = [], []
+    for width in (1.0e3, 1.0e4):
+        wide = analyze(_box(), BOX_CONDITIONS.replace(width=width))
+        cd_gap.append(abs(wide.drag.cd / flat.drag.cd - 1.0))
+        cl_gap.append(abs(wide.drag.cl / flat.drag.cl - 1.0))
+    assert cd_gap[1] < 0.15 * cd_gap[0] and cd_gap[1] < 3e-3
+    assert cl_gap[1] < 0.15 * cl_gap[0] and cl_gap[1] < 2e-2
 
 
 def test_box_underbody_mean_cp_with_relief():
@@ -191,12 +197,13 @@ def test_the_channel_refuses_an_exit_above_the_inlet_total_pressure():
 @pytest.mark.xfail(
     strict=True,
     reason=(
-        "measured: the courier van's Cd is 0.2745 with a sharp underbody rear corner (the layer "
-        "leaves at the edge, the gap channel ends there: inlet flux 0.81 of the 2D section's) and "
-        "0.3843 with a 5 mm one (attached up the ramp, the channel ends on the rear bumper lower "
-        "arc: flux 0.50), +40 %; as a 2D section 0.251 -> 0.261. The channel's exit pressure is "
-        "the 2D solution's at the station that ends the ground-facing run, and that station moves "
-        "with the separation; see docs/validation.md"
+        "measured: the courier van's Cd is 0.3059 with a sharp underbody rear corner and 0.3508 "
+        "with a 5 mm one, +15 % (minibus 0.2856 -> 0.3448, +21 %; hatch 0.2723 -> 0.3147, +16 %); "
+        "as 2D sections +4 %. Before the channel ran on under the wake and its leakage went back "
+        "into the panel solution, +40 % (minibus +63 %). What is left: the 5 mm arc reads "
+        "attached round its turn, the lower layer then leaves 0.4 m further round the rear "
+        "(up the rear face), and the wake body placed there changes the front face's and the "
+        "windscreen's pressures by about +0.02 each; see docs/validation.md"
     ),
 )
 def test_a_5_mm_rounding_of_the_underbody_rear_moves_cd_as_little_as_in_2d():
