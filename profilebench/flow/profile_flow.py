@@ -639,13 +639,8 @@ def _lower_layer_panels(new_pts, m):
     layer last, from the closing face back to the separation point): those behind the body
     whose outward normal points below the horizontal (the closing face's points along the
     stream, the upper layer's up)."""
-    n = len(new_pts)
-    seg = np.roll(new_pts, -1, axis=0) - new_pts
-    # the outward normal's y component has the sign of t_x on a clockwise outline, of -t_x on
-    # a counter-clockwise one (as the panel method takes it)
-    sign = 1.0 if is_clockwise(new_pts) else -1.0
-    tail = np.arange(n - 1, m - 2, -1)  # from the separation point downstream
-    ny = sign * seg[tail, 0]
+    tail = np.arange(len(new_pts) - 1, m - 2, -1)  # from the separation point downstream
+    ny = outward_normals(new_pts)[tail, 1]
     return tail[ny < 0.0]
 
 
@@ -670,11 +665,8 @@ def _wake_solution(moved, j_l, j_u, d, wake_length, ground, relax, relief=None):
 
         if not shapely.LinearRing(new_pts).is_simple:
             raise _WakeSkipped("the wake crosses the body")
-        if relief is None:
-            res, underbody = solve_inviscid(new_pts, ground=ground), None
-        else:
-            wake_panels = _lower_layer_panels(new_pts, m)
-            res, underbody = relief.solve(new_pts, ground, wake_panels=wake_panels)
+        wake_panels = () if relief is None else _lower_layer_panels(new_pts, m)
+        res, underbody = _relieved_solve(new_pts, ground, None, relief, wake_panels)
     except ProfileBenchError as exc:  # the closed-body answer stands; say why
         raise _WakeSkipped(str(exc)) from exc
     if not res.success:
@@ -1041,7 +1033,7 @@ def _closed_split(pts, ground, sub, edge_points, relief=None):
     fails. ``relief``: the side-relief model (None: the 2D section's, outcome None)."""
     pts_c = pts[sub]
     try:
-        res, underbody = _closed_solve(pts_c, ground, None, relief)
+        res, underbody = _relieved_solve(pts_c, ground, None, relief)
     except ProfileBenchError:
         return None
     if not res.success:
@@ -1054,13 +1046,14 @@ def _closed_split(pts, ground, sub, edge_points, relief=None):
     return res, split, perim, [float(sigma[pos[int(k)]]) for k in edge_points], underbody
 
 
-def _closed_solve(pts, ground, kutta_node, relief):
-    """(panel solution, side relief's outcome) of the closed outline ``pts``: with the side
-    leakage of ``relief`` (:meth:`~profilebench.flow.underbody.SideRelief.solve`) or, without
-    one, the 2D section's (outcome None)."""
+def _relieved_solve(pts, ground, kutta_node, relief, wake_panels=()):
+    """(panel solution, side relief's outcome) of the outline ``pts``: with the side leakage of
+    ``relief`` (:meth:`~profilebench.flow.underbody.SideRelief.solve`; ``wake_panels`` the
+    wake's lower layer where ``pts`` is a body closed by a wake) or, without one, the 2D
+    section's (outcome None)."""
     if relief is None:
         return solve_inviscid(pts, ground=ground, kutta_node=kutta_node), None
-    return relief.solve(pts, ground, kutta_node=kutta_node)
+    return relief.solve(pts, ground, kutta_node=kutta_node, wake_panels=wake_panels)
 
 
 @dataclass(frozen=True)
@@ -1308,7 +1301,7 @@ def solve_profile_flow(
     if inviscid is not None:
         res, underbody = inviscid, None
     else:
-        res, underbody = _closed_solve(pts, ground, kutta_node, relief)
+        res, underbody = _relieved_solve(pts, ground, kutta_node, relief)
     if not res.success:
         return ProfileFlow(FlowStatus.INVISCID_FAILED, res.message, res)
     perimeter, point_sigma = arc_length(pts)

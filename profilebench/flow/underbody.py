@@ -202,6 +202,11 @@ def gap_run(normal_y, stations=None):
     return best
 
 
+def _path_length(x, y):
+    """Distance along the polyline through the points (x, y) from the first, m."""
+    return np.concatenate([[0.0], np.cumsum(np.hypot(np.diff(x), np.diff(y)))])
+
+
 def _leak(cp, gap, width, side_pressure, contraction):
     """Side inflow per unit length and unit span (V m / m; negative: outflow)."""
     d = side_pressure - cp
@@ -449,15 +454,13 @@ class SideRelief:
                 chan = chan[: b - a + 1 + int(high[0])]
             # ... and no further than _CHANNEL_REACH leakage lengths w / (2 C) beyond the run,
             # where its exit has forgotten the 2D one (exp(-4), 2 %)
-            along = np.concatenate(
-                [[0.0], np.cumsum(np.hypot(np.diff(x_all[chan]), np.diff(y_all[chan])))]
-            )
+            along = _path_length(x_all[chan], y_all[chan])
             reach = _CHANNEL_REACH * self.width / (2.0 * self.contraction)
             chan = chan[along <= along[b - a] + reach]
         else:
             chan = idx[a : b + 1]
         xc, gc = x_all[chan], y_all[chan]
-        sc = sr[0] + np.concatenate([[0.0], np.cumsum(np.hypot(np.diff(xc), np.diff(gc)))])
+        sc = sr[0] + _path_length(xc, gc)
         if not (np.all(gc > 0.0) and np.all(np.diff(sc) > 0.0)):
             return kept("the gap channel's stations do not follow one another")
         cpc = np.asarray(base.cp, dtype=float)[chan]
@@ -473,7 +476,7 @@ class SideRelief:
         # exp(-L / (w / 2C)), L the channel's length beyond the run (so that it is the 2D
         # section's as w grows; a 2D exit 4 heights high under the wake, Cp 0.45 after the 2D
         # channel's diffusion, could not be met by the leaking channel at all; measured)
-        beyond = float(sc[-1] - sc[min(b - a, len(sc) - 1)])
+        beyond = float(sc[-1] - sc[b - a])  # the channel always holds the whole run
         fade = math.exp(-beyond * 2.0 * self.contraction / self.width)
         exit_cp = self.side_pressure + (float(cp_ref[-1]) - self.side_pressure) * fade
         ok, why, q, cp_w = channel_cp(
