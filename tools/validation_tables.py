@@ -33,6 +33,7 @@ import published_cases  # noqa: E402
 
 from profilebench import Conditions, analyze, load_project  # noqa: E402
 from profilebench.assess.radius_search import smallest_attached_radius  # noqa: E402
+from profilebench.assess.results import SearchStatus  # noqa: E402
 from profilebench.geometry import rounded_box  # noqa: E402
 from profilebench.io.atomic import atomic_write_text  # noqa: E402
 from profilebench.io.samples import sample_paths  # noqa: E402
@@ -115,9 +116,10 @@ def radius_lines():
                 for n in counts
             ]
             cells = [
-                f"{f.radius * 1e3:.1f}" if f.radius is not None else f.status.value for f in found
+                f"{f.radius * 1e3:.1f}" if f.status is SearchStatus.FOUND else f.status.value
+                for f in found
             ]
-            if found[0].radius is not None and found[-1].radius is not None:
+            if found[0].status is found[-1].status is SearchStatus.FOUND:
                 off = f"{(found[0].radius / found[-1].radius - 1.0) * 100.0:+.0f} %"
             else:
                 off = "-"

@@ -76,22 +76,22 @@ def _flips_with_radius(profile, conditions, corner, got):
 _KNOWN = {
     "kestrel_courier_van": (
         "underbody rear r 50 mm fitted sharp (EDGE_SEPARATION for ATTACHED, the rear bumper "
-        "lower IN_WAKE for TURBULENT_SEPARATION), Cd 0.3863 -> 0.2747 (-29 %: with the side "
-        "relief a sharp underbody rear gives 0.274 and any rounding from 20 mm 0.385, see "
+        "lower IN_WAKE for TURBULENT_SEPARATION), Cd 0.3526 -> 0.2933 (-17 %: with the side "
+        "relief the sharp and the rounded underbody rear differ by about 15 %, see "
         "docs/validation.md; -4.3 % as a 2D section); the other radii within 5 %"
     ),
     "kestrel_hatch": (
         "the windscreen base (r 100 mm turning 14 degrees, its arc 0.8 mm off its sharp corner) "
-        "comes back as a curvature peak of a smooth run (r 346 mm, CONCAVE for CONCAVE_BUBBLE), "
+        "comes back as a curvature peak of a smooth run (r 330 mm, CONCAVE for CONCAVE_BUBBLE), "
         "and the bumper nose's curvature peak (r 365 mm, ATTACHED) is not found as a corner (the "
-        "nearest is the bonnet leading edge's fillet, r 121 mm, BUBBLE_REATTACHES); underbody "
-        "rear r 80 -> 135 mm (same verdict); Cd within 1 %"
+        "nearest is the bonnet leading edge's fillet, r 124 mm, BUBBLE_REATTACHES); underbody "
+        "rear r 80 -> 139 mm (same verdict); Cd within 1 %"
     ),
     "kestrel_shuttle_minibus": (
         "underbody rear r 60 mm fitted sharp (EDGE_SEPARATION for ATTACHED, the rear bumper "
-        "lower IN_WAKE for TURBULENT_SEPARATION), Cd 0.4541 -> 0.2746 (-40 %: with the side "
-        "relief a sharp underbody rear gives 0.274 and any rounding from 20 mm 0.447; -4.7 % as "
-        "a 2D section); the other radii within 1 %"
+        "lower IN_WAKE for TURBULENT_SEPARATION), Cd 0.3519 -> 0.2851 (-19 %: with the side "
+        "relief the sharp and the rounded underbody rear differ by about 20 %; -4.7 % as a 2D "
+        "section); the other radii within 1 %"
     ),
 }
 
