@@ -286,6 +286,12 @@ def build_parser() -> argparse.ArgumentParser:
         help="lowest Cp of the review page's colour scale (default -3, the same on "
         "every page so that pages compare side by side)",
     )
+    p.add_argument(
+        "--check-refinement",
+        action="store_true",
+        help="analyse again at twice the panels and say what moved: Cd, each corner's verdict "
+        "and the smallest attached radius of the corners the flow reaches (a few seconds)",
+    )
     _add_units_option(p)
     _add_condition_options(p)
 
@@ -580,6 +586,12 @@ def _cmd_analyse(args, out):
     print(f"{project.profile.name} ({args.file})", file=out)
     print("", file=out)
     _print_summary(analysis, out)
+    refinement = None
+    if args.check_refinement:
+        from profilebench.assess.refinement import check_refinement
+
+        refinement = check_refinement(project.profile, cond, radii=True, table=_user_table(args))
+        _print_refinement(refinement, out)
     if args.image:
         from profilebench.plotting.review import review_figure, save_figure
 
@@ -606,10 +618,18 @@ def _cmd_analyse(args, out):
         write_surface_csv(analysis, args.csv)
         print(f"surface data written: {args.csv}", file=out)
     if args.json:
-        write_results_json(analysis, args.json)
+        write_results_json(analysis, args.json, refinement=refinement)
         print(f"results written: {args.json}", file=out)
     _caution(out)
     return EXIT_OK
+
+
+def _print_refinement(check, out):
+    from profilebench.plotting.summary import refinement_lines
+
+    print("", file=out)
+    for line in refinement_lines(check):
+        print(line, file=out)
 
 
 def _cmd_compare(args, out):

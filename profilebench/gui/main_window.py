@@ -40,6 +40,7 @@ from profilebench.gui.canvas import ProfileCanvas
 from profilebench.gui import exports, menus, outline_import, questions
 from profilebench.gui.conditions_panel import ConditionsPanel
 from profilebench.gui.corner_search import CornerSearch
+from profilebench.gui.refinement_check import RefinementCheckRun
 from profilebench.gui.node_panel import NodePanel
 from profilebench.gui.plot_schedule import PlotSchedule
 from profilebench.gui.recent_files import RecentFiles
@@ -166,6 +167,7 @@ class MainWindow(QMainWindow):
         self.grid_spacing = 0.01  # snapping grid (m) when on
         self.underlay_picking = UnderlayPicking(self)
         self.corner_search = CornerSearch(self)
+        self.refinement_check = RefinementCheckRun(self)
         self._connect()
         self._build_menus()
         self._add_study_panel()
@@ -489,12 +491,18 @@ class MainWindow(QMainWindow):
     # ------------------------------------------------------------------ long work: progress, cancel
     def _long_analysis(self):
         """An analysis still running after LONG_WORK_MS: the busy bar and Cancel."""
-        if self.runner.busy and not self.canvas.dragging and self.progress.kind != "search":
+        if (
+            self.runner.busy
+            and not self.canvas.dragging
+            and self.progress.kind not in ("search", "refinement")
+        ):
             self.progress.start("analysis", "analysing…")
 
     def _cancel_work(self, kind):
         if kind == "search":
             self.corner_search.cancel()
+        elif kind == "refinement":
+            self.refinement_check.cancel()
         else:
             self.runner.cancel_pending()
             self.results.cancelled()
@@ -705,6 +713,7 @@ class MainWindow(QMainWindow):
         ok = True
         for r in (self.runner, self.baseline_runner, self.search_runner):
             ok = r.close(msecs) and ok
+        ok = self.refinement_check.close(msecs) and ok
         ok = self.variants_panel.close_runner(msecs) and ok  # variant sets
         ok = self.canvas.shutdown(msecs) and ok
         ok = self.plots.shutdown(msecs) and ok

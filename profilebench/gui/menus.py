@@ -91,6 +91,9 @@ def build_menus(window) -> dict:
     entry(e, "&Pin as baseline", window.pin_baseline, "Ctrl+B")
     entry(e, "Clear baseline", window.clear_baseline)
 
+    a = menus["Analysis"] = bar.addMenu("&Analysis")
+    entry(a, "Check by &doubling the panels", window.refinement_check.start, "Ctrl+D")
+
     canvas = window.canvas
     v = menus["View"] = bar.addMenu("&View")
     entry(v, "&Fit to window", canvas.fit, "Ctrl+0")

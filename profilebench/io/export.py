@@ -242,9 +242,13 @@ def results_to_dict(analysis) -> dict:
     }
 
 
-def write_results_json(analysis, path):
+def write_results_json(analysis, path, refinement=None):
     """Write the results as JSON: summary, drag breakdown, corners, events, conditions, caution,
-    versions. Non-finite numbers are written as null. Atomic. Returns the path written."""
+    versions, and with ``refinement`` (a :class:`~profilebench.assess.refinement.RefinementCheck`)
+    its answer under "refinement" (with its ``holds``). Non-finite numbers are written as null.
+    Atomic. Returns the path written."""
     data = results_to_dict(analysis)
+    if refinement is not None:
+        data["refinement"] = dict(_plain(refinement), holds=bool(refinement.holds))
     text = json.dumps(data, indent=2, allow_nan=False)
     return atomic_write_text(path, lambda fh: fh.write(text + "\n"))

@@ -18,6 +18,7 @@ __all__ = [
     "CORNER_COLUMNS",
     "MARGIN_DEFINITION",
     "format_table",
+    "refinement_lines",
     "CAUTION",
 ]
 
@@ -217,3 +218,48 @@ def format_table(header, rows):
     lines = ["  ".join(v.ljust(w) for v, w in zip(r, widths)).rstrip() for r in cells]
     lines.insert(1, "  ".join("-" * w for w in widths))
     return "\n".join(lines)
+
+
+def refinement_lines(check):
+    """The lines of a refinement check's report (a
+    :class:`~profilebench.assess.refinement.RefinementCheck`), as the command line prints it and
+    the editor shows it."""
+    n, m = check.panels, check.panels_refined
+    lines = [f"Refinement check: {n} against {m} panels"]
+    if check.cd is not None:
+        change = "" if check.cd_change is None else f" ({check.cd_change * 100.0:+.1f} %)"
+        lines.append(f"  Cd {check.cd:.4f} -> {check.cd_refined:.4f}{change}")
+
+    def mm(r, status):
+        if r is None:
+            return status or "-"
+        return f"{r * 1e3:.1f}" if status == "found" else status
+
+    rows = [
+        (
+            c.label,
+            c.verdict,
+            c.verdict_refined,
+            mm(c.smallest, c.search_status),
+            mm(c.smallest_refined, c.search_status_refined),
+            "yes" if c.holds else "NO",
+        )
+        for c in check.corners
+    ]
+    if rows:
+        header = (
+            "corner",
+            f"verdict at {n}",
+            f"verdict at {m}",
+            f"smallest attached at {n} (mm)",
+            f"at {m} (mm)",
+            "holds",
+        )
+        lines += format_table(header, rows).splitlines()
+    if check.holds:
+        lines.append("  holds: the answers above do not move when the panels are doubled")
+    else:
+        lines.append("  does not hold; what moved:")
+        lines += [f"  - {p}" for p in check.problems]
+        lines.append(f"  Quote the answers at {m} panels and check them again by doubling.")
+    return lines

@@ -57,3 +57,27 @@ def test_the_view_entries_set_the_canvas(window, monkeypatch):
     monkeypatch.setattr(QInputDialog, "getText", lambda *a, **k: ("-2.5", True))
     _entry(w, "View", "Cp colour scale…").trigger()
     assert c.cp_min == -2.5
+
+
+def test_the_refinement_check_reports_what_the_check_gives(window, qtbot, tmp_path):
+    # the report is the command line's (profilebench.plotting.summary.refinement_lines) of the
+    # check on the document as it was when the entry was chosen
+    from profilebench.assess.refinement import check_refinement
+    from profilebench.plotting.summary import refinement_lines
+
+    w = window
+    wait_current(qtbot, w)
+    profile, conditions = w.document.profile, w.document.conditions
+    _entry(w, "Analysis", "Check by &doubling the panels").trigger()
+    assert w.progress.kind == "refinement"
+    qtbot.waitUntil(lambda: w.refinement_check.report is not None, timeout=120000)
+    report = w.refinement_check.report
+    expected = check_refinement(profile, conditions, radii=True)
+    assert report.text.toPlainText() == "\n".join(refinement_lines(expected))
+    assert f"Refinement check: {conditions.panels} against {2 * conditions.panels}" in (
+        report.text.toPlainText()
+    )
+    assert w.progress.kind is None
+    report.grab().save(str(tmp_path / "refinement_report.png"))
+    w.grab().save(str(tmp_path / "window_after_refinement.png"))
+    report.close()
