@@ -1,8 +1,9 @@
 """The smallest attached radius of a corner: the search, the verdict it needs, and its cache.
 
 :func:`smallest_attached_radius` varies one corner's radius and re-solves the flow at each try
-(:func:`corner_verdict`: the analysis's own flow, no drag and no tables), bisecting on the
-solver's verdict. :class:`SearchCache` remembers answers by everything a search depends on; the
+(:func:`corner_verdict`: the analysis's own flow, no drag and no tables, on points that round
+the searched corner are spread as at :data:`SEARCH_PANELS` panels), bisecting on the solver's
+verdict. :class:`SearchCache` remembers answers by everything a search depends on; the
 analysis (:func:`profilebench.assess.analysis.analyze`) and the editor's "find the smallest
 attached radius" both go through :func:`cached_radius_search`, so that a corner searched once is
 not searched again.
@@ -26,8 +27,12 @@ from profilebench.assess.solve import closed_body, march_closed, solve_flow
 from profilebench.errors import GeometryError, ProfileBenchError
 from profilebench.lru import LruCache
 from profilebench.geometry import measure, panelize, validate
+from profilebench.geometry.panelling import Focus
 
 __all__ = [
+    "SEARCH_PANELS",
+    "SEARCH_REACH_RATIO",
+    "search_focus",
     "corner_verdict",
     "closed_body_verdict",
     "smallest_attached_radius",
@@ -38,13 +43,28 @@ __all__ = [
 ]
 
 
+# The search judges its corner on points spread round it as at SEARCH_PANELS panels, within
+# SEARCH_REACH_RATIO frontal heights of its arc (covering the edge-speed fit's window, 0.06 h,
+# either side), the rest of the outline at the conditions' count. At 250 panels alone the
+# samples' smallest attached radii came out 4 to 41 % below their 1000-panel values and jumped by
+# 10-20 % between neighbouring counts (200 to 400); with the corner's neighbourhood as at 1000,
+# five of seven are within 2 % of the 1000-panel answer at 250 and 500 (measured,
+# docs/validation.md). A choice of this project, no source.
+SEARCH_PANELS = 1000
+SEARCH_REACH_RATIO = 0.1
+
+
 def corner_verdict(profile, conditions, node, thickness=None):
     """The solver's verdict on one corner (a :class:`Verdict`), or None if the flow failed.
 
     The fast path of the analysis used by the smallest-attached-radius search: no drag, no
-    tables.
+    tables, and the points within :data:`SEARCH_REACH_RATIO` frontal heights of the corner's
+    arc spread as at :data:`SEARCH_PANELS` panels (:func:`search_focus`; the rest of the outline
+    at ``conditions.panels``). At a corner near its critical radius this verdict can differ from
+    the analysis's at the conditions' count, whose points round the corner are coarser: the
+    refined one is the one that holds when the panels are doubled (docs/validation.md).
     """
-    panelled = _panelled(profile, conditions)
+    panelled = _panelled(profile, conditions, node)
     if panelled is None:
         return None
     panelling, height = panelled
@@ -63,14 +83,24 @@ def corner_verdict(profile, conditions, node, thickness=None):
     return surface_verdict(flow.surfaces[k], regions[i], span.convex)[0]
 
 
-def _panelled(profile, conditions):
-    """(panelling, frontal height) of a valid profile, or None where it is not valid."""
+def _panelled(profile, conditions, node=None):
+    """(panelling, frontal height) of a valid profile, or None where it is not valid; with
+    ``node``, that corner's neighbourhood refined (:func:`search_focus`)."""
     try:
         validate(profile, ground=conditions.ground)
-        panelling = panelize(profile, conditions.panels)
+        height = measure(profile).height
+        focus = None if node is None else search_focus(node, height)
+        panelling = panelize(profile, conditions.panels, focus=focus)
     except ProfileBenchError:
         return None
-    return panelling, measure(profile).height
+    return panelling, height
+
+
+def search_focus(node, height):
+    """The :class:`~profilebench.geometry.panelling.Focus` of a verdict on corner ``node`` of a
+    profile of frontal height ``height`` (m): within :data:`SEARCH_REACH_RATIO` frontal heights
+    of its arc, the points spread as at :data:`SEARCH_PANELS` panels (at counts below it)."""
+    return Focus(int(node), SEARCH_REACH_RATIO * float(height), SEARCH_PANELS)
 
 
 def _corner_span(spans, node):
@@ -100,7 +130,7 @@ def closed_body_verdict(profile, conditions, node):
     ``benchmarks/bench_radius_search.py --closed-body``), so the search does not use it; it is
     kept to measure that (and any cheaper verdict) against the analysis's.
     """
-    panelled = _panelled(profile, conditions)
+    panelled = _panelled(profile, conditions, node)
     closed = None if panelled is None else closed_body(profile, conditions, *panelled)
     if closed is None:  # not valid (None), or no closed-body pass: the analysis's verdict
         return corner_verdict(profile, conditions, node)

@@ -11,6 +11,13 @@ edges (panel size falls smoothly toward the edge, as is common practice for pane
 source). Sharp edges split the outline into sections; each section receives a whole number of
 panels in proportion to its share of the integral of w and its points are equally spaced in the
 integral of w, so every sharp node is exactly a panel end point.
+
+A :class:`Focus` refines one corner's neighbourhood: within ``reach`` of its arc (along the
+outline, either side) the density is multiplied by ``panels / n`` (at least 1), fading to the
+plain density over half that length beyond it, so that round that corner the points are spread as
+they would be at ``panels`` panels while the rest of the outline keeps ``n``; the panelling then
+has more than ``n`` panels. The smallest-attached-radius search uses it (see
+:mod:`profilebench.assess.radius_search`).
 """
 
 from __future__ import annotations
@@ -23,7 +30,15 @@ import numpy as np
 from profilebench.errors import InputError
 from profilebench.geometry.outline import build_outline, canonical_order, canonical_profile
 
-__all__ = ["CornerSpan", "Panelling", "panelize", "canonical_order", "MIN_PANELS", "MAX_PANELS"]
+__all__ = [
+    "CornerSpan",
+    "Focus",
+    "Panelling",
+    "panelize",
+    "canonical_order",
+    "MIN_PANELS",
+    "MAX_PANELS",
+]
 
 MIN_PANELS = 20
 MAX_PANELS = 5000
@@ -68,6 +83,17 @@ class CornerSpan:
     centre: tuple[float, float] | None
 
 
+@dataclass(frozen=True)
+class Focus:
+    """One corner's neighbourhood panelled as at ``panels`` panels (see the module notes):
+    ``node`` (a node of the profile; a node without an arc, sharp or smooth, is left as it is),
+    ``reach`` (m, > 0) either side of its arc."""
+
+    node: int
+    reach: float
+    panels: int
+
+
 @dataclass(frozen=True, eq=False)
 class Panelling:
     """Panel end points of a closed outline.
@@ -106,7 +132,7 @@ def _check_count(n_panels):
     return int(n_panels)
 
 
-def panelize(profile, n_panels: int = 250) -> Panelling:
+def panelize(profile, n_panels: int = 250, focus: Focus | None = None) -> Panelling:
     """Panel end points on the built outline of ``profile`` (see module notes for the spacing).
 
     Parameters
@@ -114,25 +140,31 @@ def panelize(profile, n_panels: int = 250) -> Panelling:
     profile : Profile
     n_panels : int
         Number of panels (= number of points), 20 to 5000.
+    focus : Focus or None
+        One corner's neighbourhood refined (module notes); the panelling then has more than
+        ``n_panels`` panels where ``focus.panels`` > ``n_panels``.
 
     Raises
     ------
     InputError
-        Bad panel count, or fewer panels than the sharp edges need.
+        Bad panel count, fewer panels than the sharp edges need, or a focus that would take more
+        than the most panels.
     GeometryError
         From building the outline (see :func:`build_outline`).
     """
     n = _check_count(n_panels)
-    key = ("panelling", n)
+    if focus is not None and (focus.panels <= n or focus.reach <= 0.0):
+        focus = None  # nothing to refine
+    key = ("panelling", n, focus)
     cached = profile._cache.get(key)
     if cached is not None:
         return cached
-    out = _panelize(profile, n)
+    out = _panelize(profile, n, focus)
     profile._cache[key] = out
     return out
 
 
-def _panelize(profile, n: int) -> Panelling:
+def _panelize(profile, n: int, focus: Focus | None = None) -> Panelling:
     """Panel the outline in its canonical order, then give the points in the profile's own order.
 
     The panel points depend on where the outline starts and which way round it runs (sections
@@ -144,13 +176,15 @@ def _panelize(profile, n: int) -> Panelling:
     canon, order, rev = canonical_profile(profile)
     m = len(order)
     if canon is profile:
-        out = _panelize_nodes(profile, n)
+        out = _panelize_nodes(profile, n, focus)
         return _with_canonical(out, np.arange(len(out.points)))
-    pc = _panelize_nodes(canon, n)
-    npts = len(pc.points)
-    S = pc.length
     user_of_canon_node = order  # canonical node k is profile node order[k]
     canon_of_user_node = {u: k for k, u in enumerate(order)}
+    if focus is not None:
+        focus = Focus(canon_of_user_node[focus.node], focus.reach, focus.panels)
+    pc = _panelize_nodes(canon, n, focus)
+    npts = len(pc.points)
+    S = pc.length
     # the profile's own point 0 is where its outline starts: at node 0, or at the start (in the
     # profile's direction) of node 0's fillet
     c0 = canon_of_user_node[0]
@@ -196,7 +230,7 @@ def _panelize(profile, n: int) -> Panelling:
     spans.sort(key=lambda sp: sp.node)
     pts.setflags(write=False)
     s.setflags(write=False)
-    return _with_canonical(Panelling(pts, s, node_point, tuple(spans), n, S), src)
+    return _with_canonical(Panelling(pts, s, node_point, tuple(spans), npts, S), src)
 
 
 def _with_canonical(pan, canonical):
@@ -207,7 +241,30 @@ def _with_canonical(pan, canonical):
     )
 
 
-def _panelize_nodes(profile, n: int) -> Panelling:
+def _focused(W, grid, outline, n, focus):
+    """The cumulative density ``W`` (on ``grid``, ``n`` panels) with ``focus``'s neighbourhood
+    refined (module notes); returns (W, panel count)."""
+    arc = next((a for a in outline.arcs if a.node == focus.node), None)
+    if arc is None:  # a sharp (or smooth) node: its own edge clustering is what it gets
+        return W, n
+    S = outline.length
+    lo, hi = float(arc.s_start) - focus.reach, float(arc.s_end) + focus.reach
+    mid = 0.5 * (grid[1:] + grid[:-1])
+    d = np.where(mid < lo, lo - mid, np.where(mid > hi, mid - hi, 0.0))
+    d = np.minimum(d, S - d)  # round the closed outline either way
+    gain = focus.panels / n - 1.0
+    dW = np.diff(W) * (1.0 + gain * np.exp(-d / (0.5 * focus.reach)))
+    W = np.concatenate([[0.0], np.cumsum(dW)])
+    count = int(round(W[-1]))
+    if count > MAX_PANELS:
+        raise InputError(
+            f"refining node {focus.node}'s neighbourhood takes {count} panels, more than "
+            f"{MAX_PANELS}; use fewer panels"
+        )
+    return W * (count / W[-1]), count
+
+
+def _panelize_nodes(profile, n: int, focus: Focus | None = None) -> Panelling:
     o = build_outline(profile)
     S = o.length
     edges = o.sharp_edges
@@ -256,6 +313,8 @@ def _panelize_nodes(profile, n: int) -> Panelling:
         c = _CURVATURE_SHARE * n / turn[-1]
     b = (n - c * turn[-1]) / base[-1]
     W = b * base + c * turn
+    if focus is not None:
+        W, n = _focused(W, grid, o, n, focus)
     # whole panels per section (largest remainder, at least one each)
     wb = np.interp(np.append(bounds, S), grid, W)
     share = np.diff(wb)

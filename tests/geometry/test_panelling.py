@@ -108,3 +108,60 @@ def test_bad_panel_counts(bad):
 def test_bad_geometry_raises_project_error():
     with pytest.raises(ProfileBenchError, match="at least 3 nodes"):
         panelize(Profile((Node(0, 0), Node(1, 0))), 100)
+
+
+# --- a focus: one corner's neighbourhood panelled as at a higher count -------------------------
+
+
+def _box():
+    return rounded_box(4.0, 1.6, (0.08, 0.05, 0.05, 0.12), clearance=0.2)
+
+
+def _arc_points(pan, node):
+    sp = next(c for c in pan.corners if c.node == node)
+    return (sp.point_end - sp.point_start) % len(pan.points)
+
+
+def test_a_focus_spreads_the_points_round_its_corner_as_at_its_count():
+    from profilebench.geometry.panelling import Focus
+
+    box = _box()
+    plain, fine = panelize(box, 250), panelize(box, 1000)
+    focused = panelize(box, 250, focus=Focus(3, 0.16, 1000))
+    # more panels than asked for: the corner's neighbourhood has the finer count's
+    assert len(focused.points) > 250 and focused.n_panels == len(focused.points)
+    assert abs(_arc_points(focused, 3) - _arc_points(fine, 3)) <= 1
+    # the other corners keep the plain count's
+    for node in (0, 1, 2):
+        assert abs(_arc_points(focused, node) - _arc_points(plain, node)) <= 1
+    # the corner's own span and radius are the outline's either way
+    a = next(c for c in focused.corners if c.node == 3)
+    b = next(c for c in plain.corners if c.node == 3)
+    assert (a.s_start, a.s_end, a.radius) == pytest.approx((b.s_start, b.s_end, b.radius))
+
+
+def test_a_focus_that_refines_nothing_is_the_plain_panelling():
+    from profilebench.geometry.panelling import Focus
+
+    box = _box()
+    plain = panelize(box, 500)
+    for focus in (Focus(3, 0.16, 400), Focus(3, 0.0, 1000)):
+        assert panelize(box, 500, focus=focus) is plain  # the cached plain panelling
+    # a sharp node has no arc to refine round: its edge clustering is what it gets
+    sharp = rounded_box(2.0, 0.5, (0.1, 0.0, 0.0, 0.1), clearance=0.05)
+    np.testing.assert_array_equal(
+        panelize(sharp, 250, focus=Focus(1, 0.05, 1000)).points, panelize(sharp, 250).points
+    )
+
+
+def test_a_focus_gives_the_same_points_whichever_way_round_the_outline_is_given():
+    from profilebench.geometry.panelling import Focus
+
+    box = _box()
+    nodes = box.nodes
+    other = Profile([nodes[2], nodes[1], nodes[0], nodes[3]], name="reversed")
+    a = panelize(box, 250, focus=Focus(3, 0.16, 1000)).points
+    b = panelize(other, 250, focus=Focus(3, 0.16, 1000)).points
+    assert len(a) == len(b)
+    key = lambda p: tuple(np.round(p, 9))  # noqa: E731
+    assert sorted(map(key, a)) == sorted(map(key, b))

@@ -158,16 +158,66 @@ def _search(profile, speed, node, panels):
     return smallest_attached_radius(profile, Conditions(speed=speed, panels=panels), node)
 
 
-def test_smallest_attached_radius_holds_at_two_and_four_times_the_panels():
-    # the search's tolerance plus 2 % (the issue's rule). Measured: 93.0 / 94.5 / 95.3 mm at
-    # 250 / 500 / 1000 panels (77.9 mm at 250 while the edge-speed fit took at least the 7
-    # nearest stations, wider than 0.06 h behind the tangent point at 250 panels)
-    box = rounded_box(4.0, 1.6, 0.05, clearance=0.2)
-    found = [_search(box, 25.0, 3, n) for n in (DEFAULT, 2 * DEFAULT, 4 * DEFAULT)]
-    assert all(f.status.name == "FOUND" for f in found)
+def _holds(found):
+    """The searches at 1x, 2x, 4x agree within the first's tolerance plus 2 % (the issue's rule)."""
+    assert all(f.status.name == "FOUND" for f in found), [f.message for f in found]
     r0 = found[0].radius
     for f in found[1:]:
-        assert abs(f.radius - r0) <= found[0].tolerance + 0.02 * r0
+        assert abs(f.radius - r0) <= found[0].tolerance + 0.02 * r0, [f.radius for f in found]
+
+
+def test_smallest_attached_radius_holds_at_two_and_four_times_the_panels():
+    # Measured: 95.3 / 96.8 / 95.3 mm at 250 / 500 / 1000 panels (93.0 / 94.5 / 95.3 before the
+    # search refined its corner's neighbourhood; 77.9 mm at 250 while the edge-speed fit took at
+    # least the 7 nearest stations, wider than 0.06 h behind the tangent point at 250 panels)
+    box = rounded_box(4.0, 1.6, 0.05, clearance=0.2)
+    _holds([_search(box, 25.0, 3, n) for n in (DEFAULT, 2 * DEFAULT, 4 * DEFAULT)])
+
+
+# the samples' corners a review argues over, searched at 250 / 500 / 1000 panels (mm, measured
+# with the corner's neighbourhood spread as at 1000 panels; before, 4 to 41 % below the 1000-panel
+# answer at 250: docs/validation.md)
+_SEARCHED = [
+    ("kestrel_courier_van", "front bumper lower", None),  # 59.3 / 59.3 / 60.5
+    ("kestrel_courier_van", "bonnet leading edge", None),  # 64.7 / 64.0 / 64.0
+    ("kestrel_hatch", "front bumper lower", None),  # 41.6 / 41.6 / 41.6
+    (
+        "kestrel_hatch",
+        "bonnet leading edge",
+        "44.0 / 48.3 / 39.8 mm: its answer moves with the resolution away from the corner too "
+        "(39.8 at 2000 panels, 51-61 with its neighbourhood as at 2000): not converged",
+    ),
+    (
+        "kestrel_shuttle_minibus",
+        "front bumper lower",
+        "67.2 / 67.2 / 71.0 mm (-5 %, the rule about 3 %)",
+    ),
+    ("kestrel_shuttle_minibus", "windscreen header", None),  # 100.9 / 100.9 / 101.4
+    ("kestrel_test_body", "front upper edge", None),  # 48.4 / 48.4 / 48.4
+]
+
+
+@pytest.mark.parametrize(
+    "stem, label",
+    [
+        pytest.param(
+            stem,
+            label,
+            marks=() if why is None else pytest.mark.xfail(strict=True, reason=why),
+            id=f"{stem}-{label.replace(' ', '-')}",
+        )
+        for stem, label, why in _SEARCHED
+    ],
+)
+def test_sample_smallest_attached_radius_holds_at_two_and_four_times_the_panels(stem, label):
+    project = SAMPLES[stem]
+    node = next(i for i, nd in enumerate(project.profile.nodes) if nd.label == label)
+    _holds(
+        [
+            smallest_attached_radius(project.profile, project.conditions.replace(panels=n), node)
+            for n in (DEFAULT, 2 * DEFAULT, 4 * DEFAULT)
+        ]
+    )
 
 
 # --- invariance ---------------------------------------------------------------------------------
