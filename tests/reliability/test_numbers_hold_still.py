@@ -174,6 +174,25 @@ def test_smallest_attached_radius_holds_at_two_and_four_times_the_panels():
     _holds([_search(box, 25.0, 3, n) for n in (DEFAULT, 2 * DEFAULT, 4 * DEFAULT)])
 
 
+# the boxes above and two with small radii (docs/validation.md's family), their front lower
+# (node 0) and front upper (node 3) corners; measured (mm at 250 / 500 / 1000): 53.9 / 53.3 /
+# 53.9 and 95.6 / 94.9 / 93.6; 21.1 / 21.1 / 21.1 and 46.8 / 46.8 / 46.8; 71.9 / 72.4 / 72.4 and
+# 122.3 / 121.3 / 123.4; 56.7 / 56.0 / 58.0 and 90.8 / 90.8 / 90.8; 60.1 / 61.0 / 61.9 and 102.4 /
+# 101.5 / 102.4; 53.7 / 54.4 / 54.4 and 95.3 / 96.8 / 95.3
+SEARCHED_BOXES = [b.values[0] for b in BOXES] + [
+    (4.6, 1.9, (0.06, 0.03, 0.03, 0.042), 0.25, 28.0),
+    (4.0, 1.6, 0.05, 0.2, 25.0),
+]
+
+
+@pytest.mark.parametrize("node", [0, 3], ids=["front-lower", "front-upper"])
+@pytest.mark.parametrize("box", SEARCHED_BOXES, ids=lambda b: f"box-{b[0]}x{b[1]}")
+def test_rounded_box_smallest_attached_radius_holds(box, node):
+    length, height, radius, clearance, speed = box
+    body = rounded_box(length, height, radius, clearance=clearance)
+    _holds([_search(body, speed, node, n) for n in (DEFAULT, 2 * DEFAULT, 4 * DEFAULT)])
+
+
 # the samples' corners a review argues over, searched at 250 / 500 / 1000 panels (mm, measured
 # with the corner's neighbourhood spread as at 1000 panels; before, 4 to 41 % below the 1000-panel
 # answer at 250: docs/validation.md)
