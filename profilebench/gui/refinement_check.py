@@ -52,7 +52,7 @@ class RefinementReport(QDialog):
         lay.addWidget(self.text, 1)
         lay.addWidget(caution)
         lay.addWidget(buttons)
-        self.resize(1250, 440)
+        self.resize(1400, 440)
 
 
 class RefinementCheckRun:

@@ -251,7 +251,7 @@ def refinement_lines(check):
             "corner",
             f"verdict at {n}",
             f"verdict at {m}",
-            f"smallest attached at {n} (mm)",
+            f"smallest attached r at {n} (mm)",
             f"at {m} (mm)",
             "holds",
         )
