@@ -25,6 +25,8 @@ from profilebench.assess.corners import (
 from profilebench.assess.results import RadiusSearch, SearchStatus, Verdict
 from profilebench.assess.solve import closed_body, march_closed, solve_flow
 from profilebench.errors import GeometryError, ProfileBenchError
+from profilebench.flow.boundary_layer import Regime
+from profilebench.flow.head import head_h1
 from profilebench.lru import LruCache
 from profilebench.geometry import measure, panelize, validate
 from profilebench.geometry.panelling import Focus
@@ -34,6 +36,9 @@ __all__ = [
     "SEARCH_REACH_RATIO",
     "search_focus",
     "corner_verdict",
+    "layer_thickness",
+    "thin_arc_note",
+    "LAMINAR_DELTA_OVER_THETA",
     "closed_body_verdict",
     "smallest_attached_radius",
     "SearchCache",
@@ -64,6 +69,13 @@ def corner_verdict(profile, conditions, node, thickness=None):
     the analysis's at the conditions' count, whose points round the corner are coarser: the
     refined one is the one that holds when the panels are doubled (docs/validation.md).
     """
+    judged = _judged(profile, conditions, node)
+    return None if judged is None else judged[0]
+
+
+def _judged(profile, conditions, node):
+    """(verdict, the layer's thickness at the corner's arc in m or None) of
+    :func:`corner_verdict`'s flow, or None if the flow failed."""
     panelled = _panelled(profile, conditions, node)
     if panelled is None:
         return None
@@ -77,10 +89,31 @@ def corner_verdict(profile, conditions, node, thickness=None):
     spans = all_spans(panelling, height)
     regions = corner_regions(panelling, flow, spans)
     i, span = _corner_span(spans[: len(panelling.corners)], node)
-    k = regions[i][0]
+    k, lo = regions[i][0], regions[i][1]
     if k < 0:
-        return Verdict.IN_WAKE
-    return surface_verdict(flow.surfaces[k], regions[i], span.convex)[0]
+        return Verdict.IN_WAKE, None
+    sfl = flow.surfaces[k]
+    return surface_verdict(sfl, regions[i], span.convex)[0], layer_thickness(sfl.bl, lo)
+
+
+# Blasius' layer: delta_99 = 5.0 x / sqrt(Re_x) and theta = 0.664 x / sqrt(Re_x) (Schlichting,
+# Boundary-Layer Theory, the flat plate's laminar layer), so delta = 7.53 theta.
+LAMINAR_DELTA_OVER_THETA = 5.0 / 0.664
+
+
+def layer_thickness(bl, s):
+    """The boundary layer's thickness delta (m) at arc length ``s`` of a marched surface ``bl``
+    (the station at or just before it), or None where the layer is separated there: turbulent,
+    theta (H + H1) (Head's H1 = (delta - delta*) / theta); laminar, Blasius' 7.53 theta."""
+    st = np.asarray(bl.s, dtype=float)
+    j = int(np.clip(np.searchsorted(st, s, side="right") - 1, 0, st.size - 1))
+    theta, shape = float(bl.theta[j]), float(bl.H[j])
+    regime = bl.regime[j]
+    if not (theta > 0.0 and math.isfinite(theta)) or regime is Regime.SEPARATED:
+        return None
+    if regime is Regime.TURBULENT:
+        return theta * (shape + float(head_h1(shape)))
+    return LAMINAR_DELTA_OVER_THETA * theta
 
 
 def _panelled(profile, conditions, node=None):
@@ -211,13 +244,16 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
     r_max = largest_fitting_radius(profile, node) * 0.999
     solves = 0
 
+    thickness_at = {}  # the layer's thickness at the corner on each attached try
+
     def attached(r):
         nonlocal solves
         solves += 1
-        v = corner_verdict(profile.with_radius(node, r), conditions, node, thickness=thickness)
-        if v is None:
+        judged = _judged(profile.with_radius(node, r), conditions, node)
+        if judged is None:
             raise _SearchFailed(f"the flow could not be solved at r = {r * 1e3:.1f} mm")
-        return not v.separated
+        thickness_at[r] = judged[1]
+        return not judged[0].separated
 
     try:
         found = _bisected(attached, r_max, start)
@@ -230,6 +266,10 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
     if found == "none":
         return _none_fits(node, r_max, solves)
     lo, hi = found
+    delta = thickness_at.get(hi)
+    message = f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)"
+    if delta is not None and hi < delta:
+        message += "; " + thin_arc_note(hi, delta)
     return RadiusSearch(
         node,
         SearchStatus.FOUND,
@@ -238,7 +278,17 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
         (lo, hi),
         _tolerance(hi),
         solves,
-        f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)",
+        message,
+        layer_thickness=delta,
+    )
+
+
+def thin_arc_note(radius, delta):
+    """What a smallest attached radius below the layer's thickness means (both in m)."""
+    return (
+        f"the boundary layer is {delta * 1e3:.0f} mm thick there, more than that radius: the "
+        "model follows an arc that a real layer meets as a sharp edge, so read it as 'a radius "
+        "of the order of the layer's thickness or more' (not modelled)"
     )
 
 

@@ -24,7 +24,7 @@ import dataclasses
 
 from profilebench.assess.analysis import analyze
 from profilebench.assess.conditions import PANELS_RANGE
-from profilebench.assess.radius_search import cached_radius_search
+from profilebench.assess.radius_search import cached_radius_search, thin_arc_note
 from profilebench.assess.results import SearchStatus, Verdict
 from profilebench.errors import InputError
 
@@ -58,6 +58,8 @@ class CornerRefinement:
     search_status: str
     search_status_refined: str
     problems: tuple[str, ...]
+    # the boundary layer's thickness (m) at the arc on the refined search's answer, or None
+    layer_thickness: float | None = None
 
     @property
     def holds(self) -> bool:
@@ -77,6 +79,9 @@ class RefinementCheck:
     cd_change: float | None
     corners: tuple[CornerRefinement, ...]
     problems: tuple[str, ...]
+    # what the numbers do not say by themselves (a smallest attached radius below the layer's
+    # thickness); not rules, so they do not make the check fail
+    notes: tuple[str, ...] = ()
 
     @property
     def holds(self) -> bool:
@@ -143,8 +148,17 @@ def check_refinement(profile, conditions, factor=2, radii=False, table=None):
         row = _corner(profile, conditions, fine_conditions, c, f, search, n, fine)
         corners.append(row)
         problems.extend(f"{c.label}: {p}" for p in row.problems)
+    notes = tuple(
+        f"{c.label}: smallest attached radius {c.smallest_refined * 1e3:.1f} mm; "
+        + thin_arc_note(c.smallest_refined, c.layer_thickness)
+        for c in corners
+        if c.smallest_refined is not None
+        and c.layer_thickness is not None
+        and c.search_status_refined == SearchStatus.FOUND.value
+        and c.smallest_refined < c.layer_thickness
+    )
     return RefinementCheck(
-        profile.name, n, fine, cd, cd_fine, change, tuple(corners), tuple(problems)
+        profile.name, n, fine, cd, cd_fine, change, tuple(corners), tuple(problems), notes
     )
 
 
@@ -178,13 +192,13 @@ def _corner(profile, conditions, fine_conditions, c, f, search, n, fine):
             f"at {fine}: the layer nears its separation criterion as the panels are refined, "
             "so the verdict may change with more (read it as undecided)"
         )
-    small = small_fine = None
+    small = small_fine = delta = None
     status = status_fine = ""
     if search and c.node < len(profile.nodes) and not profile.nodes[c.node].smooth:
         sa = cached_radius_search(profile, conditions, c.node)
         sb = cached_radius_search(profile, fine_conditions, c.node)
         status, status_fine = sa.status.value, sb.status.value
-        small, small_fine = sa.radius, sb.radius
+        small, small_fine, delta = sa.radius, sb.radius, sb.layer_thickness
         if sa.status is not sb.status:
             problems.append(
                 f"smallest attached radius: {sa.status.value} at {n} panels, {sb.status.value} "
@@ -211,4 +225,5 @@ def _corner(profile, conditions, fine_conditions, c, f, search, n, fine):
         status,
         status_fine,
         tuple(problems),
+        delta,
     )

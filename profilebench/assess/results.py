@@ -121,6 +121,9 @@ class RadiusSearch:
     tolerance: float
     solves: int
     message: str
+    # the boundary layer's thickness (m) at the corner's arc on the try at ``radius`` (None where
+    # not found or separated there); a radius below it is one a real layer meets as a sharp edge
+    layer_thickness: float | None = None
 
     @property
     def success(self) -> bool:

@@ -262,4 +262,5 @@ def refinement_lines(check):
         lines.append("  does not hold; what moved:")
         lines += [f"  - {p}" for p in check.problems]
         lines.append(f"  Quote the answers at {m} panels and check them again by doubling.")
+    lines += [f"  note: {t}" for t in check.notes]
     return lines
