@@ -610,7 +610,10 @@ def _cmd_analyse(args, out):
                     file=out,
                 )
         fig = review_figure(
-            analysis, baseline=baseline, cp_min=CP_FLOOR if args.cp_min is None else args.cp_min
+            analysis,
+            baseline=baseline,
+            cp_min=CP_FLOOR if args.cp_min is None else args.cp_min,
+            refinement=refinement,
         )
         save_figure(fig, args.image)
         print(f"\nimage written: {args.image}", file=out)

@@ -125,7 +125,9 @@ def baseline_rows(analysis, baseline):
     ]
 
 
-def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Figure:
+def review_figure(
+    analysis, baseline=None, cp_min=CP_FLOOR, created=None, refinement=None
+) -> Figure:
     """A one-page design review of an analysis.
 
     Parameters
@@ -140,6 +142,10 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
         that pages can be put side by side).
     created : datetime, optional
         The date the run block states (default: now, UTC).
+    refinement : RefinementCheck, optional
+        From :func:`profilebench.assess.refinement.check_refinement` on the same profile and
+        conditions: the page's notes then start with whether its answers hold when the panels
+        are doubled, and what moved.
 
     Returns
     -------
@@ -227,7 +233,8 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
     )
     ax_cor.set_title("Corners", fontsize=10, loc="left")
 
-    notes = corner_notes(analysis) + [f"{n}: {d}" for n, d in corner_disagreements(analysis)]
+    notes = [] if refinement is None else [refinement_note(refinement)]
+    notes += corner_notes(analysis) + [f"{n}: {d}" for n, d in corner_disagreements(analysis)]
     notes += list(analysis.warnings)
     if analysis.drag is not None:
         notes += list(analysis.drag.notes)
@@ -240,6 +247,14 @@ def review_figure(analysis, baseline=None, cp_min=CP_FLOOR, created=None) -> Fig
     fig.text(0.05, 0.072, "\n".join(lines), fontsize=7, va="top", gid=NOTES_GID)
     fig.text(0.5, 0.012, CAUTION, ha="center", fontsize=9, weight="bold", color="#000000")
     return fig
+
+
+def refinement_note(check) -> str:
+    """One line of a refinement check for the page's notes (the first, never shortened away)."""
+    head = f"Refinement check ({check.panels} against {check.panels_refined} panels): "
+    if check.holds:
+        return head + "the answers hold when the panels are doubled"
+    return head + "DOES NOT HOLD, quote the refined answers: " + "; ".join(check.problems)
 
 
 def image_format(path) -> str:

@@ -275,3 +275,19 @@ def test_json_written_has_the_run(tmp_path):
         "profilebench_version",
         "created_utc",
     }
+
+
+def test_a_refinement_check_heads_the_page_notes():
+    from profilebench.assess.refinement import RefinementCheck
+
+    moved = "bonnet leading edge: smallest attached radius 44.0 mm at 250 panels, 48.3 mm at 500"
+    fails = RefinementCheck("p", 250, 500, 0.318, 0.3168, -0.004, (), (moved,))
+    notes = _texts(review_figure(fake_analysis(), refinement=fails), NOTES_GID)
+    notes = notes.replace("\n", " ")
+    assert notes.startswith("Notes: Refinement check (250 against 500 panels): DOES NOT HOLD")
+    assert moved in notes
+    holds = RefinementCheck("p", 250, 500, 0.318, 0.3168, -0.004, (), ())
+    notes = _texts(review_figure(fake_analysis(), refinement=holds), NOTES_GID)
+    assert "the answers hold when the panels are doubled" in notes.replace("\n", " ")
+    # without a check the page says nothing of one
+    assert "Refinement check" not in _texts(review_figure(fake_analysis()), NOTES_GID)
