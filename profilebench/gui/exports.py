@@ -23,14 +23,19 @@ def _export(window, path, write) -> bool:
 
 
 def export_image(window, path) -> bool:
-    """Write the review page of the window's analysis (against its baseline) to ``path``."""
+    """Write the review page of the window's analysis (against its baseline) to ``path``, with
+    the last refinement check when it is of the outline shown."""
     from profilebench.io.atomic import check_writable
     from profilebench.plotting import review_figure, save_figure
 
     def write(analysis, path):
         check_writable(path)  # a folder that refuses files: a message, not an OSError
         baseline = window.baseline_analysis or window.document.baseline
-        fig = review_figure(analysis, baseline=baseline, cp_min=window.canvas.cp_min)
+        # a refinement check of the outline as it is now heads the page's notes
+        refinement = window.refinement_check.for_state(window.document.state)
+        fig = review_figure(
+            analysis, baseline=baseline, cp_min=window.canvas.cp_min, refinement=refinement
+        )
         save_figure(fig, path)
 
     return _export(window, path, write)

@@ -65,6 +65,7 @@ class RefinementCheckRun:
         self.runner.failed.connect(self._failed)
         self.state = None  # the document state being checked
         self.report = None  # the last report shown
+        self._done = (None, None)  # (document state, its check) of the last check finished
 
     def start(self) -> None:
         w = self.window
@@ -80,6 +81,7 @@ class RefinementCheckRun:
         w = self.window
         w.progress.finish("refinement")
         changed = w.document.state is not self.state
+        self._done = (self.state, check)
         w.statusBar().showMessage(
             f"refinement check {'holds' if check.holds else 'does not hold'} ({seconds:.1f} s)",
             8000,
@@ -90,6 +92,11 @@ class RefinementCheckRun:
     def _failed(self, generation, message):
         self.window.progress.finish("refinement")
         self.window._show_banner(f"refinement check failed (logged): {message}", True)
+
+    def for_state(self, state):
+        """The last finished check if it is of document state ``state``, else None."""
+        done_state, check = self._done
+        return check if done_state is not None and done_state is state else None
 
     def cancel(self) -> None:
         self.runner.cancel_pending()

@@ -59,7 +59,7 @@ def test_the_view_entries_set_the_canvas(window, monkeypatch):
     assert c.cp_min == -2.5
 
 
-def test_the_refinement_check_reports_what_the_check_gives(window, qtbot, tmp_path):
+def test_the_refinement_check_reports_what_the_check_gives(window, qtbot, tmp_path, monkeypatch):
     # the report is the command line's (profilebench.plotting.summary.refinement_lines) of the
     # check on the document as it was when the entry was chosen
     from profilebench.assess.refinement import check_refinement
@@ -81,3 +81,22 @@ def test_the_refinement_check_reports_what_the_check_gives(window, qtbot, tmp_pa
     report.grab().save(str(tmp_path / "refinement_report.png"))
     w.grab().save(str(tmp_path / "window_after_refinement.png"))
     report.close()
+    # the review page exported now starts its notes with the check; after an edit it does not
+    from profilebench.plotting.review import refinement_note
+
+    assert w.refinement_check.for_state(w.document.state) is not None
+    seen = []
+    monkeypatch.setattr(
+        "profilebench.plotting.review_figure",
+        lambda analysis, **kw: seen.append(kw.get("refinement")) or _blank_figure(),
+    )
+    assert w.export_image(str(tmp_path / "page.png"))
+    assert refinement_note(seen[-1]) == refinement_note(expected)
+    w.set_radius(next(c.node for c in w.analysis.corners if c.radius > 0), 0.2)
+    assert w.refinement_check.for_state(w.document.state) is None
+
+
+def _blank_figure():
+    from profilebench.plotting.review import new_figure
+
+    return new_figure()
