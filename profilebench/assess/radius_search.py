@@ -53,7 +53,7 @@ __all__ = [
 # either side), the rest of the outline at the conditions' count. At 250 panels alone the
 # samples' smallest attached radii came out 4 to 41 % below their 1000-panel values and jumped by
 # 10-20 % between neighbouring counts (200 to 400); with the corner's neighbourhood as at 1000,
-# five of seven are within 2 % of the 1000-panel answer at 250 and 500 (measured,
+# all seven are within 2 % of the 1000-panel answer at 250 and 500 (measured,
 # docs/validation.md). A choice of this project, no source.
 SEARCH_PANELS = 1000
 SEARCH_REACH_RATIO = 0.1

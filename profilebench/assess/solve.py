@@ -101,8 +101,13 @@ def closed_points(panelling, height):
         i0, i1 = int(span.point_start), int(span.point_end)
         arc = np.arange(i0, (i1 if i1 >= i0 else i1 + n) + 1) % n  # may run through point 0
         if arc.size > CLOSED_ARC_POINTS:
-            # a well-panelled arc keeps every second point (its ends always)
-            arc = np.concatenate([arc[::2], arc[-1:]])
+            # a well-panelled arc keeps every second point (its ends always), every second in
+            # the canonical order: counted from one end, the points kept would depend on which
+            # way round the outline is given (measured: with the radius search's refined arcs,
+            # of 25 points and more, a box's front lower corner searched 61.0 against 61.9 mm)
+            c = canonical[arc]
+            first = c[0] if c[1] == (c[0] + 1) % n else c[-1]  # its first point, canonically
+            arc = np.concatenate([arc[(c - first) % n % 2 == 0], arc[[0, -1]]])
         keep[arc] = True
     return np.flatnonzero(keep)
 

@@ -248,10 +248,11 @@ def _focused(W, grid, outline, n, focus):
     if arc is None:  # a sharp (or smooth) node: its own edge clustering is what it gets
         return W, n
     S = outline.length
-    lo, hi = float(arc.s_start) - focus.reach, float(arc.s_end) + focus.reach
+    lo, width = float(arc.s_start) - focus.reach, float(arc.s_end - arc.s_start) + 2 * focus.reach
     mid = 0.5 * (grid[1:] + grid[:-1])
-    d = np.where(mid < lo, lo - mid, np.where(mid > hi, mid - hi, 0.0))
-    d = np.minimum(d, S - d)  # round the closed outline either way
+    # distance round the closed outline to the zone [lo, lo + width] (which may wrap past s = 0)
+    ahead = np.mod(mid - lo, S)
+    d = np.where(ahead <= width, 0.0, np.minimum(ahead - width, S - ahead))
     gain = focus.panels / n - 1.0
     dW = np.diff(W) * (1.0 + gain * np.exp(-d / (0.5 * focus.reach)))
     W = np.concatenate([[0.0], np.cumsum(dW)])

@@ -165,3 +165,26 @@ def test_a_focus_gives_the_same_points_whichever_way_round_the_outline_is_given(
     assert len(a) == len(b)
     key = lambda p: tuple(np.round(p, 9))  # noqa: E731
     assert sorted(map(key, a)) == sorted(map(key, b))
+
+
+def test_a_focus_on_the_corner_at_the_outline_start_refines_both_sides():
+    # the canonical outline starts at a fillet's tangent point: the zone round that arc wraps
+    # past s = 0, and the points on both sides of it are refined alike
+    from profilebench.geometry.panelling import Focus
+
+    def gap(pts, a, b):
+        return float(np.hypot(*(pts[a % len(pts)] - pts[b % len(pts)])))
+
+    box = _box()
+    fine = panelize(box, 1000)
+    for node in range(4):
+        focused = panelize(box, 250, focus=Focus(node, 0.16, 1000))
+        assert abs(_arc_points(focused, node) - _arc_points(fine, node)) <= 1
+        sp = next(c for c in focused.corners if c.node == node)
+        spf = next(c for c in fine.corners if c.node == node)
+        # three panels out either side of the arc: as long as at the finer count
+        for a, b, af, bf in (
+            (sp.point_start - 3, sp.point_start, spf.point_start - 3, spf.point_start),
+            (sp.point_end, sp.point_end + 3, spf.point_end, spf.point_end + 3),
+        ):
+            assert gap(focused.points, a, b) == pytest.approx(gap(fine.points, af, bf), rel=0.3)
