@@ -590,7 +590,9 @@ def _cmd_analyse(args, out):
     if args.check_refinement:
         from profilebench.assess.refinement import check_refinement
 
-        refinement = check_refinement(project.profile, cond, radii=True, table=_user_table(args))
+        refinement = check_refinement(
+            project.profile, cond, radii=True, table=_user_table(args), analysis=analysis
+        )
         _print_refinement(refinement, out)
     if args.image:
         from profilebench.plotting.review import review_figure, save_figure

@@ -88,7 +88,7 @@ class RefinementCheck:
         return not self.problems
 
 
-def check_refinement(profile, conditions, factor=2, radii=False, table=None):
+def check_refinement(profile, conditions, factor=2, radii=False, table=None, analysis=None):
     """Analyse ``profile`` at ``conditions.panels`` and at ``factor`` times it and compare.
 
     Parameters
@@ -103,6 +103,9 @@ def check_refinement(profile, conditions, factor=2, radii=False, table=None):
         count (the searches are cached, so the analysis and the editor reuse them).
     table : RtTable or None
         As for :func:`profilebench.analyze`.
+    analysis : Analysis or None
+        ``analyze(profile, conditions, table=table)`` when the caller has it already (the
+        command line does): it is not made again.
 
     Raises
     ------
@@ -121,7 +124,7 @@ def check_refinement(profile, conditions, factor=2, radii=False, table=None):
             f"at most {most // factor} panels, or use a smaller factor"
         )
     fine_conditions = conditions.replace(panels=fine)
-    a = analyze(profile, conditions, table=table)
+    a = analyze(profile, conditions, table=table) if analysis is None else analysis
     b = analyze(profile, fine_conditions, table=table)
     problems = []
     for tag, x, count in (("", a, n), ("refined ", b, fine)):

@@ -250,7 +250,8 @@ def review_figure(
 
 
 def refinement_note(check) -> str:
-    """One line of a refinement check for the page's notes (the first, never shortened away)."""
+    """One line of a refinement check for the page's notes (put first: when the notes run long,
+    the later ones are the ones shortened)."""
     head = f"Refinement check ({check.panels} against {check.panels_refined} panels): "
     if check.holds:
         return head + "the answers hold when the panels are doubled"
