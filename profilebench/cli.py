@@ -360,14 +360,16 @@ def build_parser() -> argparse.ArgumentParser:
 # --- helpers -----------------------------------------------------------------------------------
 
 
-def _load(path, args=None):
-    """A project file, or a CSV outline as a project with the default conditions."""
+def _load(path, args=None, fits=None):
+    """A project file, or a CSV outline as a project with the default conditions (its fit
+    appended to ``fits``, a list, when given)."""
     if Path(str(path)).suffix.lower() == ".csv":
         return _import_csv(
             path,
             getattr(args, "units", "auto"),
             getattr(args, "simplify", None),
             getattr(args, "name", None),
+            fits=fits,
         )
     from profilebench.io.project import load_project
 
@@ -378,9 +380,12 @@ def _load(path, args=None):
 FIT_TOLERANCE_MM = 5.0
 
 
-def _import_csv(path, units="auto", simplify_mm=None, name=None, ground=True, report=None):
+def _import_csv(
+    path, units="auto", simplify_mm=None, name=None, ground=True, report=None, fits=None
+):
     """A CSV outline fitted to a profile (profilebench.geometry.fit) as a Project with the
-    default conditions; ``report`` (a list) receives the fit's largest deviation and notes."""
+    default conditions; ``report`` (a list) receives the fit's largest deviation and notes,
+    ``fits`` (a list) the fit itself."""
     from profilebench.assess.conditions import Conditions
     from profilebench.geometry.fit import fit_outline
     from profilebench.io.points import import_points_csv
@@ -400,7 +405,11 @@ def _import_csv(path, units="auto", simplify_mm=None, name=None, ground=True, re
             f"{fit.corners} corners"
         )
         report.extend(f"note: {n}" for n in fit.notes)
-    return Project(profile=fit.profile, conditions=Conditions())
+    if fits is not None:
+        fits.append(fit)
+    # the radii the points do not fix go with the project, for whoever opens it next
+    notes = "\n".join(r.message() for r in fit.unresolved)
+    return Project(profile=fit.profile, conditions=Conditions(), notes=notes)
 
 
 def _conditions(project, args):
@@ -579,13 +588,15 @@ def _cmd_analyse(args, out):
         [("--image", args.image), ("--csv", args.csv), ("--json", args.json)],
         [args.file, getattr(args, "table", None)],
     )
-    project = _load(args.file, args)
+    fits = []
+    project = _load(args.file, args, fits=fits)
     cond = _conditions(project, args)
     analysis = _analyse(project.profile, cond, table=_user_table(args))
     _check_success(analysis, f"{args.file}")
     print(f"{project.profile.name} ({args.file})", file=out)
     print("", file=out)
     _print_summary(analysis, out)
+    open_radii = _open_radii(fits, project.profile, cond, out, analysis, _user_table(args))
     refinement = None
     if args.check_refinement:
         from profilebench.assess.refinement import check_refinement
@@ -623,10 +634,28 @@ def _cmd_analyse(args, out):
         write_surface_csv(analysis, args.csv)
         print(f"surface data written: {args.csv}", file=out)
     if args.json:
-        write_results_json(analysis, args.json, refinement=refinement)
+        write_results_json(analysis, args.json, refinement=refinement, open_radii=open_radii)
         print(f"results written: {args.json}", file=out)
     _caution(out)
     return EXIT_OK
+
+
+def _open_radii(fits, profile, conditions, out, analysis=None, table=None):
+    """Print, for a fitted CSV outline, the radii its points leave open and the Cd at each end
+    of their ranges (profilebench.assess.open_radii); returns the effects (none for a project
+    file or when the points fix every radius)."""
+    if not fits or not fits[0].unresolved:
+        return ()
+    from profilebench.assess.open_radii import open_radius_effects
+    from profilebench.plotting.summary import open_radius_lines
+
+    effects = open_radius_effects(
+        profile, conditions, fits[0].radius_ranges, analysis=analysis, table=table
+    )
+    print("", file=out)
+    for line in open_radius_lines(effects):
+        print(line, file=out)
+    return effects
 
 
 def _print_refinement(check, out):
@@ -825,9 +854,15 @@ def _cmd_import(args, out):
     _check_outputs(
         [("the project file", args.project)], [args.outline, getattr(args, "table", None)]
     )
-    report = []
+    report, fits = [], []
     project = _import_csv(
-        args.outline, args.units, args.simplify, args.name, ground=not args.no_ground, report=report
+        args.outline,
+        args.units,
+        args.simplify,
+        args.name,
+        ground=not args.no_ground,
+        report=report,
+        fits=fits,
     )
     cond = _conditions(project, args)
     problems = explain(project.profile, ground=cond.ground)
@@ -840,6 +875,7 @@ def _cmd_import(args, out):
     corners = sum(1 for nd in project.profile.nodes if not nd.smooth)
     for line in report:
         print(line, file=out)
+    _open_radii(fits, project.profile, cond, out)
     print(f"project written: {target} ({n} nodes, {corners} corners)", file=out)
     return EXIT_OK
 

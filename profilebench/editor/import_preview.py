@@ -2,7 +2,8 @@
 
 :func:`fit_preview` fits the points (:func:`profilebench.geometry.fit.fit_outline`) and returns
 an :class:`ImportPreview`: the fitted profile with its built outline sampled for drawing, the
-largest deviation, the counts of corners and smooth nodes, what the fit had to give up, or the
+largest deviation, the counts of corners and smooth nodes, what the fit had to give up, the
+corners whose radius the points do not fix, or the
 reason there is nothing to load. It runs in the editor's child process (its argument and result
 pickle), so the dialog stays responsive while a large outline is fitted.
 """
@@ -33,6 +34,9 @@ class ImportPreview:
     smooth: int = 0
     notes: tuple[str, ...] = ()
     error: str = ""
+    # one line per corner whose radius the points do not fix (FitResult.unresolved)
+    radius_notes: tuple[str, ...] = ()
+    unresolved_nodes: tuple[int, ...] = ()
 
     @property
     def ok(self) -> bool:
@@ -74,4 +78,6 @@ def fit_preview(points, tolerance, ground=True, name="imported", samples=800) ->
         corners=int(fit.corners),
         smooth=smooth,
         notes=tuple(fit.notes),
+        radius_notes=tuple(r.message() for r in fit.unresolved),
+        unresolved_nodes=tuple(int(r.node) for r in fit.unresolved),
     )

@@ -40,7 +40,9 @@ helps: the smooth nodes made sharp, the straight runs' dropped vertices restored
 one by one made sharp; if nothing passes, the reduced polygon itself (all vertices sharp, which
 meets the tolerance by construction) is returned, and the result's notes say so. Last, every
 fillet that the points cannot tell from a sharp corner (the F test on the built outline) is
-made sharp. An invalid profile is never returned: a point list that cannot give a valid one is
+made sharp; and each corner's radius gets the range the points allow
+(:mod:`profilebench.geometry.radius_bounds`), so that a radius the points cannot fix is said
+to be so. An invalid profile is never returned: a point list that cannot give a valid one is
 refused with the reason.
 """
 
@@ -86,7 +88,10 @@ class FitResult:
     ``max_deviation`` (m): the largest distance between a point and the built outline, or
     between the built outline and the point polyline. ``corners``: the number of corner nodes
     (sharp or with a radius). ``notes``: what the fit had to give up (a fillet tried sharp, the
-    frame returned as it is), each with where.
+    frame returned as it is), each with where. ``radius_ranges``: for every corner node, the
+    radii the points allow (:class:`profilebench.geometry.radius_bounds.RadiusRange`);
+    ``unresolved`` lists those the points do not fix to 10 %, whose radius the user should take
+    from the drawing.
     """
 
     profile: Profile
@@ -94,6 +99,12 @@ class FitResult:
     tolerance: float
     corners: int
     notes: tuple[str, ...]
+    radius_ranges: tuple = ()
+
+    @property
+    def unresolved(self) -> tuple:
+        """The corners whose radius the points do not fix (see ``radius_ranges``)."""
+        return tuple(r for r in self.radius_ranges if not r.resolved)
 
 
 def _clean(points):
@@ -691,10 +702,13 @@ def fit_outline(points, tolerance=0.005, ground=True, name="imported") -> FitRes
         name=name,
     )
     corners = sum(1 for nd in profile.nodes if not nd.smooth)
+    from profilebench.geometry.radius_bounds import radius_ranges
+
     return FitResult(
         profile=profile,
         max_deviation=float(dev),
         tolerance=float(tolerance),
         corners=corners,
         notes=tuple(notes),
+        radius_ranges=radius_ranges(profile, pts, tolerance),
     )

@@ -1,7 +1,8 @@
 """The import dialog: a digitised outline's fit previewed over its points before it is loaded.
 
 The dialog shows the points and the fitted outline (corner nodes as squares, smooth nodes as
-circles), the tolerance (mm, editable: the outline is fitted again on each change, in the
+circles, a ring round each corner whose radius the points do not fix, with a line saying which
+radii they allow), the tolerance (mm, editable: the outline is fitted again on each change, in the
 editor's child process, the newest request winning) and the largest deviation. OK loads the fit
 shown; it stays disabled while a fit runs and when the points give no valid profile at that
 tolerance, with the reason shown. The fitting and its summary live in
@@ -112,8 +113,13 @@ class OutlinePreview(QWidget):
 
     @staticmethod
     def _draw_nodes(p, to_px, pv):
-        for nd in pv.profile.nodes:
+        unresolved = set(pv.unresolved_nodes)
+        for i, nd in enumerate(pv.profile.nodes):
             x, y = to_px(np.array([nd.x, nd.y]))
+            if i in unresolved:  # a radius the points do not fix: ringed
+                p.setBrush(Qt.NoBrush)
+                p.setPen(QPen(QColor("#d9822b"), 2.0))
+                p.drawEllipse(QPointF(x, y), 9.0, 9.0)
             p.setPen(QPen(QColor("#1f5fb4"), 1.5))
             if nd.smooth:
                 p.setBrush(QColor("#ffffff"))
@@ -162,7 +168,8 @@ class ImportDialog(QDialog):
             "<span style='color:#1f5fb4'>&#9472;&#9472;</span> fitted outline &nbsp; "
             "<span style='color:#c0392b'>&#9632;</span> rounded corner &nbsp; "
             "<span style='color:#1f5fb4'>&#9632;</span> sharp corner &nbsp; "
-            "<span style='color:#1f5fb4'>&#9675;</span> smooth node"
+            "<span style='color:#1f5fb4'>&#9675;</span> smooth node &nbsp; "
+            "<span style='color:#d9822b'>&#9711;</span> radius not fixed by the points"
             + (" &nbsp; - - ground" if self.ground else "")
         )
         self.status = QLabel("")
@@ -234,7 +241,7 @@ class ImportDialog(QDialog):
         self.view.set_preview(preview)
         self.status.setText(preview.summary())
         self.status.setStyleSheet("" if preview.ok else "color: #b03000;")
-        self.notes.setText("; ".join(preview.notes))
+        self.notes.setText("\n".join(preview.notes + preview.radius_notes))
         self.ok_button.setEnabled(preview.ok)
 
     def _fit_failed(self, generation, message):

@@ -69,7 +69,13 @@ def _load(window, path, pts, preview) -> bool:
     window.statusBar().showMessage(
         f"imported {len(prof)} nodes, {preview.corners} corners, within "
         f"{preview.max_deviation * 1e3:.1f} mm of the points ({pts.units}, {pts.units_reason})"
-        + (f"; {preview.notes[0]}" if preview.notes else ""),
+        + (f"; {preview.notes[0]}" if preview.notes else "")
+        + (
+            f"; {len(preview.radius_notes)} radii not fixed by the points, take them from "
+            f"the drawing ({preview.radius_notes[0].split(': ')[0]}, ...)"
+            if preview.radius_notes
+            else ""
+        ),
         12000,
     )
     return True

@@ -242,13 +242,34 @@ def results_to_dict(analysis) -> dict:
     }
 
 
-def write_results_json(analysis, path, refinement=None):
+def write_results_json(analysis, path, refinement=None, open_radii=()):
     """Write the results as JSON: summary, drag breakdown, corners, events, conditions, caution,
     versions, and with ``refinement`` (a :class:`~profilebench.assess.refinement.RefinementCheck`)
-    its answer under "refinement" (with its ``holds``). Non-finite numbers are written as null.
-    Atomic. Returns the path written."""
+    its answer under "refinement" (with its ``holds``); with ``open_radii`` (the
+    :class:`~profilebench.assess.open_radii.OpenRadiusEffect` of a fitted outline's radii that
+    its points leave open) each range and the Cd at its ends under "open_radii". Non-finite
+    numbers are written as null. Atomic. Returns the path written."""
     data = results_to_dict(analysis)
     if refinement is not None:
         data["refinement"] = dict(_plain(refinement), holds=bool(refinement.holds))
+    if open_radii:
+        data["open_radii"] = [
+            {
+                "node": int(e.range.node),
+                "label": e.range.label,
+                "x_m": e.range.x,
+                "y_m": e.range.y,
+                "fitted_radius_m": e.range.radius,
+                "lowest_radius_m": e.range.low,
+                "highest_radius_m": e.range.high,
+                "highest_is_the_limit_tried": bool(e.range.high_is_limit),
+                "cd_fitted": e.cd,
+                "ends": [
+                    {"radius_m": r, "cd": cd, "verdict": v, "message": m} for r, cd, v, m in e.ends
+                ],
+                "cd_spread": e.spread,
+            }
+            for e in open_radii
+        ]
     text = json.dumps(data, indent=2, allow_nan=False)
     return atomic_write_text(path, lambda fh: fh.write(text + "\n"))

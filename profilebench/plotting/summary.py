@@ -220,6 +220,20 @@ def format_table(header, rows):
     return "\n".join(lines)
 
 
+def open_radius_lines(effects):
+    """The lines on the radii a fitted outline's points leave open (the
+    :class:`~profilebench.assess.open_radii.OpenRadiusEffect` of each), as the command line
+    prints them."""
+    if not effects:
+        return []
+    lines = [
+        "Radii the points do not fix (99.7 % ranges; take them from the drawing where the Cd "
+        "moves):"
+    ]
+    lines += [f"  {e.line()}" for e in effects]
+    return lines
+
+
 def refinement_lines(check):
     """The lines of a refinement check's report (a
     :class:`~profilebench.assess.refinement.RefinementCheck`), as the command line prints it and

@@ -156,3 +156,46 @@ def test_each_bad_outline_gets_a_clear_message_and_exit_2(tmp_path, capsys, comm
         assert words in err, err
     assert "Traceback" not in err
     assert not target.exists()
+
+
+def test_import_says_which_radii_the_points_leave_open_and_keeps_it_in_the_project(
+    tmp_path, capsys
+):
+    # the courier van sample digitised every 5 mm with 1 mm of noise: its underbody rear fillet
+    # (r 50 mm, turning the outline by about 22 degrees) lies about 1 mm off its sharp corner,
+    # so the points allow it sharp or twice as large (profilebench.geometry.radius_bounds)
+    import numpy as np
+
+    from profilebench.geometry import build_outline
+
+    van = load_project(next(p for p in sample_paths() if p.stem == "kestrel_courier_van"))
+    o = build_outline(van.profile)
+    n = int(o.length / 0.005)
+    pts = (o.sample(n) + np.random.default_rng(0).normal(0.0, 0.001, (n, 2))) * 1e3
+    csv = _write_csv(tmp_path / "van.csv", [tuple(p) for p in pts] + [tuple(pts[0])])
+    target = tmp_path / "van.json"
+    assert main(["import", str(csv), str(target)]) == EXIT_OK
+    out = capsys.readouterr()
+    said = out.out + out.err
+    assert "Radii the points do not fix" in said
+    # the line gives the Cd at both ends of the range: sharp, and the largest radius allowed
+    line = next(s for s in said.splitlines() if "(4100, 180) mm" in s)
+    assert "fitted sharp" in line and "sharp: Cd" in line and "across the range" in line
+    notes = load_project(target).notes
+    assert "(4100, 180) mm: fitted sharp, but the points allow any radius up to" in notes
+    assert "take its radius from the drawing" in notes
+    # analyse on the CSV says the same, and its JSON carries the ranges and the Cd at their ends
+    capsys.readouterr()
+    js = tmp_path / "van.results.json"
+    assert main(["analyse", str(csv), "--json", str(js)]) == EXIT_OK
+    assert line.split(";")[0] in capsys.readouterr().out
+    import json
+
+    rows = json.loads(js.read_text())["open_radii"]
+    rear = next(r for r in rows if abs(r["x_m"] - 4.1) < 0.01 and abs(r["y_m"] - 0.18) < 0.01)
+    assert rear["fitted_radius_m"] == 0.0 and rear["lowest_radius_m"] == 0.0
+    assert rear["highest_radius_m"] > 0.05 and len(rear["ends"]) == 2
+    cds = [e["cd"] for e in rear["ends"]]
+    assert rear["cd_spread"] == pytest.approx(
+        (max(cds + [rear["cd_fitted"]]) - min(cds + [rear["cd_fitted"]])) / rear["cd_fitted"]
+    )

@@ -26,11 +26,19 @@ def _digitise(profile, seed=0):
     return o.sample(n) + np.random.default_rng(seed).normal(0.0, NOISE, (n, 2))
 
 
-def _round_trip_failures(profile, conditions, seed=0, cd_rel=0.01):
-    """What the fit of the digitised profile gets wrong, as messages with the numbers."""
+def _round_trip_failures(profile, conditions, seed=0, cd_rel=0.01, from_drawing=False):
+    """What the fit of the digitised profile gets wrong, as messages with the numbers.
+
+    ``from_drawing``: the radii the fit reports as not fixed by the points are taken from the
+    original (as a user told so would take them from the drawing), once the range the fit
+    reports for each is checked to hold the original's radius."""
     pts = _digitise(profile, seed)
     fit = fit_outline(pts, tolerance=TOLERANCE)
     fitted = fit.profile
+    if from_drawing:
+        fitted, failures = _radii_from_drawing(profile, fit)
+        if failures:
+            return failures
     # the fit's own deviation, checked with shapely: every point within the tolerance
     ring = shapely.LinearRing(build_outline(fitted).sample(4 * len(pts)))
     worst = float(np.max(shapely.distance(shapely.points(pts), ring)))
@@ -52,6 +60,26 @@ def _round_trip_failures(profile, conditions, seed=0, cd_rel=0.01):
         if got.verdict != c.verdict and not _flips_with_radius(profile, conditions, c, got):
             failures.append(f"{c.verdict.name} -> {got.verdict.name} at {where}")
     return failures
+
+
+def _radii_from_drawing(profile, fit):
+    """(fitted profile with its unresolved radii set to the original's, failures): a failure
+    where an original corner's radius lies outside the range the fit reports for it."""
+    fitted, failures = fit.profile, []
+    for node in profile.nodes:
+        if node.smooth:
+            continue
+        got = min(fit.radius_ranges, key=lambda r: np.hypot(r.x - node.x, r.y - node.y))
+        if np.hypot(got.x - node.x, got.y - node.y) > 0.05:
+            continue  # not fitted as a corner node (the radius test above says so)
+        if not got.contains(node.radius):
+            failures.append(
+                f"{node.label}: r {node.radius * 1e3:.0f} mm outside the range the fit reports, "
+                f"{got.low * 1e3:.0f} to {got.high * 1e3:.0f} mm"
+            )
+        elif not got.resolved:
+            fitted = fitted.with_radius(got.node, node.radius)
+    return fitted, failures
 
 
 def _flips_with_radius(profile, conditions, corner, got):
@@ -108,6 +136,36 @@ _KNOWN = {
 def test_each_sample_digitised_and_fitted_back_keeps_its_radii_cd_and_verdicts(name):
     project = load_project(next(p for p in sample_paths() if p.stem == name))
     failures = _round_trip_failures(project.profile, project.conditions)
+    assert failures == []
+
+
+# the points cannot fix the underbody's rear fillets (above), and the fit says so: it reports,
+# for each corner, the radii the points allow (profilebench.geometry.radius_bounds, a 99.73 %
+# profile-likelihood range) and lists those not fixed to 10 %. The rest of the round trip must
+# hold once those radii come from the drawing: the same Cd within 1 % and the same verdicts.
+_KNOWN_FROM_DRAWING = {
+    "kestrel_hatch": (
+        "not a radius the fit left open: the windscreen base (r 100 mm turning 14 degrees) comes "
+        "back inside a smooth run, not as a corner node (CONCAVE for CONCAVE_BUBBLE), and the "
+        "bumper nose's curvature peak (r 365 mm) is not found as a corner"
+    ),
+}
+
+
+@pytest.mark.parametrize(
+    "name",
+    [
+        pytest.param(
+            p.stem, marks=pytest.mark.xfail(strict=True, reason=_KNOWN_FROM_DRAWING[p.stem])
+        )
+        if p.stem in _KNOWN_FROM_DRAWING
+        else p.stem
+        for p in sample_paths()
+    ],
+)
+def test_each_sample_round_trips_once_the_radii_the_points_leave_open_come_from_the_drawing(name):
+    project = load_project(next(p for p in sample_paths() if p.stem == name))
+    failures = _round_trip_failures(project.profile, project.conditions, from_drawing=True)
     assert failures == []
 
 

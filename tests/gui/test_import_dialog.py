@@ -114,3 +114,26 @@ def test_cancel_while_a_fit_runs_returns_at_once_and_drops_the_late_result(qtbot
     assert d.result() == QDialog.DialogCode.Rejected
     qtbot.wait(1500)  # the fit comes back meanwhile: nothing is shown
     assert d.preview is None
+
+
+def test_the_dialog_rings_the_corners_whose_radius_the_points_leave_open(qtbot, tmp_path):
+    # the courier van digitised (5 mm, 1 mm of noise): the underbody rear fillet (r 50 mm,
+    # turning about 22 degrees) cannot be fixed by such points; the dialog says which radii they
+    # allow and rings the node (profilebench.geometry.radius_bounds)
+    from profilebench.io import load_project, sample_paths
+
+    van = load_project(next(p for p in sample_paths() if p.stem == "kestrel_courier_van"))
+    o = build_outline(van.profile)
+    n = int(o.length / 0.005)
+    pts = o.sample(n) + np.random.default_rng(0).normal(0.0, 0.001, (n, 2))
+    path = tmp_path / "van.csv"
+    path.write_text("x_mm,y_mm\n" + "\n".join(f"{x * 1e3:.3f},{y * 1e3:.3f}" for x, y in pts))
+    d = _dialog(qtbot, path)
+    pv = d.preview
+    assert pv.ok and pv.unresolved_nodes
+    rear = [pv.profile.nodes[i] for i in pv.unresolved_nodes]
+    assert any(abs(nd.x - 4.1) < 0.01 and abs(nd.y - 0.18) < 0.01 for nd in rear)
+    assert "(4100, 180) mm: fitted sharp, but the points allow" in d.notes.text()
+    assert any("radius not fixed by the points" in w.text() for w in d.findChildren(type(d.notes)))
+    d.resize(900, 520)
+    d.grab().save(str(tmp_path / "import_dialog_open_radii.png"))
