@@ -140,6 +140,17 @@ def _arc_positions(panelling, flow, spans):
             ]
             best = (k, min(ends), max(ends))
             break
+        else:
+            # an arc whose first point is where a surface ends (the layer left there, at an arc
+            # thinner than itself taken for a sharp edge): placed at that end
+            for k, sfl in enumerate(flow.surfaces):
+                end = float(sfl.surface.s_end)
+                at = [
+                    x for x in (sfl.surface_s(a % perim), sfl.surface_s(b % perim)) if x is not None
+                ]
+                if at and abs(max(at) - end) <= 1e-6 * max(1.0, end):
+                    best = (k, end, end)
+                    break
         placed.append(best)
     return placed
 
@@ -414,6 +425,13 @@ def assess_corners(
             verdict, margin, detail = surface_verdict(sfl, (k, lo, hi, bounded), span.convex)
             surface = sfl.name
             bl_restarts = sfl.restarts
+            if verdict is Verdict.EDGE_SEPARATION and span.radius > 0.0:
+                # a rounded corner taken for a sharp edge: its arc is thinner than the layer
+                # reaching it (profilebench.assess.solve.THIN_ARC_RATIO)
+                detail += (
+                    f"; the layer reaching this {span.radius * 1e3:.0f} mm arc is thicker than "
+                    "its radius and meets it as a sharp edge"
+                )
         delta_cd = 0.0
         bubble = verdict.separated and any(lo - 1e-9 <= r.s <= hi + 1e-9 for r in bl_restarts)
         if table is not None and bubble and span.convex:

@@ -23,10 +23,15 @@ from profilebench.assess.corners import (
     surface_verdict,
 )
 from profilebench.assess.results import RadiusSearch, SearchStatus, Verdict
-from profilebench.assess.solve import closed_body, march_closed, solve_flow
+from profilebench.assess.solve import (
+    LAMINAR_DELTA_OVER_THETA,
+    THIN_ARC_RATIO,
+    closed_body,
+    layer_thickness,
+    march_closed,
+    solve_flow,
+)
 from profilebench.errors import GeometryError, ProfileBenchError
-from profilebench.flow.boundary_layer import Regime
-from profilebench.flow.head import head_h1
 from profilebench.lru import LruCache
 from profilebench.geometry import measure, panelize, validate
 from profilebench.geometry.panelling import Focus
@@ -38,6 +43,7 @@ __all__ = [
     "corner_verdict",
     "layer_thickness",
     "thin_arc_note",
+    "thin_arc_bound",
     "LAMINAR_DELTA_OVER_THETA",
     "closed_body_verdict",
     "smallest_attached_radius",
@@ -94,26 +100,6 @@ def _judged(profile, conditions, node):
         return Verdict.IN_WAKE, None
     sfl = flow.surfaces[k]
     return surface_verdict(sfl, regions[i], span.convex)[0], layer_thickness(sfl.bl, lo)
-
-
-# Blasius' layer: delta_99 = 5.0 x / sqrt(Re_x) and theta = 0.664 x / sqrt(Re_x) (Schlichting,
-# Boundary-Layer Theory, the flat plate's laminar layer), so delta = 7.53 theta.
-LAMINAR_DELTA_OVER_THETA = 5.0 / 0.664
-
-
-def layer_thickness(bl, s):
-    """The boundary layer's thickness delta (m) at arc length ``s`` of a marched surface ``bl``
-    (the station at or just before it), or None where the layer is separated there: turbulent,
-    theta (H + H1) (Head's H1 = (delta - delta*) / theta); laminar, Blasius' 7.53 theta."""
-    st = np.asarray(bl.s, dtype=float)
-    j = int(np.clip(np.searchsorted(st, s, side="right") - 1, 0, st.size - 1))
-    theta, shape = float(bl.theta[j]), float(bl.H[j])
-    regime = bl.regime[j]
-    if not (theta > 0.0 and math.isfinite(theta)) or regime is Regime.SEPARATED:
-        return None
-    if regime is Regime.TURBULENT:
-        return theta * (shape + float(head_h1(shape)))
-    return LAMINAR_DELTA_OVER_THETA * theta
 
 
 def _panelled(profile, conditions, node=None):
@@ -268,7 +254,7 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
     lo, hi = found
     delta = thickness_at.get(hi)
     message = f"smallest attached radius {hi * 1e3:.0f} mm (separated at {lo * 1e3:.0f} mm)"
-    if delta is not None and hi < delta:
+    if delta is not None and thin_arc_bound(hi, delta):
         message += "; " + thin_arc_note(hi, delta)
     return RadiusSearch(
         node,
@@ -283,12 +269,21 @@ def smallest_attached_radius(profile, conditions, node, thickness=None, toleranc
     )
 
 
+def thin_arc_bound(radius, delta):
+    """True when a smallest attached radius (m) is the bound the layer's thickness ``delta``
+    (m) sets (:data:`profilebench.assess.solve.THIN_ARC_RATIO`): within the search's tolerance
+    and 5 % of it (the thickness is taken at the attached try, the bound at the separated one)."""
+    bound = THIN_ARC_RATIO * delta
+    return radius <= 1.05 * bound + _tolerance(radius)
+
+
 def thin_arc_note(radius, delta):
-    """What a smallest attached radius below the layer's thickness means (both in m)."""
+    """What a smallest attached radius set by the layer's thickness means (both in m)."""
     return (
-        f"the boundary layer is {delta * 1e3:.0f} mm thick there, more than that radius: the "
-        "model follows an arc that a real layer meets as a sharp edge, so read it as 'a radius "
-        "of the order of the layer's thickness or more' (not modelled)"
+        f"the boundary layer is {delta * 1e3:.0f} mm thick there: a smaller arc is met by it "
+        "as a sharp edge (the model's rule, a choice of this project), so this radius is the "
+        "layer's thickness, not a pressure-gradient answer; read it as 'of the order of the "
+        "layer's thickness'"
     )
 
 

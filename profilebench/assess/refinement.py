@@ -24,7 +24,7 @@ import dataclasses
 
 from profilebench.assess.analysis import analyze
 from profilebench.assess.conditions import PANELS_RANGE
-from profilebench.assess.radius_search import cached_radius_search, thin_arc_note
+from profilebench.assess.radius_search import cached_radius_search, thin_arc_bound, thin_arc_note
 from profilebench.assess.results import SearchStatus, Verdict
 from profilebench.errors import InputError
 
@@ -158,7 +158,7 @@ def check_refinement(profile, conditions, factor=2, radii=False, table=None, ana
         if c.smallest_refined is not None
         and c.layer_thickness is not None
         and c.search_status_refined == SearchStatus.FOUND.value
-        and c.smallest_refined < c.layer_thickness
+        and thin_arc_bound(c.smallest_refined, c.layer_thickness)
     )
     return RefinementCheck(
         profile.name, n, fine, cd, cd_fine, change, tuple(corners), tuple(problems), notes
