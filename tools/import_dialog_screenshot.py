@@ -1,6 +1,7 @@
 """Draw docs/images/import_dialog.png: the editor's import dialog with a digitised outline of
 the Kestrel Courier van (invented: its sample outline sampled every 5 mm, 1 mm of noise, written
-as a CSV in mm) fitted at the default 5 mm tolerance. Run:
+as a CSV in mm) fitted at the default 5 mm tolerance, at the van's conditions (the radii the points leave
+open analysed at both ends of their ranges). Run:
 ``python tools/import_dialog_screenshot.py``.
 """
 
@@ -26,14 +27,17 @@ def main(out=OUT) -> int:
     from profilebench.io import import_points_csv, load_project, sample_paths
 
     app = QApplication.instance() or QApplication(["import-dialog"])
-    van = load_project(next(p for p in sample_paths() if p.stem == "kestrel_courier_van")).profile
+    project = load_project(next(p for p in sample_paths() if p.stem == "kestrel_courier_van"))
+    van = project.profile
     o = build_outline(van)
     n = int(o.length / 0.005)
     pts = o.sample(n) + np.random.default_rng(0).normal(0.0, 0.001, (n, 2))
     csv = Path(tempfile.mkdtemp()) / "courier_outline.csv"
     csv.write_text("x_mm,y_mm\n" + "\n".join(f"{x * 1e3:.2f},{y * 1e3:.2f}" for x, y in pts))
-    dialog = ImportDialog(import_points_csv(csv), csv.stem, ground=True)
-    dialog.resize(900, 560)
+    dialog = ImportDialog(
+        import_points_csv(csv), csv.stem, ground=True, conditions=project.conditions
+    )
+    dialog.resize(1100, 640)
     dialog.show()
     t0 = time.perf_counter()
     while dialog.fitting:

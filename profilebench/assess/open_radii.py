@@ -20,7 +20,7 @@ __all__ = ["OpenRadiusEffect", "open_radius_effects"]
 class OpenRadiusEffect:
     """One open radius and the analysis at both ends of its range.
 
-    ``ends``: ((radius (m), Cd or None, verdict name or None, message), ...) at the range's low
+    ``ends``: ((radius (m), Cd or None, verdict (its words) or None, message), ...) at the range's low
     and high end; a failed analysis has Cd and verdict None and its message. ``cd`` is the
     fitted outline's Cd.
     """
@@ -78,7 +78,7 @@ def open_radius_effects(profile, conditions, ranges, analysis=None, table=None):
                 ends.append((float(radius), None, None, a.message))
                 continue
             same = [c for c in a.corners if c.node == r.node]
-            verdict = same[0].verdict.name if same else "not a corner"
+            verdict = same[0].verdict.value if same else "not a corner"
             ends.append((float(radius), float(a.drag.cd), verdict, ""))
         if base.success and base.drag is not None:
             out.append(OpenRadiusEffect(range=r, cd=float(base.drag.cd), ends=tuple(ends)))

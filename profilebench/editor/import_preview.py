@@ -37,6 +37,8 @@ class ImportPreview:
     # one line per corner whose radius the points do not fix (FitResult.unresolved)
     radius_notes: tuple[str, ...] = ()
     unresolved_nodes: tuple[int, ...] = ()
+    # with conditions: the Cd at both ends of each open range (OpenRadiusEffect.line())
+    effect_lines: tuple[str, ...] = ()
 
     @property
     def ok(self) -> bool:
@@ -54,11 +56,17 @@ class ImportPreview:
         )
 
 
-def fit_preview(points, tolerance, ground=True, name="imported", samples=800) -> ImportPreview:
+def fit_preview(
+    points, tolerance, ground=True, name="imported", samples=800, conditions=None
+) -> ImportPreview:
     """Fit ``points`` ((N, 2), m) within ``tolerance`` (m) and sample the result for drawing.
 
-    Bad points or a tolerance that gives no valid profile come back as a preview with
-    ``error`` set (the message of the fit's :class:`~profilebench.errors.ProfileBenchError`).
+    With ``conditions`` (:class:`~profilebench.assess.conditions.Conditions`), the fitted
+    outline is analysed with each radius the points leave open at both ends of its range
+    (:func:`profilebench.assess.open_radii.open_radius_effects`), so that the dialog says which
+    of them moves the Cd. Bad points or a tolerance that gives no valid profile come back as a
+    preview with ``error`` set (the message of the fit's
+    :class:`~profilebench.errors.ProfileBenchError`).
     """
     from profilebench.errors import ProfileBenchError
     from profilebench.geometry.fit import fit_outline
@@ -70,6 +78,14 @@ def fit_preview(points, tolerance, ground=True, name="imported", samples=800) ->
     except ProfileBenchError as exc:
         return ImportPreview(tolerance=float(tolerance), error=str(exc))
     smooth = sum(1 for nd in fit.profile.nodes if nd.smooth)
+    effects = ()
+    if conditions is not None and fit.unresolved:
+        from profilebench.assess.open_radii import open_radius_effects
+
+        try:
+            effects = open_radius_effects(fit.profile, conditions, fit.radius_ranges)
+        except ProfileBenchError:
+            effects = ()  # the ranges are still shown; the analysis is the editor's to run
     return ImportPreview(
         tolerance=float(tolerance),
         profile=fit.profile,
@@ -80,4 +96,5 @@ def fit_preview(points, tolerance, ground=True, name="imported", samples=800) ->
         notes=tuple(fit.notes),
         radius_notes=tuple(r.message() for r in fit.unresolved),
         unresolved_nodes=tuple(int(r.node) for r in fit.unresolved),
+        effect_lines=tuple(e.line() for e in effects),
     )

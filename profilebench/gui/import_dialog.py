@@ -137,9 +137,18 @@ class ImportDialog(QDialog):
     """
 
     def __init__(
-        self, points_import, name: str, ground: bool = True, tolerance_mm: float = 5.0, parent=None
+        self,
+        points_import,
+        name: str,
+        ground: bool = True,
+        tolerance_mm: float = 5.0,
+        parent=None,
+        conditions=None,
     ):
         super().__init__(parent)
+        # with conditions, each radius the points leave open is analysed at both ends of its
+        # range in the child (the Cd it moves is shown)
+        self.conditions = conditions
         self.setWindowTitle(f"Import outline: {name}")
         self.points_import = points_import
         self.name = name
@@ -227,7 +236,12 @@ class ImportDialog(QDialog):
         """Fit the points again at the tolerance shown (the newest request wins)."""
         self._timer.stop()
         self._wanted = self.runner.request(
-            self.points_import.points, self.tolerance.value() / 1000.0, self.ground, self.name
+            self.points_import.points,
+            self.tolerance.value() / 1000.0,
+            self.ground,
+            self.name,
+            800,
+            self.conditions,
         )
         self.ok_button.setEnabled(False)
         self.status.setText(f"fitting within {self.tolerance.value():.1f} mm…")
@@ -241,7 +255,10 @@ class ImportDialog(QDialog):
         self.view.set_preview(preview)
         self.status.setText(preview.summary())
         self.status.setStyleSheet("" if preview.ok else "color: #b03000;")
-        self.notes.setText("\n".join(preview.notes + preview.radius_notes))
+        lines = preview.notes + preview.radius_notes
+        if preview.effect_lines:
+            lines += ("At the ends of those ranges:",) + preview.effect_lines
+        self.notes.setText("\n".join(lines))
         self.ok_button.setEnabled(preview.ok)
 
     def _fit_failed(self, generation, message):

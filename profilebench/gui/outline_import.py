@@ -47,7 +47,11 @@ def import_points_with_dialog(window, path) -> bool:
     if pts is None:
         return False
     dialog = ImportDialog(
-        pts, Path(path).stem, ground=window.document.conditions.ground, parent=window
+        pts,
+        Path(path).stem,
+        ground=window.document.conditions.ground,
+        parent=window,
+        conditions=window.document.conditions,
     )
     try:
         if not window.run_import_dialog(dialog):

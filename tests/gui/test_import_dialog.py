@@ -128,9 +128,19 @@ def test_the_dialog_rings_the_corners_whose_radius_the_points_leave_open(qtbot, 
     pts = o.sample(n) + np.random.default_rng(0).normal(0.0, 0.001, (n, 2))
     path = tmp_path / "van.csv"
     path.write_text("x_mm,y_mm\n" + "\n".join(f"{x * 1e3:.3f},{y * 1e3:.3f}" for x, y in pts))
-    d = _dialog(qtbot, path)
+    from profilebench.gui.import_dialog import ImportDialog
+
+    d = ImportDialog(import_points_csv(path), path.stem, ground=True, conditions=van.conditions)
+    qtbot.addWidget(d)
+    d.show()
+    qtbot.waitUntil(lambda: not d.fitting, timeout=ANALYSIS_TIMEOUT_MS)
     pv = d.preview
     assert pv.ok and pv.unresolved_nodes
+    # with the document's conditions the dialog gives the Cd at both ends of each open range:
+    # the underbody rear decides it (sharp 0.29 against about 0.35 rounded)
+    rear_line = next(line for line in pv.effect_lines if "(4100, 180) mm" in line)
+    assert "sharp: Cd" in rear_line and "across the range" in rear_line
+    assert rear_line in d.notes.text()
     rear = [pv.profile.nodes[i] for i in pv.unresolved_nodes]
     assert any(abs(nd.x - 4.1) < 0.01 and abs(nd.y - 0.18) < 0.01 for nd in rear)
     assert "(4100, 180) mm: fitted sharp, but the points allow" in d.notes.text()
