@@ -627,6 +627,7 @@ def _cmd_analyse(args, out):
             baseline=baseline,
             cp_min=CP_FLOOR if args.cp_min is None else args.cp_min,
             refinement=refinement,
+            open_radii=open_radii,
         )
         save_figure(fig, args.image)
         print(f"\nimage written: {args.image}", file=out)

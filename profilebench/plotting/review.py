@@ -126,7 +126,7 @@ def baseline_rows(analysis, baseline):
 
 
 def review_figure(
-    analysis, baseline=None, cp_min=CP_FLOOR, created=None, refinement=None
+    analysis, baseline=None, cp_min=CP_FLOOR, created=None, refinement=None, open_radii=()
 ) -> Figure:
     """A one-page design review of an analysis.
 
@@ -146,6 +146,10 @@ def review_figure(
         From :func:`profilebench.assess.refinement.check_refinement` on the same profile and
         conditions: the page's notes then start with whether its answers hold when the panels
         are doubled, and what moved.
+    open_radii : sequence of OpenRadiusEffect, optional
+        From :func:`profilebench.assess.open_radii.open_radius_effects` on a fitted outline: the
+        notes then say, after the refinement check, which radii the digitised points do not fix
+        and how far the Cd moves across each one's range.
 
     Returns
     -------
@@ -234,6 +238,7 @@ def review_figure(
     ax_cor.set_title("Corners", fontsize=10, loc="left")
 
     notes = [] if refinement is None else [refinement_note(refinement)]
+    notes += [open_radius_note(e) for e in open_radii]
     notes += corner_notes(analysis) + [f"{n}: {d}" for n, d in corner_disagreements(analysis)]
     notes += list(analysis.warnings)
     if analysis.drag is not None:
@@ -256,6 +261,18 @@ def refinement_note(check) -> str:
     if check.holds:
         return head + "the answers hold when the panels are doubled"
     return head + "DOES NOT HOLD, quote the refined answers: " + "; ".join(check.problems)
+
+
+def open_radius_note(effect) -> str:
+    """One note on a radius the digitised points leave open: where, its range, the Cd's move."""
+    r = effect.range
+    where = f"{r.label or 'corner'} ({r.x * 1e3:.0f}, {r.y * 1e3:.0f}) mm"
+    spread = effect.spread
+    moves = "" if spread is None else f", Cd moves {spread * 100.0:.1f} % across it"
+    return (
+        f"Radius not fixed by the points: {where}, {r.low * 1e3:.0f} to {r.high * 1e3:.0f} mm"
+        f"{moves}; take it from the drawing"
+    )
 
 
 def image_format(path) -> str:

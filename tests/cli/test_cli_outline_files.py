@@ -187,7 +187,9 @@ def test_import_says_which_radii_the_points_leave_open_and_keeps_it_in_the_proje
     # analyse on the CSV says the same, and its JSON carries the ranges and the Cd at their ends
     capsys.readouterr()
     js = tmp_path / "van.results.json"
-    assert main(["analyse", str(csv), "--json", str(js)]) == EXIT_OK
+    page = tmp_path / "van.png"
+    assert main(["analyse", str(csv), "--json", str(js), "--image", str(page)]) == EXIT_OK
+    assert page.stat().st_size > 0  # the page's notes: tests/plotting/test_review_page_content.py
     assert line.split(";")[0] in capsys.readouterr().out
     import json
 

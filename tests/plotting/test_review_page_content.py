@@ -291,3 +291,35 @@ def test_a_refinement_check_heads_the_page_notes():
     assert "the answers hold when the panels are doubled" in notes.replace("\n", " ")
     # without a check the page says nothing of one
     assert "Refinement check" not in _texts(review_figure(fake_analysis()), NOTES_GID)
+
+
+def test_the_radii_a_digitised_outline_leaves_open_are_on_the_page_after_the_check():
+    # an open range on a fitted outline (profilebench.assess.open_radii): the page says where,
+    # which radii the points allow and how far the Cd moves across them, before the corner notes
+    from profilebench.assess.open_radii import OpenRadiusEffect
+    from profilebench.geometry.radius_bounds import RadiusRange
+
+    rng = RadiusRange(
+        node=0,
+        label="rear lower corner 1",
+        x=4.1,
+        y=0.18,
+        radius=0.0,
+        low=0.0,
+        high=0.109,
+        high_is_limit=False,
+        tolerance=0.005,
+    )
+    effect = OpenRadiusEffect(
+        range=rng,
+        cd=0.2933,
+        ends=((0.0, 0.2933, "sharp-edge separation", ""), (0.109, 0.3507, "attached", "")),
+    )
+    notes = _texts(review_figure(fake_analysis(), open_radii=[effect]), NOTES_GID)
+    notes = notes.replace("\n", " ")
+    # (0.3507 - 0.2933) / 0.2933 = 19.6 %
+    assert (
+        "Radius not fixed by the points: rear lower corner 1 (4100, 180) mm, 0 to 109 mm, "
+        "Cd moves 19.6 % across it; take it from the drawing" in notes
+    )
+    assert notes.index("Radius not fixed") < notes.index("separation margin:")
