@@ -5,7 +5,8 @@ Each script in this folder with an importable ``run()`` is loaded by path and ru
 (the march with free transition and fully turbulent), ``bench_analyze`` (full analyze per sample),
 ``bench_radius_search`` (the smallest-attached-radius search per sample, cold and warm, against
 one analyze), ``bench_sweep`` (a 15-point radius sweep per sample, cold: wall time and first
-point) and ``bench_gui`` (editor drag latency, offscreen Qt). A script
+point), ``bench_fit`` (the outline fit of each sample digitised, and its radius ranges' share)
+and ``bench_gui`` (editor drag latency, offscreen Qt). A script
 that is missing or fails is skipped with a note; the others still run.
 
 Run: ``python benchmarks/run_all.py`` or ``profilebench bench``. Never used to time unit tests.
@@ -27,6 +28,7 @@ SCRIPTS = (
     "bench_analyze",
     "bench_radius_search",
     "bench_sweep",
+    "bench_fit",
     "bench_gui",
 )
 COLUMNS = ("benchmark", "case", "median", "unit", "ratio", "note")
@@ -134,6 +136,19 @@ def _rows_gui(mod):
         )
 
 
+def _rows_fit(mod):
+    for r in mod.run():
+        yield (
+            "outline fit",
+            f"{r['sample']} digitised ({r['points']} points)",
+            _num(r["fit_ms"], ".0f"),
+            "ms",
+            _num(r["ratio"], ".2f"),
+            f"ratio: the radius ranges ({r['ranges_ms']:.0f} ms) over the rest of the fit; "
+            f"{r['open']} of {r['corners']} radii open",
+        )
+
+
 def _rows_generic(mod):
     for r in mod.run():
         yield (mod.__name__, ", ".join(f"{k}={v}" for k, v in r.items()), "", "", "", "")
@@ -145,6 +160,7 @@ ADAPTERS = {
     "bench_analyze": _rows_analyze,
     "bench_radius_search": _rows_radius_search,
     "bench_sweep": _rows_sweep,
+    "bench_fit": _rows_fit,
     "bench_gui": _rows_gui,
 }
 

@@ -59,6 +59,7 @@ BENCH_SCRIPTS = (
     "bench_analyze",
     "bench_radius_search",
     "bench_sweep",
+    "bench_fit",
     "bench_gui",
 )
 
