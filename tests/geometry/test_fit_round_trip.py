@@ -50,16 +50,35 @@ def _round_trip_failures(profile, conditions, seed=0, cd_rel=0.01, from_drawing=
         failures.append(f"Cd {a.drag.cd:.4f} -> {b.drag.cd:.4f}")
     if len(b.corners) != len(a.corners):
         failures.append(f"{len(a.corners)} corners -> {len(b.corners)}")
-    for c in a.corners:
-        # the fitted corner nearest this one; radii as the assessment reports them (a node's
-        # radius, or the curvature radius of a peak on a spline)
-        got = min(b.corners, key=lambda bc: np.hypot(bc.x - c.x, bc.y - c.y))
+    here_a, here_b = _places(profile, a), _places(fitted, b)
+    for c, pa in zip(a.corners, here_a):
+        # the fitted corner nearest this one on the outline (a fillet's middle, not its node,
+        # which for a large fillet lies well off the outline); radii as the assessment reports
+        # them (a node's radius, or the curvature radius of a peak on a spline)
+        k = int(np.argmin([np.hypot(*(pb - pa)) for pb in here_b]))
+        got = b.corners[k]
         where = f"({c.x * 1e3:.0f}, {c.y * 1e3:.0f}) mm"
         if abs(got.radius - c.radius) > 0.10 * c.radius + 1e-12:
             failures.append(f"r {c.radius * 1e3:.0f} -> {got.radius * 1e3:.1f} mm at {where}")
         if got.verdict != c.verdict and not _flips_with_radius(profile, conditions, c, got):
             failures.append(f"{c.verdict.name} -> {got.verdict.name} at {where}")
     return failures
+
+
+def _places(profile, analysis):
+    """Where each corner of ``analysis`` sits on ``profile``'s outline (m): a fillet's middle, a
+    sharp node, or a curvature peak's point."""
+    outline = build_outline(profile)
+    arcs = {arc.node: arc for arc in outline.arcs}
+    out = []
+    for c in analysis.corners:
+        node = profile.nodes[c.node] if c.node < len(profile.nodes) else None
+        arc = arcs.get(c.node) if node is not None and not node.smooth else None
+        if arc is None:
+            out.append(np.array([c.x, c.y]))
+        else:
+            out.append(outline.points_at([0.5 * (arc.s_start + arc.s_end)])[0])
+    return out
 
 
 def _radii_from_drawing(profile, fit):
