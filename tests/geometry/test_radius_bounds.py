@@ -103,3 +103,20 @@ def test_a_sharp_range_is_fixed_only_below_the_tolerance():
     rounded = dict(kw, radius=0.1)
     assert RadiusRange(**dict(rounded, low=0.091), high=0.109, tolerance=0.005).resolved
     assert not RadiusRange(**dict(rounded, low=0.089), high=0.105, tolerance=0.005).resolved
+
+
+def test_the_ranges_do_not_depend_on_how_the_points_are_given():
+    # the same digitised van reversed and started on the roof: the same
+    # ranges to 1 mm (the fit puts the points in one canonical order first)
+    van = _sample("kestrel_courier_van")
+    pts = _digitise(van, 0)
+    k = int(np.argmax(pts[:, 1]))  # a point on the roof
+    other = np.roll(pts[::-1], -k, axis=0)
+    a = fit_outline(pts, tolerance=TOLERANCE)
+    b = fit_outline(other, tolerance=TOLERANCE)
+    assert len(a.radius_ranges) == len(b.radius_ranges)
+    for ra in a.radius_ranges:
+        rb = min(b.radius_ranges, key=lambda r: math.hypot(r.x - ra.x, r.y - ra.y))
+        assert math.hypot(rb.x - ra.x, rb.y - ra.y) < 1e-3
+        assert abs(rb.low - ra.low) < 1e-3 and abs(rb.high - ra.high) < 1e-3
+        assert rb.resolved == ra.resolved
