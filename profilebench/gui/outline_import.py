@@ -69,6 +69,14 @@ def _load(window, path, pts, preview) -> bool:
     prof = preview.profile
     window.select_node(None)  # the old selection was a node of the old outline
     window.push(commands.import_profile(window.document.state, prof, f"Import {Path(path).name}"))
+    if preview.radius_notes:
+        # the radii the points leave open go with the project, as the command line's import
+        # writes them (the editor keeps the project's notes but does not edit them)
+        heading = f"Imported from {Path(path).name}: radii the points do not fix"
+        old = window.document.notes.strip()
+        window.document.notes = "\n".join(
+            ([old] if old else []) + [heading] + list(preview.radius_notes)
+        )
     window.canvas.fit()
     window.statusBar().showMessage(
         f"imported {len(prof)} nodes, {preview.corners} corners, within "
