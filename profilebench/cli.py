@@ -671,7 +671,8 @@ def _print_refinement(check, out):
 def _cmd_compare(args, out):
     from profilebench.assess.compare import compare
 
-    pa, pb = _load(args.baseline, args), _load(args.variant, args)
+    fits_a, fits_b = [], []
+    pa, pb = _load(args.baseline, args, fits=fits_a), _load(args.variant, args, fits=fits_b)
     cond_a = _conditions(pa, args)
     cond_b = cond_a if args.same_conditions else _conditions(pb, args)
     differ = conditions_differences(cond_a, cond_b)
@@ -706,6 +707,24 @@ def _cmd_compare(args, out):
         )
     else:
         print("No corner changed verdict.", file=out)
+    # a CSV outline's radii that its points leave open: how far they move each Cd, against the
+    # difference read between the two
+    moves = []
+    for which, fits, prof, cond, an in (
+        ("baseline", fits_a, pa.profile, cond_a, a),
+        ("variant", fits_b, pb.profile, cond_b, b),
+    ):
+        if fits and fits[0].unresolved:
+            print(f"\n{which} ({prof.name}):", file=out)
+            effects = _open_radii(fits, prof, cond, out, an, _user_table(args))
+            moves += [e.spread * e.cd for e in effects if e.spread is not None]
+    if moves and max(moves) >= abs(c.delta_cd):
+        print(
+            f"\nWARNING: the difference in Cd ({c.delta_cd:+.4f}) is no larger than what a "
+            f"radius the points leave open moves a Cd by (up to {max(moves):.4f}): take those "
+            "radii from the drawing before reading the difference.",
+            file=out,
+        )
     for w in c.warnings:
         print(f"WARNING: {w}", file=out)
     if differ:
@@ -724,11 +743,13 @@ def _cmd_compare(args, out):
 def _cmd_corners(args, out):
     from profilebench.plotting.summary import CORNER_COLUMNS, corner_rows, format_table
 
-    project = _load(args.file, args)
+    fits = []
+    project = _load(args.file, args, fits=fits)
     cond = _conditions(project, args)
     analysis = _analyse(project.profile, cond, table=_user_table(args))
     _check_success(analysis, f"{args.file}")
     print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
+    _open_radii(fits, project.profile, cond, out, analysis, _user_table(args))
     if args.smallest:
         from profilebench.assess.radius_search import cached_radius_search
 

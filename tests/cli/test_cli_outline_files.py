@@ -206,3 +206,37 @@ def test_import_says_which_radii_the_points_leave_open_and_keeps_it_in_the_proje
     assert rear["cd_spread"] == pytest.approx(
         (max(cds + [rear["cd_fitted"]]) - min(cds + [rear["cd_fitted"]])) / rear["cd_fitted"]
     )
+
+
+def test_compare_of_two_digitised_outlines_warns_when_an_open_radius_outweighs_the_difference(
+    tmp_path, capsys
+):
+    # the courier van and a variant with a 200 mm windscreen header (150 mm in the sample), both
+    # digitised (5 mm, 1 mm of noise): the header moves the Cd by about 0.001, the underbody
+    # rear radius that the points leave open by about 0.06 (sharp against 110 mm); corners on
+    # a CSV lists the open radii too
+    import numpy as np
+
+    from profilebench.geometry import build_outline
+
+    van = load_project(next(p for p in sample_paths() if p.stem == "kestrel_courier_van"))
+    header = next(i for i, nd in enumerate(van.profile.nodes) if nd.label == "windscreen header")
+    paths = []
+    for name, prof, seed in (
+        ("base", van.profile, 0),
+        ("header", van.profile.with_radius(header, 0.2), 1),
+    ):
+        o = build_outline(prof)
+        n = int(o.length / 0.005)
+        pts = (o.sample(n) + np.random.default_rng(seed).normal(0.0, 0.001, (n, 2))) * 1e3
+        paths.append(
+            _write_csv(tmp_path / f"{name}.csv", [tuple(p) for p in pts] + [tuple(pts[0])])
+        )
+    conditions = ["--speed", "90", "--width", "1.8"]
+    assert main(["compare", str(paths[0]), str(paths[1]), *conditions]) == EXIT_OK
+    out = capsys.readouterr().out
+    assert "baseline (base):" in out and "variant (header):" in out
+    assert out.count("Radii the points do not fix") == 2
+    assert "WARNING: the difference in Cd" in out and "take those radii from the drawing" in out
+    assert main(["corners", str(paths[0]), *conditions]) == EXIT_OK
+    assert "Radii the points do not fix" in capsys.readouterr().out
