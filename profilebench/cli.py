@@ -592,18 +592,19 @@ def _cmd_analyse(args, out):
     fits = []
     project = _load(args.file, args, fits=fits)
     cond = _conditions(project, args)
-    analysis = _analyse(project.profile, cond, table=_user_table(args))
+    table = _user_table(args)  # read once: every analysis below uses it
+    analysis = _analyse(project.profile, cond, table=table)
     _check_success(analysis, f"{args.file}")
     print(f"{project.profile.name} ({args.file})", file=out)
     print("", file=out)
     _print_summary(analysis, out)
-    open_radii = _open_radii(fits, project.profile, cond, out, analysis, _user_table(args))
+    open_radii = _open_radii(fits, project.profile, cond, out, analysis, table)
     refinement = None
     if args.check_refinement:
         from profilebench.assess.refinement import check_refinement
 
         refinement = check_refinement(
-            project.profile, cond, radii=True, table=_user_table(args), analysis=analysis
+            project.profile, cond, radii=True, table=table, analysis=analysis
         )
         _print_refinement(refinement, out)
     if args.image:
@@ -614,7 +615,7 @@ def _cmd_analyse(args, out):
         baseline = project.baseline
         if baseline is not None:
             # analysed at the same conditions, so that the page gives its Cd and the deltas
-            base = _analyse(baseline, cond, table=_user_table(args))
+            base = _analyse(baseline, cond, table=table)
             if base.success:
                 baseline = base
             else:
@@ -642,10 +643,11 @@ def _cmd_analyse(args, out):
     return EXIT_OK
 
 
-def _open_radii(fits, profile, conditions, out, analysis=None, table=None):
+def _open_radii(fits, profile, conditions, out, analysis=None, table=None, heading=None):
     """Print, for a fitted CSV outline, the radii its points leave open and the Cd at each end
-    of their ranges (profilebench.assess.open_radii); returns the effects (none for a project
-    file or when the points fix every radius)."""
+    of their ranges (profilebench.assess.open_radii), after ``heading`` when given; returns the
+    effects (none, and nothing printed, for a project file or when the points fix every
+    radius)."""
     if not fits or not fits[0].unresolved:
         return ()
     from profilebench.assess.open_radii import open_radius_effects
@@ -654,6 +656,8 @@ def _open_radii(fits, profile, conditions, out, analysis=None, table=None):
     effects = open_radius_effects(
         profile, conditions, fits[0].radius_ranges, analysis=analysis, table=table
     )
+    if heading:
+        print(f"\n{heading}", file=out)
     print("", file=out)
     for line in open_radius_lines(effects):
         print(line, file=out)
@@ -676,9 +680,10 @@ def _cmd_compare(args, out):
     cond_a = _conditions(pa, args)
     cond_b = cond_a if args.same_conditions else _conditions(pb, args)
     differ = conditions_differences(cond_a, cond_b)
-    a = _analyse(pa.profile, cond_a, table=_user_table(args))
+    table = _user_table(args)
+    a = _analyse(pa.profile, cond_a, table=table)
     _check_success(a, f"baseline {args.baseline}")
-    b = _analyse(pb.profile, cond_b, table=_user_table(args))
+    b = _analyse(pb.profile, cond_b, table=table)
     _check_success(b, f"variant {args.variant}")
     c = compare(a, b)
     fmt = lambda v, f, scale=1.0: "n/a" if v is None else format(v * scale, f)  # noqa: E731
@@ -714,10 +719,8 @@ def _cmd_compare(args, out):
         ("baseline", fits_a, pa.profile, cond_a, a),
         ("variant", fits_b, pb.profile, cond_b, b),
     ):
-        if fits and fits[0].unresolved:
-            print(f"\n{which} ({prof.name}):", file=out)
-            effects = _open_radii(fits, prof, cond, out, an, _user_table(args))
-            moves += [e.spread * e.cd for e in effects if e.spread is not None]
+        effects = _open_radii(fits, prof, cond, out, an, table, heading=f"{which} ({prof.name}):")
+        moves += [e.spread * e.cd for e in effects if e.spread is not None]
     if moves and max(moves) >= abs(c.delta_cd):
         print(
             f"\nWARNING: the difference in Cd ({c.delta_cd:+.4f}) is no larger than what a "
@@ -746,10 +749,11 @@ def _cmd_corners(args, out):
     fits = []
     project = _load(args.file, args, fits=fits)
     cond = _conditions(project, args)
-    analysis = _analyse(project.profile, cond, table=_user_table(args))
+    table = _user_table(args)
+    analysis = _analyse(project.profile, cond, table=table)
     _check_success(analysis, f"{args.file}")
     print(format_table(CORNER_COLUMNS, corner_rows(analysis)), file=out)
-    _open_radii(fits, project.profile, cond, out, analysis, _user_table(args))
+    _open_radii(fits, project.profile, cond, out, analysis, table)
     if args.smallest:
         from profilebench.assess.radius_search import cached_radius_search
 

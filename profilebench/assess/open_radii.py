@@ -42,7 +42,6 @@ class OpenRadiusEffect:
     def line(self) -> str:
         """One line of text: the range and the Cd and verdict at both ends."""
         r = self.range
-        where = f"{r.label or 'corner'} ({r.x * 1e3:.0f}, {r.y * 1e3:.0f}) mm"
         fitted = "fitted sharp" if r.radius <= 0.0 else f"fitted r {r.radius * 1e3:.0f} mm"
         parts = []
         for radius, cd, verdict, message in self.ends:
@@ -52,7 +51,7 @@ class OpenRadiusEffect:
             )
         spread = self.spread
         moves = "" if spread is None else f"; Cd moves {spread * 100.0:.1f} % across the range"
-        return f"{where}, {fitted} (Cd {self.cd:.4f}); " + ", ".join(parts) + moves
+        return f"{r.where}, {fitted} (Cd {self.cd:.4f}); " + ", ".join(parts) + moves
 
 
 def open_radius_effects(profile, conditions, ranges, analysis=None, table=None):

@@ -24,7 +24,6 @@ from profilebench.assess.corners import (
 )
 from profilebench.assess.results import RadiusSearch, SearchStatus, Verdict
 from profilebench.assess.solve import (
-    LAMINAR_DELTA_OVER_THETA,
     THIN_ARC_RATIO,
     closed_body,
     layer_thickness,
@@ -41,10 +40,8 @@ __all__ = [
     "SEARCH_REACH_RATIO",
     "search_focus",
     "corner_verdict",
-    "layer_thickness",
     "thin_arc_note",
     "thin_arc_bound",
-    "LAMINAR_DELTA_OVER_THETA",
     "closed_body_verdict",
     "smallest_attached_radius",
     "SearchCache",

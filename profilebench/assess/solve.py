@@ -20,6 +20,7 @@ from profilebench.flow.profile_flow import (
 from profilebench.flow.boundary_layer import Regime
 from profilebench.flow.head import head_h1
 from profilebench.flow.underbody import SideRelief
+from profilebench.geometry.polyline import arc_length
 
 __all__ = [
     "solve_flow",
@@ -136,7 +137,7 @@ def thin_arc_points(panelling, flow):
     ]
     if not spans:
         return []
-    out = []
+    out, point_sigma = [], None
     for span, (k, lo, hi) in zip(spans, _arc_positions(panelling, flow, spans)):
         if k < 0:
             continue
@@ -152,16 +153,16 @@ def thin_arc_points(panelling, flow):
             # it, anyway: the rule is for the arcs it would carry the layer round
             continue
         # the arc's end the layer reaches first: the one at the arc's start on its surface
-        first = _entry_point(panelling, sfl, span, lo)
+        if point_sigma is None:
+            point_sigma = arc_length(np.asarray(panelling.points, dtype=float))[1]
+        first = _entry_point(point_sigma, sfl, span, lo)
         out.append((first, float(span.radius), float(delta)))
     return out
 
 
-def _entry_point(panelling, sfl, span, lo):
-    """The panel point of ``span``'s arc ends that lies at arc length ``lo`` of the surface."""
-    from profilebench.geometry.polyline import arc_length
-
-    point_sigma = arc_length(np.asarray(panelling.points, dtype=float))[1]
+def _entry_point(point_sigma, sfl, span, lo):
+    """The panel point of ``span``'s arc ends that lies at arc length ``lo`` of the surface
+    (``point_sigma``: the panel points' arc lengths round the outline)."""
     ends = (int(span.point_start), int(span.point_end))
     s_ends = [sfl.surface_s(float(point_sigma[i])) for i in ends]
     gaps = [abs(x - lo) if x is not None else math.inf for x in s_ends]
@@ -210,7 +211,7 @@ def solve_flow(profile, conditions, panelling, height):
     flow = _solve(profile, conditions, panelling, height, edges)
     # arcs thinner than the layer reaching them separate it as sharp edges (THIN_ARC_RATIO)
     for _ in range(THIN_ARC_PASSES):
-        if not getattr(flow, "success", True):
+        if not flow.success:
             break
         thin = [p for p, _r, _d in thin_arc_points(panelling, flow) if p not in edges]
         if not thin:

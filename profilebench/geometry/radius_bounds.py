@@ -73,13 +73,17 @@ class RadiusRange:
             return self.low >= self.radius - share and self.high <= self.radius + share
         return self.high <= self.tolerance
 
+    @property
+    def where(self) -> str:
+        """The corner for the user: its label (or "corner") and its node's place in mm."""
+        return f"{self.label or 'corner'} ({self.x * 1e3:.0f}, {self.y * 1e3:.0f}) mm"
+
     def contains(self, radius: float) -> bool:
         """True when ``radius`` (m) is one the points allow."""
         return self.low <= radius <= self.high
 
     def message(self) -> str:
         """One line for the user: what was fitted and what the points allow."""
-        where = f"{self.label or 'corner'} ({self.x * 1e3:.0f}, {self.y * 1e3:.0f}) mm"
         upto = f"{self.high * 1e3:.0f} mm" + (" or more" if self.high_is_limit else "")
         if self.radius <= 0.0:
             fitted = "fitted sharp"
@@ -90,7 +94,7 @@ class RadiusRange:
                 f"any radius up to {upto}" if self.low <= 0.0 else f"{self.low * 1e3:.0f} to {upto}"
             )
         return (
-            f"{where}: {fitted}, but the points allow {allowed} (99.7 %); "
+            f"{self.where}: {fitted}, but the points allow {allowed} (99.7 %); "
             "take its radius from the drawing if it has one"
         )
 
@@ -108,21 +112,6 @@ _FAIL_DISTANCE = 1.0
 RCOND = 1e-3
 # the step (m) of the node's position for the distances' derivatives
 POSITION_STEP = 1e-3
-
-
-def _open_polyline_distances(line, pts):
-    """Unsigned distances (m) of ``pts`` to the open polyline ``line`` ((K, 2), m)."""
-    from scipy.spatial import cKDTree
-
-    _, k = cKDTree(line).query(pts)
-    best = np.full(len(pts), np.inf)
-    for j in (np.maximum(k - 1, 0), np.minimum(k, len(line) - 2)):
-        a, ab = line[j], line[j + 1] - line[j]
-        t = np.clip(
-            np.sum((pts - a) * ab, axis=1) / np.maximum(np.sum(ab * ab, axis=1), 1e-300), 0, 1
-        )
-        best = np.minimum(best, np.hypot(*(pts - a - t[:, None] * ab).T))
-    return best
 
 
 class _Corner:
@@ -154,6 +143,7 @@ class _Corner:
     def distances(self, r, q=None):
         """The distances (m), or None when the outline does not build (a radius too large)."""
         from profilebench.geometry.outline import build_outline
+        from profilebench.geometry.refine import polyline_distances
 
         nodes = list(self.profile.nodes)
         nd = nodes[self.node]
@@ -177,7 +167,10 @@ class _Corner:
         margin = min(WINDOW_MARGIN, 0.5 * (o.length - span)) if span < o.length else 0.0
         count = int(min(max((span + 2 * margin) / SAMPLE_SPACING, 200), 20000))
         s = s0 - margin + np.linspace(0.0, span + 2 * margin, count)
-        return _open_polyline_distances(o.points_at(s), self.pts)
+        # the samples as a closed polyline: its closing chord joins the margins' far ends,
+        # which no point of the stretch is nearest to (with one corner there is no margin and
+        # the polyline is the closed outline itself)
+        return np.abs(polyline_distances(o.points_at(s), self.pts))
 
     def polish(self, r0, cap):
         """(r, q, jacobian): the least squares of the stretch's distances in the radius and

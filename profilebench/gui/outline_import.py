@@ -84,7 +84,7 @@ def _load(window, path, pts, preview) -> bool:
         + (f"; {preview.notes[0]}" if preview.notes else "")
         + (
             f"; {len(preview.radius_notes)} radii not fixed by the points, take them from "
-            f"the drawing ({preview.radius_notes[0].split(': ')[0]}, ...)"
+            "the drawing (listed in the project's notes)"
             if preview.radius_notes
             else ""
         ),

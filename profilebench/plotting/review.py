@@ -266,11 +266,10 @@ def refinement_note(check) -> str:
 def open_radius_note(effect) -> str:
     """One note on a radius the digitised points leave open: where, its range, the Cd's move."""
     r = effect.range
-    where = f"{r.label or 'corner'} ({r.x * 1e3:.0f}, {r.y * 1e3:.0f}) mm"
     spread = effect.spread
     moves = "" if spread is None else f", Cd moves {spread * 100.0:.1f} % across it"
     return (
-        f"Radius not fixed by the points: {where}, {r.low * 1e3:.0f} to {r.high * 1e3:.0f} mm"
+        f"Radius not fixed by the points: {r.where}, {r.low * 1e3:.0f} to {r.high * 1e3:.0f} mm"
         f"{moves}; take it from the drawing"
     )
 

@@ -9,7 +9,8 @@ import numpy as np
 import pytest
 
 from profilebench import load_project, march_boundary_layer
-from profilebench.assess.radius_search import layer_thickness, smallest_attached_radius
+from profilebench.assess.radius_search import smallest_attached_radius
+from profilebench.assess.solve import layer_thickness
 from profilebench.assess.results import SearchStatus
 from profilebench.io.samples import sample_paths
 
